@@ -1,0 +1,12 @@
+package main
+
+import (
+	"os"
+
+	"github.com/mattn/go-isatty"
+)
+
+// isTerminal reports whether f is an interactive terminal.
+func isTerminal(f *os.File) bool {
+	return isatty.IsTerminal(f.Fd()) || isatty.IsCygwinTerminal(f.Fd())
+}
