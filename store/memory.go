@@ -1,0 +1,557 @@
+package store
+
+import (
+	"context"
+	"crypto/subtle"
+	"encoding/hex"
+	"encoding/json"
+	"fmt"
+	"slices"
+	"sort"
+	"sync"
+	"time"
+)
+
+// Memory is the embedded, in-process store: the default when no database is
+// configured. It has the same semantics as Postgres (leases, idempotency,
+// ownership, cancellation, API keys, deliveries) but keeps everything in
+// memory, so nothing survives a restart and it cannot be shared between
+// processes. It is safe for concurrent use. The zero value is not usable;
+// call NewMemory.
+type Memory struct {
+	mu       sync.Mutex
+	jobs     map[string]*memJob
+	byOwner  map[string][]string // job IDs per owner, in creation order
+	pending  []string            // non-terminal job IDs, in creation order
+	idem     map[idemKey]string  // (owner, idempotency key) -> job ID
+	keys     map[string]*APIKey  // by ID
+	keyHash  map[string]string   // hex hash -> key ID
+	keyName  map[string]string   // name -> key ID
+	lastTime time.Time           // last creation time handed out
+}
+
+type memJob struct {
+	job        Job
+	history    []StatusChange
+	result     *Result
+	deliveries []Delivery
+}
+
+type idemKey struct{ owner, key string }
+
+// NewMemory returns an empty in-memory store.
+func NewMemory() *Memory {
+	return &Memory{
+		jobs:    make(map[string]*memJob),
+		byOwner: make(map[string][]string),
+		idem:    make(map[idemKey]string),
+		keys:    make(map[string]*APIKey),
+		keyHash: make(map[string]string),
+		keyName: make(map[string]string),
+	}
+}
+
+// Ping always succeeds: the memory store has nothing to reach.
+func (m *Memory) Ping(ctx context.Context) error { return ctx.Err() }
+
+// Close does nothing; it exists so both stores share a method set.
+func (m *Memory) Close() {}
+
+// creationTime returns the current time, strictly after the previous
+// creation time, so that newest-first order equals creation order.
+func (m *Memory) creationTime() time.Time {
+	t := now()
+	if !t.After(m.lastTime) {
+		t = m.lastTime.Add(time.Microsecond)
+	}
+	m.lastTime = t
+	return t
+}
+
+func copyJob(j Job) Job {
+	j.Request = append(json.RawMessage(nil), j.Request...)
+	return j
+}
+
+func (mj *memJob) record(status Status, at time.Time, worker, note string) {
+	mj.history = append(mj.history, StatusChange{Status: status, At: at, Worker: worker, Note: note})
+}
+
+// CreateJob stores j as a new queued job owned by j.Owner and returns it with
+// its ID, CreatedAt and RequestHash filled (created = true). Fields the store
+// owns (status, progress, lease, timestamps) are ignored on input.
+//
+// Idempotency: if j.IdempotencyKey is set and the owner already has a job with
+// that key, CreateJob returns that job with created = false when its
+// RequestHash matches, and ErrConflict when it differs. A Request that is not
+// valid JSON gives ErrInvalid.
+func (m *Memory) CreateJob(ctx context.Context, j Job) (Job, bool, error) {
+	if err := ctx.Err(); err != nil {
+		return Job{}, false, fmt.Errorf("create job: %w", err)
+	}
+	j, err := prepareJob(j)
+	if err != nil {
+		return Job{}, false, err
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	if j.IdempotencyKey != "" {
+		if id, ok := m.idem[idemKey{j.Owner, j.IdempotencyKey}]; ok {
+			old := m.jobs[id].job
+			if old.RequestHash != j.RequestHash {
+				return Job{}, false, fmt.Errorf("create job: idempotency key %q used with a different request: %w", j.IdempotencyKey, ErrConflict)
+			}
+			return copyJob(old), false, nil
+		}
+	}
+	j.CreatedAt = m.creationTime()
+	mj := &memJob{job: j}
+	mj.record(StatusQueued, j.CreatedAt, "", "created")
+	m.jobs[j.ID] = mj
+	m.byOwner[j.Owner] = append(m.byOwner[j.Owner], j.ID)
+	m.pending = append(m.pending, j.ID)
+	if j.IdempotencyKey != "" {
+		m.idem[idemKey{j.Owner, j.IdempotencyKey}] = j.ID
+	}
+	return copyJob(j), true, nil
+}
+
+// owned returns the job id of owner, or ErrNotFound. Callers hold m.mu.
+func (m *Memory) owned(owner, id string) (*memJob, error) {
+	mj, ok := m.jobs[id]
+	if !ok || mj.job.Owner != owner {
+		return nil, fmt.Errorf("job %s: %w", id, ErrNotFound)
+	}
+	return mj, nil
+}
+
+// GetJob returns owner's job id; ErrNotFound if it does not exist or belongs
+// to another owner.
+func (m *Memory) GetJob(ctx context.Context, owner, id string) (Job, error) {
+	if err := ctx.Err(); err != nil {
+		return Job{}, fmt.Errorf("get job %s: %w", id, err)
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	mj, err := m.owned(owner, id)
+	if err != nil {
+		return Job{}, fmt.Errorf("get %w", err)
+	}
+	return copyJob(mj.job), nil
+}
+
+// ListJobs returns up to limit of owner's jobs, newest first (by creation
+// time, ties by ID), starting after cursor ("" for the first page). next is
+// the cursor for the following page, "" when there are no more jobs. limit
+// <= 0 means DefaultListLimit; limits above MaxListLimit are reduced. A
+// cursor not made by ListJobs gives ErrInvalid.
+func (m *Memory) ListJobs(ctx context.Context, owner string, limit int, cur string) ([]Job, string, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, "", fmt.Errorf("list jobs: %w", err)
+	}
+	limit = clampLimit(limit)
+	c, hasCursor, err := decodeCursor(cur)
+	if err != nil {
+		return nil, "", err
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	ids := m.byOwner[owner]
+	jobs := make([]Job, 0, min(limit, len(ids)))
+	for i := len(ids) - 1; i >= 0; i-- {
+		j := m.jobs[ids[i]].job
+		if hasCursor && !c.before(j) {
+			continue
+		}
+		if len(jobs) == limit {
+			return jobs, encodeCursor(jobs[len(jobs)-1]), nil
+		}
+		jobs = append(jobs, copyJob(j))
+	}
+	return jobs, "", nil
+}
+
+// ClaimJob hands the oldest available job to workerID for lease: a queued
+// job, or a running job whose lease has expired. The job becomes running,
+// its lease owner workerID, its lease end now+lease, and Attempts grows by
+// one. An expired job whose owner asked for cancellation is finished as
+// cancelled instead of being handed out. ErrNoJob if nothing is available.
+func (m *Memory) ClaimJob(ctx context.Context, workerID string, lease time.Duration) (Job, error) {
+	if err := ctx.Err(); err != nil {
+		return Job{}, fmt.Errorf("claim job: %w", err)
+	}
+	if workerID == "" || lease <= 0 {
+		return Job{}, fmt.Errorf("claim job: need a worker ID and a positive lease: %w", ErrInvalid)
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	t := now()
+	for i := 0; i < len(m.pending); i++ {
+		mj := m.jobs[m.pending[i]]
+		j := &mj.job
+		note := ""
+		switch {
+		case j.Status == StatusQueued:
+			note = fmt.Sprintf("claimed (attempt %d)", j.Attempts+1)
+		case j.Status == StatusRunning && j.LeaseUntil.Before(t):
+			if j.CancelRequested {
+				m.finishLocked(mj, t, StatusCancelled, "cancelled after the worker's lease expired", "", nil)
+				i--
+				continue
+			}
+			note = fmt.Sprintf("reclaimed after lease of %s expired (attempt %d)", j.LeaseOwner, j.Attempts+1)
+		default:
+			continue
+		}
+		j.Status = StatusRunning
+		j.LeaseOwner = workerID
+		j.LeaseUntil = t.Add(lease).Truncate(time.Microsecond)
+		j.Attempts++
+		if j.StartedAt.IsZero() {
+			j.StartedAt = t
+		}
+		mj.record(StatusRunning, t, workerID, note)
+		return copyJob(*j), nil
+	}
+	return Job{}, fmt.Errorf("claim job: %w", ErrNoJob)
+}
+
+// held returns job id if workerID holds its lease, else ErrLeaseLost (or
+// ErrNotFound for an unknown ID). Callers hold m.mu.
+func (m *Memory) held(id, workerID string) (*memJob, error) {
+	mj, ok := m.jobs[id]
+	if !ok {
+		return nil, fmt.Errorf("job %s: %w", id, ErrNotFound)
+	}
+	if mj.job.Status != StatusRunning || mj.job.LeaseOwner != workerID {
+		return nil, fmt.Errorf("job %s held by %s: %w", id, workerID, ErrLeaseLost)
+	}
+	return mj, nil
+}
+
+// RenewLease extends workerID's lease on job id to now+lease. ErrLeaseLost if
+// workerID no longer holds it. If the job's owner asked for cancellation the
+// lease is still renewed and the error is ErrCancelRequested.
+func (m *Memory) RenewLease(ctx context.Context, id, workerID string, lease time.Duration) error {
+	if err := ctx.Err(); err != nil {
+		return fmt.Errorf("renew lease: %w", err)
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	mj, err := m.held(id, workerID)
+	if err != nil {
+		return fmt.Errorf("renew lease: %w", err)
+	}
+	mj.job.LeaseUntil = now().Add(lease).Truncate(time.Microsecond)
+	if mj.job.CancelRequested {
+		return fmt.Errorf("renew lease on job %s: %w", id, ErrCancelRequested)
+	}
+	return nil
+}
+
+// UpdateProgress stores p as job id's progress; ErrLeaseLost unless workerID
+// holds the lease.
+func (m *Memory) UpdateProgress(ctx context.Context, id, workerID string, p Progress) error {
+	if err := ctx.Err(); err != nil {
+		return fmt.Errorf("update progress: %w", err)
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	mj, err := m.held(id, workerID)
+	if err != nil {
+		return fmt.Errorf("update progress: %w", err)
+	}
+	mj.job.Progress = p
+	return nil
+}
+
+// FinishJob ends job id with a terminal status, an error message (for failed
+// or cancelled jobs) and optionally its result, all at once. ErrLeaseLost
+// unless workerID holds the lease; ErrInvalid for a non-terminal status or a
+// result body that is not JSON. Nothing changes when it returns an error.
+func (m *Memory) FinishJob(ctx context.Context, id, workerID string, status Status, errMsg string, result *Result) error {
+	if err := ctx.Err(); err != nil {
+		return fmt.Errorf("finish job %s: %w", id, err)
+	}
+	if err := checkFinish(id, status, result); err != nil {
+		return err
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	mj, err := m.held(id, workerID)
+	if err != nil {
+		return fmt.Errorf("finish: %w", err)
+	}
+	m.finishLocked(mj, now(), status, errMsg, workerID, result)
+	return nil
+}
+
+// finishLocked moves mj to a terminal status. Callers hold m.mu.
+func (m *Memory) finishLocked(mj *memJob, t time.Time, status Status, errMsg, worker string, result *Result) {
+	j := &mj.job
+	j.Status = status
+	j.Error = errMsg
+	j.FinishedAt = t
+	j.LeaseUntil = time.Time{}
+	if result != nil {
+		r := *result
+		r.JobID = j.ID
+		r.Body = append(json.RawMessage(nil), result.Body...)
+		mj.result = &r
+	}
+	note := string(status)
+	if errMsg != "" {
+		note += ": " + errMsg
+	}
+	mj.record(status, t, worker, note)
+	if i := slices.Index(m.pending, j.ID); i >= 0 {
+		m.pending = slices.Delete(m.pending, i, i+1)
+	}
+}
+
+// ReleaseJob hands job id back to the queue (status queued, lease cleared),
+// e.g. on graceful shutdown; a job with a cancel request is cancelled
+// instead. ErrLeaseLost unless workerID holds the lease.
+func (m *Memory) ReleaseJob(ctx context.Context, id, workerID string) error {
+	if err := ctx.Err(); err != nil {
+		return fmt.Errorf("release job %s: %w", id, err)
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	mj, err := m.held(id, workerID)
+	if err != nil {
+		return fmt.Errorf("release: %w", err)
+	}
+	t := now()
+	if mj.job.CancelRequested {
+		m.finishLocked(mj, t, StatusCancelled, "cancelled on release", workerID, nil)
+		return nil
+	}
+	mj.job.Status = StatusQueued
+	mj.job.LeaseUntil = time.Time{}
+	mj.record(StatusQueued, t, workerID, "released")
+	return nil
+}
+
+// CancelJob cancels owner's job id and returns it as it is afterwards: a
+// queued job becomes cancelled at once; a running job gets CancelRequested
+// set (its worker is told through RenewLease and CancelRequested); a job
+// already in a terminal state is returned unchanged. ErrNotFound for another
+// owner's job.
+func (m *Memory) CancelJob(ctx context.Context, owner, id string) (Job, error) {
+	if err := ctx.Err(); err != nil {
+		return Job{}, fmt.Errorf("cancel job %s: %w", id, err)
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	mj, err := m.owned(owner, id)
+	if err != nil {
+		return Job{}, fmt.Errorf("cancel %w", err)
+	}
+	switch mj.job.Status {
+	case StatusQueued:
+		m.finishLocked(mj, now(), StatusCancelled, "", "", nil)
+	case StatusRunning:
+		mj.job.CancelRequested = true
+	}
+	return copyJob(mj.job), nil
+}
+
+// CancelRequested reports whether job id's owner asked to cancel it while it
+// was running. ErrNotFound for an unknown ID. It takes no owner: it is for
+// workers.
+func (m *Memory) CancelRequested(ctx context.Context, id string) (bool, error) {
+	if err := ctx.Err(); err != nil {
+		return false, fmt.Errorf("cancel requested %s: %w", id, err)
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	mj, ok := m.jobs[id]
+	if !ok {
+		return false, fmt.Errorf("cancel requested: job %s: %w", id, ErrNotFound)
+	}
+	return mj.job.CancelRequested, nil
+}
+
+// GetResult returns the result of owner's job id; ErrNotFound if the job is
+// missing, another owner's, or has no result (yet).
+func (m *Memory) GetResult(ctx context.Context, owner, id string) (Result, error) {
+	if err := ctx.Err(); err != nil {
+		return Result{}, fmt.Errorf("get result %s: %w", id, err)
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	mj, err := m.owned(owner, id)
+	if err != nil {
+		return Result{}, fmt.Errorf("get result: %w", err)
+	}
+	if mj.result == nil {
+		return Result{}, fmt.Errorf("get result: job %s has no result: %w", id, ErrNotFound)
+	}
+	r := *mj.result
+	r.Body = append(json.RawMessage(nil), r.Body...)
+	return r, nil
+}
+
+// History returns the status changes of owner's job id, oldest first.
+func (m *Memory) History(ctx context.Context, owner, id string) ([]StatusChange, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, fmt.Errorf("history %s: %w", id, err)
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	mj, err := m.owned(owner, id)
+	if err != nil {
+		return nil, fmt.Errorf("history: %w", err)
+	}
+	return slices.Clone(mj.history), nil
+}
+
+func copyKey(k APIKey) APIKey {
+	k.Hash = slices.Clone(k.Hash)
+	k.Secret = slices.Clone(k.Secret)
+	return k
+}
+
+// CreateAPIKey makes a new API key called name and returns the key (shown
+// once: only its hash is kept) and its record. ErrConflict if the name is
+// taken (also by a revoked key), ErrInvalid for an empty or over-long name.
+func (m *Memory) CreateAPIKey(ctx context.Context, name string) (string, APIKey, error) {
+	if err := ctx.Err(); err != nil {
+		return "", APIKey{}, fmt.Errorf("create api key: %w", err)
+	}
+	if err := checkKeyName(name); err != nil {
+		return "", APIKey{}, err
+	}
+	key, hash := newAPIKey()
+	k := APIKey{ID: newKeyID(), Name: name, Hash: hash, Secret: randomBytes(32), CreatedAt: now()}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	if _, ok := m.keyName[name]; ok {
+		return "", APIKey{}, fmt.Errorf("create api key %q: name taken: %w", name, ErrConflict)
+	}
+	m.keys[k.ID] = &k
+	m.keyHash[hex.EncodeToString(hash)] = k.ID
+	m.keyName[name] = k.ID
+	return key, copyKey(k), nil
+}
+
+// ListAPIKeys returns all keys, revoked ones included, oldest first.
+func (m *Memory) ListAPIKeys(ctx context.Context) ([]APIKey, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, fmt.Errorf("list api keys: %w", err)
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	keys := make([]APIKey, 0, len(m.keys))
+	for _, k := range m.keys {
+		keys = append(keys, copyKey(*k))
+	}
+	sort.Slice(keys, func(a, b int) bool {
+		if !keys[a].CreatedAt.Equal(keys[b].CreatedAt) {
+			return keys[a].CreatedAt.Before(keys[b].CreatedAt)
+		}
+		return keys[a].ID < keys[b].ID
+	})
+	return keys, nil
+}
+
+// keyByIDOrName finds a key by ID, then by name. Callers hold m.mu.
+func (m *Memory) keyByIDOrName(idOrName string) (*APIKey, bool) {
+	if k, ok := m.keys[idOrName]; ok {
+		return k, true
+	}
+	if id, ok := m.keyName[idOrName]; ok {
+		return m.keys[id], true
+	}
+	return nil, false
+}
+
+// RevokeAPIKey revokes the key with that ID or name. Revoking a revoked key
+// is a no-op; ErrNotFound if there is no such key.
+func (m *Memory) RevokeAPIKey(ctx context.Context, idOrName string) error {
+	if err := ctx.Err(); err != nil {
+		return fmt.Errorf("revoke api key: %w", err)
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	k, ok := m.keyByIDOrName(idOrName)
+	if !ok {
+		return fmt.Errorf("revoke api key %q: %w", idOrName, ErrNotFound)
+	}
+	if k.RevokedAt.IsZero() {
+		k.RevokedAt = now()
+	}
+	return nil
+}
+
+// GetAPIKey returns the key with that ID (revoked or not), e.g. to find the
+// callback secret of a job's owner. ErrNotFound if there is none.
+func (m *Memory) GetAPIKey(ctx context.Context, id string) (APIKey, error) {
+	if err := ctx.Err(); err != nil {
+		return APIKey{}, fmt.Errorf("get api key: %w", err)
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	k, ok := m.keys[id]
+	if !ok {
+		return APIKey{}, fmt.Errorf("get api key %s: %w", id, ErrNotFound)
+	}
+	return copyKey(*k), nil
+}
+
+// LookupAPIKey finds the active key whose SHA-256 hash matches key.
+// ErrUnauthorized for an unknown or revoked key.
+func (m *Memory) LookupAPIKey(ctx context.Context, key string) (APIKey, error) {
+	if err := ctx.Err(); err != nil {
+		return APIKey{}, fmt.Errorf("lookup api key: %w", err)
+	}
+	hash := HashKey(key)
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	id, ok := m.keyHash[hex.EncodeToString(hash)]
+	if !ok {
+		return APIKey{}, fmt.Errorf("lookup api key: %w", ErrUnauthorized)
+	}
+	k := m.keys[id]
+	if subtle.ConstantTimeCompare(k.Hash, hash) != 1 || k.Revoked() {
+		return APIKey{}, fmt.Errorf("lookup api key: %w", ErrUnauthorized)
+	}
+	return copyKey(*k), nil
+}
+
+// RecordDelivery stores one callback delivery attempt for d.JobID
+// (ErrNotFound for an unknown job). A zero d.At is set to now.
+func (m *Memory) RecordDelivery(ctx context.Context, d Delivery) error {
+	if err := ctx.Err(); err != nil {
+		return fmt.Errorf("record delivery: %w", err)
+	}
+	if d.At.IsZero() {
+		d.At = now()
+	}
+	d.At = d.At.UTC().Truncate(time.Microsecond)
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	mj, ok := m.jobs[d.JobID]
+	if !ok {
+		return fmt.Errorf("record delivery: job %s: %w", d.JobID, ErrNotFound)
+	}
+	mj.deliveries = append(mj.deliveries, d)
+	return nil
+}
+
+// Deliveries returns the callback delivery attempts of job jobID in the order
+// recorded (empty for a job with none, ErrNotFound for an unknown job). It
+// takes no owner: it is for the delivery worker and operators.
+func (m *Memory) Deliveries(ctx context.Context, jobID string) ([]Delivery, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, fmt.Errorf("deliveries: %w", err)
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	mj, ok := m.jobs[jobID]
+	if !ok {
+		return nil, fmt.Errorf("deliveries: job %s: %w", jobID, ErrNotFound)
+	}
+	return slices.Clone(mj.deliveries), nil
+}
