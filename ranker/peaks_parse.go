@@ -1,0 +1,794 @@
+package ranker
+
+import (
+	"strconv"
+	"strings"
+	"unicode"
+	"unicode/utf8"
+)
+
+// ParsePeaks reads a 1H peak list in the journal notation chemists paste
+// from an experimental section:
+//
+//	1H NMR (400 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H).
+//
+// The header is optional and free in order ("1H NMR (CDCl3, 400 MHz):",
+// "δH", "δ (ppm)", "500 MHz, DMSO-d6"); the field in MHz and the solvent
+// (any spelling CanonicalSolvent accepts) are taken from it. A header for
+// another nucleus ("13C NMR") is an error. Each peak is a shift in ppm or a
+// range in either order joined by a hyphen, en or em dash or minus sign
+// ("7.35–7.20"), optionally followed by a parenthesised description whose
+// comma-separated items may come in any order: a multiplicity (see
+// NormalizeMultiplicity), coupling constants ("J = 8.0, 2.1 Hz",
+// "J1 = 8.0 Hz, J2 = 2.1 Hz", "J = 7.1 and 1.2 Hz", "3J = 7.1 Hz"), an
+// integral ("2H", "2 H", "2.04H") and free assignment notes ("OCH2",
+// "H-3") kept as Label. Peaks are separated by commas, semicolons or line
+// breaks; a final "." or ";" is allowed, and a following section for
+// another nucleus or technique ("13C NMR ...", "HRMS ...") ends the list.
+//
+// Errors are *PeakError naming the token and its byte position: malformed
+// numbers, a shift outside MinShift..MaxShift, an unknown multiplicity
+// code, a negative or zero integral, J on a singlet, a J outside 0 to MaxJ
+// Hz, unbalanced parentheses, no peaks at all, or input longer than
+// MaxPeakInput bytes or with more than MaxPeaks peaks.
+func ParsePeaks(s string) (PeakList, error) {
+	var pl PeakList
+	p := &journal{in: s}
+	if len(s) > MaxPeakInput {
+		return pl, p.errAt(0, s[:40], "", "input longer than 1 MiB")
+	}
+	if !utf8.ValidString(s) {
+		i := 0
+		for i < len(s) {
+			r, n := utf8.DecodeRuneInString(s[i:])
+			if r == utf8.RuneError && n == 1 {
+				break
+			}
+			i += n
+		}
+		return pl, p.errAt(i, s[i:i+1], "", "invalid UTF-8")
+	}
+	if err := p.header(&pl); err != nil {
+		return PeakList{}, err
+	}
+	for {
+		p.skipSpace()
+		if p.eof() || p.atNextSection() {
+			break
+		}
+		if len(pl.Peaks) == MaxPeaks {
+			return PeakList{}, p.errAt(p.i, p.word(), "shift", "more than 1000 peaks")
+		}
+		pk, err := p.peak()
+		if err != nil {
+			return PeakList{}, err
+		}
+		pl.Peaks = append(pl.Peaks, pk)
+		p.skipSpace()
+		if p.eof() {
+			break
+		}
+		r, n := p.peek()
+		switch {
+		case r == ',' || r == ';':
+			p.i += n
+		case r == '.':
+			p.i += n
+			p.skipSpace()
+			if !p.eof() && !p.atNextSection() {
+				return PeakList{}, p.errAt(p.i, p.word(), "", "unexpected text after the final '.'")
+			}
+		case p.atNumber():
+			// A line break or space alone between peaks.
+		default:
+			return PeakList{}, p.errAt(p.i, p.word(), "", "expected ',' between peaks")
+		}
+	}
+	if len(pl.Peaks) == 0 {
+		return PeakList{}, p.errAt(p.i, p.word(), "shift", "no peaks found")
+	}
+	return pl, nil
+}
+
+// journal is the state of ParsePeaks: the input and a byte offset.
+type journal struct {
+	in string
+	i  int
+}
+
+func (p *journal) errAt(pos int, tok, field, msg string) error {
+	return &PeakError{Input: p.in, Pos: pos, Token: tok, Field: field, Msg: msg}
+}
+
+func (p *journal) eof() bool { return p.i >= len(p.in) }
+
+func (p *journal) peek() (rune, int) {
+	if p.i >= len(p.in) {
+		return 0, 0
+	}
+	return utf8.DecodeRuneInString(p.in[p.i:])
+}
+
+func (p *journal) peekAt(i int) (rune, int) {
+	if i >= len(p.in) {
+		return 0, 0
+	}
+	return utf8.DecodeRuneInString(p.in[i:])
+}
+
+func (p *journal) skipSpace() {
+	for !p.eof() {
+		r, n := p.peek()
+		if !unicode.IsSpace(r) && r != '\u200b' {
+			return
+		}
+		p.i += n
+	}
+}
+
+// word returns the token at the cursor, for error messages: up to the next
+// space, comma or parenthesis, at most 40 bytes, at least one rune.
+func (p *journal) word() string { return wordAt(p.in, p.i) }
+
+func wordAt(s string, i int) string {
+	if i >= len(s) {
+		return ""
+	}
+	j := i
+	for j < len(s) && j-i < 40 {
+		r, n := utf8.DecodeRuneInString(s[j:])
+		if j > i && (unicode.IsSpace(r) || r == ',' || r == ';' || r == '(' || r == ')') {
+			break
+		}
+		j += n
+	}
+	return s[i:j]
+}
+
+func isMinus(r rune) bool {
+	return r == '-' || r == '−' || r == '–' || r == '‐' || r == '‑' || r == '‒'
+}
+
+func isDash(r rune) bool { return isMinus(r) || r == '—' || r == '~' }
+
+func isDigit(r rune) bool { return r >= '0' && r <= '9' }
+
+// atNumber reports whether a number starts at the cursor.
+func (p *journal) atNumber() bool { return numberAt(p.in, p.i) }
+
+func numberAt(s string, i int) bool {
+	if i >= len(s) {
+		return false
+	}
+	r, n := utf8.DecodeRuneInString(s[i:])
+	if isDigit(r) {
+		return true
+	}
+	if isMinus(r) || r == '+' {
+		i += n
+		if i >= len(s) {
+			return false
+		}
+		r, n = utf8.DecodeRuneInString(s[i:])
+	}
+	if isDigit(r) {
+		return true
+	}
+	return r == '.' && i+n < len(s) && s[i+n] >= '0' && s[i+n] <= '9'
+}
+
+// scanNumber reads an optionally signed decimal number at i. It returns
+// the value, the token and the end offset; ok is false with the token when
+// the text there is not a well-formed number.
+func scanNumber(s string, i int) (v float64, tok string, end int, ok bool) {
+	start := i
+	neg := false
+	if i < len(s) {
+		r, n := utf8.DecodeRuneInString(s[i:])
+		if isMinus(r) || r == '+' {
+			neg = r != '+'
+			i += n
+		}
+	}
+	j := i
+	for j < len(s) && (s[j] >= '0' && s[j] <= '9' || s[j] == '.') {
+		j++
+	}
+	// A final '.' not followed by a digit ends a sentence, not the number.
+	if j > i && s[j-1] == '.' && j-1 > i {
+		j--
+	}
+	digits := s[i:j]
+	tok = s[start:j]
+	if digits == "" || digits == "." || strings.Count(digits, ".") > 1 {
+		return 0, wordAt(s, start), j, false
+	}
+	if j < len(s) && s[j] == '.' {
+		// "4.1.2" or "4..1"
+		return 0, wordAt(s, start), j, false
+	}
+	v, err := strconv.ParseFloat(digits, 64)
+	if err != nil {
+		return 0, wordAt(s, start), j, false
+	}
+	if neg {
+		v = -v
+	}
+	return v, tok, j, true
+}
+
+// number reads a number at the cursor or returns a *PeakError for field.
+func (p *journal) number(field string) (float64, string, error) {
+	start := p.i
+	v, tok, end, ok := scanNumber(p.in, p.i)
+	if !ok {
+		return 0, tok, p.errAt(start, tok, field, "malformed number")
+	}
+	p.i = end
+	return v, tok, nil
+}
+
+// matchParen returns the offset of the ')' closing the '(' at i, or -1.
+func matchParen(s string, i int) int {
+	depth := 0
+	for j := i; j < len(s); j++ {
+		switch s[j] {
+		case '(', '[', '{':
+			depth++
+		case ')', ']', '}':
+			depth--
+			if depth == 0 {
+				return j
+			}
+			if depth < 0 {
+				return -1
+			}
+		}
+	}
+	return -1
+}
+
+// nucleusAt reports a nucleus token such as "1H", "13C", "¹H", "¹³C" at i:
+// its text and end offset, or "" when there is none.
+func nucleusAt(s string, i int) (tok string, end int) {
+	j := i
+	for j < len(s) {
+		r, n := utf8.DecodeRuneInString(s[j:])
+		if !isDigit(r) && !strings.ContainsRune("¹²³⁴⁵⁶⁷⁸⁹⁰", r) {
+			break
+		}
+		j += n
+	}
+	if j == i || j >= len(s) || s[j] < 'A' || s[j] > 'Z' {
+		return "", i
+	}
+	k := j + 1
+	if k < len(s) && s[k] >= 'a' && s[k] <= 'z' {
+		k++
+	}
+	// The element symbol must end the word ("1H NMR", "1H-NMR", "13C{1H}").
+	if k < len(s) {
+		r, _ := utf8.DecodeRuneInString(s[k:])
+		if unicode.IsLetter(r) || unicode.IsDigit(r) {
+			return "", i
+		}
+	}
+	return s[i:k], k
+}
+
+func isProton(nucleus string) bool { return nucleus == "1H" || nucleus == "¹H" }
+
+// sectionWords start the text that follows a 1H list in an experimental
+// section (common practice); ParsePeaks stops there.
+var sectionWords = []string{"HRMS", "HR-MS", "LRMS", "MS", "IR", "FT-IR", "FTIR", "Anal", "mp", "Mp", "Rf", "ESI", "EI", "UV", "Elemental", "[α]"}
+
+// atNextSection reports whether the cursor is at the start of another
+// section: a nucleus header ("13C NMR") or a technique name.
+func (p *journal) atNextSection() bool {
+	if tok, _ := nucleusAt(p.in, p.i); tok != "" {
+		return true
+	}
+	rest := p.in[p.i:]
+	for _, w := range sectionWords {
+		if strings.HasPrefix(rest, w) {
+			r, _ := utf8.DecodeRuneInString(rest[len(w):])
+			if len(rest) == len(w) || !unicode.IsLetter(r) {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+// headerWords may appear in a header without making it one (they carry no
+// information we need).
+var headerWords = map[string]bool{
+	"nmr": true, "ppm": true, "in": true, "at": true, "h": true, "spectrum": true,
+	"proton": true, "data": true, "delta": true, "(ppm)": true, "1h-nmr": true,
+}
+
+// header reads an optional header up to the first peak, filling MHz and
+// Solvent.
+func (p *journal) header(pl *PeakList) error {
+	seen := false // a header marker (nucleus, NMR, δ, group) has been read
+	for {
+		p.skipSpace()
+		if p.eof() {
+			return nil
+		}
+		r, n := p.peek()
+		start := p.i
+		if tok, end := nucleusAt(p.in, p.i); tok != "" {
+			if !isProton(tok) {
+				return p.errAt(start, tok, "header", "not a 1H peak list")
+			}
+			p.i, seen = end, true
+			continue
+		}
+		switch {
+		case r == '(':
+			end := matchParen(p.in, p.i)
+			if end < 0 {
+				return p.errAt(start, "(", "header", "unclosed '('")
+			}
+			if err := p.headerGroup(pl, p.i+1, end); err != nil {
+				return err
+			}
+			p.i, seen = end+1, true
+		case r == 'δ' || hasPrefixFold(p.in[p.i:], "delta"):
+			if r == 'δ' {
+				p.i += n
+			} else {
+				p.i += len("delta")
+			}
+			// δH, δ_H, δ(H)
+			if strings.HasPrefix(p.in[p.i:], "_H") {
+				p.i += 2
+			} else if strings.HasPrefix(p.in[p.i:], "H") {
+				p.i++
+			}
+			seen = true
+		case r == ':' || r == ',' || r == ';' || r == '=' || r == '/' || r == '-' && !p.atNumber():
+			p.i += n
+		case p.atNumber():
+			v, _, end, ok := scanNumber(p.in, p.i)
+			k := end
+			for k < len(p.in) && (p.in[k] == ' ' || p.in[k] == '\t') {
+				k++
+			}
+			if ok && hasPrefixFold(p.in[k:], "mhz") {
+				if err := p.setMHz(pl, v, start, p.in[start:k+3]); err != nil {
+					return err
+				}
+				p.i, seen = k+3, true
+				continue
+			}
+			return nil // the first peak
+		default:
+			w := headerWord(p.in, p.i)
+			if w == "" {
+				return p.errAt(start, p.word(), "shift", "expected a chemical shift")
+			}
+			if c, ok := CanonicalSolvent(w); ok {
+				if pl.Solvent == "" {
+					pl.Solvent = c
+				}
+				seen = true
+			} else if strings.EqualFold(w, "NMR") || strings.EqualFold(w, "1H-NMR") {
+				seen = true
+			} else if !seen && !headerWords[strings.ToLower(w)] {
+				return p.errAt(start, w, "shift", "expected a chemical shift")
+			}
+			p.i += len(w)
+		}
+	}
+}
+
+// headerWord returns the word at i: letters, digits, subscripts, brackets,
+// hyphens and primes, or one rune of anything else.
+func headerWord(s string, i int) string {
+	j := i
+	for j < len(s) {
+		r, n := utf8.DecodeRuneInString(s[j:])
+		if !(unicode.IsLetter(r) || unicode.IsDigit(r) || r == '-' || r == '[' || r == ']' ||
+			r == '\'' || r == '′' || (r >= '₀' && r <= '₉')) || r == 'δ' {
+			break
+		}
+		j += n
+	}
+	if j == i {
+		_, n := utf8.DecodeRuneInString(s[i:])
+		j = i + n
+		if unicode.IsPunct(s2r(s[i:j])) || unicode.IsSymbol(s2r(s[i:j])) {
+			return s[i:j]
+		}
+		return ""
+	}
+	return s[i:j]
+}
+
+func s2r(s string) rune { r, _ := utf8.DecodeRuneInString(s); return r }
+
+func hasPrefixFold(s, prefix string) bool {
+	return len(s) >= len(prefix) && strings.EqualFold(s[:len(prefix)], prefix)
+}
+
+func (p *journal) setMHz(pl *PeakList, v float64, pos int, tok string) error {
+	if v < 1 || v > 2000 {
+		return p.errAt(pos, tok, "mhz", "spectrometer frequency outside 1 to 2000 MHz")
+	}
+	if pl.MHz == 0 {
+		pl.MHz = v
+	}
+	return nil
+}
+
+// headerGroup reads a parenthesised header group "(400 MHz, CDCl3)".
+func (p *journal) headerGroup(pl *PeakList, from, to int) error {
+	for _, it := range splitItems(p.in, from, to) {
+		text := it.text
+		if text == "" {
+			continue
+		}
+		if c, ok := CanonicalSolvent(text); ok && isSolventish(text) {
+			if pl.Solvent == "" {
+				pl.Solvent = c
+			}
+			continue
+		}
+		// Words: solvent names and "400 MHz" pairs.
+		ws := fieldsPos(text, it.pos)
+		for k, w := range ws {
+			lw := strings.ToLower(w.text)
+			if strings.HasSuffix(lw, "mhz") && lw != "mhz" {
+				num := w.text[:len(w.text)-3]
+				v, _, end, ok := scanNumber(num, 0)
+				if !ok || end != len(num) {
+					return p.errAt(w.pos, w.text, "mhz", "malformed number")
+				}
+				if err := p.setMHz(pl, v, w.pos, w.text); err != nil {
+					return err
+				}
+				continue
+			}
+			if lw == "mhz" && k > 0 {
+				prev := ws[k-1]
+				v, _, end, ok := scanNumber(prev.text, 0)
+				if !ok || end != len(prev.text) {
+					return p.errAt(prev.pos, prev.text, "mhz", "malformed number")
+				}
+				if err := p.setMHz(pl, v, prev.pos, prev.text+" "+w.text); err != nil {
+					return err
+				}
+				continue
+			}
+			if c, ok := CanonicalSolvent(w.text); ok && isSolventish(w.text) && pl.Solvent == "" {
+				pl.Solvent = c
+			}
+		}
+	}
+	return nil
+}
+
+// isSolventish rejects words that reduce to a solvent key only by dropping
+// punctuation that makes them something else (a lone number, say).
+func isSolventish(s string) bool {
+	for _, r := range s {
+		if unicode.IsLetter(r) {
+			return true
+		}
+	}
+	return false
+}
+
+type posText struct {
+	pos  int
+	text string
+}
+
+// splitItems splits s[from:to] at commas and semicolons outside nested
+// brackets, trimming space. Positions are offsets in s.
+func splitItems(s string, from, to int) []posText {
+	var out []posText
+	depth := 0
+	start := from
+	emit := func(end int) {
+		seg := s[start:end]
+		lead := len(seg) - len(strings.TrimLeftFunc(seg, unicode.IsSpace))
+		out = append(out, posText{pos: start + lead, text: strings.TrimSpace(seg)})
+	}
+	for j := from; j < to; j++ {
+		switch s[j] {
+		case '(', '[', '{':
+			depth++
+		case ')', ']', '}':
+			if depth > 0 {
+				depth--
+			}
+		case ',', ';':
+			if depth == 0 {
+				emit(j)
+				start = j + 1
+			}
+		}
+	}
+	emit(to)
+	return out
+}
+
+// fieldsPos splits text (which starts at offset base) at white space.
+func fieldsPos(text string, base int) []posText {
+	var out []posText
+	i := 0
+	for i < len(text) {
+		r, n := utf8.DecodeRuneInString(text[i:])
+		if unicode.IsSpace(r) {
+			i += n
+			continue
+		}
+		j := i
+		for j < len(text) {
+			r, n := utf8.DecodeRuneInString(text[j:])
+			if unicode.IsSpace(r) {
+				break
+			}
+			j += n
+		}
+		out = append(out, posText{pos: base + i, text: text[i:j]})
+		i = j
+	}
+	return out
+}
+
+// peak reads one peak: a shift or range and an optional description.
+func (p *journal) peak() (Peak, error) {
+	var pk Peak
+	start := p.i
+	a, tokA, err := p.number("shift")
+	if err != nil {
+		return pk, err
+	}
+	if a < MinShift || a > MaxShift {
+		return pk, p.errAt(start, tokA, "shift", "shift outside -1 to 16 ppm")
+	}
+	b := a
+	save := p.i
+	p.skipSpace()
+	if r, n := p.peek(); isDash(r) {
+		p.i += n
+		p.skipSpace()
+		bpos := p.i
+		if !p.atNumber() {
+			return pk, p.errAt(bpos, p.word(), "shift", "expected the other end of the range")
+		}
+		var tokB string
+		if b, tokB, err = p.number("shift"); err != nil {
+			return pk, err
+		}
+		if b < MinShift || b > MaxShift {
+			return pk, p.errAt(bpos, tokB, "shift", "shift outside -1 to 16 ppm")
+		}
+	} else {
+		p.i = save
+	}
+	pk.setShift(a, b)
+	pk.Pos = start
+	save = p.i
+	p.skipSpace()
+	if hasPrefixFold(p.in[p.i:], "ppm") {
+		p.i += 3
+	} else {
+		p.i = save
+	}
+	save = p.i
+	p.skipSpace()
+	if r, _ := p.peek(); r == '(' {
+		end := matchParen(p.in, p.i)
+		if end < 0 {
+			return pk, p.errAt(p.i, p.word(), "peak", "unclosed '('")
+		}
+		if err := p.describe(&pk, p.i+1, end); err != nil {
+			return pk, err
+		}
+		p.i = end + 1
+	} else {
+		p.i = save
+	}
+	pk.Text = p.in[start:p.i]
+	if field, msg := checkPeak(pk); msg != "" {
+		return pk, p.errAt(start, pk.Text, field, msg)
+	}
+	return pk, nil
+}
+
+// describe reads the items of a peak description "(q, J = 7.1 Hz, 2H)".
+func (p *journal) describe(pk *Peak, from, to int) error {
+	lastJ := false
+	jPos, jTok := -1, ""
+	brOnly := false // the multiplicity so far is a bare "br"
+	var labels []string
+	for _, it := range splitItems(p.in, from, to) {
+		text := it.text
+		if text == "" {
+			lastJ = false
+			continue
+		}
+		if v, ok := jLabelled(text); ok {
+			js, err := p.jValues(v, it.pos+len(text)-len(v))
+			if err != nil {
+				return err
+			}
+			if jPos < 0 {
+				jPos, jTok = it.pos, text
+			}
+			pk.J = append(pk.J, js...)
+			lastJ = true
+			continue
+		}
+		if lastJ && numberAt(text, 0) && !isIntegral(text) {
+			js, err := p.jValues(text, it.pos)
+			if err != nil {
+				return err
+			}
+			pk.J = append(pk.J, js...)
+			continue
+		}
+		lastJ = false
+		if numberAt(text, 0) {
+			if !isIntegral(text) {
+				return p.errAt(it.pos, text, "integral", "expected an integral such as 2H")
+			}
+			num := strings.TrimRightFunc(strings.TrimSuffix(text, "H"), unicode.IsSpace)
+			v, tok, end, ok := scanNumber(num, 0)
+			if !ok || end != len(num) {
+				return p.errAt(it.pos, tok, "integral", "malformed number")
+			}
+			switch {
+			case v < 0:
+				return p.errAt(it.pos, text, "integral", "negative integral")
+			case v == 0:
+				return p.errAt(it.pos, text, "integral", "integral must be positive")
+			case pk.Integral != 0:
+				return p.errAt(it.pos, text, "integral", "second integral for one peak")
+			}
+			pk.Integral = v
+			continue
+		}
+		if code, app, ok := NormalizeMultiplicity(text); ok {
+			switch {
+			case pk.Multiplicity == "":
+				pk.Multiplicity, pk.Apparent = code, app
+				brOnly = isBareBroad(text)
+			case brOnly:
+				// "(br, s)": the broad flag came first.
+				base, _ := SplitMultiplicity(code)
+				pk.Multiplicity, pk.Apparent, brOnly = "br "+base, pk.Apparent || app, false
+			case isBareBroad(text) && !strings.HasPrefix(pk.Multiplicity, "br "):
+				// "(s, br)"
+				pk.Multiplicity = "br " + pk.Multiplicity
+			default:
+				return p.errAt(it.pos, text, "multiplicity", "second multiplicity for one peak")
+			}
+			continue
+		}
+		if pk.Multiplicity == "" && looksLikeCode(text) {
+			return p.errAt(it.pos, text, "multiplicity", "unknown multiplicity")
+		}
+		labels = append(labels, text)
+	}
+	pk.Label = strings.Join(labels, ", ")
+	if len(pk.J) > 0 && isSinglet(pk.Multiplicity) {
+		return p.errAt(jPos, jTok, "j", "J given for a singlet")
+	}
+	return nil
+}
+
+func isBareBroad(s string) bool {
+	s = strings.ToLower(strings.TrimSpace(strings.TrimSuffix(strings.TrimSpace(s), ".")))
+	return s == "br" || s == "broad"
+}
+
+// looksLikeCode reports whether s is written like a multiplicity code
+// (lower-case letters, spaces, dots and hyphens only) rather than an
+// assignment note such as "OCH2" or "H-3".
+func looksLikeCode(s string) bool {
+	if len(s) > 24 {
+		return false
+	}
+	for _, r := range s {
+		if !(r >= 'a' && r <= 'z' || r == ' ' || r == '.' || r == '-' || r == '\'') {
+			return false
+		}
+	}
+	return true
+}
+
+// isIntegral reports whether s reads "2H", "2 H", "2.04H".
+func isIntegral(s string) bool {
+	t := strings.TrimSpace(s)
+	if !strings.HasSuffix(t, "H") {
+		return false
+	}
+	t = strings.TrimSpace(strings.TrimSuffix(t, "H"))
+	_, _, end, ok := scanNumber(t, 0)
+	return ok && end == len(t)
+}
+
+// jLabelled recognises a coupling item ("J = 7.1 Hz", "J 7.1", "3J = 7.1",
+// "J1 = 8.0", "JHH = 7.1", "J(H,H) = 7.1") and returns the value part.
+func jLabelled(s string) (string, bool) {
+	i := 0
+	for i < len(s) {
+		r, n := utf8.DecodeRuneInString(s[i:])
+		if !isDigit(r) && !strings.ContainsRune("¹²³⁴^", r) {
+			break
+		}
+		i += n
+	}
+	if i >= len(s) || s[i] != 'J' {
+		return "", false
+	}
+	rest := s[i+1:]
+	if k := strings.IndexAny(rest, "=≈:~"); k >= 0 {
+		_, n := utf8.DecodeRuneInString(rest[k:])
+		return strings.TrimLeftFunc(rest[k+n:], unicode.IsSpace), true
+	}
+	// "J 7.1 Hz", "JHH 7.1": the value starts at the first digit after
+	// letters, spaces and a bracketed label.
+	j := 0
+	for j < len(rest) {
+		c := rest[j]
+		if c >= '0' && c <= '9' || c == '.' {
+			break
+		}
+		if c == '(' {
+			if k := strings.IndexByte(rest[j:], ')'); k >= 0 {
+				j += k + 1
+				continue
+			}
+		}
+		r, n := utf8.DecodeRuneInString(rest[j:])
+		if !(unicode.IsLetter(r) || unicode.IsSpace(r) || r == '_' || r == ',' || r == '-') {
+			break
+		}
+		j += n
+	}
+	if j == len(rest) {
+		return "", false
+	}
+	if j == 0 {
+		// "J7.1" is accepted; a subscript index like "J1 7.1" is not
+		// distinguishable and is read as a value.
+		return rest, true
+	}
+	return rest[j:], true
+}
+
+// jValues reads "8.0, 2.1 Hz", "7.1 and 1.2 Hz", "7.1 Hz" (the text starts
+// at offset base).
+func (p *journal) jValues(s string, base int) ([]float64, error) {
+	var out []float64
+	for _, w := range fieldsPos(strings.NewReplacer("/", " ", "&", " ").Replace(s), base) {
+		t := w.text
+		lt := strings.ToLower(t)
+		if lt == "hz" || lt == "and" || lt == "," {
+			continue
+		}
+		t = strings.TrimSuffix(t, ",")
+		if strings.HasSuffix(strings.ToLower(t), "hz") {
+			t = t[:len(t)-2]
+		}
+		v, _, end, ok := scanNumber(t, 0)
+		if !ok || end != len(t) {
+			return nil, p.errAt(w.pos, w.text, "j", "malformed J value")
+		}
+		if !(v > 0) || v > MaxJ {
+			return nil, p.errAt(w.pos, w.text, "j", "J outside 0 to 100 Hz")
+		}
+		out = append(out, v)
+	}
+	if len(out) == 0 {
+		return nil, p.errAt(base, wordAt(p.in, base), "j", "J without a value")
+	}
+	return out, nil
+}

@@ -1,0 +1,182 @@
+package ranker
+
+import (
+	"sort"
+	"strings"
+	"unicode"
+)
+
+// Canonical solvent names returned by CanonicalSolvent and stored in
+// PeakList.Solvent.
+const (
+	SolventCDCl3   = "CDCl3"
+	SolventDMSO    = "DMSO-d6"
+	SolventAcetone = "acetone-d6"
+	SolventCD3OD   = "CD3OD"
+	SolventD2O     = "D2O"
+	SolventC6D6    = "C6D6"
+	SolventCD3CN   = "CD3CN"
+	SolventCD2Cl2  = "CD2Cl2"
+)
+
+// solventAliases maps a solvent spelling, reduced by solventKey (lower
+// case, letters and digits only), to its canonical name. The spellings are
+// those in common use in experimental sections.
+var solventAliases = map[string]string{
+	"cdcl3": SolventCDCl3, "chloroformd": SolventCDCl3, "chloroformd1": SolventCDCl3,
+	"dchloroform": SolventCDCl3, "d1chloroform": SolventCDCl3, "deuterochloroform": SolventCDCl3,
+	"deuteriochloroform": SolventCDCl3, "chloroform": SolventCDCl3,
+
+	"dmsod6": SolventDMSO, "d6dmso": SolventDMSO, "dmso": SolventDMSO, "cd32so": SolventDMSO,
+	"dimethylsulfoxided6": SolventDMSO, "dimethylsulphoxided6": SolventDMSO,
+	"d6dimethylsulfoxide": SolventDMSO, "dmsod": SolventDMSO,
+
+	"acetoned6": SolventAcetone, "d6acetone": SolventAcetone, "acetone": SolventAcetone,
+	"cd32co": SolventAcetone, "acetoned": SolventAcetone,
+
+	"cd3od": SolventCD3OD, "methanold4": SolventCD3OD, "d4methanol": SolventCD3OD,
+	"meod": SolventCD3OD, "meodd4": SolventCD3OD, "methanold": SolventCD3OD,
+	"cd3oh": SolventCD3OD, "methanol": SolventCD3OD,
+
+	"d2o": SolventD2O, "deuteriumoxide": SolventD2O, "water-d2": SolventD2O, "waterd2": SolventD2O,
+
+	"c6d6": SolventC6D6, "benzened6": SolventC6D6, "d6benzene": SolventC6D6, "benzene": SolventC6D6,
+
+	"cd3cn": SolventCD3CN, "acetonitriled3": SolventCD3CN, "d3acetonitrile": SolventCD3CN,
+	"acetonitrile": SolventCD3CN,
+
+	"cd2cl2": SolventCD2Cl2, "dichloromethaned2": SolventCD2Cl2, "d2dichloromethane": SolventCD2Cl2,
+	"methylenechlorided2": SolventCD2Cl2, "d2methylenechloride": SolventCD2Cl2,
+}
+
+// solventKey reduces a solvent spelling to lower-case letters and digits,
+// with subscript digits read as digits: "[D6]DMSO" → "d6dmso",
+// "CDCl₃" → "cdcl3".
+func solventKey(s string) string {
+	var b strings.Builder
+	for _, r := range s {
+		switch {
+		case r >= '₀' && r <= '₉':
+			b.WriteRune('0' + (r - '₀'))
+		case r < 128 && (unicode.IsLetter(r) || unicode.IsDigit(r)):
+			b.WriteRune(unicode.ToLower(r))
+		}
+	}
+	return b.String()
+}
+
+// CanonicalSolvent returns the canonical name of a deuterated NMR solvent
+// written in any common spelling ("chloroform-d", "[D6]DMSO", "d6-DMSO",
+// "methanol-d4", "C6D6", ...), and false if the name is not recognised.
+// Case, spaces, brackets, hyphens and subscript digits do not matter. The
+// recognised solvents are CDCl3, DMSO-d6, acetone-d6, CD3OD, D2O, C6D6,
+// CD3CN and CD2Cl2.
+func CanonicalSolvent(name string) (string, bool) {
+	c, ok := solventAliases[solventKey(name)]
+	return c, ok
+}
+
+// SolventSignal is a known signal of an NMR solvent: the residual
+// protio-solvent peak, dissolved water, or the TMS reference.
+type SolventSignal struct {
+	Solvent      string  // canonical solvent name
+	Kind         string  // "residual", "water" or "reference"
+	Name         string  // the species: "CHCl3", "H2O", "HOD", "TMS", ...
+	Shift        float64 // ppm
+	Multiplicity string  // as observed: "s", "quint" (CHD2 groups), "br s"
+	Tolerance    float64 // ppm: a peak this close to Shift is flagged
+}
+
+// Tolerances for FlagSolvent, ppm. The residual and TMS signals are sharp
+// and reproducible to about ±0.01 ppm; the water signal moves with
+// concentration, temperature and hydrogen bonding by up to about 0.1 ppm
+// (Gottlieb, Kotlyar, Nudelman, J. Org. Chem. 1997, 62, 7512, discussion
+// of the water signal; from memory).
+const (
+	residualTolerance = 0.03
+	waterTolerance    = 0.10
+)
+
+// solventTable lists the residual and water signals of each solvent:
+// Gottlieb, H. E.; Kotlyar, V.; Nudelman, A. "NMR Chemical Shifts of Common
+// Laboratory Solvents as Trace Impurities", J. Org. Chem. 1997, 62,
+// 7512–7515, Table 1 (1H). Values from memory. TMS is at 0.00 ppm by
+// definition in the organic solvents; in D2O the reference is DSS or TSP
+// at 0.00 (common practice).
+var solventTable = map[string][]SolventSignal{
+	SolventCDCl3: {
+		{Kind: "residual", Name: "CHCl3", Shift: 7.26, Multiplicity: "s"},
+		{Kind: "water", Name: "H2O", Shift: 1.56, Multiplicity: "s"},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+	},
+	SolventDMSO: {
+		{Kind: "residual", Name: "DMSO-d5", Shift: 2.50, Multiplicity: "quint"},
+		{Kind: "water", Name: "H2O", Shift: 3.33, Multiplicity: "s"},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+	},
+	SolventAcetone: {
+		{Kind: "residual", Name: "acetone-d5", Shift: 2.05, Multiplicity: "quint"},
+		{Kind: "water", Name: "H2O", Shift: 2.84, Multiplicity: "s"},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+	},
+	SolventCD3OD: {
+		{Kind: "residual", Name: "CHD2OD", Shift: 3.31, Multiplicity: "quint"},
+		// The solvent OH (CD3OH/HOD exchange) and dissolved water give one
+		// signal at 4.87.
+		{Kind: "water", Name: "H2O/OH", Shift: 4.87, Multiplicity: "s"},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+	},
+	SolventD2O: {
+		{Kind: "water", Name: "HOD", Shift: 4.79, Multiplicity: "s"},
+		{Kind: "reference", Name: "DSS", Shift: 0.00, Multiplicity: "s"},
+	},
+	SolventC6D6: {
+		{Kind: "residual", Name: "C6D5H", Shift: 7.16, Multiplicity: "s"},
+		{Kind: "water", Name: "H2O", Shift: 0.40, Multiplicity: "s"},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+	},
+	SolventCD3CN: {
+		{Kind: "residual", Name: "CHD2CN", Shift: 1.94, Multiplicity: "quint"},
+		{Kind: "water", Name: "H2O", Shift: 2.13, Multiplicity: "s"},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+	},
+	SolventCD2Cl2: {
+		{Kind: "residual", Name: "CHDCl2", Shift: 5.32, Multiplicity: "t"},
+		{Kind: "water", Name: "H2O", Shift: 1.52, Multiplicity: "s"},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+	},
+}
+
+// Solvents returns the canonical names of the solvents SolventPeaks knows,
+// sorted.
+func Solvents() []string {
+	names := make([]string, 0, len(solventTable))
+	for n := range solventTable {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	return names
+}
+
+// SolventPeaks returns the residual, water and reference signals of a
+// solvent (any spelling CanonicalSolvent accepts), from Gottlieb, Kotlyar,
+// Nudelman, J. Org. Chem. 1997, 62, 7512 (values from memory). It returns
+// nil for an unknown solvent. The result is a fresh slice.
+func SolventPeaks(solvent string) []SolventSignal {
+	c, ok := CanonicalSolvent(solvent)
+	if !ok {
+		return nil
+	}
+	src := solventTable[c]
+	out := make([]SolventSignal, len(src))
+	for i, s := range src {
+		s.Solvent = c
+		if s.Kind == "water" {
+			s.Tolerance = waterTolerance
+		} else {
+			s.Tolerance = residualTolerance
+		}
+		out[i] = s
+	}
+	return out
+}
