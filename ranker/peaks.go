@@ -96,7 +96,7 @@ func (pl PeakList) String() string {
 	b.WriteString("1H NMR")
 	var head []string
 	if pl.MHz > 0 {
-		head = append(head, fmtNum(pl.MHz)+" MHz")
+		head = append(head, peakNum(pl.MHz)+" MHz")
 	}
 	if pl.Solvent != "" {
 		head = append(head, pl.Solvent)
@@ -119,9 +119,9 @@ func (pl PeakList) String() string {
 func (p Peak) String() string {
 	var b strings.Builder
 	if p.IsRange() {
-		b.WriteString(fmtNum(p.ShiftHi) + "–" + fmtNum(p.ShiftLo))
+		b.WriteString(peakNum(p.ShiftHi) + "–" + peakNum(p.ShiftLo))
 	} else {
-		b.WriteString(fmtNum(p.Shift))
+		b.WriteString(peakNum(p.Shift))
 	}
 	var items []string
 	if p.Multiplicity != "" {
@@ -134,12 +134,12 @@ func (p Peak) String() string {
 	if len(p.J) > 0 {
 		js := make([]string, len(p.J))
 		for i, j := range p.J {
-			js[i] = fmtNum(j)
+			js[i] = peakNum(j)
 		}
 		items = append(items, "J = "+strings.Join(js, ", ")+" Hz")
 	}
 	if p.Integral != 0 {
-		items = append(items, fmtNum(p.Integral)+"H")
+		items = append(items, peakNum(p.Integral)+"H")
 	}
 	if p.Label != "" {
 		items = append(items, p.Label)
@@ -150,7 +150,7 @@ func (p Peak) String() string {
 	return b.String()
 }
 
-func fmtNum(x float64) string { return strconv.FormatFloat(x, 'f', -1, 64) }
+func peakNum(x float64) string { return strconv.FormatFloat(x, 'f', -1, 64) }
 
 // checkPeak applies the validation shared by every input format. It
 // returns a message and the field it concerns, or "" when the peak is
@@ -158,7 +158,7 @@ func fmtNum(x float64) string { return strconv.FormatFloat(x, 'f', -1, 64) }
 func checkPeak(p Peak) (field, msg string) {
 	for _, s := range []float64{p.ShiftLo, p.ShiftHi} {
 		if s < MinShift || s > MaxShift {
-			return "shift", fmt.Sprintf("shift %s ppm outside %g to %g ppm", fmtNum(s), MinShift, MaxShift)
+			return "shift", fmt.Sprintf("shift %s ppm outside %g to %g ppm", peakNum(s), MinShift, MaxShift)
 		}
 	}
 	if p.Integral < 0 {
@@ -166,7 +166,7 @@ func checkPeak(p Peak) (field, msg string) {
 	}
 	for _, j := range p.J {
 		if !(j > 0) || j > MaxJ {
-			return "j", fmt.Sprintf("J = %s Hz outside 0 to %g Hz", fmtNum(j), MaxJ)
+			return "j", fmt.Sprintf("J = %s Hz outside 0 to %g Hz", peakNum(j), MaxJ)
 		}
 	}
 	if len(p.J) > 0 && isSinglet(p.Multiplicity) {

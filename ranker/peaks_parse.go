@@ -128,9 +128,9 @@ func (p *journal) skipSpace() {
 
 // word returns the token at the cursor, for error messages: up to the next
 // space, comma or parenthesis, at most 40 bytes, at least one rune.
-func (p *journal) word() string { return wordAt(p.in, p.i) }
+func (p *journal) word() string { return peakWordAt(p.in, p.i) }
 
-func wordAt(s string, i int) string {
+func peakWordAt(s string, i int) string {
 	if i >= len(s) {
 		return ""
 	}
@@ -145,13 +145,13 @@ func wordAt(s string, i int) string {
 	return s[i:j]
 }
 
-func isMinus(r rune) bool {
+func minusRune(r rune) bool {
 	return r == '-' || r == '−' || r == '–' || r == '‐' || r == '‑' || r == '‒'
 }
 
-func isDash(r rune) bool { return isMinus(r) || r == '—' || r == '~' }
+func dashRune(r rune) bool { return minusRune(r) || r == '—' || r == '~' }
 
-func isDigit(r rune) bool { return r >= '0' && r <= '9' }
+func digitRune(r rune) bool { return r >= '0' && r <= '9' }
 
 // atNumber reports whether a number starts at the cursor.
 func (p *journal) atNumber() bool { return numberAt(p.in, p.i) }
@@ -161,17 +161,17 @@ func numberAt(s string, i int) bool {
 		return false
 	}
 	r, n := utf8.DecodeRuneInString(s[i:])
-	if isDigit(r) {
+	if digitRune(r) {
 		return true
 	}
-	if isMinus(r) || r == '+' {
+	if minusRune(r) || r == '+' {
 		i += n
 		if i >= len(s) {
 			return false
 		}
 		r, n = utf8.DecodeRuneInString(s[i:])
 	}
-	if isDigit(r) {
+	if digitRune(r) {
 		return true
 	}
 	return r == '.' && i+n < len(s) && s[i+n] >= '0' && s[i+n] <= '9'
@@ -185,7 +185,7 @@ func scanNumber(s string, i int) (v float64, tok string, end int, ok bool) {
 	neg := false
 	if i < len(s) {
 		r, n := utf8.DecodeRuneInString(s[i:])
-		if isMinus(r) || r == '+' {
+		if minusRune(r) || r == '+' {
 			neg = r != '+'
 			i += n
 		}
@@ -201,15 +201,15 @@ func scanNumber(s string, i int) (v float64, tok string, end int, ok bool) {
 	digits := s[i:j]
 	tok = s[start:j]
 	if digits == "" || digits == "." || strings.Count(digits, ".") > 1 {
-		return 0, wordAt(s, start), j, false
+		return 0, peakWordAt(s, start), j, false
 	}
 	if j < len(s) && s[j] == '.' {
 		// "4.1.2" or "4..1"
-		return 0, wordAt(s, start), j, false
+		return 0, peakWordAt(s, start), j, false
 	}
 	v, err := strconv.ParseFloat(digits, 64)
 	if err != nil {
-		return 0, wordAt(s, start), j, false
+		return 0, peakWordAt(s, start), j, false
 	}
 	if neg {
 		v = -v
@@ -254,7 +254,7 @@ func nucleusAt(s string, i int) (tok string, end int) {
 	j := i
 	for j < len(s) {
 		r, n := utf8.DecodeRuneInString(s[j:])
-		if !isDigit(r) && !strings.ContainsRune("¹²³⁴⁵⁶⁷⁸⁹⁰", r) {
+		if !digitRune(r) && !strings.ContainsRune("¹²³⁴⁵⁶⁷⁸⁹⁰", r) {
 			break
 		}
 		j += n
@@ -399,7 +399,7 @@ func headerWord(s string, i int) string {
 	if j == i {
 		_, n := utf8.DecodeRuneInString(s[i:])
 		j = i + n
-		if unicode.IsPunct(s2r(s[i:j])) || unicode.IsSymbol(s2r(s[i:j])) {
+		if unicode.IsPunct(firstRune(s[i:j])) || unicode.IsSymbol(firstRune(s[i:j])) {
 			return s[i:j]
 		}
 		return ""
@@ -407,7 +407,7 @@ func headerWord(s string, i int) string {
 	return s[i:j]
 }
 
-func s2r(s string) rune { r, _ := utf8.DecodeRuneInString(s); return r }
+func firstRune(s string) rune { r, _ := utf8.DecodeRuneInString(s); return r }
 
 func hasPrefixFold(s, prefix string) bool {
 	return len(s) >= len(prefix) && strings.EqualFold(s[:len(prefix)], prefix)
@@ -425,7 +425,7 @@ func (p *journal) setMHz(pl *PeakList, v float64, pos int, tok string) error {
 
 // headerGroup reads a parenthesised header group "(400 MHz, CDCl3)".
 func (p *journal) headerGroup(pl *PeakList, from, to int) error {
-	for _, it := range splitItems(p.in, from, to) {
+	for _, it := range splitPeakItems(p.in, from, to) {
 		text := it.text
 		if text == "" {
 			continue
@@ -437,7 +437,7 @@ func (p *journal) headerGroup(pl *PeakList, from, to int) error {
 			continue
 		}
 		// Words: solvent names and "400 MHz" pairs.
-		ws := fieldsPos(text, it.pos)
+		ws := fieldsAt(text, it.pos)
 		for k, w := range ws {
 			lw := strings.ToLower(w.text)
 			if strings.HasSuffix(lw, "mhz") && lw != "mhz" {
@@ -486,9 +486,9 @@ type posText struct {
 	text string
 }
 
-// splitItems splits s[from:to] at commas and semicolons outside nested
+// splitPeakItems splits s[from:to] at commas and semicolons outside nested
 // brackets, trimming space. Positions are offsets in s.
-func splitItems(s string, from, to int) []posText {
+func splitPeakItems(s string, from, to int) []posText {
 	var out []posText
 	depth := 0
 	start := from
@@ -516,8 +516,8 @@ func splitItems(s string, from, to int) []posText {
 	return out
 }
 
-// fieldsPos splits text (which starts at offset base) at white space.
-func fieldsPos(text string, base int) []posText {
+// fieldsAt splits text (which starts at offset base) at white space.
+func fieldsAt(text string, base int) []posText {
 	var out []posText
 	i := 0
 	for i < len(text) {
@@ -554,7 +554,7 @@ func (p *journal) peak() (Peak, error) {
 	b := a
 	save := p.i
 	p.skipSpace()
-	if r, n := p.peek(); isDash(r) {
+	if r, n := p.peek(); dashRune(r) {
 		p.i += n
 		p.skipSpace()
 		bpos := p.i
@@ -607,7 +607,7 @@ func (p *journal) describe(pk *Peak, from, to int) error {
 	jPos, jTok := -1, ""
 	brOnly := false // the multiplicity so far is a bare "br"
 	var labels []string
-	for _, it := range splitItems(p.in, from, to) {
+	for _, it := range splitPeakItems(p.in, from, to) {
 		text := it.text
 		if text == "" {
 			lastJ = false
@@ -720,7 +720,7 @@ func jLabelled(s string) (string, bool) {
 	i := 0
 	for i < len(s) {
 		r, n := utf8.DecodeRuneInString(s[i:])
-		if !isDigit(r) && !strings.ContainsRune("¹²³⁴^", r) {
+		if !digitRune(r) && !strings.ContainsRune("¹²³⁴^", r) {
 			break
 		}
 		i += n
@@ -768,7 +768,7 @@ func jLabelled(s string) (string, bool) {
 // at offset base).
 func (p *journal) jValues(s string, base int) ([]float64, error) {
 	var out []float64
-	for _, w := range fieldsPos(strings.NewReplacer("/", " ", "&", " ").Replace(s), base) {
+	for _, w := range fieldsAt(strings.NewReplacer("/", " ", "&", " ").Replace(s), base) {
 		t := w.text
 		lt := strings.ToLower(t)
 		if lt == "hz" || lt == "and" || lt == "," {
@@ -788,7 +788,7 @@ func (p *journal) jValues(s string, base int) ([]float64, error) {
 		out = append(out, v)
 	}
 	if len(out) == 0 {
-		return nil, p.errAt(base, wordAt(p.in, base), "j", "J without a value")
+		return nil, p.errAt(base, peakWordAt(p.in, base), "j", "J without a value")
 	}
 	return out, nil
 }

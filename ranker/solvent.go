@@ -1,6 +1,7 @@
 package ranker
 
 import (
+	"math"
 	"sort"
 	"strings"
 	"unicode"
@@ -179,4 +180,93 @@ func SolventPeaks(solvent string) []SolventSignal {
 		out[i] = s
 	}
 	return out
+}
+
+// PeakFlag marks an observed peak that matches a solvent signal.
+type PeakFlag struct {
+	Peak   int           // index in PeakList.Peaks
+	Signal SolventSignal // the matching signal
+	Delta  float64       // observed shift minus Signal.Shift, ppm
+	// Exclude is true when the peak is taken to be the solvent signal
+	// itself: a single shift within Signal.Tolerance whose multiplicity
+	// (if given) fits. It is false when the signal merely lies inside a
+	// reported range or a multiplet of the compound, so that the peak's
+	// integral may include it.
+	Exclude bool
+}
+
+// FlagSolvent returns a flag for each peak of pl that matches a residual,
+// water or reference signal of solvent (any spelling CanonicalSolvent
+// accepts; "" means pl.Solvent). A peak is flagged for the closest
+// matching signal only. The result is nil for an unknown or empty
+// solvent, and ordered by peak index. Scoring leaves out the peaks whose
+// flag has Exclude set unless the user keeps them.
+func FlagSolvent(pl PeakList, solvent string) []PeakFlag {
+	if solvent == "" {
+		solvent = pl.Solvent
+	}
+	signals := SolventPeaks(solvent)
+	var flags []PeakFlag
+	for i, p := range pl.Peaks {
+		best := -1
+		var bestFlag PeakFlag
+		for _, sig := range signals {
+			f := PeakFlag{Peak: i, Signal: sig, Delta: p.Shift - sig.Shift}
+			switch {
+			case !p.IsRange() && math.Abs(f.Delta) <= sig.Tolerance && fitsSignal(p.Multiplicity, sig):
+				f.Exclude = true
+			case p.ShiftLo-sig.Tolerance <= sig.Shift && sig.Shift <= p.ShiftHi+sig.Tolerance:
+				// Inside a range, or near a peak of another multiplicity.
+			default:
+				continue
+			}
+			// Prefer an excluding match, then the closest one.
+			rank := 0
+			if f.Exclude {
+				rank = 1
+			}
+			if best < 0 || rank > best || rank == best && math.Abs(f.Delta) < math.Abs(bestFlag.Delta) {
+				best, bestFlag = rank, f
+			}
+		}
+		if best >= 0 {
+			flags = append(flags, bestFlag)
+		}
+	}
+	return flags
+}
+
+// fitsSignal reports whether an observed multiplicity is consistent with a
+// solvent signal: not reported, a singlet (residual CHD2 quintets are
+// often reported as s or m at low resolution), or the signal's own pattern.
+func fitsSignal(mult string, sig SolventSignal) bool {
+	switch mult {
+	case "", "s", "br s":
+		return true
+	case sig.Multiplicity:
+		return true
+	case "m":
+		return sig.Kind == "residual" && sig.Multiplicity != "s"
+	}
+	return false
+}
+
+// ExcludeFlagged returns pl without the peaks whose flag has Exclude set,
+// and for each kept peak its index in pl.Peaks.
+func ExcludeFlagged(pl PeakList, flags []PeakFlag) (PeakList, []int) {
+	drop := make(map[int]bool, len(flags))
+	for _, f := range flags {
+		if f.Exclude {
+			drop[f.Peak] = true
+		}
+	}
+	out := PeakList{MHz: pl.MHz, Solvent: pl.Solvent}
+	var idx []int
+	for i, p := range pl.Peaks {
+		if !drop[i] {
+			out.Peaks = append(out.Peaks, p)
+			idx = append(idx, i)
+		}
+	}
+	return out, idx
 }
