@@ -1,0 +1,461 @@
+package ranker
+
+import (
+	"math"
+	"strings"
+)
+
+// Model holds the parameters of the likelihood that scores a candidate
+// structure against an observed peak list. All costs are in nats (natural
+// log units); a candidate's Score is minus its total cost, so a higher score
+// is a better explanation. DefaultModel documents the values in use.
+//
+// The likelihood of a candidate is that of its best assignment of predicted
+// environments to observed peaks (see Score). It is a product of:
+//
+// Shift. For environment i on peak j the residual d is the distance
+// between the predicted interval [ShiftMin, ShiftMax] and the observed one
+// [ShiftLo, ShiftHi] (0 when they overlap), in units of the environment's
+// σ (with SigmaObs added in quadrature and SigmaFloor as a lower limit).
+// Its density is Student's t with Nu degrees of freedom, as in the DP4
+// method (Smith & Goodman, J. Am. Chem. Soc. 2010, 132, 12946), whose
+// heavy tails keep one badly predicted environment from vetoing an
+// otherwise good candidate. A predicted interval of width W spreads the
+// density over it: f = t(d/σ)/t(0) / (W + σ/t(0)), which is t(d/σ)/σ for a
+// point prediction and about 1/W inside a wide (exchangeable) range, so
+// vague predictions are not rewarded.
+//
+// Multiplicity. A table P(observed pattern | predicted pattern): exact,
+// compatible (same number of coupling partners grouped differently, "dd"
+// seen as "t"; couplings unresolved, "dt" seen as "t"; any pattern seen as
+// "m") or contradicting (more partners than predicted, a predicted singlet
+// seen split). See multiplicityLogP.
+//
+// Coupling constants. When both the peak and the environment carry J
+// values, each observed J is compared with the nearest predicted one with
+// a t density of scale SigmaJ Hz, relative to a perfect match (≤ 0).
+//
+// The shift, multiplicity and J terms of environment i on peak j are
+// weighted by w = min(H_i / h_j, MaxWeight), h_j being the peak's implied
+// H from its integral, so each observed peak contributes about one unit of
+// evidence however many environments share it. Without integrals w = 1.
+//
+// Integration. For a peak of implied h_j holding L assigned hydrogens, a
+// Gaussian term −(L − h_j)²/(2 s²) with s = IntAbs + IntRel·h_j.
+//
+// Penalties. An unexplained peak costs UnexplainedBase + UnexplainedPerH·h_j
+// (an impurity or a wrong candidate); an environment left without a peak
+// costs UnobservedBase + UnobservedPerH·H, or the much smaller
+// ExchangeableBase + ExchangeablePerH·H for exchangeable H (OH, NH, COOH),
+// which are often broad or missing in CDCl3.
+//
+// Probabilities (see Ranker.Rank) come from normalising exp(Score/Temperature)
+// over every scored candidate with a uniform prior.
+type Model struct {
+	Nu         float64 // Student t degrees of freedom for shift residuals
+	SigmaFloor float64 // ppm, lower limit of an environment's σ
+	SigmaObs   float64 // ppm, observation and referencing error, added in quadrature
+	SigmaJ     float64 // Hz, scale of J residuals
+	JWeight    float64 // weight of the J term relative to the shift term
+	MaxWeight  float64 // upper limit of the per-peak weight H_i / h_j
+
+	IntAbs, IntRel float64 // integration error s = IntAbs + IntRel·h, in H
+
+	UnexplainedBase, UnexplainedPerH   float64 // nats
+	UnobservedBase, UnobservedPerH     float64 // nats
+	ExchangeableBase, ExchangeablePerH float64 // nats
+
+	// Temperature divides scores before normalising them into
+	// probabilities: errors of one predictor are correlated across the
+	// environments of a molecule, so the product of per-peak terms is
+	// overconfident; a temperature above 1 calibrates it.
+	Temperature float64
+}
+
+// DefaultModel returns the likelihood parameters shiftrank uses. Nu = 6:
+// additive-increment predictions have heavier tails than the quantum
+// chemical shifts of DP4 (ν ≈ 14 there for 1H), so we take a value at the
+// heavy end of the 4–14 range.
+func DefaultModel() Model {
+	return Model{
+		Nu:               6,
+		SigmaFloor:       0.08,
+		SigmaObs:         0.03,
+		SigmaJ:           1.2,
+		JWeight:          0.5,
+		MaxWeight:        1.5,
+		IntAbs:           0.2,
+		IntRel:           0.05,
+		UnexplainedBase:  3,
+		UnexplainedPerH:  3,
+		UnobservedBase:   4,
+		UnobservedPerH:   3,
+		ExchangeableBase: 0.5,
+		ExchangeablePerH: 0.3,
+		Temperature:      1,
+	}
+}
+
+// predEnv is the part of a predicted environment the likelihood reads.
+type predEnv struct {
+	h              int
+	shift, lo, hi  float64
+	sigma          float64
+	mult           pattern
+	j              []float64 // Hz, largest first
+	exchangeable   bool
+	diastereotopic bool
+}
+
+// obsPeak is the part of an observed peak the likelihood reads.
+type obsPeak struct {
+	shift, lo, hi float64
+	mult          pattern
+	j             []float64
+	h             float64 // implied H from the integral, 0 when not given
+}
+
+// tConst returns log t_ν(0) for the standard Student t density.
+func tConst(nu float64) float64 {
+	a, _ := math.Lgamma((nu + 1) / 2)
+	b, _ := math.Lgamma(nu / 2)
+	return a - b - 0.5*math.Log(nu*math.Pi)
+}
+
+// logTRel returns log(t_ν(x)/t_ν(0)) = −(ν+1)/2 · log(1 + x²/ν) (≤ 0).
+func logTRel(x, nu float64) float64 {
+	return -(nu + 1) / 2 * math.Log1p(x*x/nu)
+}
+
+// terms are the parts of one environment-on-peak cost, before weighting,
+// as log-likelihoods (higher is better).
+type terms struct {
+	shift, mult, j float64
+}
+
+// scorer evaluates the likelihood; one per worker (not safe for concurrent
+// use: it reuses its buffers).
+type scorer struct {
+	m      Model
+	t0     float64 // t_ν(0), the standard t density at 0
+	prob   assignProblem
+	solver solver
+}
+
+func newScorer(m Model) *scorer {
+	return &scorer{m: m, t0: math.Exp(tConst(m.Nu))}
+}
+
+// sigma returns the effective σ of an environment, ppm.
+func (s *scorer) sigma(e *predEnv) float64 {
+	sg := math.Hypot(e.sigma, s.m.SigmaObs)
+	return math.Max(sg, s.m.SigmaFloor)
+}
+
+// residual returns the gap between the predicted and observed intervals,
+// ppm (0 when they overlap).
+func residual(e *predEnv, p *obsPeak) float64 {
+	switch {
+	case e.hi < p.lo:
+		return p.lo - e.hi
+	case e.lo > p.hi:
+		return e.lo - p.hi
+	}
+	return 0
+}
+
+// pairTerms returns the unweighted log-likelihood terms of environment e
+// on peak p.
+func (s *scorer) pairTerms(e *predEnv, p *obsPeak) terms {
+	sg := s.sigma(e)
+	d := residual(e, p) / sg
+	width := e.hi - e.lo
+	shift := logTRel(d, s.m.Nu) - math.Log(width+sg/s.t0)
+	return terms{
+		shift: shift,
+		mult:  multiplicityLogP(p.mult, e.mult, e.exchangeable),
+		j:     s.jTerm(e.j, p.j),
+	}
+}
+
+// jTerm compares each observed J with the nearest predicted J (relative t
+// density, ≤ 0). It is 0 when either side has no J.
+func (s *scorer) jTerm(pred, obs []float64) float64 {
+	if len(pred) == 0 || len(obs) == 0 {
+		return 0
+	}
+	sum := 0.0
+	for _, jo := range obs {
+		best := math.Inf(1)
+		for _, jp := range pred {
+			if d := math.Abs(jo - jp); d < best {
+				best = d
+			}
+		}
+		sum += logTRel(best/s.m.SigmaJ, s.m.Nu)
+	}
+	return sum
+}
+
+// weight returns the evidence weight of h hydrogens (may be fractional for
+// a half CH2) on a peak of implied H ph.
+func (s *scorer) weight(h float64, ph float64) float64 {
+	if ph <= 0 {
+		return 1
+	}
+	return math.Min(h/ph, s.m.MaxWeight)
+}
+
+func (s *scorer) pairCost(t terms, w float64) float64 {
+	return -w * (t.shift + t.mult + s.m.JWeight*t.j)
+}
+
+// integrationLogP returns the integration log-likelihood of load assigned
+// hydrogens on a peak of implied H h (relative to a perfect match, ≤ 0).
+func (s *scorer) integrationLogP(load int, h float64) float64 {
+	if h <= 0 {
+		return 0
+	}
+	sd := s.m.IntAbs + s.m.IntRel*h
+	d := float64(load) - h
+	return -d * d / (2 * sd * sd)
+}
+
+// unexplainedLogP returns the log-likelihood of a peak left unexplained.
+func (s *scorer) unexplainedLogP(h float64) float64 {
+	if h <= 0 {
+		h = 1
+	}
+	return -(s.m.UnexplainedBase + s.m.UnexplainedPerH*h)
+}
+
+// unobservedLogP returns the log-likelihood of an environment with no peak.
+func (s *scorer) unobservedLogP(e *predEnv) float64 {
+	if e.exchangeable {
+		return -(s.m.ExchangeableBase + s.m.ExchangeablePerH*float64(e.h))
+	}
+	return -(s.m.UnobservedBase + s.m.UnobservedPerH*float64(e.h))
+}
+
+// build fills s.prob for envs against peaks.
+func (s *scorer) build(envs []predEnv, peaks []obsPeak) {
+	total := 0
+	for i := range envs {
+		total += envs[i].h
+	}
+	n, m := len(envs), len(peaks)
+	p := &s.prob
+	p.reset(n, m, total)
+	for i := range envs {
+		e := &envs[i]
+		p.envH[i] = e.h
+		p.split[i] = e.diastereotopic && e.h == 2
+		p.unobs[i] = -s.unobservedLogP(e)
+		for j := range peaks {
+			t := s.pairTerms(e, &peaks[j])
+			p.whole[i*m+j] = s.pairCost(t, s.weight(float64(e.h), peaks[j].h))
+			if p.split[i] {
+				p.half[i*m+j] = s.pairCost(t, s.weight(float64(e.h)/2, peaks[j].h))
+			}
+		}
+	}
+	w := total + 1
+	for j := range peaks {
+		p.peak[j*w] = -s.unexplainedLogP(peaks[j].h)
+		for l := 1; l <= total; l++ {
+			p.peak[j*w+l] = -s.integrationLogP(l, peaks[j].h)
+		}
+	}
+}
+
+// score returns the log-likelihood of envs explaining peaks and the optimal
+// assignment (owned by the scorer until the next call).
+func (s *scorer) score(envs []predEnv, peaks []obsPeak) (float64, assignment) {
+	s.build(envs, peaks)
+	a := s.solver.solve(&s.prob)
+	return -a.cost, a
+}
+
+// pattern is a parsed multiplicity: the line counts of its coupling
+// groups ("dt" = [2 3]), or one of the special kinds.
+type pattern struct {
+	kind   patternKind
+	broad  bool
+	groups [4]uint8 // line counts, first group first; 0 = unused
+	ng     uint8
+}
+
+type patternKind uint8
+
+const (
+	patFirstOrder patternKind = iota // s, d, t, dd, dt, quint, ...
+	patMultiplet                     // m: unresolved, complex
+	patUnknown                       // not reported: carries no evidence
+)
+
+// partners returns the number of coupling partners the pattern implies
+// (n+1 rule: a q has 3, a dt 1+2 = 3).
+func (p pattern) partners() int {
+	n := 0
+	for k := uint8(0); k < p.ng; k++ {
+		n += int(p.groups[k]) - 1
+	}
+	return n
+}
+
+// parsePattern reads a normalised multiplicity code ("s", "br s", "dt",
+// "quint", "m", "br t", ...). Unknown codes read as "m".
+func parsePattern(code string) pattern {
+	var p pattern
+	c := strings.TrimSpace(code)
+	if rest, ok := strings.CutPrefix(c, "br"); ok {
+		p.broad = true
+		c = strings.TrimSpace(rest)
+		if c == "" {
+			c = "s"
+		}
+	}
+	switch c {
+	case "":
+		if !p.broad {
+			p.kind = patUnknown
+		}
+		return p
+	case "s":
+		return p
+	case "m":
+		p.kind = patMultiplet
+		return p
+	case "quint", "p":
+		p.groups[0], p.ng = 5, 1
+		return p
+	case "sext", "hex":
+		p.groups[0], p.ng = 6, 1
+		return p
+	case "sept", "hept":
+		p.groups[0], p.ng = 7, 1
+		return p
+	case "oct":
+		p.groups[0], p.ng = 8, 1
+		return p
+	case "non":
+		p.groups[0], p.ng = 9, 1
+		return p
+	}
+	for _, r := range c {
+		var l uint8
+		switch r {
+		case 'd':
+			l = 2
+		case 't':
+			l = 3
+		case 'q':
+			l = 4
+		default:
+			p.kind, p.ng = patMultiplet, 0
+			return p
+		}
+		if p.ng == uint8(len(p.groups)) {
+			p.kind, p.ng = patMultiplet, 0
+			return p
+		}
+		p.groups[p.ng] = l
+		p.ng++
+	}
+	return p
+}
+
+func (p pattern) equal(q pattern) bool {
+	return p.kind == q.kind && p.ng == q.ng && p.groups == q.groups
+}
+
+// Multiplicity probabilities P(observed | predicted). These are our own
+// judgement of how often a correctly predicted pattern is reported in each
+// way in routine CDCl3 spectra at 300–600 MHz (common practice: small
+// couplings go unresolved and overlapping lines are reported as "m"); they
+// are relative weights, not fitted frequencies.
+const (
+	pExact           = 0.70 // reported as predicted
+	pRegrouped       = 0.15 // same number of partners, grouped differently (dd ↔ t)
+	pUnresolvedOne   = 0.10 // one coupling partner fewer than predicted (dt → t)
+	pUnresolvedMore  = 0.03 // two or more partners fewer
+	pExtraOne        = 0.02 // one partner more than predicted
+	pExtraMore       = 0.004
+	pSplitSinglet    = 0.005 // predicted singlet reported split
+	pObservedM       = 0.20  // any predicted splitting reported as m
+	pSingletAsM      = 0.03  // predicted singlet reported as m (overlap)
+	pPredMObservedM  = 0.60  // predicted m (strongly coupled) reported as m
+	pPredMObservedS  = 0.03  // predicted m reported as s
+	pPredMOther      = 0.12  // predicted m reported with a first-order pattern
+	pBroadFactor     = 0.7   // a "br" prefix on a non-exchangeable signal
+	pExchBroadS      = 0.50  // exchangeable H reported as br s
+	pExchS           = 0.35  // exchangeable H reported as s
+	pExchOther       = 0.05  // exchangeable H reported coupled or as m
+	pBroadSingletSeq = 0.15  // non-exchangeable singlet reported as br s
+)
+
+// multiplicityLogP returns log P(observed pattern | predicted pattern).
+func multiplicityLogP(obs, pred pattern, exchangeable bool) float64 {
+	p, _ := multiplicityJudge(obs, pred, exchangeable)
+	return math.Log(p)
+}
+
+// multiplicityJudge returns P(observed | predicted) and a short verdict for
+// the explanation.
+func multiplicityJudge(obs, pred pattern, exchangeable bool) (float64, string) {
+	if obs.kind == patUnknown {
+		return 1, "not reported"
+	}
+	if exchangeable {
+		switch {
+		case obs.kind == patFirstOrder && obs.ng == 0 && obs.broad:
+			return pExchBroadS, "as expected for exchangeable H"
+		case obs.kind == patFirstOrder && obs.ng == 0:
+			return pExchS, "compatible: exchangeable H, often sharp in CDCl3"
+		}
+		return pExchOther, "unusual for exchangeable H (usually a singlet)"
+	}
+	if obs.kind == patMultiplet {
+		switch {
+		case pred.kind == patMultiplet:
+			return pPredMObservedM, "as predicted"
+		case pred.ng == 0:
+			return pSingletAsM, "contradicts a singlet unless signals overlap"
+		}
+		return pObservedM, "compatible: a multiplet can hide any splitting"
+	}
+	if pred.kind == patMultiplet {
+		if obs.ng == 0 {
+			return pPredMObservedS, "contradicts: a coupled multiplet predicted, a singlet observed"
+		}
+		return pPredMOther, "compatible: predicted strongly coupled, reported first order"
+	}
+	broad := 1.0
+	if obs.broad {
+		if obs.ng == 0 && pred.ng == 0 {
+			return pBroadSingletSeq, "compatible: broadened singlet"
+		}
+		broad = pBroadFactor
+	}
+	if pred.ng == 0 {
+		if obs.ng == 0 {
+			return pExact * broad, "as predicted"
+		}
+		return pSplitSinglet * broad, "contradicts: no coupled neighbours predicted, splitting observed"
+	}
+	if obs.groups == pred.groups && obs.ng == pred.ng {
+		return pExact * broad, "as predicted"
+	}
+	no, np := obs.partners(), pred.partners()
+	switch {
+	case no == np:
+		return pRegrouped * broad, "compatible: same number of coupling partners, grouped differently (similar J)"
+	case no == np-1:
+		return pUnresolvedOne * broad, "compatible: one small coupling unresolved"
+	case no < np:
+		return pUnresolvedMore * broad, "weakly compatible: several predicted couplings not seen"
+	case no == np+1:
+		return pExtraOne * broad, "contradicts: one more coupling partner observed than predicted"
+	}
+	return pExtraMore * broad, "contradicts: more coupling partners observed than predicted"
+}
