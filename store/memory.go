@@ -171,11 +171,12 @@ func (m *Memory) ListJobs(ctx context.Context, owner string, limit int, cur stri
 	return jobs, "", nil
 }
 
-// ClaimJob hands the oldest available job to workerID for lease: a queued
-// job, or a running job whose lease has expired. The job becomes running,
-// its lease owner workerID, its lease end now+lease, and Attempts grows by
-// one. An expired job whose owner asked for cancellation is finished as
-// cancelled instead of being handed out. ErrNoJob if nothing is available.
+// ClaimJob hands a job to workerID for lease: a running job whose lease has
+// expired (the longest expired first), else the oldest queued job. The job
+// becomes running, its lease owner workerID, its lease end now+lease, and
+// Attempts grows by one. An expired job whose owner asked for cancellation
+// is finished as cancelled instead of being handed out. ErrNoJob if nothing
+// is available.
 func (m *Memory) ClaimJob(ctx context.Context, workerID string, lease time.Duration) (Job, error) {
 	if err := ctx.Err(); err != nil {
 		return Job{}, fmt.Errorf("claim job: %w", err)
@@ -186,22 +187,19 @@ func (m *Memory) ClaimJob(ctx context.Context, workerID string, lease time.Durat
 	m.mu.Lock()
 	defer m.mu.Unlock()
 	t := now()
-	for i := 0; i < len(m.pending); i++ {
-		mj := m.jobs[m.pending[i]]
+	for {
+		mj := m.nextLocked(t)
+		if mj == nil {
+			return Job{}, fmt.Errorf("claim job: %w", ErrNoJob)
+		}
 		j := &mj.job
-		note := ""
-		switch {
-		case j.Status == StatusQueued:
-			note = fmt.Sprintf("claimed (attempt %d)", j.Attempts+1)
-		case j.Status == StatusRunning && j.LeaseUntil.Before(t):
+		note := fmt.Sprintf("claimed (attempt %d)", j.Attempts+1)
+		if j.Status == StatusRunning {
 			if j.CancelRequested {
 				m.finishLocked(mj, t, StatusCancelled, "cancelled after the worker's lease expired", "", nil)
-				i--
 				continue
 			}
 			note = fmt.Sprintf("reclaimed after lease of %s expired (attempt %d)", j.LeaseOwner, j.Attempts+1)
-		default:
-			continue
 		}
 		j.Status = StatusRunning
 		j.LeaseOwner = workerID
@@ -213,7 +211,27 @@ func (m *Memory) ClaimJob(ctx context.Context, workerID string, lease time.Durat
 		mj.record(StatusRunning, t, workerID, note)
 		return copyJob(*j), nil
 	}
-	return Job{}, fmt.Errorf("claim job: %w", ErrNoJob)
+}
+
+// nextLocked picks the job ClaimJob hands out at time t, or nil. Callers
+// hold m.mu.
+func (m *Memory) nextLocked(t time.Time) *memJob {
+	var expired, queued *memJob
+	for _, id := range m.pending { // creation order
+		mj := m.jobs[id]
+		switch j := mj.job; {
+		case j.Status == StatusRunning && j.LeaseUntil.Before(t):
+			if expired == nil || j.LeaseUntil.Before(expired.job.LeaseUntil) {
+				expired = mj
+			}
+		case j.Status == StatusQueued && queued == nil:
+			queued = mj
+		}
+	}
+	if expired != nil {
+		return expired
+	}
+	return queued
 }
 
 // held returns job id if workerID holds its lease, else ErrLeaseLost (or

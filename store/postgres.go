@@ -301,9 +301,10 @@ func (p *Postgres) ListJobs(ctx context.Context, owner string, limit int, cur st
 	return jobs, "", nil
 }
 
-// ClaimJob hands the oldest available job to workerID for lease: a queued
-// job, or a running job whose lease has expired. The job becomes running,
-// its lease owner workerID, its lease end now+lease (database clock), and
+// ClaimJob hands a job to workerID for lease: a running job whose lease has
+// expired (the longest expired first), else the oldest queued job. The job
+// becomes running, its lease owner workerID, its lease end now+lease
+// (database clock), and
 // Attempts grows by one. The row is taken with FOR UPDATE SKIP LOCKED, so
 // concurrent claimers in any number of processes never get the same job. An
 // expired job whose owner asked for cancellation is finished as cancelled
@@ -323,11 +324,18 @@ func (p *Postgres) ClaimJob(ctx context.Context, workerID string, lease time.Dur
 				cancel                bool
 				attempts              int
 			)
+			// Jobs abandoned by a dead worker first, then the oldest queued
+			// job; each query uses its partial index.
 			err := tx.QueryRow(ctx, `SELECT id, status, cancel_requested, lease_owner, attempts FROM jobs
-				WHERE status = 'queued' OR (status = 'running' AND lease_until < clock_timestamp())
-				ORDER BY created_at, id
-				LIMIT 1
+				WHERE status = 'running' AND lease_until < clock_timestamp()
+				ORDER BY lease_until, id LIMIT 1
 				FOR UPDATE SKIP LOCKED`).Scan(&id, &status, &cancel, &prevOwner, &attempts)
+			if errors.Is(err, pgx.ErrNoRows) {
+				err = tx.QueryRow(ctx, `SELECT id, status, cancel_requested, lease_owner, attempts FROM jobs
+					WHERE status = 'queued'
+					ORDER BY created_at, id LIMIT 1
+					FOR UPDATE SKIP LOCKED`).Scan(&id, &status, &cancel, &prevOwner, &attempts)
+			}
 			if errors.Is(err, pgx.ErrNoRows) {
 				return ErrNoJob
 			}

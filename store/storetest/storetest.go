@@ -69,7 +69,9 @@ func Run(t *testing.T, newStore func(t *testing.T) Store) {
 		{"ClaimRenewProgress", testClaimRenewProgress},
 		{"LeaseExpiry", testLeaseExpiry},
 		{"ExpiredUnclaimedLeaseStillHeld", testExpiredUnclaimed},
+		{"ClaimOrder", testClaimOrder},
 		{"ConcurrentClaims", testConcurrentClaims},
+		{"CancelledContext", testCancelledContext},
 		{"Finish", testFinish},
 		{"NoPartialWrites", testNoPartialWrites},
 		{"Release", testRelease},
@@ -426,6 +428,43 @@ func testExpiredUnclaimed(t *testing.T, s Store) {
 	}
 	_, err := s.ClaimJob(ctx, "w2", time.Minute)
 	wantErr(t, "ClaimJob after the holder renewed", err, store.ErrNoJob)
+}
+
+func testClaimOrder(t *testing.T, s Store) {
+	a := mustCreate(t, s, newJob("k1", 1))
+	time.Sleep(2 * time.Millisecond)
+	b := mustCreate(t, s, newJob("k2", 2))
+	time.Sleep(2 * time.Millisecond)
+	c := mustCreate(t, s, newJob("k1", 3))
+	if got := mustClaim(t, s, "w1", 100*time.Millisecond); got.ID != a.ID {
+		t.Fatalf("first claim got %s, want the oldest job %s", got.ID, a.ID)
+	}
+	time.Sleep(300 * time.Millisecond)
+	for i, want := range []string{a.ID, b.ID, c.ID} { // abandoned job first, then queued oldest first
+		if got := mustClaim(t, s, "w2", time.Minute); got.ID != want {
+			t.Errorf("claim %d got %s, want %s", i, got.ID, want)
+		}
+	}
+	_, err := s.ClaimJob(context.Background(), "w2", time.Minute)
+	wantErr(t, "ClaimJob with every job leased", err, store.ErrNoJob)
+}
+
+func testCancelledContext(t *testing.T, s Store) {
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	if _, _, err := s.CreateJob(ctx, newJob("k1", 1)); !errors.Is(err, context.Canceled) {
+		t.Errorf("CreateJob with a cancelled context: %v, want context.Canceled", err)
+	}
+	if _, _, err := s.CreateAPIKey(ctx, "eln-lab-7"); !errors.Is(err, context.Canceled) {
+		t.Errorf("CreateAPIKey with a cancelled context: %v, want context.Canceled", err)
+	}
+	jobs, _, err := s.ListJobs(context.Background(), "k1", 0, "")
+	if err != nil || len(jobs) != 0 {
+		t.Errorf("ListJobs after cancelled creates = %d jobs, %v; want none", len(jobs), err)
+	}
+	if keys, err := s.ListAPIKeys(context.Background()); err != nil || len(keys) != 0 {
+		t.Errorf("ListAPIKeys after a cancelled create = %d, %v; want none", len(keys), err)
+	}
 }
 
 func testConcurrentClaims(t *testing.T, s Store) {
