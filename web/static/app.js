@@ -1,0 +1,1046 @@
+// shiftrank page: the submit form, the job view with its progress, and the
+// review of ranked candidates. Routes on the path: "/" is the form,
+// "/jobs/{id}" a job (history.pushState; a reload of a job URL works).
+
+import { parseFormula, parsePeaks, formatPeaks, checkRow, normalizeMultiplicity } from "./chem.js";
+import { putDrawing, rdkit } from "./draw.js";
+import { drawPlot, fitRange } from "./plot.js";
+
+const $ = (id) => document.getElementById(id);
+const KEY_STORE = "shiftrank.apiKey";
+const REQ_STORE = "shiftrank.request.";
+
+// The demo unknown behind "Load example": an invented sample from an invented
+// project. The peak list is ethyl acetate's in CDCl3 as Gottlieb, Kotlyar and
+// Nudelman list it (J. Org. Chem. 1997, 62, 7512; from memory).
+const EXAMPLE = {
+  formula: "C4H8O2",
+  mhz: "400",
+  solvent: "CDCl3",
+  reference: "Saltmarsh Row / SR-0412, distillate fraction 2",
+  peaks: "1H NMR (400 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H)",
+};
+
+// ---------- API ----------
+
+class APIError extends Error {
+  constructor(status, problem) {
+    super(problem?.detail || problem?.title || `HTTP ${status}`);
+    this.status = status;
+    this.problem = problem || {};
+  }
+}
+
+async function api(method, path, body, { retryAuth = true } = {}) {
+  const headers = { Accept: "application/json, application/problem+json" };
+  const key = sessionStorage.getItem(KEY_STORE);
+  if (key) headers.Authorization = `Bearer ${key}`;
+  if (body !== undefined) headers["Content-Type"] = "application/json";
+  const res = await fetch(path, { method, headers, body: body === undefined ? undefined : JSON.stringify(body) });
+  let data = null;
+  const text = await res.text();
+  if (text) {
+    try { data = JSON.parse(text); } catch (_) { data = { detail: text.slice(0, 300) }; }
+  }
+  if (res.status === 401 && retryAuth) {
+    const ok = await askForKey(key ? "The service did not accept that API key. Check it (no spaces) and try again, or ask for a new one." : null);
+    if (ok) return api(method, path, body, { retryAuth: true });
+    throw new APIError(401, { detail: "An API key is needed to use this service." });
+  }
+  if (!res.ok) throw new APIError(res.status, data);
+  return data;
+}
+
+// askForKey opens the key dialog; resolves true when a key was entered.
+function askForKey(message) {
+  const dlg = $("key-dialog");
+  $("key-message").textContent = message ||
+    "This service asks for an API key. Ask whoever runs it for one, then paste it here.";
+  $("key-input").value = "";
+  $("key-open").hidden = false;
+  return new Promise((resolve) => {
+    dlg.addEventListener("close", () => {
+      const v = $("key-input").value.trim();
+      if (dlg.returnValue === "forget") {
+        sessionStorage.removeItem(KEY_STORE);
+        resolve(false);
+      } else if (dlg.returnValue === "save" && v) {
+        sessionStorage.setItem(KEY_STORE, v);
+        resolve(true);
+      } else resolve(false);
+    }, { once: true });
+    dlg.showModal();
+    $("key-input").focus();
+  });
+}
+
+// ---------- routing ----------
+
+let stopJob = () => {};
+
+function route() {
+  stopJob();
+  const m = /^\/jobs\/([A-Za-z0-9_-]+)$/.exec(location.pathname);
+  $("view-submit").hidden = !!m;
+  $("view-job").hidden = !m;
+  if (m) {
+    document.title = `Job ${m[1]} · shiftrank`;
+    showJob(m[1]);
+  } else {
+    document.title = "shiftrank";
+    loadRecent();
+  }
+}
+
+function go(path) {
+  history.pushState({}, "", path);
+  route();
+  $("main").focus();
+}
+
+document.addEventListener("click", (e) => {
+  const a = e.target.closest("a[data-route]");
+  if (a && !e.ctrlKey && !e.metaKey && !e.shiftKey && e.button === 0) {
+    e.preventDefault();
+    go(a.getAttribute("href"));
+  }
+});
+window.addEventListener("popstate", route);
+
+// ---------- submit form ----------
+
+function updateDBE() {
+  const v = $("formula").value;
+  const out = $("formula-dbe");
+  if (!v.trim()) { out.textContent = ""; out.className = ""; return; }
+  const f = parseFormula(v);
+  if (f.error) {
+    out.textContent = `not read yet: ${f.error}${f.token ? ` (“${f.token}”)` : ""}`;
+    out.className = "dbe pending";
+  } else {
+    out.textContent = `DBE ${f.dbe}`;
+    out.className = "dbe ok";
+    out.title = "double-bond equivalents: rings plus π bonds";
+  }
+}
+
+let rows = [];
+
+function rowFromInputs(tr) {
+  const get = (n) => tr.querySelector(`[data-col="${n}"]`).value;
+  return { shift: get("shift"), mult: get("mult"), j: get("j"), integral: get("integral") };
+}
+
+function renderRows() {
+  const tbody = $("peak-rows");
+  tbody.replaceChildren();
+  rows.forEach((r, i) => {
+    const tr = document.createElement("tr");
+    const cell = (col, label, value, extra = {}) => {
+      const td = document.createElement("td");
+      const lab = document.createElement("label");
+      lab.className = "sr";
+      lab.htmlFor = `peak-${i}-${col}`;
+      lab.textContent = `Peak ${i + 1} ${label}`;
+      const inp = document.createElement("input");
+      inp.id = `peak-${i}-${col}`;
+      inp.dataset.col = col;
+      inp.value = value;
+      inp.autocomplete = "off";
+      inp.spellcheck = false;
+      Object.assign(inp, extra);
+      td.append(lab, inp);
+      tr.append(td);
+      return inp;
+    };
+    cell("shift", "δ (ppm) or range", r.shift, { inputMode: "decimal", size: 9 });
+    const m = cell("mult", "multiplicity", r.mult, { size: 5 });
+    m.setAttribute("list", "mult-codes");
+    cell("j", "J (Hz)", r.j, { size: 9 });
+    cell("integral", "integral", r.integral, { inputMode: "decimal", size: 4 });
+    const td = document.createElement("td");
+    const rm = document.createElement("button");
+    rm.type = "button";
+    rm.className = "quiet remove";
+    rm.textContent = "×";
+    rm.setAttribute("aria-label", `Remove peak ${i + 1}`);
+    rm.addEventListener("click", () => {
+      rows.splice(i, 1);
+      renderRows();
+      syncTextFromRows();
+      const next = $(`peak-${Math.min(i, rows.length - 1)}-shift`) || $("add-peak");
+      next.focus();
+    });
+    td.append(rm);
+    tr.append(td);
+    const msg = checkRow(r);
+    if (msg) tr.dataset.problem = msg;
+    tbody.append(tr);
+  });
+  updateRowNote();
+}
+
+function updateRowNote() {
+  const trs = [...$("peak-rows").children];
+  const problems = [];
+  trs.forEach((tr, i) => {
+    const msg = checkRow(rows[i]);
+    tr.classList.toggle("bad", !!msg);
+    tr.querySelectorAll("input").forEach((inp) => inp.setAttribute("aria-invalid", msg ? "true" : "false"));
+    if (msg) problems.push(`peak ${i + 1}: ${msg}`);
+  });
+  if (problems.length) setNote(problems.join("; "), true);
+}
+
+function setNote(text, bad = false) {
+  const n = $("peaks-note");
+  n.textContent = text;
+  n.classList.toggle("bad", bad);
+}
+
+function syncTextFromRows() {
+  const text = formatPeaks(rows);
+  $("peaks-text").value = text;
+  const count = rows.filter((r) => r.shift.trim()).length;
+  setNote(count ? `${count} peak${count === 1 ? "" : "s"}` : "");
+  updateRowNote();
+  clearFieldError("peaks");
+}
+
+function syncRowsFromText() {
+  const text = $("peaks-text").value;
+  if (!text.trim()) { rows = []; renderRows(); setNote(""); return; }
+  const r = parsePeaks(text);
+  if (r.error) {
+    setNote(`The table waits until the text reads cleanly: ${r.error} at character ${r.pos + 1}${r.token ? ` (“${r.token.slice(0, 30)}”)` : ""}.`, true);
+    return;
+  }
+  rows = r.rows;
+  renderRows();
+  if (r.mhz) $("mhz").value = r.mhz;
+  if (r.solvent) {
+    const sel = $("solvent");
+    const opt = [...sel.options].find((o) => o.value.toLowerCase() === r.solvent.toLowerCase());
+    if (opt) sel.value = opt.value;
+    else { sel.append(new Option(r.solvent, r.solvent)); sel.value = r.solvent; }
+  }
+  const head = r.mhz || r.solvent ? ` (header read: ${[r.mhz && `${r.mhz} MHz`, r.solvent].filter(Boolean).join(", ")})` : "";
+  setNote(`${rows.length} peak${rows.length === 1 ? "" : "s"}${head}`);
+}
+
+function lines(v) {
+  return v.split(/\n/).map((s) => s.trim()).filter(Boolean);
+}
+
+function buildRequest() {
+  const body = {
+    formula: $("formula").value.trim(),
+    peaks: $("peaks-text").value.trim(),
+    mhz: Number($("mhz").value) || undefined,
+    solvent: $("solvent").value,
+    options: {
+      top_k: Number($("top-k").value) || undefined,
+      filter: $("filter").value.trim() || undefined,
+      require: lines($("require").value),
+      forbid: lines($("forbid").value),
+    },
+  };
+  const ref = $("reference").value.trim();
+  if (ref) body.reference = ref;
+  return body;
+}
+
+const FIELD_SLOTS = {
+  formula: "formula", peaks: "peaks", mhz: "mhz", solvent: "solvent", reference: "reference",
+  top_k: "top_k", filter: "filter", require: "require", forbid: "forbid",
+};
+const SLOT_INPUT = { top_k: "top-k", peaks: "peaks-text" };
+
+function slotFor(field) {
+  const base = String(field || "").replace(/^\/+/, "").replace(/^(body|request)[./]/, "")
+    .replace(/^options[./]/, "").split(/[.\[\]/]/)[0];
+  return FIELD_SLOTS[base] || null;
+}
+
+function clearFieldError(slot) {
+  const p = $(`${slot}-error`);
+  if (p) p.textContent = "";
+  const inp = $(SLOT_INPUT[slot] || slot);
+  if (inp) inp.removeAttribute("aria-invalid");
+}
+
+function clearErrors() {
+  Object.values(FIELD_SLOTS).forEach(clearFieldError);
+  $("form-error").textContent = "";
+  document.querySelectorAll("#peak-rows tr.server-bad").forEach((tr) => tr.classList.remove("server-bad"));
+}
+
+// showProblem puts each of the service's validation messages next to the
+// field it names; anything unplaced goes under the form.
+function showProblem(err) {
+  const prob = err.problem || {};
+  const list = Array.isArray(prob.errors) ? prob.errors : [];
+  const loose = [];
+  let first = null;
+  for (const e of list) {
+    const slot = slotFor(e.field || e.pointer || e.name);
+    const msg = e.message || e.detail || e.msg || "not valid";
+    let text = msg;
+    if (e.token !== undefined && e.token !== "" && !msg.includes(e.token)) text += ` (“${e.token}”)`;
+    if (typeof e.pos === "number" && e.pos >= 0) text += ` at character ${e.pos + 1}`;
+    if (!slot) { loose.push(e.field ? `${e.field}: ${text}` : text); continue; }
+    const p = $(`${slot}-error`);
+    p.textContent = p.textContent ? `${p.textContent} ${text}` : text;
+    const inp = $(SLOT_INPUT[slot] || slot);
+    if (inp) { inp.setAttribute("aria-invalid", "true"); first = first || inp; }
+    if (slot === "require" || slot === "forbid" || slot === "top_k" || slot === "filter") $("submit-form").querySelector("details.options").open = true;
+    if (slot === "peaks" && typeof e.pos === "number") markRowAt(e.pos);
+  }
+  if (!list.length) loose.push(prob.detail || prob.title || err.message);
+  else if (loose.length === 0 && prob.detail && !first) loose.push(prob.detail);
+  $("form-error").textContent = loose.join(" ");
+  (first || $("form-error")).focus?.();
+}
+
+// markRowAt outlines the table row whose text holds byte offset pos.
+function markRowAt(pos) {
+  const text = $("peaks-text").value.trim();
+  const r = parsePeaks(text);
+  if (r.error) return;
+  let at = 0;
+  const formatted = formatPeaks(r.rows);
+  if (formatted !== text) return; // offsets only map when the text is the table's own
+  r.rows.forEach((row, i) => {
+    const piece = formatPeaks([row]);
+    if (pos >= at && pos < at + piece.length) $("peak-rows").children[i]?.classList.add("server-bad");
+    at += piece.length + 2;
+  });
+}
+
+async function submit(e) {
+  e.preventDefault();
+  clearErrors();
+  const body = buildRequest();
+  const f = parseFormula(body.formula);
+  if (!body.formula) { showProblem({ problem: { errors: [{ field: "formula", message: "Enter the molecular formula." }] } }); return; }
+  if (!body.peaks) { showProblem({ problem: { errors: [{ field: "peaks", message: "Enter at least one peak." }] } }); return; }
+  void f; // the service's check is the one that counts; the live DBE line already hints
+  const btn = $("submit");
+  btn.disabled = true;
+  btn.textContent = "Sending…";
+  try {
+    const job = await api("POST", "/v1/jobs", body);
+    sessionStorage.setItem(REQ_STORE + job.id, JSON.stringify(body));
+    go(`/jobs/${job.id}`);
+  } catch (err) {
+    if (err instanceof APIError) showProblem(err);
+    else $("form-error").textContent = `The service could not be reached: ${err.message}`;
+  } finally {
+    btn.disabled = false;
+    btn.textContent = "Rank candidates";
+  }
+}
+
+function loadExample() {
+  clearErrors();
+  $("formula").value = EXAMPLE.formula;
+  $("mhz").value = EXAMPLE.mhz;
+  $("solvent").value = EXAMPLE.solvent;
+  $("reference").value = EXAMPLE.reference;
+  $("peaks-text").value = EXAMPLE.peaks;
+  $("top-k").value = "10";
+  $("filter").value = "plausible";
+  $("require").value = "";
+  $("forbid").value = "";
+  updateDBE();
+  syncRowsFromText();
+  $("formula").focus();
+}
+
+function clearForm() {
+  $("submit-form").reset();
+  rows = [{ shift: "", mult: "", j: "", integral: "" }];
+  renderRows();
+  setNote("");
+  updateDBE();
+  clearErrors();
+}
+
+async function loadRecent() {
+  try {
+    const res = await api("GET", "/v1/jobs?limit=8", undefined, { retryAuth: false });
+    const jobs = res?.jobs || res?.items || (Array.isArray(res) ? res : []);
+    const ul = $("recent-list");
+    ul.replaceChildren();
+    for (const j of jobs) {
+      const li = document.createElement("li");
+      const a = document.createElement("a");
+      a.href = `/jobs/${j.id}`;
+      a.dataset.route = "";
+      a.textContent = `${j.reference || j.id}`;
+      li.append(a, document.createTextNode(` — ${j.status}${j.created_at ? `, ${new Date(j.created_at).toLocaleString()}` : ""}`));
+      ul.append(li);
+    }
+    $("recent").hidden = jobs.length === 0;
+  } catch (_) {
+    $("recent").hidden = true;
+  }
+}
+
+// ---------- job view ----------
+
+const fmt = new Intl.NumberFormat("en");
+
+function elapsedText(job) {
+  const start = Date.parse(job.started_at || job.created_at || "");
+  if (!start) return "—";
+  const end = job.finished_at ? Date.parse(job.finished_at) : Date.now();
+  const s = Math.max(0, (end - start) / 1000);
+  if (s < 60) return `${s.toFixed(1)} s`;
+  const m = Math.floor(s / 60);
+  return `${m} min ${Math.round(s - 60 * m)} s`;
+}
+
+const STATUS_WORDS = {
+  queued: "queued — waiting for a worker",
+  running: "running",
+  succeeded: "done",
+  failed: "failed",
+  cancelled: "cancelled",
+};
+
+function showJobState(job) {
+  const st = job.status;
+  const badge = $("job-status");
+  badge.textContent = STATUS_WORDS[st] || st;
+  badge.dataset.status = st;
+  $("job-reference").textContent = job.reference || "—";
+  const p = job.progress || {};
+  const gen = p.generated || 0, scored = p.scored || 0, total = p.total_estimate || 0;
+  const done = st === "succeeded";
+  let pct = done ? 100 : total > 0 ? Math.min(99, (100 * scored) / total) : 0;
+  const bar = $("job-progress");
+  bar.classList.toggle("indeterminate", !done && total <= 0 && (st === "running" || st === "queued"));
+  bar.setAttribute("aria-valuenow", pct.toFixed(0));
+  bar.setAttribute("aria-valuetext", `${pct.toFixed(0)} %, ${fmt.format(scored)} scored`);
+  $("job-bar").style.width = `${pct}%`;
+  bar.dataset.status = st;
+  $("job-counts").innerHTML = "";
+  const parts = [
+    ["generated", fmt.format(gen)],
+    ["scored", fmt.format(scored)],
+    ["estimated total", total > 0 ? `${done ? "" : "≈ "}${fmt.format(total)}` : "not known yet"],
+  ];
+  for (const [k, v] of parts) {
+    const span = document.createElement("span");
+    span.className = "count";
+    span.dataset.count = k;
+    span.innerHTML = `<span class="k"></span> <strong></strong>`;
+    span.querySelector(".k").textContent = k;
+    span.querySelector("strong").textContent = v;
+    $("job-counts").append(span);
+  }
+  $("job-elapsed").textContent = elapsedText(job);
+  const active = st === "queued" || st === "running";
+  $("cancel-job").hidden = !active;
+  $("job-error").textContent = job.error ? `The job stopped: ${job.error}` : "";
+}
+
+function showJob(id) {
+  $("job-id").textContent = id;
+  $("results").hidden = true;
+  $("job-error").textContent = "";
+  $("job-status").textContent = "loading…";
+  $("job-counts").textContent = "";
+  $("job-bar").style.width = "0%";
+  let stopped = false, timer = 0, ticker = 0, current = null, cancelling = false;
+  stopJob = () => { stopped = true; clearTimeout(timer); clearInterval(ticker); };
+  ticker = setInterval(() => { if (current) $("job-elapsed").textContent = elapsedText(current); }, 250);
+  const cancelBtn = $("cancel-job");
+  cancelBtn.disabled = false;
+  cancelBtn.textContent = "Cancel job";
+  cancelBtn.onclick = async () => {
+    cancelling = true;
+    cancelBtn.disabled = true;
+    cancelBtn.textContent = "Cancelling…";
+    try {
+      const job = await api("POST", `/v1/jobs/${id}/cancel`);
+      if (job && job.status) { current = job; showJobState(job); }
+    } catch (err) {
+      $("job-error").textContent = `Could not cancel: ${err.message}`;
+      cancelBtn.disabled = false;
+      cancelBtn.textContent = "Cancel job";
+    }
+  };
+  const poll = async () => {
+    if (stopped) return;
+    try {
+      const job = await api("GET", `/v1/jobs/${id}`);
+      if (stopped) return;
+      current = job;
+      showJobState(job);
+      if (job.status === "queued" || job.status === "running") {
+        timer = setTimeout(poll, cancelling ? 300 : 600);
+        return;
+      }
+      clearInterval(ticker);
+      if (job.status === "succeeded") await showResults(id, job);
+    } catch (err) {
+      if (stopped) return;
+      if (err.status === 404) {
+        $("job-status").textContent = "not found";
+        $("job-error").textContent = "There is no job with this id that your key can see.";
+        $("cancel-job").hidden = true;
+        clearInterval(ticker);
+        return;
+      }
+      if (err.status === 401) { $("job-error").textContent = err.message; clearInterval(ticker); return; }
+      $("job-error").textContent = `Lost contact with the service (${err.message}); trying again…`;
+      timer = setTimeout(poll, 2000);
+    }
+  };
+  poll();
+}
+
+// ---------- results ----------
+
+// Normalised views of the service's candidate JSON: tolerant of optional
+// fields so an older or newer service still shows what it sends.
+
+function num(v) { return typeof v === "number" && isFinite(v) ? v : undefined; }
+
+function normPeak(p, i) {
+  if (p === null || p === undefined) return null;
+  if (typeof p === "number") return { index: p };
+  const range = Array.isArray(p.range) ? p.range : null;
+  const hi = num(p.shift_hi) ?? num(p.hi) ?? (range ? Math.max(...range) : undefined);
+  const lo = num(p.shift_lo) ?? num(p.lo) ?? (range ? Math.min(...range) : undefined);
+  const shift = num(p.shift) ?? (hi !== undefined && lo !== undefined ? (hi + lo) / 2 : undefined);
+  return {
+    index: num(p.index) ?? num(p.peak) ?? i,
+    shift, hi, lo,
+    multiplicity: p.multiplicity || p.mult || "",
+    j: Array.isArray(p.j) ? p.j : [],
+    integral: num(p.integral),
+    h: num(p.implied_h) ?? num(p.observed_h) ?? num(p.h),
+    text: p.text || "",
+    solvent: p.solvent || p.flag || "",
+  };
+}
+
+function normEnv(e) {
+  if (!e) return null;
+  const reasons = Array.isArray(e.reasons) ? e.reasons : e.reason ? [e.reason] : [];
+  return {
+    id: num(e.id) ?? num(e.env) ?? num(e.environment),
+    atoms: Array.isArray(e.atoms) ? e.atoms : [],
+    h: num(e.h) ?? num(e.hydrogens) ?? 0,
+    kind: e.kind || "",
+    shift: num(e.shift) ?? num(e.predicted_shift),
+    sigma: num(e.sigma),
+    multiplicity: e.multiplicity || "",
+    j: Array.isArray(e.j) ? e.j : [],
+    couplings: Array.isArray(e.couplings) ? e.couplings.map((c) => ({ n: num(c.n) ?? num(c.N) ?? 0, j: num(c.j) ?? num(c.J) ?? 0, label: c.label || "" })) : null,
+    exchangeable: !!e.exchangeable,
+    breakdown: Array.isArray(e.breakdown) ? e.breakdown : [],
+    reasons,
+  };
+}
+
+function normAssignment(a, i, observedList) {
+  let peak = null;
+  if (a.peak && typeof a.peak === "object") peak = normPeak(a.peak, i);
+  else if (a.observed && typeof a.observed === "object") peak = normPeak(a.observed, i);
+  const idx = num(a.peak_index) ?? (typeof a.peak === "number" ? a.peak : undefined) ?? peak?.index ?? i;
+  if (!peak || peak.shift === undefined) {
+    const from = observedList[idx];
+    peak = { ...(from || {}), ...(peak || {}), index: idx };
+    if (peak.shift === undefined) peak.shift = num(a.observed_shift);
+  }
+  peak.index = idx;
+  if (peak.h === undefined) peak.h = num(a.observed_h) ?? num(a.implied_h);
+  if (!peak.multiplicity && a.observed_multiplicity) peak.multiplicity = a.observed_multiplicity;
+  const envs = (Array.isArray(a.environments) ? a.environments : a.environment ? [a.environment] : Array.isArray(a.envs) ? a.envs : [])
+    .map(normEnv).filter(Boolean);
+  const expH = num(a.expected_h) ?? envs.reduce((s, e) => s + e.h, 0);
+  let pred = num(a.predicted_shift);
+  if (pred === undefined && envs.length) {
+    const tot = envs.reduce((s, e) => s + (e.h || 1), 0);
+    pred = envs.reduce((s, e) => s + (e.shift ?? 0) * (e.h || 1), 0) / tot;
+  }
+  const reasons = [
+    ...(a.multiplicity_reason ? [a.multiplicity_reason] : []),
+    ...(Array.isArray(a.reasons) ? a.reasons : a.reason ? [a.reason] : []),
+  ];
+  return {
+    peak, envs, expH, pred,
+    predMult: a.predicted_multiplicity || envs.map((e) => e.multiplicity).filter(Boolean).join(" + "),
+    multMatch: a.multiplicity_match || a.multiplicity_verdict || "",
+    reasons,
+    share: num(a.share) ?? num(a.score_share) ?? num(a.fraction),
+    score: num(a.score) ?? num(a.log_likelihood) ?? num(a.contribution),
+    delta: num(a.delta) ?? num(a.residual) ?? (pred !== undefined && peak.shift !== undefined ? peak.shift - pred : undefined),
+  };
+}
+
+function normCandidate(c, observedList) {
+  const assignments = (c.assignments || []).map((a, i) => normAssignment(a, i, observedList));
+  const unexplained = (c.unexplained_peaks || []).map((p, i) => {
+    const n = normPeak(p, i);
+    if (typeof p === "number") return { ...(observedList[p] || {}), index: p };
+    return n;
+  });
+  const unobserved = (c.unobserved_environments || []).map(normEnv).filter(Boolean);
+  return {
+    raw: c,
+    rank: c.rank,
+    smiles: c.smiles,
+    score: num(c.score),
+    probability: num(c.probability) ?? 0,
+    assignments, unexplained, unobserved,
+  };
+}
+
+let review = null; // {job, data, candidates, observed, mhz, selected, compare, peakSel, zoom}
+
+function observedFromRequest(id, job) {
+  let req = job.request;
+  if (!req) {
+    try { req = JSON.parse(sessionStorage.getItem(REQ_STORE + id) || "null"); } catch (_) { req = null; }
+  }
+  const out = { mhz: Number(req?.mhz) || 400, peaks: [] };
+  if (!req) return out;
+  if (typeof req.peaks === "string") {
+    const r = parsePeaks(req.peaks);
+    if (!r.error) {
+      if (r.mhz && !req.mhz) out.mhz = Number(r.mhz);
+      out.peaks = r.rows.map((row, i) => {
+        const m = /^(-?[\d.]+)(?:\s*[–-]\s*(-?[\d.]+))?$/.exec(row.shift.trim());
+        const a = parseFloat(m?.[1]), b = m?.[2] !== undefined ? parseFloat(m[2]) : a;
+        return { index: i, shift: (a + b) / 2, hi: Math.max(a, b), lo: Math.min(a, b),
+          multiplicity: normalizeMultiplicity(row.mult) || row.mult,
+          j: row.j.split(/[,\s]+/).filter(Boolean).map(Number), integral: row.integral ? Number(row.integral) : undefined };
+      });
+    }
+  } else if (Array.isArray(req.peaks)) {
+    out.peaks = req.peaks.map((p, i) => normPeak(p, i));
+  }
+  return out;
+}
+
+async function showResults(id, job) {
+  const topK = Number(job.request?.options?.top_k) || 100;
+  let data;
+  try {
+    data = await api("GET", `/v1/jobs/${id}/candidates?limit=${Math.max(topK, 10)}`);
+  } catch (err) {
+    $("job-error").textContent = `Could not load the candidates: ${err.message}`;
+    return;
+  }
+  const obs = observedFromRequest(id, job);
+  const fromData = Array.isArray(data.peaks) ? data.peaks.map(normPeak) : null;
+  const observed = fromData && fromData.length ? fromData : obs.peaks;
+  const candidates = (data.candidates || []).map((c) => normCandidate(c, observed));
+  // Observed peaks: take them from the first candidate's assignments when
+  // the request is not at hand.
+  let observedAll = observed;
+  if (!observedAll.length && candidates.length) {
+    const seen = new Map();
+    for (const a of candidates[0].assignments) seen.set(a.peak.index, a.peak);
+    for (const p of candidates[0].unexplained) seen.set(p.index, p);
+    observedAll = [...seen.values()].sort((a, b) => a.index - b.index);
+  }
+  review = { job, id, data, candidates, observed: observedAll, mhz: Number(data.mhz) || obs.mhz,
+    selected: 0, compare: -1, peakSel: -1, zoom: null };
+  $("results").hidden = false;
+  const total = num(data.isomers_total);
+  const scored = num(data.scored) ?? job.progress?.scored;
+  const complete = data.complete;
+  const bits = [];
+  if (total !== undefined) bits.push(`${fmt.format(total)} isomer${total === 1 ? "" : "s"} of the formula${complete === false ? " (estimated)" : ""}`);
+  if (scored !== undefined) bits.push(`${fmt.format(scored)} scored`);
+  bits.push(`${candidates.length} kept`);
+  $("results-summary").textContent = bits.join(" · ") + ".";
+  const warn = $("results-warnings");
+  warn.replaceChildren();
+  for (const w of data.warnings || []) {
+    const li = document.createElement("li");
+    li.textContent = w;
+    warn.append(li);
+  }
+  const sel = $("compare");
+  sel.replaceChildren(new Option("none", ""));
+  candidates.forEach((c, i) => sel.append(new Option(`#${c.rank ?? i + 1} ${c.smiles}`, String(i))));
+  renderCandidateList();
+  if (candidates.length) selectCandidate(0, false);
+  else {
+    $("detail").hidden = true;
+    $("results-summary").textContent += " No candidate fits the formula and the constraints.";
+  }
+}
+
+function pctText(p) {
+  const v = 100 * p;
+  if (v >= 99.95) return "> 99.9 %";
+  if (v > 0 && v < 0.1) return "< 0.1 %";
+  return `${v.toFixed(1)} %`;
+}
+
+function copyText(text, btn) {
+  const done = () => {
+    const old = btn.textContent;
+    btn.textContent = "Copied";
+    setTimeout(() => { btn.textContent = old; }, 1200);
+  };
+  if (navigator.clipboard?.writeText) {
+    navigator.clipboard.writeText(text).then(done, () => fallbackCopy(text, done));
+  } else fallbackCopy(text, done);
+}
+
+function fallbackCopy(text, done) {
+  const ta = document.createElement("textarea");
+  ta.value = text;
+  ta.setAttribute("readonly", "");
+  ta.style.position = "fixed";
+  ta.style.opacity = "0";
+  document.body.append(ta);
+  ta.select();
+  try { document.execCommand("copy"); done(); } catch (_) { /* nothing more to try */ }
+  ta.remove();
+}
+
+function renderCandidateList() {
+  const ol = $("candidate-list");
+  ol.replaceChildren();
+  review.candidates.forEach((c, i) => {
+    const li = document.createElement("li");
+    li.className = "candidate";
+    li.dataset.index = String(i);
+    li.innerHTML = `
+      <button type="button" class="pick" aria-pressed="false">
+        <span class="rank"></span>
+        <span class="structure"></span>
+      </button>
+      <div class="cand-body">
+        <p class="smiles"><code></code> <button type="button" class="quiet copy">Copy</button></p>
+        <div class="prob"><div class="prob-bar" aria-hidden="true"><div></div></div><span class="prob-num"></span></div>
+        <p class="score"></p>
+      </div>`;
+    li.querySelector(".rank").textContent = `#${c.rank ?? i + 1}`;
+    li.querySelector("code").textContent = c.smiles;
+    li.querySelector(".pick").setAttribute("aria-label", `Show the explanation of candidate ${c.rank ?? i + 1}, ${c.smiles}`);
+    li.querySelector(".prob-bar div").style.width = `${Math.max(0.5, 100 * c.probability)}%`;
+    li.querySelector(".prob-num").textContent = pctText(c.probability);
+    li.querySelector(".prob-num").title = `probability ${c.probability}`;
+    li.querySelector(".score").textContent = c.score !== undefined ? `score (log-likelihood) ${c.score.toFixed(2)}` : "";
+    li.querySelector(".pick").addEventListener("click", () => selectCandidate(i, true));
+    const copy = li.querySelector(".copy");
+    copy.setAttribute("aria-label", `Copy SMILES of candidate ${c.rank ?? i + 1}`);
+    copy.addEventListener("click", () => copyText(c.smiles, copy));
+    ol.append(li);
+    putDrawing(li.querySelector(".structure"), c.smiles, { width: 200, height: 150 });
+  });
+}
+
+function selectCandidate(i, focusDetail) {
+  review.selected = i;
+  review.peakSel = -1;
+  if (review.compare === i) { review.compare = -1; $("compare").value = ""; }
+  document.querySelectorAll("#candidate-list .candidate").forEach((li, k) => {
+    li.classList.toggle("selected", k === i);
+    li.querySelector(".pick").setAttribute("aria-pressed", k === i ? "true" : "false");
+  });
+  const c = review.candidates[i];
+  $("detail").hidden = false;
+  $("detail-title").textContent = `Candidate #${c.rank ?? i + 1}`;
+  $("detail-smiles").textContent = c.smiles;
+  $("detail-numbers").textContent = `probability ${pctText(c.probability)}` +
+    (c.score !== undefined ? ` · score ${c.score.toFixed(2)}` : "");
+  review.zoom = null;
+  renderDetailDrawing();
+  renderExplain();
+  renderPlot();
+  if (focusDetail) $("detail-title").scrollIntoView({ block: "nearest" });
+}
+
+function renderDetailDrawing() {
+  const c = review.candidates[review.selected];
+  let atoms = [];
+  if (review.peakSel >= 0) {
+    const a = c.assignments[review.peakSel];
+    atoms = a ? a.envs.flatMap((e) => e.atoms) : [];
+  }
+  putDrawing($("detail-structure"), c.smiles, { width: 360, height: 270, atoms });
+  $("detail-highlight-note").textContent = review.peakSel >= 0
+    ? `Marked: the atoms carrying the H of the peak at δ ${fmtShift(c.assignments[review.peakSel].peak)}.`
+    : "Select a row of the table to mark its atoms in the drawing.";
+}
+
+function fmtShift(p) {
+  if (!p) return "—";
+  if (p.hi !== undefined && p.lo !== undefined && Math.abs(p.hi - p.lo) > 1e-6) return `${p.hi.toFixed(2)}–${p.lo.toFixed(2)}`;
+  return p.shift !== undefined ? p.shift.toFixed(2) : "—";
+}
+
+function fmtNum(v, d = 2) { return v === undefined ? "—" : v.toFixed(d); }
+
+function multText(m, j) {
+  if (!m) return "—";
+  return j && j.length ? `${m}, J = ${j.map((x) => x.toFixed(1)).join(", ")} Hz` : m;
+}
+
+const COLUMN_LABELS = {
+  "obs-shift": "Observed δ", env: "Assigned to", "pred-shift": "Predicted δ", delta: "Δδ",
+  mult: "Multiplicity (obs. / pred.)", hcount: "H (obs. / exp.)", share: "Share of score",
+};
+
+function renderExplain() {
+  const c = review.candidates[review.selected];
+  const tbody = $("explain-rows");
+  tbody.replaceChildren();
+  c.assignments.forEach((a, i) => {
+    const tr = document.createElement("tr");
+    tr.className = "assign";
+    tr.tabIndex = 0;
+    tr.dataset.index = String(i);
+    tr.setAttribute("aria-selected", i === review.peakSel ? "true" : "false");
+    const td = (cls, text) => {
+      const cell = document.createElement("td");
+      cell.className = cls;
+      cell.dataset.label = COLUMN_LABELS[cls] || "";
+      if (text !== undefined) cell.textContent = text;
+      tr.append(cell);
+      return cell;
+    };
+    td("obs-shift", fmtShift(a.peak));
+    const envText = a.envs.length
+      ? a.envs.map((e) => `${e.kind || "environment"}${e.atoms.length ? ` (atom${e.atoms.length > 1 ? "s" : ""} ${e.atoms.join(", ")})` : ""}`).join("; ")
+      : "—";
+    td("env", envText);
+    const predCell = td("pred-shift");
+    const predSpan = document.createElement("span");
+    predSpan.textContent = fmtNum(a.pred);
+    predCell.append(predSpan);
+    const sig = a.envs.map((e) => e.sigma).filter((s) => s !== undefined);
+    if (sig.length) predSpan.textContent += ` ± ${Math.max(...sig).toFixed(2)}`;
+    const terms = a.envs.flatMap((e) => e.breakdown.map((t) => ({ ...t, env: e })));
+    if (terms.length) {
+      const b = document.createElement("button");
+      b.type = "button";
+      b.className = "quiet increments";
+      b.textContent = "increments";
+      b.setAttribute("aria-expanded", "false");
+      b.addEventListener("click", (ev) => {
+        ev.stopPropagation();
+        const open = b.getAttribute("aria-expanded") === "true";
+        b.setAttribute("aria-expanded", open ? "false" : "true");
+        const next = tr.nextElementSibling;
+        if (next && next.classList.contains("breakdown")) next.hidden = open;
+      });
+      predCell.append(" ", b);
+    }
+    td("delta", a.delta !== undefined ? `${a.delta >= 0 ? "+" : "−"}${Math.abs(a.delta).toFixed(2)}` : "—");
+    const mc = td("mult");
+    const obsM = document.createElement("span");
+    obsM.textContent = `${multText(a.peak.multiplicity, a.peak.j)} / ${a.predMult || "—"}`;
+    mc.append(obsM);
+    const why = [...a.reasons, ...a.envs.flatMap((e) => e.reasons)];
+    if (a.multMatch) why.unshift(a.multMatch);
+    if (why.length) {
+      const small = document.createElement("span");
+      small.className = "why";
+      small.textContent = why.join("; ");
+      mc.append(small);
+    }
+    td("hcount", `${a.peak.h !== undefined ? fmtNum(a.peak.h, 1) : "—"} / ${a.expH}`);
+    const share = td("share");
+    if (a.share !== undefined) {
+      share.innerHTML = `<span class="share-bar" aria-hidden="true"><span></span></span> <span class="share-num"></span>`;
+      share.querySelector(".share-bar span").style.width = `${Math.min(100, Math.max(0, 100 * a.share))}%`;
+      share.querySelector(".share-num").textContent = `${(100 * a.share).toFixed(0)} %`;
+      if (a.score !== undefined) share.title = `log-likelihood term ${a.score.toFixed(3)}`;
+    } else share.textContent = a.score !== undefined ? a.score.toFixed(2) : "—";
+    const pick = () => {
+      review.peakSel = review.peakSel === i ? -1 : i;
+      tbody.querySelectorAll("tr.assign").forEach((r) => r.setAttribute("aria-selected", r.dataset.index === String(review.peakSel) ? "true" : "false"));
+      renderDetailDrawing();
+      renderPlot();
+    };
+    tr.addEventListener("click", pick);
+    tr.addEventListener("keydown", (ev) => {
+      if (ev.key === "Enter" || ev.key === " ") { ev.preventDefault(); pick(); }
+      if (ev.key === "ArrowDown") { ev.preventDefault(); focusRow(i + 1); }
+      if (ev.key === "ArrowUp") { ev.preventDefault(); focusRow(i - 1); }
+    });
+    tbody.append(tr);
+    if (terms.length) {
+      const br = document.createElement("tr");
+      br.className = "breakdown";
+      br.hidden = true;
+      const cell = document.createElement("td");
+      cell.colSpan = 7;
+      const list = document.createElement("ul");
+      for (const t of terms) {
+        const li = document.createElement("li");
+        const v = Number(t.ppm);
+        li.textContent = `${a.envs.length > 1 ? `${t.env.kind}: ` : ""}${t.term} ${v >= 0 ? "+" : "−"}${Math.abs(v).toFixed(2)} ppm`;
+        list.append(li);
+      }
+      cell.append(list);
+      br.append(cell);
+      tbody.append(br);
+    }
+  });
+  const ux = $("unexplained");
+  ux.replaceChildren();
+  for (const p of c.unexplained) {
+    const li = document.createElement("li");
+    li.textContent = `δ ${fmtShift(p)}${p.multiplicity ? ` (${p.multiplicity}${p.integral !== undefined ? `, ${p.integral}H` : ""})` : ""}${p.solvent ? ` — ${p.solvent}` : ""}`;
+    ux.append(li);
+  }
+  if (!c.unexplained.length) ux.append(Object.assign(document.createElement("li"), { className: "none", textContent: "none" }));
+  const uo = $("unobserved");
+  uo.replaceChildren();
+  for (const e of c.unobserved) {
+    const li = document.createElement("li");
+    li.textContent = `${e.kind || "environment"}, ${e.h}H, predicted δ ${fmtNum(e.shift)}${e.exchangeable ? " (exchangeable: often missing or broad)" : ""}`;
+    uo.append(li);
+  }
+  if (!c.unobserved.length) uo.append(Object.assign(document.createElement("li"), { className: "none", textContent: "none" }));
+}
+
+function focusRow(i) {
+  const r = $("explain-rows").querySelector(`tr.assign[data-index="${i}"]`);
+  if (r) r.focus();
+}
+
+function predictedEnvs(c) {
+  const byId = new Map();
+  let next = 10000;
+  for (const a of c.assignments) for (const e of a.envs) {
+    const id = e.id ?? next++;
+    if (!byId.has(id)) byId.set(id, { ...e, id });
+  }
+  for (const e of c.unobserved) {
+    const id = e.id ?? next++;
+    if (!byId.has(id)) byId.set(id, { ...e, id });
+  }
+  return byId;
+}
+
+function renderPlot() {
+  const c = review.candidates[review.selected];
+  const envs = predictedEnvs(c);
+  // Give envs without ids the ids we made, so the links find them.
+  const links = [];
+  let next = 10000;
+  for (const a of c.assignments) for (const e of a.envs) {
+    const id = e.id ?? next++;
+    links.push({ peak: a.peak.index, env: id });
+  }
+  const observed = review.observed.map((p) => ({ ...p }));
+  for (const a of c.assignments) {
+    const o = observed.find((p) => p.index === a.peak.index);
+    if (o && o.h === undefined) o.h = a.peak.h;
+    if (!o) observed.push({ ...a.peak });
+  }
+  const unexplainedIdx = new Set(c.unexplained.map((p) => p.index));
+  const byIndex = [];
+  for (const p of observed) {
+    byIndex[p.index] = { ...p, h: p.h ?? p.integral ?? 1, unexplained: unexplainedIdx.has(p.index),
+      label: p.multiplicity || "" };
+  }
+  const obsList = byIndex.map((p, i) => p || { shift: NaN, index: i });
+  const overlay = review.compare >= 0 ? [...predictedEnvs(review.candidates[review.compare]).values()] : null;
+  const shifts = [...obsList.flatMap((p) => [p.shift, p.hi, p.lo]), ...[...envs.values()].map((e) => e.shift),
+    ...(overlay || []).map((e) => e.shift)];
+  const range = review.zoom || fitRange(shifts);
+  $("zoom-hi").value = String(range.hi);
+  $("zoom-lo").value = String(range.lo);
+  const selPeak = review.peakSel >= 0 ? c.assignments[review.peakSel]?.peak.index : -1;
+  drawPlot($("plot"), {
+    observed: obsList, predicted: [...envs.values()], overlay, links, mhz: review.mhz,
+    hi: range.hi, lo: range.lo, selectedPeak: selPeak,
+    names: { predicted: `#${c.rank ?? review.selected + 1}`,
+      overlay: review.compare >= 0 ? `#${review.candidates[review.compare].rank ?? review.compare + 1}` : "" },
+  });
+}
+
+function setZoom() {
+  const hi = parseFloat($("zoom-hi").value), lo = parseFloat($("zoom-lo").value);
+  if (isFinite(hi) && isFinite(lo) && Math.abs(hi - lo) >= 0.02) {
+    review.zoom = { hi: Math.max(hi, lo), lo: Math.min(hi, lo) };
+    renderPlot();
+  }
+}
+
+function download(name, type, text) {
+  const url = URL.createObjectURL(new Blob([text], { type }));
+  const a = document.createElement("a");
+  a.href = url;
+  a.download = name;
+  document.body.append(a);
+  a.click();
+  a.remove();
+  setTimeout(() => URL.revokeObjectURL(url), 1000);
+}
+
+function csvField(v) {
+  const s = v === undefined || v === null ? "" : String(v);
+  return /[",\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+}
+
+function rankingCSV() {
+  const head = ["rank", "smiles", "probability", "score", "assigned_peaks", "unexplained_peaks", "unobserved_environments"];
+  const out = [head.join(",")];
+  review.candidates.forEach((c, i) => {
+    out.push([c.rank ?? i + 1, c.smiles, c.probability, c.score, c.assignments.length, c.unexplained.length, c.unobserved.length]
+      .map(csvField).join(","));
+  });
+  return out.join("\r\n") + "\r\n";
+}
+
+// ---------- start ----------
+
+function init() {
+  $("formula").addEventListener("input", () => { updateDBE(); clearFieldError("formula"); });
+  $("peaks-text").addEventListener("input", () => { syncRowsFromText(); clearFieldError("peaks"); });
+  $("peak-rows").addEventListener("input", (e) => {
+    const tr = e.target.closest("tr");
+    const i = [...$("peak-rows").children].indexOf(tr);
+    if (i < 0) return;
+    rows[i] = rowFromInputs(tr);
+    syncTextFromRows();
+  });
+  $("add-peak").addEventListener("click", () => {
+    rows.push({ shift: "", mult: "", j: "", integral: "" });
+    renderRows();
+    $(`peak-${rows.length - 1}-shift`).focus();
+  });
+  $("submit-form").addEventListener("submit", submit);
+  $("load-example").addEventListener("click", loadExample);
+  $("clear-form").addEventListener("click", clearForm);
+  ["mhz", "solvent", "reference", "top-k", "filter", "require", "forbid"].forEach((id) =>
+    $(id).addEventListener("input", () => clearFieldError(id === "top-k" ? "top_k" : id)));
+  $("key-open").addEventListener("click", () => askForKey("Enter a different API key, or forget the one this tab holds."));
+  if (sessionStorage.getItem(KEY_STORE)) $("key-open").hidden = false;
+  $("detail-copy").addEventListener("click", () => copyText($("detail-smiles").textContent, $("detail-copy")));
+  $("compare").addEventListener("change", () => {
+    const v = $("compare").value;
+    review.compare = v === "" ? -1 : Number(v);
+    renderPlot();
+  });
+  $("zoom-hi").addEventListener("change", setZoom);
+  $("zoom-lo").addEventListener("change", setZoom);
+  $("zoom-fit").addEventListener("click", () => { review.zoom = null; renderPlot(); });
+  $("dl-csv").addEventListener("click", () => download(`shiftrank-${review.id}.csv`, "text/csv", rankingCSV()));
+  $("dl-json").addEventListener("click", () => download(`shiftrank-${review.id}.json`, "application/json",
+    JSON.stringify(review.data, null, 2) + "\n"));
+  rows = [{ shift: "", mult: "", j: "", integral: "" }];
+  renderRows();
+  setNote("");
+  route();
+  rdkit(); // start loading the drawing library early
+}
+
+init();

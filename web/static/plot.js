@@ -1,0 +1,174 @@
+// The spectrum plot: observed peaks above the axis, the selected candidate's
+// predicted spectrum mirrored below, lines joining each peak to the
+// environments it is assigned to. δ runs from high (left) to low (right), as
+// the trade draws it. Drawn as plain SVG.
+
+const NS = "http://www.w3.org/2000/svg";
+
+function el(name, attrs = {}, text) {
+  const e = document.createElementNS(NS, name);
+  for (const [k, v] of Object.entries(attrs)) e.setAttribute(k, v);
+  if (text !== undefined) e.textContent = text;
+  return e;
+}
+
+// Split counts of the first-order patterns, by multiplicity letter.
+const SPLITS = { d: 1, t: 2, q: 3, quint: 4, sext: 5, sept: 6 };
+
+function binomial(n) {
+  let row = [1];
+  for (let i = 0; i < n; i++) {
+    const next = [1];
+    for (let k = 1; k < row.length; k++) next.push(row[k - 1] + row[k]);
+    next.push(1);
+    row = next;
+  }
+  return row;
+}
+
+// multipletLines returns first-order lines {ppm, w} for one environment (sum
+// of w = its H count) and the line half-width in Hz to draw them with.
+export function multipletLines(env, mhz) {
+  const h = env.h || 1;
+  const mult = (env.multiplicity || "s").trim();
+  const js = (env.j || []).filter((x) => x > 0);
+  let groups = []; // [{n, J}]
+  if (Array.isArray(env.couplings) && env.couplings.length) {
+    groups = env.couplings.filter((c) => c.j > 0 && c.n > 0).map((c) => ({ n: c.n, J: c.j }));
+  } else if (mult === "m") {
+    return { lines: [{ ppm: env.shift, w: h }], hw: 6 };
+  } else if (mult === "br s") {
+    return { lines: [{ ppm: env.shift, w: h }], hw: 3 };
+  } else {
+    const parts = mult in SPLITS ? [mult] : mult.split("");
+    parts.forEach((p, i) => {
+      const n = SPLITS[p];
+      if (n && js[i] !== undefined) groups.push({ n, J: js[i] });
+    });
+  }
+  let lines = [{ off: 0, w: 1 }];
+  for (const g of groups) {
+    const coef = binomial(g.n);
+    const tot = coef.reduce((a, b) => a + b, 0);
+    const next = [];
+    for (const l of lines) {
+      coef.forEach((c, k) => next.push({ off: l.off + (k - g.n / 2) * g.J, w: (l.w * c) / tot }));
+    }
+    lines = next;
+  }
+  return { lines: lines.map((l) => ({ ppm: env.shift + l.off / mhz, w: l.w * h })), hw: 0.8 };
+}
+
+// trace samples the sum of Lorentzian lines of envs at each pixel column.
+function trace(envs, mhz, x2ppm, width, ppmPerPx) {
+  const all = [];
+  for (const env of envs) {
+    if (typeof env.shift !== "number") continue;
+    const { lines, hw } = multipletLines(env, mhz);
+    const gamma = Math.max(hw / mhz, ppmPerPx * 0.9);
+    for (const l of lines) all.push({ c: l.ppm, w: l.w, g: gamma });
+  }
+  const ys = new Float64Array(width + 1);
+  for (let x = 0; x <= width; x++) {
+    const p = x2ppm(x);
+    let y = 0;
+    for (const l of all) {
+      const d = p - l.c;
+      if (Math.abs(d) < 60 * l.g) y += (l.w * l.g) / (d * d + l.g * l.g);
+    }
+    ys[x] = y;
+  }
+  return ys;
+}
+
+// drawPlot renders into container. data: {observed: [{shift, lo, hi, h,
+// label}], predicted: [env], overlay: [env] or null, links: [{peak, env}],
+// mhz, hi, lo, selectedPeak, names: {predicted, overlay}}.
+export function drawPlot(container, data) {
+  const W = 900, H = 300, padL = 16, padR = 16;
+  const obsBase = 128, predTop = 160, axisY = 270;
+  const width = W - padL - padR;
+  const { hi, lo } = data;
+  const ppmPerPx = (hi - lo) / width;
+  const x = (ppm) => padL + ((hi - ppm) / (hi - lo)) * width;
+  const x2ppm = (px) => hi - px * ppmPerPx;
+
+  const svg = el("svg", { viewBox: `0 0 ${W} ${H}`, class: "spectrum", role: "img",
+    "aria-label": `Observed peaks against the predicted spectrum of ${data.names.predicted}, δ ${hi} to ${lo} ppm` });
+  svg.append(el("rect", { x: 0, y: 0, width: W, height: H, class: "plot-bg" }));
+  const clip = el("clipPath", { id: "plot-clip" });
+  clip.append(el("rect", { x: padL, y: 0, width, height: H }));
+  svg.append(clip);
+  const g = el("g", { "clip-path": "url(#plot-clip)" });
+  svg.append(g);
+
+  // Axis and ticks.
+  const span = hi - lo;
+  const step = span > 6 ? 1 : span > 3 ? 0.5 : span > 1.2 ? 0.2 : span > 0.5 ? 0.1 : 0.05;
+  svg.append(el("line", { x1: padL, x2: W - padR, y1: axisY, y2: axisY, class: "axis" }));
+  for (let t = Math.ceil(lo / step) * step; t <= hi + 1e-9; t += step) {
+    const tx = x(t);
+    svg.append(el("line", { x1: tx, x2: tx, y1: axisY, y2: axisY + 5, class: "axis" }));
+    svg.append(el("text", { x: tx, y: axisY + 18, class: "tick", "text-anchor": "middle" },
+      t.toFixed(step < 0.1 ? 2 : step < 1 ? 1 : 0)));
+  }
+  svg.append(el("text", { x: W - padR, y: H - 2, class: "axis-label", "text-anchor": "end" }, "δ (ppm)"));
+  g.append(el("line", { x1: padL, x2: W - padR, y1: obsBase, y2: obsBase, class: "baseline" }));
+  g.append(el("line", { x1: padL, x2: W - padR, y1: predTop, y2: predTop, class: "baseline" }));
+  svg.append(el("text", { x: padL + 4, y: 14, class: "legend obs" }, "observed"));
+  svg.append(el("text", { x: padL + 4, y: predTop + 14, class: "legend pred" }, `predicted: ${data.names.predicted}`));
+  if (data.overlay) {
+    svg.append(el("text", { x: padL + 4, y: predTop + 28, class: "legend over" }, `overlay: ${data.names.overlay}`));
+  }
+
+  // Observed: sticks (bands for ranges) with height by H.
+  const maxH = Math.max(1, ...data.observed.map((p) => p.h || 1));
+  data.observed.forEach((p, i) => {
+    const top = obsBase - 100 * ((p.h || 1) / maxH);
+    const cls = `obs-peak${i === data.selectedPeak ? " selected" : ""}${p.unexplained ? " unexplained" : ""}`;
+    if (p.hi !== undefined && p.lo !== undefined && Math.abs(p.hi - p.lo) > 1e-6) {
+      g.append(el("rect", { x: x(p.hi), y: top, width: Math.max(1, x(p.lo) - x(p.hi)), height: obsBase - top, class: `${cls} band` }));
+    } else {
+      g.append(el("line", { x1: x(p.shift), x2: x(p.shift), y1: obsBase, y2: top, class: cls }));
+    }
+    if (p.label) g.append(el("text", { x: x(p.shift), y: top - 4, class: "peak-label", "text-anchor": "middle" }, p.label));
+  });
+
+  // Predicted traces, mirrored below.
+  const drawTrace = (envs, cls, scaleTo) => {
+    const ys = trace(envs, data.mhz, x2ppm, width, ppmPerPx);
+    const max = scaleTo || Math.max(...ys, 1e-9);
+    let d = "";
+    for (let i = 0; i <= width; i++) {
+      const yy = predTop + 95 * Math.min(1, ys[i] / max);
+      d += `${i === 0 ? "M" : "L"}${(padL + i).toFixed(1)},${yy.toFixed(1)}`;
+    }
+    g.append(el("path", { d, class: cls }));
+    return max;
+  };
+  const scale = drawTrace(data.predicted, "pred-trace");
+  if (data.overlay) drawTrace(data.overlay, "over-trace", scale);
+
+  // Connectors from each observed peak to its environments.
+  const envById = new Map(data.predicted.map((e) => [e.id, e]));
+  for (const l of data.links) {
+    const p = data.observed[l.peak];
+    const e = envById.get(l.env);
+    if (!p || !e || typeof e.shift !== "number") continue;
+    const sel = l.peak === data.selectedPeak;
+    g.append(el("line", { x1: x(p.shift), y1: obsBase + 2, x2: x(e.shift), y2: predTop - 2,
+      class: `link${sel ? " selected" : ""}` }));
+  }
+  container.replaceChildren(svg);
+}
+
+// fitRange returns {hi, lo} covering every shift with a margin, in whole or
+// half ppm.
+export function fitRange(shifts) {
+  const s = shifts.filter((v) => typeof v === "number" && isFinite(v));
+  if (!s.length) return { hi: 10, lo: 0 };
+  let hi = Math.ceil((Math.max(...s) + 0.4) * 2) / 2;
+  let lo = Math.floor((Math.min(...s) - 0.4) * 2) / 2;
+  if (hi - lo < 2) { hi += 0.5; lo -= 0.5; }
+  return { hi, lo };
+}
