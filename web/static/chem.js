@@ -128,7 +128,7 @@ export function parsePeaks(text) {
     let rest = inner;
     const jm = /J\s*=?\s*((?:\d+(?:\.\d+)?\s*(?:,|and|&)?\s*)+)\s*Hz/i.exec(rest);
     if (jm) {
-      row.j = jm[1].split(/\s*(?:,|and|&)\s*/).filter(Boolean).join(", ");
+      row.j = jm[1].split(/\s*(?:,|and|&)\s*/).map((x) => x.trim()).filter(Boolean).join(", ");
       rest = rest.replace(jm[0], "");
     }
     const im = /(\d+(?:\.\d+)?)\s*H\b/.exec(rest);
