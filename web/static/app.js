@@ -284,17 +284,18 @@ function showProblem(err) {
   let first = null;
   for (const e of list) {
     const slot = slotFor(e.field || e.pointer || e.name);
-    const msg = e.message || e.detail || e.msg || "not valid";
+    const msg = e.detail || e.message || "not valid";
+    const pos = typeof e.position === "number" ? e.position : e.pos;
     let text = msg;
     if (e.token !== undefined && e.token !== "" && !msg.includes(e.token)) text += ` (“${e.token}”)`;
-    if (typeof e.pos === "number" && e.pos >= 0) text += ` at character ${e.pos + 1}`;
+    if (typeof pos === "number" && pos >= 0 && !/position|character/.test(msg)) text += ` at character ${pos + 1}`;
     if (!slot) { loose.push(e.field ? `${e.field}: ${text}` : text); continue; }
     const p = $(`${slot}-error`);
     p.textContent = p.textContent ? `${p.textContent} ${text}` : text;
     const inp = $(SLOT_INPUT[slot] || slot);
     if (inp) { inp.setAttribute("aria-invalid", "true"); first = first || inp; }
     if (slot === "require" || slot === "forbid" || slot === "top_k" || slot === "filter") $("submit-form").querySelector("details.options").open = true;
-    if (slot === "peaks" && typeof e.pos === "number") markRowAt(e.pos);
+    if (slot === "peaks" && typeof pos === "number") markRowAt(pos);
   }
   if (!list.length) loose.push(prob.detail || prob.title || err.message);
   else if (loose.length === 0 && prob.detail && !first) loose.push(prob.detail);
@@ -504,99 +505,93 @@ function showJob(id) {
 
 // ---------- results ----------
 
-// Normalised views of the service's candidate JSON: tolerant of optional
-// fields so an older or newer service still shows what it sends.
+// Views of the service's candidate JSON (the ranker's `rank --json` shape:
+// assignments with observed_*/predicted_* fields and environment_details).
 
 function num(v) { return typeof v === "number" && isFinite(v) ? v : undefined; }
 
+// normPeak reads one entry of the result's "peaks" list (or a peak of the
+// request) into {index, shift, hi, lo, multiplicity, j, integral, h}.
 function normPeak(p, i) {
-  if (p === null || p === undefined) return null;
-  if (typeof p === "number") return { index: p };
   const range = Array.isArray(p.range) ? p.range : null;
-  const hi = num(p.shift_hi) ?? num(p.hi) ?? (range ? Math.max(...range) : undefined);
-  const lo = num(p.shift_lo) ?? num(p.lo) ?? (range ? Math.min(...range) : undefined);
+  let hi = num(p.shift_hi) ?? (range ? Math.max(...range) : undefined);
+  let lo = num(p.shift_lo) ?? (range ? Math.min(...range) : undefined);
   const shift = num(p.shift) ?? (hi !== undefined && lo !== undefined ? (hi + lo) / 2 : undefined);
+  if (hi === undefined || lo === undefined || hi === lo) { hi = undefined; lo = undefined; }
   return {
-    index: num(p.index) ?? num(p.peak) ?? i,
+    index: num(p.index) ?? i,
     shift, hi, lo,
-    multiplicity: p.multiplicity || p.mult || "",
+    multiplicity: p.multiplicity || "",
     j: Array.isArray(p.j) ? p.j : [],
-    integral: num(p.integral),
-    h: num(p.implied_h) ?? num(p.observed_h) ?? num(p.h),
-    text: p.text || "",
-    solvent: p.solvent || p.flag || "",
+    integral: num(p.integral) || undefined,
+    h: num(p.implied_h) || undefined,
+    solvent: p.solvent || "",
+    excluded: !!p.excluded,
   };
 }
 
-function normEnv(e) {
-  if (!e) return null;
-  const reasons = Array.isArray(e.reasons) ? e.reasons : e.reason ? [e.reason] : [];
+function normDetail(d, peak) {
   return {
-    id: num(e.id) ?? num(e.env) ?? num(e.environment),
-    atoms: Array.isArray(e.atoms) ? e.atoms : [],
-    h: num(e.h) ?? num(e.hydrogens) ?? 0,
-    kind: e.kind || "",
-    shift: num(e.shift) ?? num(e.predicted_shift),
-    sigma: num(e.sigma),
-    multiplicity: e.multiplicity || "",
-    j: Array.isArray(e.j) ? e.j : [],
-    couplings: Array.isArray(e.couplings) ? e.couplings.map((c) => ({ n: num(c.n) ?? num(c.N) ?? 0, j: num(c.j) ?? num(c.J) ?? 0, label: c.label || "" })) : null,
-    exchangeable: !!e.exchangeable,
-    breakdown: Array.isArray(e.breakdown) ? e.breakdown : [],
-    reasons,
+    id: d.environment,
+    key: `${peak}:${d.environment}`,
+    atoms: Array.isArray(d.atoms) ? d.atoms : [],
+    h: num(d.h) ?? 0,
+    kind: d.kind || "",
+    shift: num(d.predicted_shift),
+    sigma: num(d.sigma),
+    multiplicity: d.predicted_multiplicity || "",
+    j: Array.isArray(d.j) ? d.j : [],
+    breakdown: Array.isArray(d.breakdown) ? d.breakdown : [],
+    reasons: Array.isArray(d.reasons) ? d.reasons : [],
+    split: !!d.split,
   };
 }
 
-function normAssignment(a, i, observedList) {
-  let peak = null;
-  if (a.peak && typeof a.peak === "object") peak = normPeak(a.peak, i);
-  else if (a.observed && typeof a.observed === "object") peak = normPeak(a.observed, i);
-  const idx = num(a.peak_index) ?? (typeof a.peak === "number" ? a.peak : undefined) ?? peak?.index ?? i;
-  if (!peak || peak.shift === undefined) {
-    const from = observedList[idx];
-    peak = { ...(from || {}), ...(peak || {}), index: idx };
-    if (peak.shift === undefined) peak.shift = num(a.observed_shift);
-  }
-  peak.index = idx;
-  if (peak.h === undefined) peak.h = num(a.observed_h) ?? num(a.implied_h);
-  if (!peak.multiplicity && a.observed_multiplicity) peak.multiplicity = a.observed_multiplicity;
-  const envs = (Array.isArray(a.environments) ? a.environments : a.environment ? [a.environment] : Array.isArray(a.envs) ? a.envs : [])
-    .map(normEnv).filter(Boolean);
-  const expH = num(a.expected_h) ?? envs.reduce((s, e) => s + e.h, 0);
-  let pred = num(a.predicted_shift);
-  if (pred === undefined && envs.length) {
-    const tot = envs.reduce((s, e) => s + (e.h || 1), 0);
-    pred = envs.reduce((s, e) => s + (e.shift ?? 0) * (e.h || 1), 0) / tot;
-  }
-  const reasons = [
-    ...(a.multiplicity_reason ? [a.multiplicity_reason] : []),
-    ...(Array.isArray(a.reasons) ? a.reasons : a.reason ? [a.reason] : []),
-  ];
+function normAssignment(a, observedList) {
+  const idx = a.peak;
+  const known = observedList.find((p) => p.index === idx) || {};
+  const range = Array.isArray(a.observed_range) && a.observed_range.length === 2 ? a.observed_range : null;
+  const peak = {
+    ...known,
+    index: idx,
+    shift: num(a.observed_shift) ?? known.shift,
+    hi: range ? Math.max(...range) : known.hi,
+    lo: range ? Math.min(...range) : known.lo,
+    multiplicity: a.observed_multiplicity || known.multiplicity || "",
+    h: num(a.observed_h) || known.h,
+  };
+  const envs = (a.environment_details || []).map((d) => normDetail(d, idx));
   return {
-    peak, envs, expH, pred,
-    predMult: a.predicted_multiplicity || envs.map((e) => e.multiplicity).filter(Boolean).join(" + "),
-    multMatch: a.multiplicity_match || a.multiplicity_verdict || "",
-    reasons,
-    share: num(a.share) ?? num(a.score_share) ?? num(a.fraction),
-    score: num(a.score) ?? num(a.log_likelihood) ?? num(a.contribution),
-    delta: num(a.delta) ?? num(a.residual) ?? (pred !== undefined && peak.shift !== undefined ? peak.shift - pred : undefined),
+    peak, envs,
+    atoms: Array.isArray(a.atoms) ? a.atoms : envs.flatMap((e) => e.atoms),
+    breakdown: Array.isArray(a.breakdown) ? a.breakdown : [],
+    expH: num(a.expected_h) ?? envs.reduce((s, e) => s + e.h, 0),
+    pred: num(a.predicted_shift),
+    predMult: a.predicted_multiplicity || "",
+    reason: a.multiplicity_reason || "",
+    share: num(a.score_share),
+    terms: a.terms || null,
+    delta: num(a.observed_shift) !== undefined && num(a.predicted_shift) !== undefined
+      ? a.observed_shift - a.predicted_shift : undefined,
   };
 }
 
 function normCandidate(c, observedList) {
-  const assignments = (c.assignments || []).map((a, i) => normAssignment(a, i, observedList));
-  const unexplained = (c.unexplained_peaks || []).map((p, i) => {
-    const n = normPeak(p, i);
-    if (typeof p === "number") return { ...(observedList[p] || {}), index: p };
-    return n;
+  const assignments = (c.assignments || []).map((a) => normAssignment(a, observedList));
+  const unexplained = (c.unexplained_peaks || []).map((u) => {
+    const known = observedList.find((p) => p.index === u.peak) || {};
+    return { ...known, index: u.peak, shift: num(u.observed_shift) ?? known.shift,
+      multiplicity: u.multiplicity || known.multiplicity || "", h: num(u.observed_h) || known.h,
+      share: num(u.score_share) };
   });
-  const unobserved = (c.unobserved_environments || []).map(normEnv).filter(Boolean);
+  const unobserved = (c.unobserved_environments || []).map((e) => ({
+    id: e.environment, key: `u:${e.environment}`, atoms: e.atoms || [], h: num(e.h) ?? 0, kind: e.kind || "",
+    shift: num(e.predicted_shift), multiplicity: e.predicted_multiplicity || "", j: [],
+    exchangeable: !!e.exchangeable, share: num(e.score_share), reason: e.reason || "",
+  }));
   return {
-    raw: c,
-    rank: c.rank,
-    smiles: c.smiles,
-    score: num(c.score),
-    probability: num(c.probability) ?? 0,
+    raw: c, rank: c.rank, smiles: c.smiles, score: num(c.score), probability: num(c.probability) ?? 0,
+    summary: c.summary || "", notes: c.notes || [],
     assignments, unexplained, unobserved,
   };
 }
@@ -657,7 +652,7 @@ async function showResults(id, job) {
   const scored = num(data.scored) ?? job.progress?.scored;
   const complete = data.complete;
   const bits = [];
-  if (total !== undefined) bits.push(`${fmt.format(total)} isomer${total === 1 ? "" : "s"} of the formula${complete === false ? " (estimated)" : ""}`);
+  if (total !== undefined) bits.push(`${fmt.format(total)} isomer${total === 1 ? "" : "s"} of the formula${complete === false || data.isomers_estimated ? " (estimated)" : ""}`);
   if (scored !== undefined) bits.push(`${fmt.format(scored)} scored`);
   bits.push(`${candidates.length} kept`);
   $("results-summary").textContent = bits.join(" · ") + ".";
@@ -768,7 +763,7 @@ function renderDetailDrawing() {
   let atoms = [];
   if (review.peakSel >= 0) {
     const a = c.assignments[review.peakSel];
-    atoms = a ? a.envs.flatMap((e) => e.atoms) : [];
+    atoms = a ? a.atoms : [];
   }
   putDrawing($("detail-structure"), c.smiles, { width: 360, height: 270, atoms });
   $("detail-highlight-note").textContent = review.peakSel >= 0
@@ -791,13 +786,24 @@ function multText(m, j) {
 
 const COLUMN_LABELS = {
   "obs-shift": "Observed δ", env: "Assigned to", "pred-shift": "Predicted δ", delta: "Δδ",
-  mult: "Multiplicity (obs. / pred.)", hcount: "H (obs. / exp.)", share: "Share of score",
+  mult: "Multiplicity (obs. / pred.)", hcount: "H (obs. / exp.)", share: "Share of score (nats)",
 };
+
+function signed(v, d = 2) {
+  return `${v >= 0 ? "+" : "−"}${Math.abs(v).toFixed(d)}`;
+}
+
+function termsText(t) {
+  if (!t) return "";
+  return `shift ${signed(t.shift)}, multiplicity ${signed(t.multiplicity)}, J ${signed(t.j)}, integration ${signed(t.integration)} nats`;
+}
 
 function renderExplain() {
   const c = review.candidates[review.selected];
   const tbody = $("explain-rows");
   tbody.replaceChildren();
+  const maxShare = Math.max(1e-9, ...c.assignments.map((a) => Math.abs(a.share ?? 0)),
+    ...c.unexplained.map((u) => Math.abs(u.share ?? 0)), ...c.unobserved.map((u) => Math.abs(u.share ?? 0)));
   c.assignments.forEach((a, i) => {
     const tr = document.createElement("tr");
     tr.className = "assign";
@@ -814,16 +820,28 @@ function renderExplain() {
     };
     td("obs-shift", fmtShift(a.peak));
     const envText = a.envs.length
-      ? a.envs.map((e) => `${e.kind || "environment"}${e.atoms.length ? ` (atom${e.atoms.length > 1 ? "s" : ""} ${e.atoms.join(", ")})` : ""}`).join("; ")
+      ? a.envs.map((e) => `${e.kind || "environment"}, ${e.h}H${e.split ? " (one half of a diastereotopic pair)" : ""}`).join("; ")
       : "—";
-    td("env", envText);
+    const envCell = td("env", envText);
+    if (a.atoms.length) {
+      const at = document.createElement("span");
+      at.className = "why";
+      at.textContent = `atom${a.atoms.length > 1 ? "s" : ""} ${a.atoms.join(", ")}`;
+      envCell.append(at);
+    }
     const predCell = td("pred-shift");
     const predSpan = document.createElement("span");
+    predSpan.className = "pred-value";
     predSpan.textContent = fmtNum(a.pred);
     predCell.append(predSpan);
-    const sig = a.envs.map((e) => e.sigma).filter((s) => s !== undefined);
-    if (sig.length) predSpan.textContent += ` ± ${Math.max(...sig).toFixed(2)}`;
-    const terms = a.envs.flatMap((e) => e.breakdown.map((t) => ({ ...t, env: e })));
+    const sig = a.envs.map((e) => e.sigma).filter((v) => v !== undefined);
+    if (sig.length) {
+      const sg = document.createElement("span");
+      sg.className = "sigma";
+      sg.textContent = ` ± ${Math.max(...sig).toFixed(2)}`;
+      predCell.append(sg);
+    }
+    const terms = a.breakdown.length ? a.breakdown : a.envs.flatMap((e) => e.breakdown);
     if (terms.length) {
       const b = document.createElement("button");
       b.type = "button";
@@ -837,29 +855,31 @@ function renderExplain() {
         const next = tr.nextElementSibling;
         if (next && next.classList.contains("breakdown")) next.hidden = open;
       });
+      b.addEventListener("keydown", (ev) => ev.stopPropagation());
       predCell.append(" ", b);
     }
-    td("delta", a.delta !== undefined ? `${a.delta >= 0 ? "+" : "−"}${Math.abs(a.delta).toFixed(2)}` : "—");
+    td("delta", a.delta !== undefined ? signed(a.delta) : "—");
     const mc = td("mult");
     const obsM = document.createElement("span");
-    obsM.textContent = `${multText(a.peak.multiplicity, a.peak.j)} / ${a.predMult || "—"}`;
+    obsM.textContent = `${multText(a.peak.multiplicity, a.peak.j)} / ${multText(a.predMult, a.envs.length === 1 ? a.envs[0].j : [])}`;
     mc.append(obsM);
-    const why = [...a.reasons, ...a.envs.flatMap((e) => e.reasons)];
-    if (a.multMatch) why.unshift(a.multMatch);
+    const why = [a.reason, ...a.envs.flatMap((e) => e.reasons)].filter(Boolean);
     if (why.length) {
       const small = document.createElement("span");
       small.className = "why";
-      small.textContent = why.join("; ");
+      small.textContent = [...new Set(why)].join("; ");
       mc.append(small);
     }
-    td("hcount", `${a.peak.h !== undefined ? fmtNum(a.peak.h, 1) : "—"} / ${a.expH}`);
+    td("hcount", `${a.peak.h ? fmtNum(a.peak.h, 1) : "—"} / ${a.expH}`);
     const share = td("share");
     if (a.share !== undefined) {
       share.innerHTML = `<span class="share-bar" aria-hidden="true"><span></span></span> <span class="share-num"></span>`;
-      share.querySelector(".share-bar span").style.width = `${Math.min(100, Math.max(0, 100 * a.share))}%`;
-      share.querySelector(".share-num").textContent = `${(100 * a.share).toFixed(0)} %`;
-      if (a.score !== undefined) share.title = `log-likelihood term ${a.score.toFixed(3)}`;
-    } else share.textContent = a.score !== undefined ? a.score.toFixed(2) : "—";
+      const bar = share.querySelector(".share-bar span");
+      bar.style.width = `${Math.min(100, (100 * Math.abs(a.share)) / maxShare)}%`;
+      bar.classList.toggle("cost", a.share < 0);
+      share.querySelector(".share-num").textContent = signed(a.share);
+      share.title = termsText(a.terms);
+    } else share.textContent = "—";
     const pick = () => {
       review.peakSel = review.peakSel === i ? -1 : i;
       tbody.querySelectorAll("tr.assign").forEach((r) => r.setAttribute("aria-selected", r.dataset.index === String(review.peakSel) ? "true" : "false"));
@@ -868,6 +888,7 @@ function renderExplain() {
     };
     tr.addEventListener("click", pick);
     tr.addEventListener("keydown", (ev) => {
+      if (ev.target !== tr) return;
       if (ev.key === "Enter" || ev.key === " ") { ev.preventDefault(); pick(); }
       if (ev.key === "ArrowDown") { ev.preventDefault(); focusRow(i + 1); }
       if (ev.key === "ArrowUp") { ev.preventDefault(); focusRow(i - 1); }
@@ -882,11 +903,16 @@ function renderExplain() {
       const list = document.createElement("ul");
       for (const t of terms) {
         const li = document.createElement("li");
-        const v = Number(t.ppm);
-        li.textContent = `${a.envs.length > 1 ? `${t.env.kind}: ` : ""}${t.term} ${v >= 0 ? "+" : "−"}${Math.abs(v).toFixed(2)} ppm`;
+        li.textContent = `${t.term} ${signed(Number(t.ppm))} ppm`;
         list.append(li);
       }
       cell.append(list);
+      if (a.terms) {
+        const sc = document.createElement("p");
+        sc.className = "why";
+        sc.textContent = `Score terms of this peak: ${termsText(a.terms)}.`;
+        cell.append(sc);
+      }
       br.append(cell);
       tbody.append(br);
     }
@@ -895,7 +921,8 @@ function renderExplain() {
   ux.replaceChildren();
   for (const p of c.unexplained) {
     const li = document.createElement("li");
-    li.textContent = `δ ${fmtShift(p)}${p.multiplicity ? ` (${p.multiplicity}${p.integral !== undefined ? `, ${p.integral}H` : ""})` : ""}${p.solvent ? ` — ${p.solvent}` : ""}`;
+    li.textContent = `δ ${fmtShift(p)}${p.multiplicity ? ` (${p.multiplicity}${p.h ? `, ${fmtNum(p.h, 1)}H` : ""})` : ""}` +
+      `${p.share !== undefined ? ` — costs ${signed(p.share)} nats` : ""}`;
     ux.append(li);
   }
   if (!c.unexplained.length) ux.append(Object.assign(document.createElement("li"), { className: "none", textContent: "none" }));
@@ -903,10 +930,14 @@ function renderExplain() {
   uo.replaceChildren();
   for (const e of c.unobserved) {
     const li = document.createElement("li");
-    li.textContent = `${e.kind || "environment"}, ${e.h}H, predicted δ ${fmtNum(e.shift)}${e.exchangeable ? " (exchangeable: often missing or broad)" : ""}`;
+    li.textContent = `${e.kind || "environment"}, ${e.h}H, predicted δ ${fmtNum(e.shift)}${e.multiplicity ? ` (${e.multiplicity})` : ""}` +
+      `${e.share !== undefined ? ` — ${signed(e.share)} nats` : ""}${e.reason ? `: ${e.reason}` : e.exchangeable ? ": exchangeable H, often missing or broad" : ""}`;
     uo.append(li);
   }
   if (!c.unobserved.length) uo.append(Object.assign(document.createElement("li"), { className: "none", textContent: "none" }));
+  const sum = $("detail-summary");
+  sum.textContent = [c.summary, ...c.notes].filter(Boolean).join(" ");
+  sum.hidden = !sum.textContent;
 }
 
 function focusRow(i) {
@@ -914,52 +945,39 @@ function focusRow(i) {
   if (r) r.focus();
 }
 
-function predictedEnvs(c) {
-  const byId = new Map();
-  let next = 10000;
-  for (const a of c.assignments) for (const e of a.envs) {
-    const id = e.id ?? next++;
-    if (!byId.has(id)) byId.set(id, { ...e, id });
-  }
-  for (const e of c.unobserved) {
-    const id = e.id ?? next++;
-    if (!byId.has(id)) byId.set(id, { ...e, id });
-  }
-  return byId;
+// plotEnvs lists a candidate's predicted environments for the plot: one item
+// per (peak, environment) pair, so the halves of a split CH2 each get their
+// line, plus the unobserved ones.
+function plotEnvs(c) {
+  return [...c.assignments.flatMap((a) => a.envs), ...c.unobserved].map((e) => ({ ...e, id: e.key }));
 }
 
 function renderPlot() {
   const c = review.candidates[review.selected];
-  const envs = predictedEnvs(c);
-  // Give envs without ids the ids we made, so the links find them.
-  const links = [];
-  let next = 10000;
-  for (const a of c.assignments) for (const e of a.envs) {
-    const id = e.id ?? next++;
-    links.push({ peak: a.peak.index, env: id });
-  }
-  const observed = review.observed.map((p) => ({ ...p }));
+  const envs = plotEnvs(c);
+  const links = c.assignments.flatMap((a) => a.envs.map((e) => ({ peak: a.peak.index, env: e.key })));
+  const byIndex = new Map();
+  for (const p of review.observed) byIndex.set(p.index, { ...p });
   for (const a of c.assignments) {
-    const o = observed.find((p) => p.index === a.peak.index);
-    if (o && o.h === undefined) o.h = a.peak.h;
-    if (!o) observed.push({ ...a.peak });
+    const o = byIndex.get(a.peak.index);
+    if (!o) byIndex.set(a.peak.index, { ...a.peak });
+    else if (!o.h) o.h = a.peak.h;
   }
   const unexplainedIdx = new Set(c.unexplained.map((p) => p.index));
-  const byIndex = [];
-  for (const p of observed) {
-    byIndex[p.index] = { ...p, h: p.h ?? p.integral ?? 1, unexplained: unexplainedIdx.has(p.index),
-      label: p.multiplicity || "" };
+  const obsList = [];
+  for (const [i, p] of byIndex) {
+    obsList[i] = { ...p, h: p.h || p.integral || 1, unexplained: unexplainedIdx.has(i), label: p.multiplicity || "" };
   }
-  const obsList = byIndex.map((p, i) => p || { shift: NaN, index: i });
-  const overlay = review.compare >= 0 ? [...predictedEnvs(review.candidates[review.compare]).values()] : null;
-  const shifts = [...obsList.flatMap((p) => [p.shift, p.hi, p.lo]), ...[...envs.values()].map((e) => e.shift),
+  for (let i = 0; i < obsList.length; i++) if (!obsList[i]) obsList[i] = { shift: NaN, index: i };
+  const overlay = review.compare >= 0 ? plotEnvs(review.candidates[review.compare]) : null;
+  const shifts = [...obsList.flatMap((p) => [p.shift, p.hi, p.lo]), ...envs.map((e) => e.shift),
     ...(overlay || []).map((e) => e.shift)];
   const range = review.zoom || fitRange(shifts);
   $("zoom-hi").value = String(range.hi);
   $("zoom-lo").value = String(range.lo);
   const selPeak = review.peakSel >= 0 ? c.assignments[review.peakSel]?.peak.index : -1;
   drawPlot($("plot"), {
-    observed: obsList, predicted: [...envs.values()], overlay, links, mhz: review.mhz,
+    observed: obsList, predicted: envs, overlay, links, mhz: review.mhz,
     hi: range.hi, lo: range.lo, selectedPeak: selPeak,
     names: { predicted: `#${c.rank ?? review.selected + 1}`,
       overlay: review.compare >= 0 ? `#${review.candidates[review.compare].rank ?? review.compare + 1}` : "" },
@@ -991,10 +1009,10 @@ function csvField(v) {
 }
 
 function rankingCSV() {
-  const head = ["rank", "smiles", "probability", "score", "assigned_peaks", "unexplained_peaks", "unobserved_environments"];
+  const head = ["rank", "smiles", "probability", "score", "assigned_peaks", "unexplained_peaks", "unobserved_environments", "summary"];
   const out = [head.join(",")];
   review.candidates.forEach((c, i) => {
-    out.push([c.rank ?? i + 1, c.smiles, c.probability, c.score, c.assignments.length, c.unexplained.length, c.unobserved.length]
+    out.push([c.rank ?? i + 1, c.smiles, c.probability, c.score, c.assignments.length, c.unexplained.length, c.unobserved.length, c.summary]
       .map(csvField).join(","));
   });
   return out.join("\r\n") + "\r\n";
