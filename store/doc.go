@@ -23,6 +23,11 @@
 // so several serve processes on one database share the queue; the database is
 // the only shared part and its clock is the one leases are measured against.
 //
+// ClaimJob prefers jobs abandoned by a dead worker (expired lease), then takes
+// queued jobs oldest first. A job found abandoned after it has been claimed
+// DefaultMaxAttempts times (see WithMaxAttempts) is failed instead of being
+// run again, so a job that kills its worker cannot cycle forever.
+//
 // A lease that has expired but that no other worker has claimed yet still
 // belongs to its holder: RenewLease, UpdateProgress and FinishJob succeed.
 // Worker IDs must be unique across processes (e.g. host, PID and a counter).
@@ -34,6 +39,14 @@
 // lease, so the holder can still call FinishJob with StatusCancelled), and
 // CancelRequested reports true. If the holder dies instead, the next ClaimJob
 // finishes the job as cancelled rather than handing it out again.
+//
+// # Callbacks
+//
+// RecordDelivery and Deliveries keep every attempt to POST a finished job's
+// summary to its callback URL. When the delivery worker is done with a job
+// (delivered, refused, or given up) it calls MarkCallbackDone;
+// PendingCallbacks lists finished jobs whose callback is not settled, so a
+// restarted service can resume them (at-least-once delivery).
 //
 // # Ownership
 //

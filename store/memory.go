@@ -8,6 +8,7 @@ import (
 	"fmt"
 	"slices"
 	"sort"
+	"strings"
 	"sync"
 	"time"
 )
@@ -19,6 +20,7 @@ import (
 // processes. It is safe for concurrent use. The zero value is not usable;
 // call NewMemory.
 type Memory struct {
+	opts     options
 	mu       sync.Mutex
 	jobs     map[string]*memJob
 	byOwner  map[string][]string // job IDs per owner, in creation order
@@ -40,8 +42,9 @@ type memJob struct {
 type idemKey struct{ owner, key string }
 
 // NewMemory returns an empty in-memory store.
-func NewMemory() *Memory {
+func NewMemory(opts ...Option) *Memory {
 	return &Memory{
+		opts:    buildOptions(opts),
 		jobs:    make(map[string]*memJob),
 		byOwner: make(map[string][]string),
 		idem:    make(map[idemKey]string),
@@ -197,6 +200,10 @@ func (m *Memory) ClaimJob(ctx context.Context, workerID string, lease time.Durat
 		if j.Status == StatusRunning {
 			if j.CancelRequested {
 				m.finishLocked(mj, t, StatusCancelled, "cancelled after the worker's lease expired", "", nil)
+				continue
+			}
+			if m.opts.maxAttempts > 0 && j.Attempts >= m.opts.maxAttempts {
+				m.finishLocked(mj, t, StatusFailed, abandonedMessage(j.Attempts), "", nil)
 				continue
 			}
 			note = fmt.Sprintf("reclaimed after lease of %s expired (attempt %d)", j.LeaseOwner, j.Attempts+1)
@@ -572,4 +579,58 @@ func (m *Memory) Deliveries(ctx context.Context, jobID string) ([]Delivery, erro
 		return nil, fmt.Errorf("deliveries: job %s: %w", jobID, ErrNotFound)
 	}
 	return slices.Clone(mj.deliveries), nil
+}
+
+// MarkCallbackDone records that job id's callback is settled (delivered,
+// refused by the receiver, or given up), so PendingCallbacks no longer
+// returns it. ErrNotFound for an unknown job. It takes no owner: it is for
+// the delivery worker.
+func (m *Memory) MarkCallbackDone(ctx context.Context, id string) error {
+	if err := ctx.Err(); err != nil {
+		return fmt.Errorf("mark callback done: %w", err)
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	mj, ok := m.jobs[id]
+	if !ok {
+		return fmt.Errorf("mark callback done: job %s: %w", id, ErrNotFound)
+	}
+	mj.job.CallbackDone = true
+	return nil
+}
+
+// PendingCallbacks returns up to limit finished jobs (any terminal status)
+// that have a callback URL whose callback is not yet settled
+// (MarkCallbackDone) and that finished more than olderThan ago, oldest first:
+// the callbacks a restarted service should resume. Callbacks are at least
+// once: two processes sweeping at once may both deliver one. limit <= 0
+// means DefaultListLimit; it is capped at MaxListLimit.
+func (m *Memory) PendingCallbacks(ctx context.Context, olderThan time.Duration, limit int) ([]Job, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, fmt.Errorf("pending callbacks: %w", err)
+	}
+	limit = clampLimit(limit)
+	cutoff := now().Add(-olderThan)
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	var jobs []Job
+	for _, mj := range m.jobs {
+		j := mj.job
+		if j.CallbackURL != "" && !j.CallbackDone && !j.FinishedAt.IsZero() && j.FinishedAt.Before(cutoff) {
+			jobs = append(jobs, j)
+		}
+	}
+	slices.SortFunc(jobs, func(a, b Job) int {
+		if c := a.FinishedAt.Compare(b.FinishedAt); c != 0 {
+			return c
+		}
+		return strings.Compare(a.ID, b.ID)
+	})
+	if len(jobs) > limit {
+		jobs = jobs[:limit]
+	}
+	for i := range jobs {
+		jobs[i] = copyJob(jobs[i])
+	}
+	return jobs, nil
 }

@@ -28,6 +28,7 @@ import (
 // object keys reordered); decode them rather than comparing bytes.
 type Postgres struct {
 	pool *pgxpool.Pool
+	opts options
 }
 
 // Open connects to the PostgreSQL database at url (a postgres:// URL or a
@@ -35,13 +36,14 @@ type Postgres struct {
 // migrations with goose v3 and returns a store serving from a connection
 // pool. Migrations from concurrent Open calls are serialised by an advisory
 // lock. A search_path parameter in url selects the schema (which must exist;
-// see OpenSchema). Close the store when done.
-func Open(ctx context.Context, url string) (*Postgres, error) {
+// see OpenSchema). Options such as WithMaxAttempts configure the store.
+// Close the store when done.
+func Open(ctx context.Context, url string, opts ...Option) (*Postgres, error) {
 	cfg, err := pgxpool.ParseConfig(url)
 	if err != nil {
 		return nil, fmt.Errorf("open store: parse database url: %w", err)
 	}
-	return openConfig(ctx, cfg)
+	return openConfig(ctx, cfg, opts)
 }
 
 // OpenSchema is Open confined to one schema of the database: it creates the
@@ -49,7 +51,7 @@ func Open(ctx context.Context, url string) (*Postgres, error) {
 // and applies the migrations there. Tests use it to give each test, or each
 // group of cooperating processes, a fresh schema of its own; pass the same
 // schema to share one. Drop it with DropSchema.
-func OpenSchema(ctx context.Context, url, schema string) (*Postgres, error) {
+func OpenSchema(ctx context.Context, url, schema string, opts ...Option) (*Postgres, error) {
 	cfg, err := pgxpool.ParseConfig(url)
 	if err != nil {
 		return nil, fmt.Errorf("open store: parse database url: %w", err)
@@ -61,7 +63,7 @@ func OpenSchema(ctx context.Context, url, schema string) (*Postgres, error) {
 		return nil, fmt.Errorf("open store: %w", err)
 	}
 	cfg.ConnConfig.RuntimeParams["search_path"] = pgx.Identifier{schema}.Sanitize()
-	return openConfig(ctx, cfg)
+	return openConfig(ctx, cfg, opts)
 }
 
 // CreateSchema creates the named schema in the database at url if it does
@@ -96,7 +98,7 @@ func execOnce(ctx context.Context, url, what, sql string) error {
 	return nil
 }
 
-func openConfig(ctx context.Context, cfg *pgxpool.Config) (*Postgres, error) {
+func openConfig(ctx context.Context, cfg *pgxpool.Config, opts []Option) (*Postgres, error) {
 	if err := migrate(ctx, cfg.ConnConfig.Copy()); err != nil {
 		return nil, fmt.Errorf("open store: %w", err)
 	}
@@ -108,7 +110,7 @@ func openConfig(ctx context.Context, cfg *pgxpool.Config) (*Postgres, error) {
 		pool.Close()
 		return nil, fmt.Errorf("open store: %w", err)
 	}
-	return &Postgres{pool: pool}, nil
+	return &Postgres{pool: pool, opts: buildOptions(opts)}, nil
 }
 
 // migrate applies the embedded migrations through database/sql (pgx's
@@ -155,7 +157,7 @@ func (p *Postgres) Close() { p.pool.Close() }
 const jobColumns = `id, owner, status, request, reference, callback_url,
 	generated, scored, total_estimate, error, created_at, started_at, finished_at,
 	lease_owner, lease_until, attempts, cancel_requested,
-	coalesce(idempotency_key, ''), request_hash`
+	coalesce(idempotency_key, ''), request_hash, callback_done`
 
 func scanJob(row pgx.Row) (Job, error) {
 	var (
@@ -168,7 +170,7 @@ func scanJob(row pgx.Row) (Job, error) {
 		&j.Progress.Generated, &j.Progress.Scored, &j.Progress.TotalEstimate, &j.Error,
 		&j.CreatedAt, &started, &finished,
 		&j.LeaseOwner, &leaseTo, &j.Attempts, &j.CancelRequested,
-		&j.IdempotencyKey, &j.RequestHash)
+		&j.IdempotencyKey, &j.RequestHash, &j.CallbackDone)
 	if err != nil {
 		return Job{}, err
 	}
@@ -308,7 +310,8 @@ func (p *Postgres) ListJobs(ctx context.Context, owner string, limit int, cur st
 // Attempts grows by one. The row is taken with FOR UPDATE SKIP LOCKED, so
 // concurrent claimers in any number of processes never get the same job. An
 // expired job whose owner asked for cancellation is finished as cancelled
-// instead of being handed out. ErrNoJob if nothing is available.
+// instead of being handed out, and one that has used up its attempts
+// (WithMaxAttempts) as failed. ErrNoJob if nothing is available.
 func (p *Postgres) ClaimJob(ctx context.Context, workerID string, lease time.Duration) (Job, error) {
 	if workerID == "" || lease <= 0 {
 		return Job{}, fmt.Errorf("claim job: need a worker ID and a positive lease: %w", ErrInvalid)
@@ -350,6 +353,15 @@ func (p *Postgres) ClaimJob(ctx context.Context, workerID string, lease time.Dur
 					return err
 				}
 				return addHistory(ctx, tx, id, StatusCancelled, "", note)
+			}
+			if Status(status) == StatusRunning && p.opts.maxAttempts > 0 && attempts >= p.opts.maxAttempts {
+				msg := abandonedMessage(attempts)
+				_, err := tx.Exec(ctx, `UPDATE jobs SET status = 'failed', error = $2,
+					finished_at = clock_timestamp(), lease_until = NULL WHERE id = $1`, id, msg)
+				if err != nil {
+					return err
+				}
+				return addHistory(ctx, tx, id, StatusFailed, "", string(StatusFailed)+": "+msg)
 			}
 			note := fmt.Sprintf("claimed (attempt %d)", attempts+1)
 			if Status(status) == StatusRunning {
@@ -737,4 +749,41 @@ func (p *Postgres) Deliveries(ctx context.Context, jobID string) ([]Delivery, er
 		}
 	}
 	return ds, nil
+}
+
+// MarkCallbackDone records that job id's callback is settled (delivered,
+// refused by the receiver, or given up), so PendingCallbacks no longer
+// returns it. ErrNotFound for an unknown job. It takes no owner: it is for
+// the delivery worker.
+func (p *Postgres) MarkCallbackDone(ctx context.Context, id string) error {
+	tag, err := p.pool.Exec(ctx, `UPDATE jobs SET callback_done = true WHERE id = $1`, id)
+	if err != nil {
+		return fmt.Errorf("mark callback done: job %s: %w", id, err)
+	}
+	if tag.RowsAffected() == 0 {
+		return fmt.Errorf("mark callback done: job %s: %w", id, ErrNotFound)
+	}
+	return nil
+}
+
+// PendingCallbacks returns up to limit finished jobs (any terminal status)
+// that have a callback URL whose callback is not yet settled
+// (MarkCallbackDone) and that finished more than olderThan ago (database
+// clock), oldest first: the callbacks a restarted service should resume.
+// Callbacks are at least once: two processes sweeping at once may both
+// deliver one. limit <= 0 means DefaultListLimit; it is capped at
+// MaxListLimit.
+func (p *Postgres) PendingCallbacks(ctx context.Context, olderThan time.Duration, limit int) ([]Job, error) {
+	rows, err := p.pool.Query(ctx, `SELECT `+jobColumns+` FROM jobs
+		WHERE callback_url <> '' AND NOT callback_done AND finished_at IS NOT NULL
+			AND finished_at < clock_timestamp() - $1 * interval '1 microsecond'
+		ORDER BY finished_at, id LIMIT $2`, micros(olderThan), clampLimit(limit))
+	if err != nil {
+		return nil, fmt.Errorf("pending callbacks: %w", err)
+	}
+	jobs, err := pgx.CollectRows(rows, func(r pgx.CollectableRow) (Job, error) { return scanJob(r) })
+	if err != nil {
+		return nil, fmt.Errorf("pending callbacks: %w", err)
+	}
+	return jobs, nil
 }

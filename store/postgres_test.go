@@ -40,6 +40,17 @@ func TestPostgres(t *testing.T) {
 	storetest.Run(t, func(t *testing.T) storetest.Store { return openPostgres(t) })
 }
 
+func TestPostgresAttemptLimit(t *testing.T) {
+	pgtest.BaseURL(t)
+	testAttemptLimit(t, func(t *testing.T, opts ...store.Option) storetest.Store {
+		p, err := store.Open(context.Background(), pgtest.URL(t), opts...)
+		if err != nil {
+			t.Fatalf("Open: %v", err)
+		}
+		return p
+	})
+}
+
 // TestPostgresFinishRollsBack checks that FinishJob is one transaction: when
 // the result insert fails inside the database (jsonb rejects \u0000, which
 // Go's JSON validation accepts), the status update and history row written

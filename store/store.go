@@ -95,6 +95,8 @@ type Job struct {
 
 	IdempotencyKey string // client's Idempotency-Key, "" for none
 	RequestHash    string // hash of Request used for idempotency; CreateJob fills it if empty
+
+	CallbackDone bool // MarkCallbackDone was called: the callback is settled
 }
 
 // Result is the output of a succeeded job. Body is the ranker.Result JSON.
@@ -216,6 +218,7 @@ func prepareJob(j Job) (Job, error) {
 	j.Attempts = 0
 	j.LeaseOwner = ""
 	j.CancelRequested = false
+	j.CallbackDone = false
 	j.Request = append(json.RawMessage(nil), j.Request...)
 	return j, nil
 }

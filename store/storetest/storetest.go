@@ -45,6 +45,8 @@ type Store interface {
 
 	RecordDelivery(ctx context.Context, d store.Delivery) error
 	Deliveries(ctx context.Context, jobID string) ([]store.Delivery, error)
+	MarkCallbackDone(ctx context.Context, id string) error
+	PendingCallbacks(ctx context.Context, olderThan time.Duration, limit int) ([]store.Job, error)
 
 	Ping(ctx context.Context) error
 	Close()
@@ -56,7 +58,8 @@ var (
 )
 
 // Run runs the conformance suite, one subtest per behaviour, each on a fresh
-// store from newStore (closed by the suite when the subtest ends).
+// store from newStore (closed by the suite when the subtest ends). The
+// stores must have default options (DefaultMaxAttempts).
 func Run(t *testing.T, newStore func(t *testing.T) Store) {
 	tests := []struct {
 		name string
@@ -78,7 +81,9 @@ func Run(t *testing.T, newStore func(t *testing.T) Store) {
 		{"Cancel", testCancel},
 		{"CancelDeadWorker", testCancelDeadWorker},
 		{"APIKeys", testAPIKeys},
+		{"MaxAttempts", testMaxAttempts},
 		{"Deliveries", testDeliveries},
+		{"PendingCallbacks", testPendingCallbacks},
 		{"Ping", testPing},
 	}
 	for _, tc := range tests {
@@ -809,6 +814,81 @@ func testDeliveries(t *testing.T, s Store) {
 	wantErr(t, "RecordDelivery for an unknown job", s.RecordDelivery(ctx, store.Delivery{JobID: "nosuchjob", Attempt: 1}), store.ErrNotFound)
 	_, err = s.Deliveries(ctx, "nosuchjob")
 	wantErr(t, "Deliveries of an unknown job", err, store.ErrNotFound)
+}
+
+func testMaxAttempts(t *testing.T, s Store) {
+	ctx := context.Background()
+	j := mustCreate(t, s, newJob("k1", 1))
+	for attempt := 1; attempt <= store.DefaultMaxAttempts; attempt++ {
+		c := mustClaim(t, s, fmt.Sprintf("w%d", attempt), 40*time.Millisecond)
+		if c.ID != j.ID || c.Attempts != attempt {
+			t.Fatalf("claim %d got %s attempt %d, want %s attempt %d", attempt, c.ID, c.Attempts, j.ID, attempt)
+		}
+		time.Sleep(100 * time.Millisecond) // the worker dies each time
+	}
+	_, err := s.ClaimJob(ctx, "w-last", time.Minute)
+	wantErr(t, "ClaimJob of a job out of attempts", err, store.ErrNoJob)
+	got := mustGet(t, s, "k1", j.ID)
+	if got.Status != store.StatusFailed || !strings.Contains(got.Error, "abandoned") || got.FinishedAt.IsZero() {
+		t.Errorf("job out of attempts = %s %q, want failed as abandoned", got.Status, got.Error)
+	}
+	if h := mustHistory(t, s, "k1", j.ID); h[len(h)-1].Status != store.StatusFailed {
+		t.Errorf("last history entry %+v, want failed", h[len(h)-1])
+	}
+}
+
+func testPendingCallbacks(t *testing.T, s Store) {
+	ctx := context.Background()
+	hooked := mustCreate(t, s, newJob("k1", 1))
+	plain := newJob("k1", 2)
+	plain.CallbackURL = ""
+	silent := mustCreate(t, s, plain)
+	cancelled := mustCreate(t, s, newJob("k2", 3))
+	waiting := mustCreate(t, s, newJob("k1", 4))
+	for _, id := range []string{hooked.ID, silent.ID} {
+		c := mustClaim(t, s, "w1", time.Minute)
+		if c.ID != id {
+			t.Fatalf("claimed %s, want %s", c.ID, id)
+		}
+		if err := s.FinishJob(ctx, id, "w1", store.StatusSucceeded, "", &store.Result{Body: json.RawMessage(`{}`)}); err != nil {
+			t.Fatal(err)
+		}
+	}
+	time.Sleep(2 * time.Millisecond)
+	if _, err := s.CancelJob(ctx, "k2", cancelled.ID); err != nil {
+		t.Fatal(err)
+	}
+	time.Sleep(2 * time.Millisecond)
+
+	ids := func(jobs []store.Job) []string {
+		out := []string{}
+		for _, j := range jobs {
+			out = append(out, j.ID)
+		}
+		return out
+	}
+	pending, err := s.PendingCallbacks(ctx, 0, 0)
+	if want := []string{hooked.ID, cancelled.ID}; err != nil || !reflect.DeepEqual(ids(pending), want) {
+		t.Fatalf("PendingCallbacks = %v, %v; want finished jobs with a callback %v (not %s without one, not %s still queued)",
+			ids(pending), err, want, silent.ID, waiting.ID)
+	}
+	if one, err := s.PendingCallbacks(ctx, 0, 1); err != nil || len(one) != 1 || one[0].ID != hooked.ID {
+		t.Errorf("PendingCallbacks(limit 1) = %v, %v; want the oldest, %s", ids(one), err, hooked.ID)
+	}
+	if recent, err := s.PendingCallbacks(ctx, time.Hour, 0); err != nil || len(recent) != 0 {
+		t.Errorf("PendingCallbacks(older than 1h) = %v, %v; want none", ids(recent), err)
+	}
+	if err := s.MarkCallbackDone(ctx, hooked.ID); err != nil {
+		t.Fatalf("MarkCallbackDone: %v", err)
+	}
+	if got := mustGet(t, s, "k1", hooked.ID); !got.CallbackDone {
+		t.Errorf("CallbackDone = false after MarkCallbackDone")
+	}
+	pending, err = s.PendingCallbacks(ctx, 0, 0)
+	if want := []string{cancelled.ID}; err != nil || !reflect.DeepEqual(ids(pending), want) {
+		t.Errorf("PendingCallbacks after MarkCallbackDone = %v, %v; want %v", ids(pending), err, want)
+	}
+	wantErr(t, "MarkCallbackDone of an unknown job", s.MarkCallbackDone(ctx, "nosuchjob"), store.ErrNotFound)
 }
 
 func testPing(t *testing.T, s Store) {
