@@ -31,8 +31,9 @@ class APIError extends Error {
   }
 }
 
-async function api(method, path, body, { retryAuth = true } = {}) {
+async function api(method, path, body, { retryAuth = true, idempotencyKey = "" } = {}) {
   const headers = { Accept: "application/json, application/problem+json" };
+  if (idempotencyKey) headers["Idempotency-Key"] = idempotencyKey;
   const key = sessionStorage.getItem(KEY_STORE);
   if (key) headers.Authorization = `Bearer ${key}`;
   if (body !== undefined) headers["Content-Type"] = "application/json";
@@ -44,7 +45,7 @@ async function api(method, path, body, { retryAuth = true } = {}) {
   }
   if (res.status === 401 && retryAuth) {
     const ok = await askForKey(key ? "The service did not accept that API key. Check it (no spaces) and try again, or ask for a new one." : null);
-    if (ok) return api(method, path, body, { retryAuth: true });
+    if (ok) return api(method, path, body, { retryAuth: true, idempotencyKey });
     throw new APIError(401, { detail: "An API key is needed to use this service." });
   }
   if (!res.ok) throw new APIError(res.status, data);
@@ -243,6 +244,7 @@ function buildRequest() {
       filter: $("filter").value.trim() || undefined,
       require: lines($("require").value),
       forbid: lines($("forbid").value),
+      keep_solvent_peaks: $("keep-solvent").checked || undefined,
     },
   };
   const ref = $("reference").value.trim();
@@ -252,9 +254,9 @@ function buildRequest() {
 
 const FIELD_SLOTS = {
   formula: "formula", peaks: "peaks", mhz: "mhz", solvent: "solvent", reference: "reference",
-  top_k: "top_k", filter: "filter", require: "require", forbid: "forbid",
+  top_k: "top_k", filter: "filter", require: "require", forbid: "forbid", keep_solvent_peaks: "keep_solvent_peaks",
 };
-const SLOT_INPUT = { top_k: "top-k", peaks: "peaks-text" };
+const SLOT_INPUT = { top_k: "top-k", peaks: "peaks-text", keep_solvent_peaks: "keep-solvent" };
 
 function slotFor(field) {
   const base = String(field || "").replace(/^\/+/, "").replace(/^(body|request)[./]/, "")
@@ -318,6 +320,13 @@ function markRowAt(pos) {
   });
 }
 
+let lastSubmit = { body: "", key: "" };
+
+function newKey() {
+  if (crypto.randomUUID) return crypto.randomUUID();
+  return [...crypto.getRandomValues(new Uint8Array(16))].map((b) => b.toString(16).padStart(2, "0")).join("");
+}
+
 async function submit(e) {
   e.preventDefault();
   clearErrors();
@@ -330,7 +339,11 @@ async function submit(e) {
   btn.disabled = true;
   btn.textContent = "Sending…";
   try {
-    const job = await api("POST", "/v1/jobs", body);
+    // The same body sent twice (a double click, a retry after a lost
+    // answer) names the same job.
+    const text = JSON.stringify(body);
+    if (text !== lastSubmit.body) lastSubmit = { body: text, key: newKey() };
+    const job = await api("POST", "/v1/jobs", body, { idempotencyKey: lastSubmit.key });
     sessionStorage.setItem(REQ_STORE + job.id, JSON.stringify(body));
     go(`/jobs/${job.id}`);
   } catch (err) {
@@ -353,6 +366,7 @@ function loadExample() {
   $("filter").value = "plausible";
   $("require").value = "";
   $("forbid").value = "";
+  $("keep-solvent").checked = false;
   updateDBE();
   syncRowsFromText();
   $("formula").focus();
@@ -976,6 +990,7 @@ function renderPlot() {
   $("zoom-hi").value = String(range.hi);
   $("zoom-lo").value = String(range.lo);
   const selPeak = review.peakSel >= 0 ? c.assignments[review.peakSel]?.peak.index : -1;
+  $("zoom-peak").disabled = review.peakSel < 0;
   drawPlot($("plot"), {
     observed: obsList, predicted: envs, overlay, links, mhz: review.mhz,
     hi: range.hi, lo: range.lo, selectedPeak: selPeak,
@@ -1051,6 +1066,15 @@ function init() {
   $("zoom-hi").addEventListener("change", setZoom);
   $("zoom-lo").addEventListener("change", setZoom);
   $("zoom-fit").addEventListener("click", () => { review.zoom = null; renderPlot(); });
+  $("zoom-peak").addEventListener("click", () => {
+    const a = review.candidates[review.selected].assignments[review.peakSel];
+    if (!a) return;
+    const pts = [a.peak.shift, a.peak.hi, a.peak.lo, ...a.envs.map((e) => e.shift)].filter((v) => typeof v === "number");
+    const spreadHz = Math.max(20, ...a.envs.map((e) => 2 * (e.j || []).reduce((x, y) => x + 3 * y, 0)));
+    const pad = Math.max(0.08, spreadHz / review.mhz);
+    review.zoom = { hi: +(Math.max(...pts) + pad).toFixed(2), lo: +(Math.min(...pts) - pad).toFixed(2) };
+    renderPlot();
+  });
   $("dl-csv").addEventListener("click", () => download(`shiftrank-${review.id}.csv`, "text/csv", rankingCSV()));
   $("dl-json").addEventListener("click", () => download(`shiftrank-${review.id}.json`, "application/json",
     JSON.stringify(review.data, null, 2) + "\n"));

@@ -129,7 +129,14 @@ export function drawPlot(container, data) {
     if (p.hi !== undefined && p.lo !== undefined && Math.abs(p.hi - p.lo) > 1e-6) {
       g.append(el("rect", { x: x(p.hi), y: top, width: Math.max(1, x(p.lo) - x(p.hi)), height: obsBase - top, class: `${cls} band` }));
     } else {
-      g.append(el("line", { x1: x(p.shift), x2: x(p.shift), y1: obsBase, y2: top, class: cls }));
+      // Draw the observed pattern as first-order sticks when its J values
+      // are given; the total height still stands for the H count.
+      const { lines } = multipletLines({ shift: p.shift, h: 1, multiplicity: p.multiplicity || "s", j: p.j || [] }, data.mhz);
+      const wmax = Math.max(...lines.map((l) => l.w));
+      for (const l of lines) {
+        const yt = obsBase - (obsBase - top) * (l.w / wmax);
+        g.append(el("line", { x1: x(l.ppm), x2: x(l.ppm), y1: obsBase, y2: yt, class: cls }));
+      }
     }
     if (p.label) g.append(el("text", { x: x(p.shift), y: top - 4, class: "peak-label", "text-anchor": "middle" }, p.label));
   });
