@@ -153,8 +153,9 @@ func (jc *jcamp) records() ([]ldr, error) {
 			}
 			raw := body[2:eq]
 			val := body[eq+1:]
-			r := ldr{label: normLabel(raw), raw: strings.TrimSpace(raw), pos: i + lead, vpos: i + lead + eq + 1}
-			r.value = stripComment(val)
+			vlead := len(val) - len(strings.TrimLeft(val, " \t"))
+			r := ldr{label: normLabel(raw), raw: strings.TrimSpace(raw), pos: i + lead, vpos: i + lead + eq + 1 + vlead}
+			r.value = stripComment(val[vlead:])
 			out = append(out, r)
 		} else if len(out) > 0 {
 			last := &out[len(out)-1]

@@ -106,6 +106,7 @@ func (jp *jsonPeaks) top() (PeakList, error) {
 				return pl, err
 			}
 			key, _ := kt.(string)
+			kpos++ // past the opening quote
 			if seen[key] {
 				return pl, jp.errAt(kpos, key, key, "repeated field")
 			}
@@ -210,7 +211,7 @@ func (jp *jsonPeaks) str(field string) (string, int, error) {
 	if !ok {
 		return "", pos, jp.errAt(pos, jp.tokText(pos), field, "expected a string")
 	}
-	return s, pos, nil
+	return s, pos + 1, nil // past the opening quote
 }
 
 // numbers reads an array of numbers.
@@ -259,6 +260,7 @@ func (jp *jsonPeaks) peak(path string) (Peak, error) {
 			return pk, err
 		}
 		key, _ := kt.(string)
+		kpos++ // past the opening quote
 		field := path + "." + key
 		if _, dup := seen[key]; dup {
 			return pk, jp.errAt(kpos, key, field, "repeated field")

@@ -91,7 +91,11 @@ base:
 			b = w
 		}
 	default:
-		// "doublet of doublets", "triplet of doublets", "broad singlet".
+		if c, ok := multiplicityWords[strings.Join(words, "")]; ok {
+			b = c // "AB q"
+			break
+		}
+		// "doublet of doublets", "triplet of doublets".
 		var letters strings.Builder
 		for i, w := range words {
 			if i%2 == 1 {

@@ -1,0 +1,234 @@
+package ranker
+
+import (
+	"encoding/json"
+	"errors"
+	"math"
+	"os"
+	"path/filepath"
+	"reflect"
+	"testing"
+)
+
+// wantPeak is the expected form of a peak in the testdata files. It is
+// decoded with encoding/json, not with the parser under test.
+type wantPeak struct {
+	Shift        *float64  `json:"shift"`
+	Range        []float64 `json:"range"`
+	Multiplicity string    `json:"multiplicity"`
+	Apparent     bool      `json:"apparent"`
+	J            []float64 `json:"j"`
+	Integral     float64   `json:"integral"`
+	Label        string    `json:"label"`
+}
+
+type wantList struct {
+	MHz     float64    `json:"mhz"`
+	Solvent string     `json:"solvent"`
+	Peaks   []wantPeak `json:"peaks"`
+}
+
+type wantErr struct {
+	Pos   int    `json:"pos"`
+	Token string `json:"token"`
+	Field string `json:"field"`
+}
+
+// peakCase is one case of testdata/peaks/journal.json (written by
+// journal_gen.py, which computes the expected byte positions itself).
+type peakCase struct {
+	Name   string    `json:"name"`
+	Source string    `json:"source"`
+	Input  string    `json:"input"`
+	Want   *wantList `json:"want"`
+	Err    *wantErr  `json:"err"`
+}
+
+func loadCases(t *testing.T, name string) []peakCase {
+	t.Helper()
+	b, err := os.ReadFile(filepath.Join("testdata", "peaks", name))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var cs []peakCase
+	if err := json.Unmarshal(b, &cs); err != nil {
+		t.Fatalf("%s: %v", name, err)
+	}
+	return cs
+}
+
+const shiftTol = 1e-9
+
+// checkList compares a parsed list with the expectation; Pos and Text are
+// not compared.
+func checkList(t *testing.T, name string, got PeakList, want wantList) {
+	t.Helper()
+	if got.MHz != want.MHz || got.Solvent != want.Solvent {
+		t.Errorf("%s: header = (%g MHz, %q), want (%g MHz, %q)", name, got.MHz, got.Solvent, want.MHz, want.Solvent)
+	}
+	if len(got.Peaks) != len(want.Peaks) {
+		t.Fatalf("%s: %d peaks, want %d: %v", name, len(got.Peaks), len(want.Peaks), got)
+	}
+	for i, w := range want.Peaks {
+		g := got.Peaks[i]
+		lo, hi := 0.0, 0.0
+		switch {
+		case w.Shift != nil:
+			lo, hi = *w.Shift, *w.Shift
+		case len(w.Range) == 2:
+			lo, hi = math.Min(w.Range[0], w.Range[1]), math.Max(w.Range[0], w.Range[1])
+		default:
+			t.Fatalf("%s: peak %d of the expectation has neither shift nor range", name, i)
+		}
+		if math.Abs(g.ShiftLo-lo) > shiftTol || math.Abs(g.ShiftHi-hi) > shiftTol || math.Abs(g.Shift-(lo+hi)/2) > shiftTol {
+			t.Errorf("%s: peak %d shift = %g (%g..%g), want %g..%g", name, i, g.Shift, g.ShiftLo, g.ShiftHi, lo, hi)
+		}
+		if g.Multiplicity != w.Multiplicity || g.Apparent != w.Apparent {
+			t.Errorf("%s: peak %d multiplicity = %q (apparent %v), want %q (apparent %v)", name, i, g.Multiplicity, g.Apparent, w.Multiplicity, w.Apparent)
+		}
+		if len(g.J) != len(w.J) {
+			t.Errorf("%s: peak %d J = %v, want %v", name, i, g.J, w.J)
+		} else {
+			for k := range w.J {
+				if math.Abs(g.J[k]-w.J[k]) > 1e-9 {
+					t.Errorf("%s: peak %d J = %v, want %v", name, i, g.J, w.J)
+					break
+				}
+			}
+		}
+		if math.Abs(g.Integral-w.Integral) > 1e-9 {
+			t.Errorf("%s: peak %d integral = %g, want %g", name, i, g.Integral, w.Integral)
+		}
+		if g.Label != w.Label {
+			t.Errorf("%s: peak %d label = %q, want %q", name, i, g.Label, w.Label)
+		}
+	}
+}
+
+func checkErr(t *testing.T, name string, err error, want wantErr) {
+	t.Helper()
+	var pe *PeakError
+	if !errors.As(err, &pe) {
+		t.Fatalf("%s: error = %v (%T), want a *PeakError", name, err, err)
+	}
+	if pe.Pos != want.Pos || pe.Token != want.Token || pe.Field != want.Field {
+		t.Errorf("%s: error at %d %q field %q (%v), want at %d %q field %q",
+			name, pe.Pos, pe.Token, pe.Field, err, want.Pos, want.Token, want.Field)
+	}
+}
+
+func TestParsePeaks(t *testing.T) {
+	for _, c := range loadCases(t, "journal.json") {
+		t.Run(c.Name, func(t *testing.T) {
+			pl, err := ParsePeaks(c.Input)
+			if c.Err != nil {
+				if err == nil {
+					t.Fatalf("ParsePeaks(%q) = %v, want an error", c.Input, pl)
+				}
+				checkErr(t, c.Name, err, *c.Err)
+				return
+			}
+			if err != nil {
+				t.Fatalf("ParsePeaks(%q): %v", c.Input, err)
+			}
+			checkList(t, c.Name, pl, *c.Want)
+			// Positions point at the peak text in the input.
+			for i, p := range pl.Peaks {
+				if p.Pos < 0 || p.Pos+len(p.Text) > len(c.Input) || c.Input[p.Pos:p.Pos+len(p.Text)] != p.Text {
+					t.Errorf("peak %d: Pos %d, Text %q do not point into the input", i, p.Pos, p.Text)
+				}
+			}
+			// The journal form written by String parses back to the same list.
+			again, err := ParsePeaks(pl.String())
+			if err != nil {
+				t.Fatalf("ParsePeaks(String() = %q): %v", pl.String(), err)
+			}
+			if !samePeaks(pl, again) {
+				t.Errorf("round trip:\n got %v\nwant %v", again, pl)
+			}
+		})
+	}
+}
+
+// samePeaks compares two lists ignoring Pos and Text.
+func samePeaks(a, b PeakList) bool {
+	if a.MHz != b.MHz || a.Solvent != b.Solvent || len(a.Peaks) != len(b.Peaks) {
+		return false
+	}
+	for i := range a.Peaks {
+		p, q := a.Peaks[i], b.Peaks[i]
+		p.Pos, p.Text, q.Pos, q.Text = 0, "", 0, ""
+		if len(p.J) == 0 {
+			p.J = nil
+		}
+		if len(q.J) == 0 {
+			q.J = nil
+		}
+		if !reflect.DeepEqual(p, q) {
+			return false
+		}
+	}
+	return true
+}
+
+func TestNormalizeMultiplicity(t *testing.T) {
+	// Spellings in common use in experimental sections (common practice).
+	cases := []struct {
+		in       string
+		want     string
+		apparent bool
+		ok       bool
+	}{
+		{"s", "s", false, true}, {"S", "s", false, true}, {"singlet", "s", false, true},
+		{"d", "d", false, true}, {"t", "t", false, true}, {"q", "q", false, true},
+		{"quint", "quint", false, true}, {"p", "quint", false, true}, {"quintet", "quint", false, true},
+		{"sext", "sext", false, true}, {"sextet", "sext", false, true},
+		{"sept", "sept", false, true}, {"hept", "sept", false, true}, {"septet", "sept", false, true},
+		{"m", "m", false, true}, {"multiplet", "m", false, true},
+		{"dd", "dd", false, true}, {"ddd", "ddd", false, true}, {"dt", "dt", false, true},
+		{"td", "td", false, true}, {"dq", "dq", false, true}, {"qd", "qd", false, true}, {"tt", "tt", false, true},
+		{"dddd", "dddd", false, true},
+		{"doublet of doublets", "dd", false, true}, {"doublet of triplets", "dt", false, true},
+		{"triplet of doublets", "td", false, true}, {"doublet of doublet of doublets", "ddd", false, true},
+		{"br s", "br s", false, true}, {"brs", "br s", false, true}, {"bs", "br s", false, true},
+		{"br", "br s", false, true}, {"br.s", "br s", false, true}, {"br. s", "br s", false, true},
+		{"broad singlet", "br s", false, true}, {"br d", "br d", false, true}, {"br t", "br t", false, true},
+		{"br m", "br m", false, true},
+		{"app t", "t", true, true}, {"app. d", "d", true, true}, {"apparent q", "q", true, true},
+		{"pseudo-t", "t", true, true}, {"app dt", "dt", true, true},
+		{"ABq", "m", false, true}, {"AB q", "m", false, true},
+		{"x", "", false, false}, {"", "", false, false}, {"dx", "", false, false}, {"ddddddd", "", false, false},
+		{"doublet of", "", false, false}, {"of doublets", "", false, false}, {"b", "", false, false},
+	}
+	for _, c := range cases {
+		got, app, ok := NormalizeMultiplicity(c.in)
+		if got != c.want || app != c.apparent || ok != c.ok {
+			t.Errorf("NormalizeMultiplicity(%q) = %q, %v, %v; want %q, %v, %v", c.in, got, app, ok, c.want, c.apparent, c.ok)
+		}
+	}
+}
+
+func TestPeakString(t *testing.T) {
+	pl := PeakList{MHz: 400, Solvent: "CDCl3", Peaks: []Peak{
+		{Shift: 7.275, ShiftLo: 7.2, ShiftHi: 7.35, Multiplicity: "m", Integral: 5},
+		{Shift: 4.12, ShiftLo: 4.12, ShiftHi: 4.12, Multiplicity: "q", J: []float64{7.1}, Integral: 2},
+		{Shift: 6.95, ShiftLo: 6.95, ShiftHi: 6.95, Multiplicity: "t", Apparent: true, Integral: 1, Label: "H-4"},
+	}}
+	want := "1H NMR (400 MHz, CDCl3) δ 7.35–7.2 (m, 5H), 4.12 (q, J = 7.1 Hz, 2H), 6.95 (app t, 1H, H-4)"
+	if got := pl.String(); got != want {
+		t.Errorf("String() = %q, want %q", got, want)
+	}
+}
+
+func TestParsePeaksLimits(t *testing.T) {
+	big := make([]byte, MaxPeakInput+1)
+	for i := range big {
+		big[i] = ' '
+	}
+	if _, err := ParsePeaks(string(big)); err == nil {
+		t.Error("ParsePeaks accepted more than MaxPeakInput bytes")
+	}
+	if _, err := ParsePeaks("δ 2.05 (s, 3H)\xff"); err == nil {
+		t.Error("ParsePeaks accepted invalid UTF-8")
+	}
+}
