@@ -1,0 +1,571 @@
+package isomers
+
+import (
+	"fmt"
+	"strings"
+
+	"shiftrank/molecule"
+)
+
+// Rule is one plausibility rule of the filter: a stable kebab-case name and
+// the chemical reason for removing the structures it matches.
+type Rule struct {
+	Name   string
+	Reason string
+}
+
+type ruleDef struct {
+	Rule
+	// violates reports whether m breaks the rule.
+	violates func(o *outputBuilder, m *mol) bool
+}
+
+// numRules is the number of rules in ruleTable.
+const numRules = 13
+
+// ruleTable lists the rules in the order they are applied and reported.
+// The reasons are textbook organic chemistry (common practice); the ring
+// size limits cite the literature named in each reason.
+var ruleTable = [numRules]ruleDef{
+	{Rule{"no-small-ring-triple", "A triple bond needs a linear (180°) arrangement at both carbons; a ring smaller than 8 atoms cannot close without prohibitive strain (cyclooctyne is the smallest isolable cycloalkyne; common practice)."}, smallRingTriple},
+	{Rule{"no-small-ring-allene", "The central carbon of an allene (C=C=C) or other cumulene is linear; in rings smaller than 8 atoms such compounds are at best transient intermediates (common practice)."}, smallRingAllene},
+	{Rule{"no-bredt-violation", "Bredt's rule: a double bond at the bridgehead of a small bridged bicyclic system cannot have the p orbitals aligned; bridgehead alkenes are isolable only when the bridges total at least 7 atoms (Fawcett's S ≥ 7: Fawcett 1950, Chem. Rev. 47:219, from memory)."}, bredtViolation},
+	{Rule{"no-peroxide", "O–O single bonds (peroxides, hydroperoxides) are weak and thermally or explosively unstable; they are rare as unknowns and are almost never the answer to a routine identification (common practice)."}, peroxide},
+	{Rule{"no-enol", "Keto–enol tautomerism: a hydroxyl on a non-aromatic C=C (enol) or C≡C (ynol) carbon converts to the carbonyl tautomer, which dominates at equilibrium for simple carbonyl compounds. Phenols (aromatic) are kept."}, enol},
+	{Rule{"no-imidic-acid", "Amide–imidic acid tautomerism: HO–C=N converts to the amide H–N–C=O, which dominates at equilibrium. Aromatic hydroxy-heterocycles are kept."}, imidicAcid},
+	{Rule{"no-gem-diol", "Two hydroxyls on one sp3 carbon (gem-diol, carbonyl hydrate) lose water to the carbonyl compound; isolable only for strongly electron-poor carbonyls such as chloral (common practice)."}, gemDiol},
+	{Rule{"no-hemiacetal", "An sp3 carbon bearing both OH and OR (hemiacetal, hemiketal) is in equilibrium with the carbonyl compound and the alcohol and is rarely isolated (cyclic sugar hemiacetals are the notable exception; switch the rule off for carbohydrates)."}, hemiacetal},
+	{Rule{"no-hemiaminal", "An sp3 carbon bearing both OH and an amine nitrogen (hemiaminal, carbinolamine) eliminates water to the imine or reverts to carbonyl plus amine; N-hydroxymethyl amides, which are stable, are kept."}, hemiaminal},
+	{Rule{"no-hypohalite", "O–halogen bonds (hypohalites, R–O–X) are strong oxidants that decompose readily; they are not isolated as routine unknowns (common practice)."}, hypohalite},
+	{Rule{"no-antiaromatic-ring", "Small rings with 4n π electrons are antiaromatic: oxirenes, thiirenes and 1H-azirines (a C=C or C=N double bond plus a lone-pair heteroatom in a three-membered ring) and cyclobutadienes or azetes (two double bonds in a four-membered ring) are observed only in matrices or with bulky substituents (Breslow 1973, Acc. Chem. Res. 6:393, from memory)."}, antiaromaticRing},
+	{Rule{"no-hypervalent-hydride", "Hydrogen on hypervalent sulfur (S(IV), S(VI)) and on P(V) without a P=X double bond (e.g. SH4, CH3SH3, PH5) tautomerise or eliminate H2; stable P(V)–H compounds (phosphinates, H-phosphonates, secondary phosphine oxides) carry P=O and are kept."}, hypervalentHydride},
+	{Rule{"no-bare-hypervalent", "Hypervalent sulfur (S(IV), S(VI)) or phosphorus (P(V)) with neither a double bond nor an oxygen or halogen neighbour (e.g. tetramethyl-λ4-sulfane, pentamethylphosphorane) is unstable; real hypervalent compounds (sulfoxides, sulfones, SF4, phosphates, PCl5) have electronegative ligands or multiple bonds."}, bareHypervalent},
+}
+
+// Rules returns the filter rules in the order they are applied.
+func Rules() []Rule {
+	out := make([]Rule, numRules)
+	for i := range ruleTable {
+		out[i] = ruleTable[i].Rule
+	}
+	return out
+}
+
+// Filter is a set of enabled plausibility rules. The zero value enables
+// none (everything is allowed). Filter is a comparable value.
+type Filter struct {
+	on uint32
+}
+
+// DefaultFilter returns the "plausible" filter: every rule enabled.
+func DefaultFilter() Filter { return Filter{on: 1<<numRules - 1} }
+
+// NoFilter returns the "none" filter: no rule enabled.
+func NoFilter() Filter { return Filter{} }
+
+// FilterError reports an unknown rule or a malformed filter expression.
+type FilterError struct {
+	Input string
+	Pos   int    // byte offset of Token in Input
+	Token string // the offending item
+	Msg   string
+}
+
+func (e *FilterError) Error() string {
+	return fmt.Sprintf("filter %q: %s at position %d (%q)", e.Input, e.Msg, e.Pos, e.Token)
+}
+
+// ParseFilter parses a filter expression: a comma-separated list whose
+// first item may be "plausible" (all rules) or "none" (no rule), followed
+// by edits "-rule" (disable) or "+rule" (enable); a bare rule name enables
+// it. The empty string is "plausible". Examples: "none",
+// "plausible,-no-enol", "none,+no-peroxide". Unknown rules or items give a
+// *FilterError naming the item and its position.
+func ParseFilter(s string) (Filter, error) {
+	f := DefaultFilter()
+	if strings.TrimSpace(s) == "" {
+		return f, nil
+	}
+	pos := 0
+	for i, item := range strings.Split(s, ",") {
+		start := pos
+		pos += len(item) + 1
+		it := strings.TrimSpace(item)
+		off := start + strings.Index(item, it)
+		switch {
+		case it == "plausible" && i == 0:
+			f = DefaultFilter()
+			continue
+		case it == "none" && i == 0:
+			f = NoFilter()
+			continue
+		case it == "plausible" || it == "none":
+			return Filter{}, &FilterError{Input: s, Pos: off, Token: it, Msg: "\"plausible\" or \"none\" may only come first"}
+		case it == "":
+			return Filter{}, &FilterError{Input: s, Pos: off, Token: it, Msg: "empty item"}
+		}
+		name := it
+		enable := true
+		if name[0] == '-' || name[0] == '+' {
+			enable = name[0] == '+'
+			name = name[1:]
+		}
+		idx := ruleIndex(name)
+		if idx < 0 {
+			return Filter{}, &FilterError{Input: s, Pos: off, Token: it, Msg: "unknown rule (see Rules)"}
+		}
+		if enable {
+			f.on |= 1 << idx
+		} else {
+			f.on &^= 1 << idx
+		}
+	}
+	return f, nil
+}
+
+func ruleIndex(name string) int {
+	for i := range ruleTable {
+		if ruleTable[i].Name == name {
+			return i
+		}
+	}
+	return -1
+}
+
+// Enabled returns the names of the enabled rules in rule order.
+func (f Filter) Enabled() []string {
+	var out []string
+	for i := range ruleTable {
+		if f.on&(1<<i) != 0 {
+			out = append(out, ruleTable[i].Name)
+		}
+	}
+	return out
+}
+
+// String returns "plausible", "none", or a ParseFilter expression that
+// gives f back.
+func (f Filter) String() string {
+	switch f {
+	case DefaultFilter():
+		return "plausible"
+	case NoFilter():
+		return "none"
+	}
+	var b strings.Builder
+	b.WriteString("none")
+	for _, n := range f.Enabled() {
+		b.WriteString(",+")
+		b.WriteString(n)
+	}
+	return b.String()
+}
+
+// Allows reports whether g passes the filter; if not, rule names the first
+// enabled rule it breaks. Graphs the generator could not have produced
+// (charges, aromatic bond orders, more than MaxAtoms atoms, valences
+// outside the element's list) are allowed unchecked with rule "".
+func (f Filter) Allows(g *molecule.Graph) (ok bool, rule string) {
+	if f.on == 0 {
+		return true, ""
+	}
+	var m mol
+	if !fromGraph(g, &m) {
+		return true, ""
+	}
+	var o outputBuilder
+	if i := f.check(&o, &m); i >= 0 {
+		return false, ruleTable[i].Name
+	}
+	return true, ""
+}
+
+// check returns the index of the first enabled rule m breaks, or -1.
+func (f Filter) check(o *outputBuilder, m *mol) int {
+	if f.on == 0 {
+		return -1
+	}
+	o.aromDone = false
+	for i := range ruleTable {
+		if f.on&(1<<i) != 0 && ruleTable[i].violates(o, m) {
+			return i
+		}
+	}
+	return -1
+}
+
+// ringSize returns the size of the smallest ring containing the bond a–b,
+// or 0 if the bond is in no ring.
+func (o *outputBuilder) ringSize(m *mol, a, b int) int {
+	for i := 0; i < m.n; i++ {
+		o.dist[i] = -1
+	}
+	o.dist[a] = 0
+	o.queue[0] = uint8(a)
+	h, t := 0, 1
+	for h < t {
+		v := int(o.queue[h])
+		h++
+		for k := 0; k < int(m.deg[v]); k++ {
+			u := int(m.nb[v][k])
+			if v == a && u == b || o.dist[u] >= 0 {
+				continue
+			}
+			o.dist[u] = o.dist[v] + 1
+			if u == b {
+				return int(o.dist[u]) + 1
+			}
+			o.queue[t] = uint8(u)
+			t++
+		}
+	}
+	return 0
+}
+
+// pathAvoiding returns the length of the shortest path from a to b that
+// does not pass through x, or 0 if there is none.
+func (o *outputBuilder) pathAvoiding(m *mol, a, b, x int) int {
+	for i := 0; i < m.n; i++ {
+		o.dist[i] = -1
+	}
+	o.dist[a] = 0
+	o.dist[x] = 0
+	o.queue[0] = uint8(a)
+	h, t := 0, 1
+	for h < t {
+		v := int(o.queue[h])
+		h++
+		for k := 0; k < int(m.deg[v]); k++ {
+			u := int(m.nb[v][k])
+			if o.dist[u] >= 0 {
+				continue
+			}
+			o.dist[u] = o.dist[v] + 1
+			if u == b {
+				return int(o.dist[u])
+			}
+			o.queue[t] = uint8(u)
+			t++
+		}
+	}
+	return 0
+}
+
+// atomRing returns the size of the smallest ring through atom a, or 0.
+func (o *outputBuilder) atomRing(m *mol, a int) int {
+	best := 0
+	for k := 0; k < int(m.deg[a]); k++ {
+		if r := o.ringSize(m, a, int(m.nb[a][k])); r > 0 && (best == 0 || r < best) {
+			best = r
+		}
+	}
+	return best
+}
+
+func isOH(m *mol, x int) bool {
+	return m.el[x] == molecule.O && m.deg[x] == 1 && m.bo[x][0] == 1 && m.free(x) == 1
+}
+
+func allSingle(m *mol, x int) bool {
+	return int(m.bsum[x]) == int(m.deg[x])
+}
+
+func smallRingTriple(o *outputBuilder, m *mol) bool {
+	for i := 0; i < m.n; i++ {
+		for k := 0; k < int(m.deg[i]); k++ {
+			u := int(m.nb[i][k])
+			if u > i && m.bo[i][k] == 3 {
+				if r := o.ringSize(m, i, u); r > 0 && r < 8 {
+					return true
+				}
+			}
+		}
+	}
+	return false
+}
+
+func smallRingAllene(o *outputBuilder, m *mol) bool {
+	for i := 0; i < m.n; i++ {
+		if m.el[i] != molecule.C || m.deg[i] != 2 || m.bo[i][0] != 2 || m.bo[i][1] != 2 {
+			continue
+		}
+		if r := o.atomRing(m, i); r > 0 && r < 8 {
+			return true
+		}
+	}
+	return false
+}
+
+func bredtViolation(o *outputBuilder, m *mol) bool {
+	for a := 0; a < m.n; a++ {
+		if m.el[a] != molecule.C || m.deg[a] != 3 || m.bsum[a] != 4 {
+			continue
+		}
+		// a has one double bond; all three bonds must be ring bonds
+		var nbr [3]int
+		dbl := -1
+		ok := true
+		for k := 0; k < 3; k++ {
+			nbr[k] = int(m.nb[a][k])
+			if m.bo[a][k] == 2 {
+				dbl = nbr[k]
+			}
+			if o.ringSize(m, a, nbr[k]) == 0 {
+				ok = false
+			}
+		}
+		if !ok || dbl < 0 || (m.el[dbl] != molecule.C && m.el[dbl] != molecule.N) {
+			continue
+		}
+		var r [3]int
+		r[0] = o.pathAvoiding(m, nbr[0], nbr[1], a) + 2
+		r[1] = o.pathAvoiding(m, nbr[0], nbr[2], a) + 2
+		r[2] = o.pathAvoiding(m, nbr[1], nbr[2], a) + 2
+		if r[0] == 2 || r[1] == 2 || r[2] == 2 {
+			continue // not all three pairs close a ring
+		}
+		// sort
+		if r[0] > r[1] {
+			r[0], r[1] = r[1], r[0]
+		}
+		if r[1] > r[2] {
+			r[1], r[2] = r[2], r[1]
+		}
+		if r[0] > r[1] {
+			r[0], r[1] = r[1], r[0]
+		}
+		// Fused (ortho-fused, bicyclo[x.y.0]) systems have r2 = r0 + r1 - 2;
+		// bridged systems have a shorter envelope.
+		if r[2] >= r[0]+r[1]-2 {
+			continue
+		}
+		s := (r[0]+r[1]+r[2])/2 - 3 // Fawcett's S: atoms in the three bridges
+		if s < 7 {
+			return true
+		}
+	}
+	return false
+}
+
+func peroxide(o *outputBuilder, m *mol) bool {
+	for i := 0; i < m.n; i++ {
+		if m.el[i] != molecule.O {
+			continue
+		}
+		for k := 0; k < int(m.deg[i]); k++ {
+			if m.el[m.nb[i][k]] == molecule.O && m.bo[i][k] == 1 {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+// hydroxylOnMultiple reports whether some OH sits on a carbon with a
+// non-aromatic double bond to an atom of element partner (or any triple
+// bond when triple is set).
+func hydroxylOnMultiple(o *outputBuilder, m *mol, partner molecule.Element, triple bool) bool {
+	for x := 0; x < m.n; x++ {
+		if !isOH(m, x) {
+			continue
+		}
+		c := int(m.nb[x][0])
+		if m.el[c] != molecule.C {
+			continue
+		}
+		for k := 0; k < int(m.deg[c]); k++ {
+			u := int(m.nb[c][k])
+			switch m.bo[c][k] {
+			case 3:
+				if triple {
+					return true
+				}
+			case 2:
+				if m.el[u] == partner && !o.aromatic(m, c, k) {
+					return true
+				}
+			}
+		}
+	}
+	return false
+}
+
+func enol(o *outputBuilder, m *mol) bool {
+	return hydroxylOnMultiple(o, m, molecule.C, true)
+}
+
+func imidicAcid(o *outputBuilder, m *mol) bool {
+	return hydroxylOnMultiple(o, m, molecule.N, false)
+}
+
+func gemDiol(o *outputBuilder, m *mol) bool {
+	for c := 0; c < m.n; c++ {
+		if m.el[c] != molecule.C || !allSingle(m, c) {
+			continue
+		}
+		oh := 0
+		for k := 0; k < int(m.deg[c]); k++ {
+			if isOH(m, int(m.nb[c][k])) {
+				oh++
+			}
+		}
+		if oh >= 2 {
+			return true
+		}
+	}
+	return false
+}
+
+// hemi reports whether an sp3 carbon carries an OH and a neighbour
+// accepted by other.
+func hemi(m *mol, other func(c, u int) bool) bool {
+	for c := 0; c < m.n; c++ {
+		if m.el[c] != molecule.C || !allSingle(m, c) {
+			continue
+		}
+		hasOH, hasOther := false, false
+		for k := 0; k < int(m.deg[c]); k++ {
+			u := int(m.nb[c][k])
+			if isOH(m, u) {
+				hasOH = true
+				continue
+			}
+			if other(c, u) {
+				hasOther = true
+			}
+		}
+		if hasOH && hasOther {
+			return true
+		}
+	}
+	return false
+}
+
+func hemiacetal(o *outputBuilder, m *mol) bool {
+	return hemi(m, func(c, u int) bool {
+		return m.el[u] == molecule.O && m.deg[u] == 2 && allSingle(m, u)
+	})
+}
+
+func hemiaminal(o *outputBuilder, m *mol) bool {
+	return hemi(m, func(c, u int) bool {
+		if m.el[u] != molecule.N || !allSingle(m, u) {
+			return false
+		}
+		// amide nitrogen (N–C=O, N–S(=O)): N-hydroxymethyl amides are stable
+		for k := 0; k < int(m.deg[u]); k++ {
+			w := int(m.nb[u][k])
+			if w == c {
+				continue
+			}
+			for j := 0; j < int(m.deg[w]); j++ {
+				if m.bo[w][j] == 2 && m.el[m.nb[w][j]] == molecule.O {
+					return false
+				}
+			}
+		}
+		return true
+	})
+}
+
+func hypohalite(o *outputBuilder, m *mol) bool {
+	for i := 0; i < m.n; i++ {
+		if m.el[i] != molecule.O {
+			continue
+		}
+		for k := 0; k < int(m.deg[i]); k++ {
+			if m.el[m.nb[i][k]].IsHalogen() {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+// lonePairDonor reports whether x would put a lone pair into a small ring's
+// π system: divalent O or S, or nitrogen with single bonds only.
+func lonePairDonor(m *mol, x int) bool {
+	switch m.el[x] {
+	case molecule.O, molecule.S:
+		return m.val[x] == 2 && allSingle(m, x)
+	case molecule.N:
+		return allSingle(m, x)
+	}
+	return false
+}
+
+func antiaromaticRing(o *outputBuilder, m *mol) bool {
+	for a := 0; a < m.n; a++ {
+		for k := 0; k < int(m.deg[a]); k++ {
+			b := int(m.nb[a][k])
+			if b < a || m.bo[a][k] != 2 {
+				continue
+			}
+			ea, eb := m.el[a], m.el[b]
+			cc := (ea == molecule.C || ea == molecule.N) && (eb == molecule.C || eb == molecule.N)
+			if !cc {
+				continue
+			}
+			// three-membered ring a–b–x with a lone-pair donor x
+			for j := 0; j < int(m.deg[a]); j++ {
+				x := int(m.nb[a][j])
+				if x != b && m.order(b, x) > 0 && lonePairDonor(m, x) {
+					return true
+				}
+			}
+			// four-membered ring a=b–c=d–a
+			for j := 0; j < int(m.deg[b]); j++ {
+				c := int(m.nb[b][j])
+				if c == a || m.bo[b][j] != 1 {
+					continue
+				}
+				for i := 0; i < int(m.deg[c]); i++ {
+					d := int(m.nb[c][i])
+					if d == b || d == a || m.bo[c][i] != 2 {
+						continue
+					}
+					if m.order(d, a) == 1 {
+						return true
+					}
+				}
+			}
+		}
+	}
+	return false
+}
+
+func hypervalentHydride(o *outputBuilder, m *mol) bool {
+	for i := 0; i < m.n; i++ {
+		if m.free(i) == 0 {
+			continue
+		}
+		switch {
+		case m.el[i] == molecule.S && m.val[i] > 2:
+			return true
+		case m.el[i] == molecule.P && m.val[i] == 5 && allSingle(m, i):
+			return true
+		}
+	}
+	return false
+}
+
+func bareHypervalent(o *outputBuilder, m *mol) bool {
+	for i := 0; i < m.n; i++ {
+		hyper := (m.el[i] == molecule.S && m.val[i] > 2) || (m.el[i] == molecule.P && m.val[i] == 5)
+		if !hyper || !allSingle(m, i) {
+			continue
+		}
+		electroneg := false
+		for k := 0; k < int(m.deg[i]); k++ {
+			e := m.el[m.nb[i][k]]
+			if e == molecule.O || e.IsHalogen() {
+				electroneg = true
+				break
+			}
+		}
+		if !electroneg {
+			return true
+		}
+	}
+	return false
+}

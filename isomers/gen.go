@@ -1,0 +1,527 @@
+package isomers
+
+import (
+	"fmt"
+
+	"shiftrank/molecule"
+)
+
+// This file holds the isomorph-free search: canonical augmentation by
+// vertex addition (McKay 1998, "Isomorph-free exhaustive generation",
+// J. Algorithms 26:306–324). A connected coloured multigraph with k+1
+// vertices is accepted as the child of its k-vertex parent only when the
+// added vertex lies in the automorphism orbit of the canonical deletion
+// vertex m(C): among the vertices whose removal leaves the graph connected,
+// those in the last cell of the canonical-key-ordered equitable partition,
+// and among them the one with the largest canonical label. The parent
+// offers each augmentation only once per orbit of its own automorphism
+// group. Every structure then has exactly one accepted path from a single
+// atom, so no two emitted structures are isomorphic.
+
+const maxColours = 16
+
+// plan is what a formula fixes for the whole search.
+type plan struct {
+	formula molecule.Formula
+	n       int // heavy atoms
+	h       int // hydrogens
+	colours []colour
+	assigns []assignment
+}
+
+// assignment fixes the valence state of every hypervalent-capable atom
+// (as counts per colour) and hence the total bond order E.
+type assignment struct {
+	count [maxColours]int
+	e     int
+}
+
+// newPlan lists the colours and the valence assignments of f.
+func newPlan(f molecule.Formula) (*plan, error) {
+	p := &plan{formula: f, n: f.HeavyAtoms(), h: f.HydrogenCount()}
+	if p.n == 0 {
+		return nil, fmt.Errorf("isomers: formula %s has no heavy atoms", f)
+	}
+	if p.n > MaxAtoms {
+		return nil, fmt.Errorf("isomers: formula %s has %d heavy atoms, more than the generator's limit of %d", f, p.n, MaxAtoms)
+	}
+	var elems []molecule.Element
+	for e := molecule.H + 1; e < molecule.NumElements; e++ {
+		if f.Count(e) == 0 {
+			continue
+		}
+		elems = append(elems, e)
+		for _, v := range e.Valences() {
+			p.colours = append(p.colours, colour{el: e, val: v})
+		}
+	}
+	// enumerate the multisets of valences per element
+	var cur assignment
+	var rec func(ei int)
+	rec = func(ei int) {
+		if ei == len(elems) {
+			sum := 0
+			for ci, c := range p.colours {
+				sum += cur.count[ci] * c.val
+			}
+			if (sum-p.h)%2 != 0 || sum < p.h {
+				return
+			}
+			e := (sum - p.h) / 2
+			if e < p.n-1 || e > 3*p.n*(p.n-1)/2 {
+				return
+			}
+			a := cur
+			a.e = e
+			p.assigns = append(p.assigns, a)
+			return
+		}
+		el := elems[ei]
+		var idx []int
+		for ci, c := range p.colours {
+			if c.el == el {
+				idx = append(idx, ci)
+			}
+		}
+		var split func(j, left int)
+		split = func(j, left int) {
+			if j == len(idx)-1 {
+				cur.count[idx[j]] = left
+				rec(ei + 1)
+				cur.count[idx[j]] = 0
+				return
+			}
+			for k := left; k >= 0; k-- {
+				cur.count[idx[j]] = k
+				split(j+1, left-k)
+			}
+			cur.count[idx[j]] = 0
+		}
+		split(0, f.Count(el))
+	}
+	rec(0)
+	return p, nil
+}
+
+// aug is one augmentation: a new atom of colour c bonded to att[:na] with
+// orders ord[:na].
+type aug struct {
+	c   uint8
+	na  uint8
+	att [maxDeg]uint8
+	ord [maxDeg]uint8
+}
+
+// level is the per-depth scratch of a worker.
+type level struct {
+	kids   []aug
+	gens   [][MaxAtoms]uint8
+	orbit  [MaxAtoms]uint8
+	trivial, tree, haveGens bool
+	part   partition
+	vec    [MaxAtoms]uint8
+	orbitQ [][MaxAtoms]uint8
+}
+
+// searcher runs the depth-first canonical augmentation from a given node.
+// One per goroutine.
+type searcher struct {
+	p      *plan
+	m      mol
+	cz     canonizer
+	rem    [maxColours]int
+	nrem   int // atoms still to add
+	vrem   int // sum of valences of atoms still to add
+	e      int // target total bond order
+	b      int // current total bond order
+	levels []level
+	// emit receives each complete structure; false stops the search.
+	emit    func(m *mol) bool
+	stopped bool
+	// poll is called every few thousand nodes; returning false stops.
+	poll    func() bool
+	nodes   int
+	covered float64 // weight of finished subtrees (see Stats.Fraction)
+	cut     [MaxAtoms]bool
+	res     canonResult
+}
+
+func newSearcher(p *plan) *searcher {
+	s := &searcher{p: p, levels: make([]level, p.n+1)}
+	s.cz.m = &s.m
+	return s
+}
+
+// reset starts a new task: the single atom of colour root under
+// assignment a, then the given augmentations.
+func (s *searcher) reset(a int, root uint8, path []aug) {
+	s.m = mol{}
+	s.rem = s.p.assigns[a].count
+	s.e = s.p.assigns[a].e
+	s.b = 0
+	s.nrem = s.p.n
+	s.vrem = 0
+	for ci, c := range s.p.colours {
+		s.vrem += s.rem[ci] * c.val
+	}
+	s.pushAtom(root, nil, nil)
+	for i := range path {
+		a := &path[i]
+		s.pushAtom(a.c, a.att[:a.na], a.ord[:a.na])
+	}
+}
+
+func (s *searcher) pushAtom(c uint8, att, ord []uint8) {
+	col := s.p.colours[c]
+	s.m.push(c, col.el, col.val, att, ord)
+	s.rem[c]--
+	s.nrem--
+	s.vrem -= col.val
+	for _, o := range ord {
+		s.b += int(o)
+	}
+}
+
+func (s *searcher) popAtom() {
+	v := s.m.n - 1
+	c := s.m.col[v]
+	s.b -= int(s.m.bsum[v])
+	s.m.pop()
+	s.rem[c]++
+	s.nrem++
+	s.vrem += s.p.colours[c].val
+}
+
+// expand searches the subtree below the current structure; weight is the
+// share of the whole search space this subtree stands for.
+func (s *searcher) expand(weight float64) {
+	if s.stopped {
+		return
+	}
+	if s.m.n == s.p.n {
+		if !s.emit(&s.m) {
+			s.stopped = true
+		}
+		s.covered += weight
+		return
+	}
+	lv := &s.levels[s.m.n]
+	lv.kids = s.children(lv.kids[:0])
+	if s.stopped {
+		return
+	}
+	if len(lv.kids) == 0 {
+		s.covered += weight
+		return
+	}
+	w := weight / float64(len(lv.kids))
+	for i := 0; i < len(lv.kids) && !s.stopped; i++ {
+		a := lv.kids[i]
+		s.pushAtom(a.c, a.att[:a.na], a.ord[:a.na])
+		s.expand(w)
+		s.popAtom()
+		lv = &s.levels[s.m.n] // levels is not reallocated, but keep it explicit
+	}
+}
+
+// children returns the accepted augmentations of the current structure.
+// When the children would be complete structures they are emitted
+// instead and the returned slice stays empty.
+func (s *searcher) children(kids []aug) []aug {
+	s.nodes++
+	if s.nodes&1023 == 0 && s.poll != nil && !s.poll() {
+		s.stopped = true
+		return kids
+	}
+	k := s.m.n
+	lv := &s.levels[k]
+	F := 0
+	for i := 0; i < k; i++ {
+		F += s.m.free(i)
+	}
+	R := s.e - s.b
+	if 2*R > F+s.vrem || F == 0 {
+		return kids
+	}
+	// automorphisms of the parent
+	cz := &s.cz
+	cz.vertexKeys()
+	cz.initPartition(&lv.part)
+	lv.trivial = lv.part.ncells == k
+	lv.tree = s.m.isTree()
+	lv.haveGens = false
+	lv.gens = lv.gens[:0]
+	if !lv.trivial {
+		if lv.tree {
+			for i := 0; i < k; i++ {
+				lv.orbit[i] = uint8(i)
+			}
+			for i := 0; i < k; i++ {
+				c := lv.part.cellOf[i]
+				// smallest vertex of the cell
+				min := uint8(MaxAtoms)
+				for j := int(c); j < int(lv.part.end[c]); j++ {
+					if lv.part.lab[j] < min {
+						min = lv.part.lab[j]
+					}
+				}
+				lv.orbit[i] = min
+			}
+		} else {
+			s.parentGroup(lv)
+		}
+	}
+	final := k+1 == s.p.n
+	var a aug
+	for ci := range s.p.colours {
+		if s.rem[ci] == 0 {
+			continue
+		}
+		vc := s.p.colours[ci].val
+		rp := s.nrem - 1
+		vp := s.vrem - vc
+		smin := max(1, R-vp)
+		smax := min(vc, R-rp, F)
+		if rp > 0 {
+			smax = min(smax, (F+vc-1)/2)
+		} else {
+			smin = max(smin, R)
+		}
+		if smin > smax {
+			continue
+		}
+		a.c = uint8(ci)
+		kids = s.enumerate(kids, lv, &a, 0, 0, smin, smax, final)
+		if s.stopped {
+			return kids
+		}
+	}
+	return kids
+}
+
+// parentGroup computes the automorphism generators and orbits of the
+// current structure into lv.
+func (s *searcher) parentGroup(lv *level) {
+	cz := &s.cz
+	p := lv.part
+	cz.search(&p, &s.res)
+	lv.gens = append(lv.gens[:0], cz.gens...)
+	lv.orbit = s.res.orbit
+	lv.haveGens = true
+}
+
+// enumerate chooses bond orders from the new atom to atoms from..k-1, with
+// sum bonds so far, and tests every complete choice whose sum lies in
+// [smin, smax].
+func (s *searcher) enumerate(kids []aug, lv *level, a *aug, from, sum, smin, smax int, final bool) []aug {
+	k := s.m.n
+	if sum >= smin {
+		kids = s.try(kids, lv, a, final)
+		if s.stopped {
+			return kids
+		}
+	}
+	if sum == smax || int(a.na) == maxDeg {
+		return kids
+	}
+	for i := from; i < k; i++ {
+		f := s.m.free(i)
+		if f == 0 || s.m.deg[i] == maxDeg {
+			continue
+		}
+		top := min(3, f, smax-sum)
+		for o := 1; o <= top; o++ {
+			a.att[a.na] = uint8(i)
+			a.ord[a.na] = uint8(o)
+			a.na++
+			kids = s.enumerate(kids, lv, a, i+1, sum+o, smin, smax, final)
+			a.na--
+			if s.stopped {
+				return kids
+			}
+		}
+	}
+	return kids
+}
+
+// try tests one augmentation.
+func (s *searcher) try(kids []aug, lv *level, a *aug, final bool) []aug {
+	if a.na == 0 {
+		return kids
+	}
+	if !lv.trivial && !s.augCanonical(lv, a) {
+		return kids
+	}
+	s.pushAtom(a.c, a.att[:a.na], a.ord[:a.na])
+	ok := s.accept()
+	if ok {
+		if final {
+			if !s.emit(&s.m) {
+				s.stopped = true
+			}
+		} else {
+			kids = append(kids, *a)
+		}
+	}
+	s.popAtom()
+	return kids
+}
+
+// augCanonical reports whether a is the representative of its orbit
+// under the parent's automorphism group: for a single bond, the bonded
+// atom is the smallest of its orbit; otherwise the vector of bond orders
+// indexed by atom is lexicographically largest in its orbit.
+func (s *searcher) augCanonical(lv *level, a *aug) bool {
+	if a.na == 1 {
+		return lv.orbit[a.att[0]] == a.att[0]
+	}
+	if !lv.haveGens {
+		s.parentGroup(lv)
+	}
+	if len(lv.gens) == 0 {
+		return true
+	}
+	k := s.m.n
+	var vec [MaxAtoms]uint8
+	for i := 0; i < int(a.na); i++ {
+		vec[a.att[i]] = a.ord[i]
+	}
+	lv.orbitQ = append(lv.orbitQ[:0], vec)
+	for qi := 0; qi < len(lv.orbitQ); qi++ {
+		cur := lv.orbitQ[qi]
+		for gi := range lv.gens {
+			g := &lv.gens[gi]
+			var img [MaxAtoms]uint8
+			for i := 0; i < k; i++ {
+				if cur[i] != 0 {
+					img[g[i]] = cur[i]
+				}
+			}
+			// compare with vec
+			c := 0
+			for i := 0; i < k; i++ {
+				if img[i] != vec[i] {
+					if img[i] > vec[i] {
+						c = 1
+					} else {
+						c = -1
+					}
+					break
+				}
+			}
+			if c > 0 {
+				return false
+			}
+			if c == 0 {
+				continue
+			}
+			seen := false
+			for j := range lv.orbitQ {
+				if lv.orbitQ[j] == img {
+					seen = true
+					break
+				}
+			}
+			if !seen {
+				lv.orbitQ = append(lv.orbitQ, img)
+			}
+		}
+	}
+	return true
+}
+
+// accept reports whether the last atom of the current structure lies in
+// the orbit of the canonical deletion vertex.
+func (s *searcher) accept() bool {
+	m := &s.m
+	n := m.n
+	v := n - 1
+	cz := &s.cz
+	cz.vertexKeys()
+	kv := cz.key[v]
+	maxKey := kv
+	for x := 0; x < n-1; x++ {
+		if cz.key[x] > maxKey {
+			maxKey = cz.key[x]
+		}
+	}
+	if maxKey > kv {
+		// Is some vertex with a larger key than v eligible (not a cut
+		// vertex)? Leaves always are.
+		if maxKey>>56 == 7 {
+			return false
+		}
+		m.articulation(&s.cut)
+		for x := 0; x < n-1; x++ {
+			if cz.key[x] > kv && !s.cut[x] {
+				return false
+			}
+		}
+	}
+	// v has the largest key among eligible vertices. Vertices with an
+	// equal key have v's degree; if that is 1 they are leaves (eligible),
+	// otherwise the cut vertices among them must be excluded.
+	needCut := m.deg[v] > 1
+	cutDone := maxKey > kv
+	if needCut && !cutDone {
+		m.articulation(&s.cut)
+	}
+	if !needCut {
+		for x := 0; x < n; x++ {
+			s.cut[x] = false
+		}
+	}
+	tie := false
+	for x := 0; x < n-1; x++ {
+		if cz.key[x] == kv && !s.cut[x] {
+			tie = true
+			break
+		}
+	}
+	if !tie {
+		return true
+	}
+	var p partition
+	cz.initPartition(&p)
+	// last cell containing an eligible vertex with key kv
+	xs := -1
+	for st := 0; st < n; st = int(p.end[st]) {
+		u := p.lab[st]
+		if cz.key[u] != kv {
+			continue
+		}
+		for j := st; j < int(p.end[st]); j++ {
+			if !s.cut[p.lab[j]] {
+				xs = st
+				break
+			}
+		}
+	}
+	if int(p.cellOf[v]) != xs {
+		return false
+	}
+	elig := 0
+	for j := xs; j < int(p.end[xs]); j++ {
+		if !s.cut[p.lab[j]] {
+			elig++
+		}
+	}
+	if elig == 1 || m.isTree() {
+		// in a tree the cells of the equitable partition are the orbits
+		return true
+	}
+	cz.search(&p, &s.res)
+	best := -1
+	var bm uint8
+	for j := xs; j < int(p.end[xs]); j++ {
+		u := p.lab[j]
+		if s.cut[u] {
+			continue
+		}
+		if int(s.res.labels[u]) > best {
+			best = int(s.res.labels[u])
+			bm = u
+		}
+	}
+	return s.res.orbit[bm] == s.res.orbit[v]
+}

@@ -1,0 +1,445 @@
+package isomers
+
+import (
+	"context"
+	"fmt"
+	"runtime"
+	"sync"
+	"sync/atomic"
+
+	"shiftrank/molecule"
+)
+
+// Options controls a generation run. The zero value generates without any
+// plausibility filtering; callers that rank candidates should set
+// Filter: DefaultFilter().
+type Options struct {
+	// Filter is the set of plausibility rules applied to each structure.
+	// The zero Filter allows everything (same as NoFilter()).
+	Filter Filter
+	// Limit stops the run after this many emitted structures (0 = no
+	// limit).
+	Limit int64
+	// Workers is the number of goroutines searching; 0 means
+	// runtime.GOMAXPROCS(0). The set and, for Generate, the order of the
+	// structures do not depend on it.
+	Workers int
+}
+
+// Stats describes a finished or stopped run.
+type Stats struct {
+	// Emitted counts structures passed to yield (or counted by Count).
+	Emitted int64
+	// Generated counts distinct structures found before the filter.
+	Generated int64
+	// Removed maps a filter rule name to the number of structures it
+	// removed (the first enabled rule that objects is charged). Rules that
+	// removed nothing are absent.
+	Removed map[string]int64
+	// Complete is false if the run stopped early: Limit reached, yield
+	// returned false, or the context ended.
+	Complete bool
+	// Fraction estimates the share of the search space covered, 0..1
+	// (1 when Complete). Each subtree of the search gets an equal share of
+	// its parent's weight, so Emitted/Fraction is a rough estimate of the
+	// total: useful for progress and totals, not exact.
+	Fraction float64
+}
+
+// frontierTarget is the number of subtrees the search is split into
+// (at least, when the formula allows it). It is fixed so that the order of
+// Generate does not depend on the number of workers.
+const frontierTarget = 384
+
+// batchSize is the number of structures handed over at once.
+const batchSize = 256
+
+// task is one subtree of the search: the structure reached from a single
+// atom by a sequence of augmentations.
+type task struct {
+	assign int
+	root   uint8
+	path   []aug
+	weight float64
+}
+
+// frontier splits the search into tasks, level by level, in a
+// deterministic order.
+func frontier(ctx context.Context, p *plan) ([]task, error) {
+	var roots []task
+	for ai, a := range p.assigns {
+		for ci := range p.colours {
+			if a.count[ci] > 0 {
+				roots = append(roots, task{assign: ai, root: uint8(ci)})
+			}
+		}
+	}
+	for i := range roots {
+		roots[i].weight = 1 / float64(len(roots))
+	}
+	tasks := roots
+	s := newSearcher(p)
+	s.emit = func(*mol) bool { return true }
+	for depth := 1; depth < p.n-1 && len(tasks) < frontierTarget; depth++ {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		var next []task
+		for _, t := range tasks {
+			s.reset(t.assign, t.root, t.path)
+			kids := s.children(nil)
+			for _, k := range kids {
+				path := make([]aug, len(t.path)+1)
+				copy(path, t.path)
+				path[len(t.path)] = k
+				next = append(next, task{assign: t.assign, root: t.root, path: path, weight: t.weight / float64(len(kids))})
+			}
+		}
+		tasks = next
+	}
+	return tasks, nil
+}
+
+// runner holds what the workers of one run share.
+type runner struct {
+	p       *plan
+	filter  Filter
+	tasks   []task
+	nextT   atomic.Int64
+	stop    atomic.Bool
+	emitted atomic.Int64
+	limit   int64
+	ctx     context.Context
+}
+
+// workerState is what one worker accumulates.
+type workerState struct {
+	s         *searcher
+	out       outputBuilder
+	generated int64
+	removed   [numRules]int64
+	emitted   int64
+}
+
+func prepare(ctx context.Context, f molecule.Formula, opts Options) (*runner, int, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, 0, err
+	}
+	if f.HeavyAtoms() > 0 && !f.EvenElectron() {
+		return nil, 0, fmt.Errorf("isomers: formula %s has an odd number of electrons: no neutral closed-shell structure", f)
+	}
+	p, err := newPlan(f)
+	if err != nil {
+		return nil, 0, err
+	}
+	tasks, err := frontier(ctx, p)
+	if err != nil {
+		return nil, 0, err
+	}
+	w := opts.Workers
+	if w <= 0 {
+		w = runtime.GOMAXPROCS(0)
+	}
+	if w > len(tasks) && len(tasks) > 0 {
+		w = len(tasks)
+	}
+	if w < 1 {
+		w = 1
+	}
+	r := &runner{p: p, filter: opts.Filter, tasks: tasks, limit: opts.Limit, ctx: ctx}
+	return r, w, nil
+}
+
+// process runs the filter on a complete structure and reports whether it
+// is to be emitted.
+func (ws *workerState) process(r *runner, m *mol) bool {
+	ok, rep := ws.out.kekuleRepresentative(m)
+	if !ok || !rep {
+		return false
+	}
+	ws.generated++
+	if rule := r.filter.check(&ws.out, m); rule >= 0 {
+		ws.removed[rule]++
+		return false
+	}
+	return true
+}
+
+// claim reserves one emission slot under the limit.
+func (r *runner) claim() bool {
+	if r.limit <= 0 {
+		return true
+	}
+	n := r.emitted.Add(1)
+	if n > r.limit {
+		r.stop.Store(true)
+		return false
+	}
+	if n == r.limit {
+		r.stop.Store(true)
+	}
+	return true
+}
+
+func (r *runner) poll() bool {
+	if r.stop.Load() {
+		return false
+	}
+	if r.ctx.Err() != nil {
+		r.stop.Store(true)
+		return false
+	}
+	return true
+}
+
+func (r *runner) newWorker() *workerState {
+	ws := &workerState{s: newSearcher(r.p)}
+	ws.s.poll = r.poll
+	return ws
+}
+
+// runTask searches one task's subtree.
+func (ws *workerState) runTask(t *task) {
+	s := ws.s
+	s.stopped = false
+	s.reset(t.assign, t.root, t.path)
+	s.expand(t.weight)
+}
+
+func (r *runner) stats(workers []*workerState, covered float64, complete bool) Stats {
+	st := Stats{Removed: map[string]int64{}}
+	for _, ws := range workers {
+		st.Generated += ws.generated
+		st.Emitted += ws.emitted
+		for i, n := range ws.removed {
+			if n > 0 {
+				st.Removed[ruleTable[i].Name] += n
+			}
+		}
+	}
+	st.Complete = complete
+	st.Fraction = covered
+	if complete {
+		st.Fraction = 1
+	}
+	if st.Fraction > 1 {
+		st.Fraction = 1
+	}
+	return st
+}
+
+// GenerateConcurrent streams every constitutional isomer of f that passes
+// opts.Filter to yield, calling it concurrently from opts.Workers
+// goroutines (worker is 0..Workers-1) in no particular order. The graph
+// belongs to yield only during the call; Clone it to keep it. Every graph
+// is kekulised, neutral, connected and valence-satisfying, with implicit
+// hydrogen counts; compounds whose Kekulé structures differ only by
+// shifted double bonds in a Hückel ring system come once.
+//
+// Returning false from yield stops the run. The error is ctx.Err() if the
+// context ended, or describes a formula the generator cannot handle (more
+// than MaxAtoms heavy atoms, odd electron count); Stats is valid either way.
+func GenerateConcurrent(ctx context.Context, f molecule.Formula, opts Options, yield func(worker int, g *molecule.Graph) bool) (Stats, error) {
+	r, nw, err := prepare(ctx, f, opts)
+	if err != nil {
+		return Stats{Removed: map[string]int64{}}, err
+	}
+	workers := make([]*workerState, nw)
+	covered := make([]float64, nw)
+	var wg sync.WaitGroup
+	for wi := 0; wi < nw; wi++ {
+		ws := r.newWorker()
+		workers[wi] = ws
+		id := wi
+		ws.s.emit = func(m *mol) bool {
+			if !ws.process(r, m) {
+				return !r.stop.Load()
+			}
+			if !r.claim() {
+				return false
+			}
+			ws.emitted++
+			if yield != nil && !yield(id, ws.out.graph(m)) {
+				r.stop.Store(true)
+				return false
+			}
+			return !r.stop.Load()
+		}
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for !r.stop.Load() {
+				ti := r.nextT.Add(1) - 1
+				if ti >= int64(len(r.tasks)) {
+					return
+				}
+				ws.s.covered = 0
+				ws.runTask(&r.tasks[ti])
+				covered[id] += ws.s.covered
+			}
+		}()
+	}
+	wg.Wait()
+	total := 0.0
+	for _, c := range covered {
+		total += c
+	}
+	complete := !r.stop.Load() && int(r.nextT.Load()) >= len(r.tasks)
+	st := r.stats(workers, total, complete)
+	if err := ctx.Err(); err != nil {
+		st.Complete = false
+		return st, err
+	}
+	return st, nil
+}
+
+// Count counts the structures GenerateConcurrent would emit, using all
+// workers, without building graphs for them.
+func Count(ctx context.Context, f molecule.Formula, opts Options) (Stats, error) {
+	return GenerateConcurrent(ctx, f, opts, nil)
+}
+
+// result is one batch of structures handed from a worker to the
+// consumer of Generate.
+type result struct {
+	data     []byte // encoded structures, see outputBuilder.encode
+	count    int
+	gen      int64
+	removed  [numRules]int64
+	covered  float64
+}
+
+// Generate streams every constitutional isomer of f that passes
+// opts.Filter to yield, from the calling goroutine, in a deterministic
+// order: the same formula and options give the same sequence whatever the
+// number of workers. The search runs on opts.Workers goroutines; their
+// results are buffered (bounded) and released in subtree order. The graph
+// belongs to yield only during the call; Clone it to keep it. See
+// GenerateConcurrent for the properties of the graphs and the errors.
+func Generate(ctx context.Context, f molecule.Formula, opts Options, yield func(g *molecule.Graph) bool) (Stats, error) {
+	r, nw, err := prepare(ctx, f, opts)
+	if err != nil {
+		return Stats{Removed: map[string]int64{}}, err
+	}
+	chans := make([]chan *result, len(r.tasks))
+	for i := range chans {
+		chans[i] = make(chan *result, 4)
+	}
+	var wg sync.WaitGroup
+	for wi := 0; wi < nw; wi++ {
+		ws := r.newWorker()
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				ti := r.nextT.Add(1) - 1
+				if ti >= int64(len(r.tasks)) {
+					return
+				}
+				ch := chans[ti]
+				if r.stop.Load() {
+					close(ch)
+					continue
+				}
+				cur := &result{}
+				flush := func() bool {
+					cur.gen = ws.generated
+					cur.removed = ws.removed
+					ws.generated = 0
+					ws.removed = [numRules]int64{}
+					cur.covered = ws.s.covered
+					ws.s.covered = 0
+					select {
+					case ch <- cur:
+					case <-r.ctx.Done():
+						r.stop.Store(true)
+						return false
+					}
+					cur = &result{}
+					return !r.stop.Load()
+				}
+				ws.s.emit = func(m *mol) bool {
+					if !ws.process(r, m) {
+						return !r.stop.Load()
+					}
+					cur.data = ws.out.encode(cur.data, m)
+					cur.count++
+					if cur.count == batchSize {
+						return flush()
+					}
+					return !r.stop.Load()
+				}
+				ws.s.covered = 0
+				ws.runTask(&r.tasks[ti])
+				if !r.stop.Load() || cur.count > 0 {
+					flush()
+				}
+				close(ch)
+			}
+		}()
+	}
+	// consume in task order
+	st := Stats{Removed: map[string]int64{}}
+	var removed [numRules]int64
+	covered := 0.0
+	g := molecule.NewGraph(r.p.n)
+	stopped := false
+	for ti := range chans {
+		if stopped {
+			break
+		}
+		for res := range chans[ti] {
+			if stopped {
+				continue
+			}
+			st.Generated += res.gen
+			for i, n := range res.removed {
+				removed[i] += n
+			}
+			covered += res.covered
+			off := 0
+			for i := 0; i < res.count; i++ {
+				off = decode(res.data, off, g)
+				st.Emitted++
+				if !yield(g) {
+					stopped = true
+					break
+				}
+				if r.limit > 0 && st.Emitted >= r.limit {
+					stopped = true
+					break
+				}
+			}
+			if stopped {
+				r.stop.Store(true)
+			}
+		}
+	}
+	r.stop.Store(true)
+	// drain so that workers blocked on a full channel can finish
+	go func() {
+		for _, ch := range chans {
+			for range ch {
+			}
+		}
+	}()
+	wg.Wait()
+	for i, n := range removed {
+		if n > 0 {
+			st.Removed[ruleTable[i].Name] = n
+		}
+	}
+	st.Fraction = covered
+	st.Complete = !stopped && ctx.Err() == nil
+	if st.Complete {
+		st.Fraction = 1
+	}
+	if st.Fraction > 1 {
+		st.Fraction = 1
+	}
+	if err := ctx.Err(); err != nil {
+		st.Complete = false
+		return st, err
+	}
+	return st, nil
+}

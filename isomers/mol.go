@@ -1,0 +1,183 @@
+package isomers
+
+import "shiftrank/molecule"
+
+// MaxAtoms is the largest number of heavy atoms the generator accepts.
+const MaxAtoms = 64
+
+// maxDeg bounds the number of heavy-atom neighbours of one atom (S(VI)
+// with six single bonds).
+const maxDeg = 6
+
+// colour is a vertex class of the search: an element in one valence state.
+// The implicit hydrogen count of an atom is its colour's valence minus its
+// bond-order sum, so colouring atoms by (element, valence) makes the
+// coloured multigraph and the constitution carry the same information.
+type colour struct {
+	el  molecule.Element
+	val int
+}
+
+// mol is the generator's compact molecular multigraph. Vertices are added
+// and removed only at the end (push/pop), and the edges of the last vertex
+// are the last entries of its neighbours' lists, so undo is cheap.
+type mol struct {
+	n     int
+	edges int // number of bonded atom pairs (not bond orders)
+	col   [MaxAtoms]uint8
+	el    [MaxAtoms]molecule.Element
+	val   [MaxAtoms]uint8
+	deg   [MaxAtoms]uint8
+	bsum  [MaxAtoms]uint8
+	nb    [MaxAtoms][maxDeg]uint8
+	bo    [MaxAtoms][maxDeg]uint8
+}
+
+// free returns the unused valence (the implicit H count) of atom i.
+func (m *mol) free(i int) int { return int(m.val[i]) - int(m.bsum[i]) }
+
+// push adds a vertex of colour c (element e, valence val) bonded to the atoms in
+// att with the orders in ord.
+func (m *mol) push(c uint8, e molecule.Element, val int, att, ord []uint8) {
+	v := m.n
+	m.n++
+	m.col[v] = c
+	m.el[v] = e
+	m.val[v] = uint8(val)
+	m.deg[v] = 0
+	m.bsum[v] = 0
+	for k, u := range att {
+		o := ord[k]
+		m.nb[v][m.deg[v]] = u
+		m.bo[v][m.deg[v]] = o
+		m.deg[v]++
+		m.bsum[v] += o
+		m.nb[u][m.deg[u]] = uint8(v)
+		m.bo[u][m.deg[u]] = o
+		m.deg[u]++
+		m.bsum[u] += o
+	}
+	m.edges += len(att)
+}
+
+// pop removes the last vertex and its bonds.
+func (m *mol) pop() {
+	v := m.n - 1
+	for k := 0; k < int(m.deg[v]); k++ {
+		u := m.nb[v][k]
+		m.deg[u]--
+		m.bsum[u] -= m.bo[v][k]
+	}
+	m.edges -= int(m.deg[v])
+	m.n--
+}
+
+// isTree reports whether the simple graph underlying m is a tree (m is
+// always connected in the generator).
+func (m *mol) isTree() bool { return m.edges == m.n-1 }
+
+// order returns the bond order between a and b, or 0.
+func (m *mol) order(a, b int) int {
+	for k := 0; k < int(m.deg[a]); k++ {
+		if int(m.nb[a][k]) == b {
+			return int(m.bo[a][k])
+		}
+	}
+	return 0
+}
+
+// articulation marks the cut vertices of the connected graph m in cut.
+func (m *mol) articulation(cut *[MaxAtoms]bool) {
+	var disc, low, parent, iter [MaxAtoms]int
+	for i := 0; i < m.n; i++ {
+		cut[i] = false
+		disc[i] = -1
+	}
+	if m.n == 0 {
+		return
+	}
+	var stack [MaxAtoms]int
+	t := 0
+	sp := 0
+	stack[sp] = 0
+	sp++
+	disc[0], low[0], parent[0], iter[0] = t, t, -1, 0
+	t++
+	rootChildren := 0
+	for sp > 0 {
+		v := stack[sp-1]
+		if iter[v] < int(m.deg[v]) {
+			u := int(m.nb[v][iter[v]])
+			iter[v]++
+			if disc[u] < 0 {
+				parent[u] = v
+				disc[u], low[u], iter[u] = t, t, 0
+				t++
+				stack[sp] = u
+				sp++
+				if v == 0 {
+					rootChildren++
+				}
+			} else if u != parent[v] && disc[u] < low[v] {
+				low[v] = disc[u]
+			}
+			continue
+		}
+		sp--
+		p := parent[v]
+		if p >= 0 {
+			if low[v] < low[p] {
+				low[p] = low[v]
+			}
+			if p != 0 && low[v] >= disc[p] {
+				cut[p] = true
+			}
+		}
+	}
+	cut[0] = rootChildren > 1
+}
+
+// fromGraph converts a kekulised, neutral molecule.Graph. It reports false
+// if the graph does not fit (too many atoms or neighbours, charges,
+// aromatic bonds, or a valence that is not allowed for the element).
+func fromGraph(g *molecule.Graph, m *mol) bool {
+	n := len(g.Atoms)
+	if n > MaxAtoms {
+		return false
+	}
+	*m = mol{}
+	m.n = n
+	for i, a := range g.Atoms {
+		if a.Charge != 0 || a.Element <= molecule.H || a.Element >= molecule.NumElements {
+			return false
+		}
+		m.col[i] = uint8(a.Element)
+		m.el[i] = a.Element
+		m.val[i] = uint8(a.HCount)
+	}
+	for _, b := range g.Bonds {
+		if b.Order < molecule.Single || b.Order > molecule.Triple || b.A == b.B {
+			return false
+		}
+		if m.deg[b.A] >= maxDeg || m.deg[b.B] >= maxDeg {
+			return false
+		}
+		o := uint8(b.Order)
+		m.nb[b.A][m.deg[b.A]], m.bo[b.A][m.deg[b.A]] = uint8(b.B), o
+		m.nb[b.B][m.deg[b.B]], m.bo[b.B][m.deg[b.B]] = uint8(b.A), o
+		m.deg[b.A]++
+		m.deg[b.B]++
+		m.bsum[b.A] += o
+		m.bsum[b.B] += o
+		m.val[b.A] += o
+		m.val[b.B] += o
+		m.edges++
+	}
+	for i := 0; i < n; i++ {
+		if m.val[i] > 7 {
+			return false
+		}
+		m.col[i] = uint8(m.el[i])<<3 | m.val[i]
+	}
+	return true
+}
