@@ -153,6 +153,16 @@ func (f Filter) String() string {
 		return "none"
 	}
 	var b strings.Builder
+	if len(f.Enabled())*2 >= numRules {
+		b.WriteString("plausible")
+		for i := range ruleTable {
+			if f.on&(1<<i) == 0 {
+				b.WriteString(",-")
+				b.WriteString(ruleTable[i].Name)
+			}
+		}
+		return b.String()
+	}
 	b.WriteString("none")
 	for _, n := range f.Enabled() {
 		b.WriteString(",+")

@@ -114,13 +114,13 @@ type aug struct {
 
 // level is the per-depth scratch of a worker.
 type level struct {
-	kids   []aug
-	gens   [][MaxAtoms]uint8
-	orbit  [MaxAtoms]uint8
+	kids                    []aug
+	gens                    [][MaxAtoms]uint8
+	orbit                   [MaxAtoms]uint8
 	trivial, tree, haveGens bool
-	part   partition
-	vec    [MaxAtoms]uint8
-	orbitQ [][MaxAtoms]uint8
+	part                    partition
+	vec                     [MaxAtoms]uint8
+	orbitQ                  [][MaxAtoms]uint8
 }
 
 // searcher runs the depth-first canonical augmentation from a given node.

@@ -302,11 +302,11 @@ func Count(ctx context.Context, f molecule.Formula, opts Options) (Stats, error)
 // result is one batch of structures handed from a worker to the
 // consumer of Generate.
 type result struct {
-	data     []byte // encoded structures, see outputBuilder.encode
-	count    int
-	gen      int64
-	removed  [numRules]int64
-	covered  float64
+	data    []byte // encoded structures, see outputBuilder.encode
+	count   int
+	gen     int64
+	removed [numRules]int64
+	covered float64
 }
 
 // Generate streams every constitutional isomer of f that passes

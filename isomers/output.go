@@ -98,7 +98,7 @@ func (o *outputBuilder) perceive(m *mol) {
 	o.aromDone = true
 	o.arom = [MaxAtoms][maxDeg]bool{}
 	g := o.graph(m)
-	flags := aromaticBonds(g)
+	flags := molecule.AromaticBonds(g)
 	for bi, b := range g.Bonds {
 		if bi >= len(flags) || !flags[bi] {
 			continue
