@@ -43,6 +43,7 @@ async function api(method, path, body, { retryAuth = true, idempotencyKey = "" }
   if (text) {
     try { data = JSON.parse(text); } catch (_) { data = { detail: text.slice(0, 300) }; }
   }
+  if (res.status === 401 && key) sessionStorage.removeItem(KEY_STORE); // a refused key is not kept
   if (res.status === 401 && retryAuth) {
     const ok = await askForKey(key ? "The service did not accept that API key. Check it (no spaces) and try again, or ask for a new one." : null);
     if (ok) return api(method, path, body, { retryAuth: true, idempotencyKey });
