@@ -115,13 +115,20 @@ func openConfig(ctx context.Context, cfg *pgxpool.Config, opts []Option) (*Postg
 
 // migrate applies the embedded migrations through database/sql (pgx's
 // stdlib driver), under a session advisory lock whose ID depends on the
-// search_path, so processes migrating the same schema wait for each other
-// and different schemas do not.
+// schema they go into, so processes migrating the same schema wait for each
+// other and different schemas do not.
 func migrate(ctx context.Context, cc *pgx.ConnConfig) error {
 	db := stdlib.OpenDB(*cc)
 	defer db.Close()
+	var schema *string
+	if err := db.QueryRowContext(ctx, `SELECT current_schema()`).Scan(&schema); err != nil {
+		return fmt.Errorf("migrate: %w", err)
+	}
+	if schema == nil {
+		return fmt.Errorf("migrate: no schema of search_path %q exists: %w", cc.RuntimeParams["search_path"], ErrNotFound)
+	}
 	h := fnv.New64a()
-	h.Write([]byte("shiftrank migrations\x00" + cc.RuntimeParams["search_path"]))
+	h.Write([]byte("shiftrank migrations\x00" + *schema))
 	locker, err := lock.NewPostgresSessionLocker(
 		lock.WithLockID(int64(h.Sum64()>>1)),
 		lock.WithLockTimeout(1, 300), // poll every second, for up to 5 minutes
