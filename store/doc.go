@@ -12,9 +12,9 @@
 // # Jobs and the queue
 //
 // CreateJob stores a job in status "queued". Workers take jobs with ClaimJob,
-// which hands out the oldest queued job, or a running job whose lease has
-// expired (its worker died or stalled), marks it running under the caller's
-// worker ID and sets a lease. While it works the holder calls RenewLease
+// which hands out a queued job, or a running job whose lease has expired (its
+// worker died or stalled), marks it running under the caller's worker ID and
+// sets a lease. While it works the holder calls RenewLease
 // (before the lease runs out), UpdateProgress, and finally FinishJob or
 // ReleaseJob. Each of these succeeds only for the current lease holder; any
 // other caller gets ErrLeaseLost, so a job is never run by two workers at once
