@@ -1,0 +1,274 @@
+package predict
+
+import "shiftrank/molecule"
+
+// mol holds what Predict derives from a graph before assigning shifts.
+type mol struct {
+	g        *molecule.Graph
+	arom     []bool  // Hückel-aromatic atoms (molecule.AromaticAtoms)
+	hetRing  []bool  // aromatic atom whose smallest aromatic ring has a heteroatom
+	multi    []int8  // number of double/triple bonds at the atom
+	ringAtom []int16 // smallest ring through the atom, 0 if acyclic
+	ringBond []int16 // smallest ring through the bond, 0 if not in a ring
+	rsys     []int16 // ring system (components of ring bonds), -1 if acyclic
+	orbit    []int   // automorphism orbit representative (molecule.Canonicalize)
+	label    []int   // canonical label
+	stereo   bool    // the molecule has a stereocentre
+	// scratch for breadth-first searches
+	dist  []int16
+	queue []int
+	par   []int
+}
+
+func analyse(g *molecule.Graph) *mol {
+	n := len(g.Atoms)
+	m := &mol{g: g}
+	// One backing array for the small per-atom slices.
+	i16 := make([]int16, 3*n+len(g.Bonds))
+	m.ringAtom, m.rsys, m.dist, m.ringBond = i16[:n], i16[n:2*n], i16[2*n:3*n], i16[3*n:]
+	m.multi = make([]int8, n)
+	m.queue = make([]int, 0, n)
+	m.par = make([]int, n)
+	for _, b := range g.Bonds {
+		if b.Order >= molecule.Double && b.Order <= molecule.Triple {
+			m.multi[b.A]++
+			m.multi[b.B]++
+		}
+	}
+	m.arom = molecule.AromaticAtoms(g)
+	c := molecule.Canonicalize(g)
+	m.orbit, m.label = c.Orbits, c.Labels
+	for i := range m.rsys {
+		m.rsys[i] = -1
+	}
+	if g.NumRings() > 0 {
+		for bi, b := range g.Bonds {
+			if d := m.pathLen(b.B, b.A, bi, -1, -1); d > 0 {
+				m.ringBond[bi] = int16(d + 1)
+			}
+		}
+		for bi, b := range g.Bonds {
+			r := m.ringBond[bi]
+			if r == 0 {
+				continue
+			}
+			for _, x := range [2]int{b.A, b.B} {
+				if m.ringAtom[x] == 0 || r < m.ringAtom[x] {
+					m.ringAtom[x] = r
+				}
+			}
+		}
+		m.ringSystems()
+	}
+	m.hetRing = make([]bool, n)
+	for i := range g.Atoms {
+		if m.arom[i] {
+			for _, x := range m.aromRing(i) {
+				if g.Atoms[x].Element != molecule.C {
+					m.hetRing[i] = true
+					break
+				}
+			}
+		}
+	}
+	m.stereo = m.hasStereocentre()
+	return m
+}
+
+// pathLen returns the length of the shortest path from s to t that does not
+// use bond skipBond nor pass through atoms avoid1, avoid2 (-1 = none), or
+// -1 if there is none. With onlyArom it stays on aromatic atoms.
+func (m *mol) pathLen(s, t, skipBond, avoid1, avoid2 int) int {
+	return m.bfs(s, t, skipBond, avoid1, avoid2, false)
+}
+
+func (m *mol) bfs(s, t, skipBond, avoid1, avoid2 int, onlyArom bool) int {
+	g := m.g
+	for i := range m.dist {
+		m.dist[i] = -1
+	}
+	m.queue = m.queue[:0]
+	m.queue = append(m.queue, s)
+	m.dist[s] = 0
+	m.par[s] = -1
+	for h := 0; h < len(m.queue); h++ {
+		v := m.queue[h]
+		for _, nb := range g.Neighbors(v) {
+			w := nb.Atom
+			if nb.Bond == skipBond || w == avoid1 || w == avoid2 || m.dist[w] >= 0 {
+				continue
+			}
+			if onlyArom && !m.arom[w] {
+				continue
+			}
+			m.dist[w] = m.dist[v] + 1
+			m.par[w] = v
+			if w == t {
+				return int(m.dist[w])
+			}
+			m.queue = append(m.queue, w)
+		}
+	}
+	return -1
+}
+
+func (m *mol) ringSystems() {
+	g := m.g
+	next := int16(0)
+	for s := range g.Atoms {
+		if m.ringAtom[s] == 0 || m.rsys[s] >= 0 {
+			continue
+		}
+		stack := []int{s}
+		m.rsys[s] = next
+		for len(stack) > 0 {
+			v := stack[len(stack)-1]
+			stack = stack[:len(stack)-1]
+			for _, nb := range g.Neighbors(v) {
+				if m.ringBond[nb.Bond] > 0 && m.rsys[nb.Atom] < 0 {
+					m.rsys[nb.Atom] = next
+					stack = append(stack, nb.Atom)
+				}
+			}
+		}
+		next++
+	}
+}
+
+// aromRing returns the atoms of the smallest aromatic ring through aromatic
+// atom a, starting with a and going round the ring. It returns nil if a is
+// not in an aromatic ring.
+func (m *mol) aromRing(a int) []int {
+	g := m.g
+	var best []int
+	nbs := g.Neighbors(a)
+	for i := 0; i < len(nbs); i++ {
+		p := nbs[i].Atom
+		if !m.arom[p] || m.ringBond[nbs[i].Bond] == 0 {
+			continue
+		}
+		for j := i + 1; j < len(nbs); j++ {
+			q := nbs[j].Atom
+			if !m.arom[q] || m.ringBond[nbs[j].Bond] == 0 {
+				continue
+			}
+			d := m.bfs(p, q, -1, a, -1, true)
+			if d < 0 || (best != nil && d+2 >= len(best)) {
+				continue
+			}
+			ring := make([]int, d+2)
+			ring[0] = a
+			k := d + 1
+			for v := q; v >= 0; v = m.par[v] {
+				ring[k] = v
+				k--
+			}
+			best = ring
+		}
+	}
+	return best
+}
+
+// hybrid reports the hybridisation class of atom x: 3 (sp3), 2 (sp2 or
+// aromatic), 1 (sp).
+func (m *mol) hybrid(x int) int {
+	if m.arom[x] {
+		return 2
+	}
+	dbl, tri := 0, 0
+	for _, nb := range m.g.Neighbors(x) {
+		switch nb.Order {
+		case molecule.Double:
+			dbl++
+		case molecule.Triple:
+			tri++
+		}
+	}
+	switch {
+	case tri > 0 || dbl > 1:
+		return 1
+	case dbl == 1:
+		return 2
+	}
+	return 3
+}
+
+// hasStereocentre reports whether some atom is a stereocentre by
+// constitution: an sp3 carbon (or Si) with four different substituents,
+// compared by automorphism orbit (an implicit H is its own class), a
+// sulfoxide S with two different substituents, or a P with three or four
+// different substituents.
+func (m *mol) hasStereocentre() bool {
+	g := m.g
+	for i, a := range g.Atoms {
+		nbs := g.Neighbors(i)
+		switch a.Element {
+		case molecule.C, molecule.Si:
+			if a.HCount > 1 || len(nbs)+a.HCount != 4 || m.multi[i] > 0 {
+				continue
+			}
+		case molecule.S:
+			if a.HCount > 0 || len(nbs) != 3 || m.doubleCount(i) != 1 {
+				continue
+			}
+		case molecule.P:
+			if a.HCount > 1 || len(nbs)+a.HCount < 3 {
+				continue
+			}
+		default:
+			continue
+		}
+		if m.distinctNeighbours(i) {
+			return true
+		}
+	}
+	return false
+}
+
+// distinctNeighbours reports whether the neighbours of atom i lie in
+// pairwise different orbits (also distinguishing the bond order, so the
+// two O of a sulfoxide-like centre count as different).
+func (m *mol) distinctNeighbours(i int) bool {
+	nbs := m.g.Neighbors(i)
+	for x := 0; x < len(nbs); x++ {
+		for y := x + 1; y < len(nbs); y++ {
+			if m.orbit[nbs[x].Atom] == m.orbit[nbs[y].Atom] && nbs[x].Order == nbs[y].Order {
+				return false
+			}
+		}
+	}
+	return true
+}
+
+// ringFacesDiffer reports whether the ring system of atom c contains an sp3
+// ring atom (other than c) with two different exocyclic substituents (one
+// may be H), which makes the two faces of the ring, and so the two H of a
+// ring CH2, different.
+func (m *mol) ringFacesDiffer(c int) bool {
+	g := m.g
+	sys := m.rsys[c]
+	if sys < 0 {
+		return false
+	}
+	for r, a := range g.Atoms {
+		if r == c || m.rsys[r] != sys || m.multi[r] > 0 || m.arom[r] {
+			continue
+		}
+		var exo [4]int
+		ne := 0
+		for _, nb := range g.Neighbors(r) {
+			if m.ringBond[nb.Bond] == 0 && ne < 4 {
+				exo[ne] = m.orbit[nb.Atom]
+				ne++
+			}
+		}
+		for k := 0; k < a.HCount && ne < 4; k++ {
+			exo[ne] = -1 // hydrogen
+			ne++
+		}
+		if ne == 2 && exo[0] != exo[1] {
+			return true
+		}
+	}
+	return false
+}

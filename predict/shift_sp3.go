@@ -1,0 +1,220 @@
+package predict
+
+import "shiftrank/molecule"
+
+// Damping of the second and third non-alkyl substituent on one sp3 carbon
+// (substituent effects are not additive at crowded carbons; our fit to
+// CH2Cl2 5.30 and CHCl3 7.26, Gottlieb 1997).
+var alphaDamp = [3]float64{1, 0.75, 0.45}
+
+// sp3 predicts H on an sp3 carbon (also Si and other sp3 centres, with a
+// wider sigma): base + α increments + β increments + ring correction.
+func (p *Predictor) sp3(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
+	g := m.g
+	c := gr.atom
+	h := g.Atoms[c].HCount
+	var subs [4]sub
+	var subRing [4]bool
+	ns := 0
+	odd := false
+	for _, nb := range g.Neighbors(c) {
+		s := m.classify(c, nb.Atom)
+		if unusual[s] {
+			odd = true
+		}
+		if s != subAlkyl && ns < 4 {
+			subRing[ns] = m.ringBond[nb.Bond] > 0 && g.Atoms[nb.Atom].Element != molecule.C
+			subs[ns] = s
+			ns++
+		}
+	}
+	r.sigma = 0.10 + 0.06*float64(ns)
+	switch h {
+	case 4:
+		r.kind = "CH4"
+		ac.add("base CH4 (methane)", baseCH4)
+		return
+	case 3:
+		r.kind = "CH3 (sp3)"
+		ac.add("base CH3", baseCH3)
+	case 2:
+		r.kind = "CH2 (sp3)"
+	default:
+		r.kind = "CH (sp3)"
+	}
+	idx := 3 - h
+	if idx < 0 {
+		idx = 0
+	}
+	if idx > 2 {
+		idx = 2
+	}
+	if h == 2 && ns >= 2 {
+		// Shoolery's rule for CH2XY: δ = 0.23 + σX + σY, with σ derived
+		// from the α increments (σ = 0.88·(Zα + 0.60) reproduces
+		// Shoolery's constants for Cl, Br, OH, OR within 0.1 ppm).
+		ac.add("Shoolery base (CH2XY)", 0.23)
+		for k := 0; k < ns; k++ {
+			ac.addSub("Shoolery σ: ", subs[k], 0.88*(alphaInc[subs[k]][1]+0.60))
+		}
+	} else {
+		if h == 2 {
+			ac.add("base CH2", baseCH2)
+		} else if h == 1 {
+			ac.add("base CH", baseCH)
+		}
+		// Largest increment first, then damped.
+		sorted := subs[:ns]
+		for i := 1; i < len(sorted); i++ {
+			for j := i; j > 0 && alphaInc[sorted[j]][idx] > alphaInc[sorted[j-1]][idx]; j-- {
+				sorted[j], sorted[j-1] = sorted[j-1], sorted[j]
+			}
+		}
+		for k, s := range sorted {
+			d := 1.0
+			if k < len(alphaDamp) {
+				d = alphaDamp[k]
+			} else {
+				d = alphaDamp[len(alphaDamp)-1]
+			}
+			ac.addSub("α: ", s, alphaInc[s][idx]*d)
+		}
+	}
+	if nO := countO(subs[:ns]); nO >= 2 {
+		// Acetal and orthoester carbons lie well below the additive
+		// estimate (Pretsch: CH2(OMe)2 4.58).
+		ac.add("O,O-acetal correction", -0.50)
+	}
+	// β increments: non-alkyl substituents on neighbouring sp3 carbons.
+	scale := [3]float64{1, 0.85, 0.8}[idx]
+	if ns > 0 {
+		scale *= 0.5
+	}
+	nb := 0
+	for _, n1 := range g.Neighbors(c) {
+		y := n1.Atom
+		if g.Atoms[y].Element != molecule.C || m.multi[y] > 0 || m.arom[y] {
+			continue
+		}
+		for _, n2 := range g.Neighbors(y) {
+			z := n2.Atom
+			if z == c {
+				continue
+			}
+			s := m.classify(y, z)
+			if s == subAlkyl {
+				continue
+			}
+			if unusual[s] {
+				odd = true
+			}
+			nb++
+			ac.addSub("β: ", s, betaInc[s]*scale)
+		}
+	}
+	r.sigma += 0.02 * float64(min(nb, 5))
+	if sz := m.ringAtom[c]; sz > 0 {
+		p.ringCorrection(m, c, h, int(sz), subs[:ns], subRing[:ns], r, ac)
+	}
+	if g.Atoms[c].Element != molecule.C {
+		r.sigma += 0.4
+	}
+	if odd {
+		r.sigma += 0.3
+		r.reasons = append(r.reasons, "an unusual neighbouring group outside the increment tables: estimated, wide uncertainty")
+	}
+}
+
+func countO(s []sub) int {
+	n := 0
+	for _, x := range s {
+		if x >= subOH && x <= subOX {
+			n++
+		}
+	}
+	return n
+}
+
+// ringCorrection: ring-size corrections for sp3 C–H in rings, from the
+// parent cycloalkanes (cyclopropane 0.22, cyclobutane 1.96, cyclopentane
+// 1.51, cyclohexane 1.43, cycloheptane 1.54; oxirane 2.54, thiirane 2.27,
+// aziridine 1.62, oxetane 4.73; Pretsch, from memory).
+func (p *Predictor) ringCorrection(m *mol, c, h, size int, subs []sub, inRing []bool, r *shiftResult, ac *acc) {
+	var v float64
+	hetero := sub(0)
+	hasHet := false
+	for k, s := range subs {
+		if inRing[k] {
+			hetero, hasHet = s, true
+		}
+	}
+	switch size {
+	case 3:
+		v = -1.08
+		if h == 1 {
+			v = -0.85
+		}
+		if hasHet {
+			switch {
+			case hetero >= subOH && hetero <= subOX:
+				v = -0.95
+			case hetero >= subAmine && hetero <= subNArom:
+				v = -0.90
+			case hetero >= subSR && hetero <= subSOther:
+				v = -0.25
+			}
+		}
+		r.sigma += 0.15
+	case 4:
+		v = 0.66
+		if h == 1 {
+			v = 0.60
+		}
+		if hasHet {
+			v += 0.55
+		}
+		r.sigma += 0.15
+	case 5:
+		v = 0.20
+		if h == 1 {
+			v = 0.15
+		}
+	case 6:
+		v = 0.13
+		if h == 1 {
+			v = -0.30
+		}
+	case 7:
+		v = 0.25
+		if h == 1 {
+			v = 0
+		}
+	default:
+		v = 0.05
+	}
+	if p.opts.Explain {
+		ac.add("ring ("+itoa(size)+"-membered)", v)
+	} else {
+		ac.v += v
+	}
+	r.sigma += 0.05
+}
+
+func itoa(n int) string {
+	if n >= 0 && n < 10 {
+		return string(rune('0' + n))
+	}
+	b := []byte{}
+	neg := n < 0
+	if neg {
+		n = -n
+	}
+	for n > 0 {
+		b = append([]byte{byte('0' + n%10)}, b...)
+		n /= 10
+	}
+	if neg {
+		b = append([]byte{'-'}, b...)
+	}
+	return string(b)
+}

@@ -1,0 +1,113 @@
+package predict
+
+import (
+	"math"
+	"testing"
+)
+
+// TestSpinTransitionsABQuartet checks the exact solution of two coupled
+// spins against the analytic AB quartet (Friebolin, "Basic One- and
+// Two-Dimensional NMR Spectroscopy", ch. 4; any NMR textbook): lines at
+// ν0 ± D/2 ± J/2 with D = sqrt(Δν² + J²), and the roof effect: inner/outer
+// intensity ratio (1 + J/D)/(1 − J/D).
+func TestSpinTransitionsABQuartet(t *testing.T) {
+	for _, tc := range []struct {
+		name     string
+		dnuOverJ float64
+	}{
+		{"Δν/J=0.2", 0.2}, {"Δν/J=0.5", 0.5}, {"Δν/J=1", 1}, {"Δν/J=2", 2}, {"Δν/J=5", 5}, {"Δν/J=20", 20},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			j := 8.0
+			dnu := tc.dnuOverJ * j
+			nu0 := 1000.0
+			nu := []float64{nu0 - dnu/2, nu0 + dnu/2}
+			J := [][]float64{{0, j}, {j, 0}}
+			tl, err := SpinTransitions(nu, J)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(tl) != 4 {
+				t.Fatalf("got %d lines, want 4: %+v", len(tl), tl)
+			}
+			d := math.Sqrt(dnu*dnu + j*j)
+			want := []float64{nu0 - d/2 - j/2, nu0 - d/2 + j/2, nu0 + d/2 - j/2, nu0 + d/2 + j/2}
+			for i := range want {
+				if math.Abs(tl[i].Hz-want[i]) > 1e-6 {
+					t.Errorf("line %d at %.6f Hz, want %.6f (AB quartet, Friebolin ch. 4)", i, tl[i].Hz, want[i])
+				}
+			}
+			ratio := tl[1].Intensity / tl[0].Intensity
+			wantRatio := (1 + j/d) / (1 - j/d)
+			if math.Abs(ratio-wantRatio) > 1e-6*wantRatio {
+				t.Errorf("inner/outer = %.6f, want %.6f", ratio, wantRatio)
+			}
+			if r2 := tl[2].Intensity / tl[3].Intensity; math.Abs(r2-wantRatio) > 1e-6*wantRatio {
+				t.Errorf("inner/outer (upper half) = %.6f, want %.6f", r2, wantRatio)
+			}
+			sum := 0.0
+			for _, l := range tl {
+				sum += l.Intensity
+			}
+			if math.Abs(sum-4) > 1e-9 { // n·2^(n-1) for n = 2
+				t.Errorf("total intensity %.6f, want 4", sum)
+			}
+		})
+	}
+}
+
+// TestSpinTransitionsA2X3 checks that a weakly coupled ethyl-like system
+// (A2X3, Δν/J = 100) reproduces the first-order quartet and triplet with
+// binomial intensities (n+1 rule, common practice).
+func TestSpinTransitionsA2X3(t *testing.T) {
+	j := 7.0
+	nuA, nuX := 1400.0, 700.0
+	nu := []float64{nuA, nuA, nuX, nuX, nuX}
+	J := make([][]float64, 5)
+	for i := range J {
+		J[i] = make([]float64, 5)
+	}
+	for a := 0; a < 2; a++ {
+		for x := 2; x < 5; x++ {
+			J[a][x], J[x][a] = j, j
+		}
+	}
+	tl, err := SpinTransitions(nu, J)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Bin the lines by nearest first-order position.
+	bin := map[float64]float64{}
+	for _, l := range tl {
+		p := math.Round(l.Hz*2) / 2
+		bin[p] += l.Intensity
+	}
+	check := func(pos, want float64) {
+		t.Helper()
+		got := 0.0
+		for p, v := range bin {
+			if math.Abs(p-pos) < 0.6 {
+				got += v
+			}
+		}
+		if math.Abs(got-want) > 0.05*want {
+			t.Errorf("intensity near %.1f Hz = %.3f, want %.3f", pos, got, want)
+		}
+	}
+	// Total 5·2^4 = 80; the two A spins carry 32, the three X spins 48.
+	for k, w := range []float64{1, 3, 3, 1} {
+		check(nuA+(float64(k)-1.5)*j, 32*w/8)
+	}
+	for k, w := range []float64{1, 2, 1} {
+		check(nuX+(float64(k)-1)*j, 48*w/4)
+	}
+}
+
+func TestSpinTransitionsErrors(t *testing.T) {
+	if _, err := SpinTransitions([]float64{1, 2}, [][]float64{{0}}); err == nil {
+		t.Error("bad J shape: want error")
+	}
+	if _, err := SpinTransitions(make([]float64, 20), nil); err == nil {
+		t.Error("20 spins: want error")
+	}
+}
