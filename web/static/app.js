@@ -431,6 +431,15 @@ function showJobState(job) {
   badge.textContent = STATUS_WORDS[st] || st;
   badge.dataset.status = st;
   $("job-reference").textContent = job.reference || "—";
+  const req = job.request;
+  if (req && req.formula) {
+    let n = "";
+    if (typeof req.peaks === "string") {
+      const r = parsePeaks(req.peaks);
+      if (!r.error) n = `${r.rows.length} peak${r.rows.length === 1 ? "" : "s"}`;
+    } else if (Array.isArray(req.peaks)) n = `${req.peaks.length} peak${req.peaks.length === 1 ? "" : "s"}`;
+    $("job-request").textContent = [req.formula, req.mhz ? `${req.mhz} MHz` : "", req.solvent || "", n].filter(Boolean).join(" · ");
+  }
   const p = job.progress || {};
   const gen = p.generated || 0, scored = p.scored || 0, total = p.total_estimate || 0;
   const done = st === "succeeded";
