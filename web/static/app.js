@@ -332,10 +332,8 @@ async function submit(e) {
   e.preventDefault();
   clearErrors();
   const body = buildRequest();
-  const f = parseFormula(body.formula);
   if (!body.formula) { showProblem({ problem: { errors: [{ field: "formula", message: "Enter the molecular formula." }] } }); return; }
   if (!body.peaks) { showProblem({ problem: { errors: [{ field: "peaks", message: "Enter at least one peak." }] } }); return; }
-  void f; // the service's check is the one that counts; the live DBE line already hints
   const btn = $("submit");
   btn.disabled = true;
   btn.textContent = "Sending…";

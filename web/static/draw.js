@@ -34,25 +34,21 @@ export async function drawSVG(smiles, { width = 220, height = 160, atoms = [] } 
   const mol = rd.get_mol(smiles);
   if (!mol) return "";
   try {
-    if (!mol.is_valid || mol.is_valid()) {
-      const details = { width, height, bondLineWidth: 1.5, clearBackground: false };
-      if (atoms.length) {
-        const n = mol.get_num_atoms ? mol.get_num_atoms() : Infinity;
-        details.atoms = atoms.filter((a) => Number.isInteger(a) && a >= 0 && a < n);
-        // Mark bonds whose two atoms are both highlighted too.
-        details.bonds = [];
-        try {
-          const json = JSON.parse(mol.get_json());
-          const bonds = json.molecules?.[0]?.bonds || [];
-          const set = new Set(details.atoms);
-          bonds.forEach((b, i) => { if (set.has(b.atoms[0]) && set.has(b.atoms[1])) details.bonds.push(i); });
-        } catch (_) { /* bonds are a nicety */ }
-        details.highlightColour = [1.0, 0.78, 0.25, 1.0];
-        return mol.get_svg_with_highlights(JSON.stringify(details));
-      }
-      return mol.get_svg_with_highlights(JSON.stringify(details));
+    if (mol.is_valid && !mol.is_valid()) return "";
+    const details = { width, height, bondLineWidth: 1.5, clearBackground: false };
+    if (atoms.length) {
+      const n = mol.get_num_atoms ? mol.get_num_atoms() : Infinity;
+      details.atoms = atoms.filter((a) => Number.isInteger(a) && a >= 0 && a < n);
+      // Mark the bonds between two marked atoms too.
+      details.bonds = [];
+      try {
+        const bonds = JSON.parse(mol.get_json()).molecules?.[0]?.bonds || [];
+        const set = new Set(details.atoms);
+        bonds.forEach((b, i) => { if (set.has(b.atoms[0]) && set.has(b.atoms[1])) details.bonds.push(i); });
+      } catch (_) { /* bond marks are a nicety */ }
+      details.highlightColour = [1.0, 0.78, 0.25, 1.0];
     }
-    return "";
+    return mol.get_svg_with_highlights(JSON.stringify(details));
   } finally {
     mol.delete();
   }
