@@ -49,16 +49,21 @@ type canonizer struct {
 // have the smallest degree; then the colour, the bond-order sum and a hash
 // of the neighbours' (degree, colour, order) multiset.
 func (c *canonizer) vertexKeys() {
-	m := c.m
-	for x := 0; x < m.n; x++ {
-		var h uint64
-		for k := 0; k < int(m.deg[x]); k++ {
-			u := m.nb[x][k]
-			h1 := uint64(m.deg[u])<<16 | uint64(m.col[u])<<8 | uint64(m.bsum[u])<<2 | uint64(m.bo[x][k])
-			h += mix(h1)
-		}
-		c.key[x] = uint64(8-m.deg[x])<<56 | uint64(m.col[x])<<48 | uint64(m.bsum[x])<<40 | h&(1<<40-1)
+	for x := 0; x < c.m.n; x++ {
+		c.key[x] = c.vertexKey(x)
 	}
+}
+
+// vertexKey returns the key of vertex x (see vertexKeys).
+func (c *canonizer) vertexKey(x int) uint64 {
+	m := c.m
+	var h uint64
+	for k := 0; k < int(m.deg[x]); k++ {
+		u := m.nb[x][k]
+		h1 := uint64(m.deg[u])<<16 | uint64(m.col[u])<<8 | uint64(m.bsum[u])<<2 | uint64(m.bo[x][k])
+		h += mix(h1)
+	}
+	return uint64(8-m.deg[x])<<56 | uint64(m.col[x])<<48 | uint64(m.bsum[x])<<40 | h&(1<<40-1)
 }
 
 // mix is a 64-bit finaliser (splitmix64); sums of mixed values hash

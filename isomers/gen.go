@@ -121,6 +121,11 @@ type level struct {
 	part                    partition
 	vec                     [MaxAtoms]uint8
 	orbitQ                  [][MaxAtoms]uint8
+	// leaves of the parent, their (colour, bond-order sum) keys, and
+	// leafPrefix[i] = number of leaves with index < i
+	leaves     []uint8
+	leafKey    [MaxAtoms]uint16
+	leafPrefix [MaxAtoms + 1]uint8
 }
 
 // searcher runs the depth-first canonical augmentation from a given node.
@@ -243,6 +248,15 @@ func (s *searcher) children(kids []aug) []aug {
 	if 2*R > F+s.vrem || F == 0 {
 		return kids
 	}
+	lv.leaves = lv.leaves[:0]
+	for i := 0; i < k; i++ {
+		lv.leafPrefix[i] = uint8(len(lv.leaves))
+		if s.m.deg[i] == 1 {
+			lv.leaves = append(lv.leaves, uint8(i))
+			lv.leafKey[i] = uint16(s.m.col[i])<<8 | uint16(s.m.bsum[i])
+		}
+	}
+	lv.leafPrefix[k] = uint8(len(lv.leaves))
 	// automorphisms of the parent
 	cz := &s.cz
 	cz.vertexKeys()
@@ -291,7 +305,7 @@ func (s *searcher) children(kids []aug) []aug {
 			continue
 		}
 		a.c = uint8(ci)
-		kids = s.enumerate(kids, lv, &a, 0, 0, smin, smax, final)
+		kids = s.enumerate(kids, lv, &a, 0, 0, smin, smax, 0, final)
 		if s.stopped {
 			return kids
 		}
@@ -313,9 +327,15 @@ func (s *searcher) parentGroup(lv *level) {
 // enumerate chooses bond orders from the new atom to atoms from..k-1, with
 // sum bonds so far, and tests every complete choice whose sum lies in
 // [smin, smax].
-func (s *searcher) enumerate(kids []aug, lv *level, a *aug, from, sum, smin, smax int, final bool) []aug {
+//
+// missed counts the parent's leaves (degree-1 atoms) below from that were
+// not chosen. A new atom with two or more bonds has a smaller canonical
+// key than any leaf left untouched (the key starts with 8 − degree), and
+// leaves are never cut vertices, so such children are rejected by accept;
+// they are pruned here before they are built.
+func (s *searcher) enumerate(kids []aug, lv *level, a *aug, from, sum, smin, smax, missed int, final bool) []aug {
 	k := s.m.n
-	if sum >= smin {
+	if sum >= smin && (a.na < 2 || missed+int(lv.leafPrefix[k]-lv.leafPrefix[from]) == 0) {
 		kids = s.try(kids, lv, a, final)
 		if s.stopped {
 			return kids
@@ -329,12 +349,16 @@ func (s *searcher) enumerate(kids []aug, lv *level, a *aug, from, sum, smin, sma
 		if f == 0 || s.m.deg[i] == maxDeg {
 			continue
 		}
+		miss := missed + int(lv.leafPrefix[i]-lv.leafPrefix[from])
+		if a.na >= 1 && miss > 0 {
+			break
+		}
 		top := min(3, f, smax-sum)
 		for o := 1; o <= top; o++ {
 			a.att[a.na] = uint8(i)
 			a.ord[a.na] = uint8(o)
 			a.na++
-			kids = s.enumerate(kids, lv, a, i+1, sum+o, smin, smax, final)
+			kids = s.enumerate(kids, lv, a, i+1, sum+o, smin, smax, miss, final)
 			a.na--
 			if s.stopped {
 				return kids
@@ -348,6 +372,17 @@ func (s *searcher) enumerate(kids []aug, lv *level, a *aug, from, sum, smin, sma
 func (s *searcher) try(kids []aug, lv *level, a *aug, final bool) []aug {
 	if a.na == 0 {
 		return kids
+	}
+	if a.na == 1 {
+		// A new leaf loses to an untouched leaf with a larger (colour,
+		// bond-order sum) key part.
+		u := a.att[0]
+		mine := uint16(a.c)<<8 | uint16(a.ord[0])
+		for _, x := range lv.leaves {
+			if x != u && lv.leafKey[x] > mine {
+				return kids
+			}
+		}
 	}
 	if !lv.trivial && !s.augCanonical(lv, a) {
 		return kids
@@ -430,6 +465,11 @@ func (s *searcher) augCanonical(lv *level, a *aug) bool {
 	return true
 }
 
+// coarseKey is the top part of canonizer.vertexKey.
+func coarseKey(m *mol, x int) uint32 {
+	return uint32(8-m.deg[x])<<16 | uint32(m.col[x])<<8 | uint32(m.bsum[x])
+}
+
 // accept reports whether the last atom of the current structure lies in
 // the orbit of the canonical deletion vertex.
 func (s *searcher) accept() bool {
@@ -437,32 +477,31 @@ func (s *searcher) accept() bool {
 	n := m.n
 	v := n - 1
 	cz := &s.cz
-	cz.vertexKeys()
-	kv := cz.key[v]
-	maxKey := kv
+	// Compare keys cheaply first: the top part (degree, colour, bond-order
+	// sum) without the neighbour hash.
+	cv := coarseKey(m, v)
+	greater := false
 	for x := 0; x < n-1; x++ {
-		if cz.key[x] > maxKey {
-			maxKey = cz.key[x]
+		if c := coarseKey(m, x); c > cv {
+			if m.deg[x] == 1 {
+				return false // a leaf is never a cut vertex
+			}
+			greater = true
 		}
 	}
-	if maxKey > kv {
-		// Is some vertex with a larger key than v eligible (not a cut
-		// vertex)? Leaves always are.
-		if maxKey>>56 == 7 {
-			return false
-		}
+	cutDone := false
+	if greater {
 		m.articulation(&s.cut)
+		cutDone = true
 		for x := 0; x < n-1; x++ {
-			if cz.key[x] > kv && !s.cut[x] {
+			if coarseKey(m, x) > cv && !s.cut[x] {
 				return false
 			}
 		}
 	}
-	// v has the largest key among eligible vertices. Vertices with an
-	// equal key have v's degree; if that is 1 they are leaves (eligible),
-	// otherwise the cut vertices among them must be excluded.
+	// Vertices with v's coarse key have v's degree; if that is 1 they are
+	// leaves (eligible), otherwise the cut vertices among them are not.
 	needCut := m.deg[v] > 1
-	cutDone := maxKey > kv
 	if needCut && !cutDone {
 		m.articulation(&s.cut)
 	}
@@ -471,16 +510,23 @@ func (s *searcher) accept() bool {
 			s.cut[x] = false
 		}
 	}
+	kv := cz.vertexKey(v)
 	tie := false
 	for x := 0; x < n-1; x++ {
-		if cz.key[x] == kv && !s.cut[x] {
-			tie = true
-			break
+		if coarseKey(m, x) == cv && !s.cut[x] {
+			kx := cz.vertexKey(x)
+			if kx > kv {
+				return false
+			}
+			if kx == kv {
+				tie = true
+			}
 		}
 	}
 	if !tie {
 		return true
 	}
+	cz.vertexKeys()
 	var p partition
 	cz.initPartition(&p)
 	// last cell containing an eligible vertex with key kv
