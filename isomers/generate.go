@@ -24,6 +24,10 @@ type Options struct {
 	// runtime.GOMAXPROCS(0). The set and, for Generate, the order of the
 	// structures do not depend on it.
 	Workers int
+
+	// allKekule emits every Kekulé structure separately (tests only: the
+	// oracle comparison of raw multigraphs).
+	allKekule bool
 }
 
 // Stats describes a finished or stopped run.
@@ -110,6 +114,8 @@ type runner struct {
 	emitted atomic.Int64
 	limit   int64
 	ctx     context.Context
+
+	allKekule bool
 }
 
 // workerState is what one worker accumulates.
@@ -146,16 +152,17 @@ func prepare(ctx context.Context, f molecule.Formula, opts Options) (*runner, in
 	if w < 1 {
 		w = 1
 	}
-	r := &runner{p: p, filter: opts.Filter, tasks: tasks, limit: opts.Limit, ctx: ctx}
+	r := &runner{p: p, filter: opts.Filter, tasks: tasks, limit: opts.Limit, ctx: ctx, allKekule: opts.allKekule}
 	return r, w, nil
 }
 
 // process runs the filter on a complete structure and reports whether it
 // is to be emitted.
 func (ws *workerState) process(r *runner, m *mol) bool {
-	ok, rep := ws.out.kekuleRepresentative(m)
-	if !ok || !rep {
-		return false
+	if !r.allKekule {
+		if _, rep := ws.out.kekuleRepresentative(m); !rep {
+			return false
+		}
 	}
 	ws.generated++
 	if rule := r.filter.check(&ws.out, m); rule >= 0 {
