@@ -1,11 +1,242 @@
 package main
 
 import (
+	"bufio"
 	"context"
+	"encoding/json"
 	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"math"
+	"strings"
+
+	"shiftrank/molecule"
+	"shiftrank/predict"
 )
 
-// runPredict is being written; this placeholder is replaced by its owner's first commit.
+// predictCaution is printed with every prediction shown to a user.
+const predictCaution = "Predicted values are estimates from additive increment tables; confirm structures against an authentic sample or further spectra. Not for forensic, clinical or safety decisions on its own."
+
+// runPredict predicts the 1H spectrum of one SMILES:
+//
+//	shiftrank predict SMILES [--mhz 400] [--linewidth 1.0] [--json]
+//
+// The human table lists each environment (δ, σ, H count, multiplicity with
+// J, the neighbouring environments that split it, and the shift
+// breakdown); --json writes the same as one JSON object. Bad SMILES or an
+// unsupported element is bad input (exit status 2).
 func runPredict(ctx context.Context, args []string, e env) error {
-	return errors.New("predict: not built yet")
+	fs := flag.NewFlagSet("predict", flag.ContinueOnError)
+	fs.SetOutput(e.stderr)
+	mhz := fs.Float64("mhz", predict.DefaultMHz, "spectrometer 1H frequency in MHz")
+	lw := fs.Float64("linewidth", predict.DefaultLineWidthHz, "line width in Hz (couplings below it are unresolved)")
+	asJSON := fs.Bool("json", false, "write JSON instead of a table")
+	fs.Usage = func() {
+		fmt.Fprintln(e.stderr, "usage: shiftrank predict SMILES [--mhz 400] [--linewidth 1.0] [--json]")
+		fs.PrintDefaults()
+	}
+	var positional []string
+	rest := args
+	for {
+		if err := fs.Parse(rest); err != nil {
+			if errors.Is(err, flag.ErrHelp) {
+				return nil
+			}
+			return badInput(err)
+		}
+		if fs.NArg() == 0 {
+			break
+		}
+		positional = append(positional, fs.Arg(0))
+		rest = fs.Args()[1:]
+	}
+	if len(positional) != 1 {
+		fs.Usage()
+		if len(positional) == 0 {
+			return badInputf("predict: missing SMILES")
+		}
+		return badInputf("predict: expected one SMILES, got %d arguments", len(positional))
+	}
+	if !(*mhz >= 20 && *mhz <= 2000) {
+		return badInputf("predict: --mhz must be between 20 and 2000, got %g", *mhz)
+	}
+	if !(*lw > 0 && *lw <= 100) {
+		return badInputf("predict: --linewidth must be above 0 and at most 100 Hz, got %g", *lw)
+	}
+	smi := positional[0]
+	g, err := molecule.ParseSMILES(smi)
+	if err != nil {
+		return badInput(err)
+	}
+	p := predict.New(predict.Options{MHz: *mhz, LineWidthHz: *lw, Explain: true})
+	sp, err := p.Predict(g)
+	if err != nil {
+		return badInput(fmt.Errorf("predict %q: %w", smi, err))
+	}
+	out := makePredictOutput(smi, g, *mhz, sp)
+	if *asJSON {
+		enc := json.NewEncoder(e.stdout)
+		enc.SetIndent("", "  ")
+		return enc.Encode(out)
+	}
+	return writePredictTable(e.stdout, out)
+}
+
+type predictOutput struct {
+	SMILES          string           `json:"smiles"`
+	CanonicalSMILES string           `json:"canonical_smiles"`
+	Formula         string           `json:"formula"`
+	MHz             float64          `json:"mhz"`
+	Environments    []predictEnvJSON `json:"environments"`
+	Notes           []string         `json:"notes,omitempty"`
+	Caution         string           `json:"caution"`
+}
+
+type predictEnvJSON struct {
+	ID             int               `json:"id"`
+	Atoms          []int             `json:"atoms"`
+	H              int               `json:"h"`
+	Kind           string            `json:"kind"`
+	Shift          float64           `json:"shift"`
+	Sigma          float64           `json:"sigma"`
+	ShiftMin       float64           `json:"shift_min"`
+	ShiftMax       float64           `json:"shift_max"`
+	Multiplicity   string            `json:"multiplicity"`
+	J              []float64         `json:"j"`
+	Exchangeable   bool              `json:"exchangeable"`
+	Diastereotopic bool              `json:"diastereotopic"`
+	Neighbours     []int             `json:"neighbours"`
+	Couplings      []predictCoupling `json:"couplings"`
+	Breakdown      []predict.Term    `json:"breakdown"`
+	Reasons        []string          `json:"reasons"`
+}
+
+type predictCoupling struct {
+	Env      int     `json:"env"`
+	N        int     `json:"n"`
+	J        float64 `json:"j"`
+	Label    string  `json:"label"`
+	Nucleus  string  `json:"nucleus,omitempty"`
+	Resolved bool    `json:"resolved"`
+	Atoms    []int   `json:"atoms"`
+}
+
+func makePredictOutput(smi string, g *molecule.Graph, mhz float64, sp *predict.Spectrum) predictOutput {
+	out := predictOutput{
+		SMILES:          smi,
+		CanonicalSMILES: molecule.CanonicalSMILES(g),
+		Formula:         g.Formula().String(),
+		MHz:             mhz,
+		Environments:    make([]predictEnvJSON, 0, len(sp.Environments)),
+		Notes:           sp.Notes,
+		Caution:         predictCaution,
+	}
+	for _, en := range sp.Environments {
+		j := predictEnvJSON{
+			ID: en.ID, Atoms: en.Atoms, H: en.H, Kind: en.Kind, Shift: en.Shift, Sigma: en.Sigma,
+			ShiftMin: en.ShiftMin, ShiftMax: en.ShiftMax, Multiplicity: en.Multiplicity, J: en.J,
+			Exchangeable: en.Exchangeable, Diastereotopic: en.Diastereotopic,
+			Neighbours: []int{}, Couplings: []predictCoupling{}, Breakdown: en.Breakdown, Reasons: en.Reasons,
+		}
+		if j.J == nil {
+			j.J = []float64{}
+		}
+		if j.Breakdown == nil {
+			j.Breakdown = []predict.Term{}
+		}
+		if j.Reasons == nil {
+			j.Reasons = []string{}
+		}
+		for _, c := range en.Couplings {
+			j.Couplings = append(j.Couplings, predictCoupling{Env: c.Env, N: c.N, J: c.J, Label: c.Label, Nucleus: c.Nucleus, Resolved: c.Resolved, Atoms: c.Atoms})
+			if c.Resolved && c.Env >= 0 && !containsInt(j.Neighbours, c.Env) {
+				j.Neighbours = append(j.Neighbours, c.Env)
+			}
+		}
+		out.Environments = append(out.Environments, j)
+	}
+	return out
+}
+
+func containsInt(s []int, x int) bool {
+	for _, y := range s {
+		if y == x {
+			return true
+		}
+	}
+	return false
+}
+
+func writePredictTable(w io.Writer, out predictOutput) error {
+	bw := bufio.NewWriter(w)
+	fmt.Fprintf(bw, "%s  (%s, canonical %s)  predicted 1H NMR at %g MHz\n\n", out.SMILES, out.Formula, out.CanonicalSMILES, out.MHz)
+	if len(out.Environments) == 0 {
+		fmt.Fprintln(bw, "no hydrogens")
+	}
+	fmt.Fprintf(bw, "%-4s %-13s %-5s %-3s %-24s %-11s %s\n", "env", "δ/ppm", "σ", "H", "multiplicity (J/Hz)", "split by", "kind, atoms")
+	for _, en := range out.Environments {
+		shift := fmt.Sprintf("%.2f", en.Shift)
+		if en.ShiftMax-en.ShiftMin > 0.005 {
+			shift = fmt.Sprintf("%.2f (%.1f–%.1f)", en.Shift, en.ShiftMin, en.ShiftMax)
+			if en.ShiftMax-en.ShiftMin < 1 {
+				shift = fmt.Sprintf("%.2f (%.2f–%.2f)", en.Shift, en.ShiftMin, en.ShiftMax)
+			}
+		}
+		mult := en.Multiplicity
+		if len(en.J) > 0 {
+			js := make([]string, len(en.J))
+			for i, v := range en.J {
+				js[i] = fmt.Sprintf("%.1f", v)
+			}
+			mult += " (" + strings.Join(js, ", ") + ")"
+		}
+		by := "–"
+		if len(en.Neighbours) > 0 {
+			parts := make([]string, len(en.Neighbours))
+			for i, n := range en.Neighbours {
+				parts[i] = fmt.Sprint(n)
+			}
+			by = strings.Join(parts, ",")
+		}
+		for _, c := range en.Couplings {
+			if c.Resolved && c.Env < 0 && !strings.Contains(by, c.Nucleus) {
+				if by == "–" {
+					by = c.Nucleus
+				} else {
+					by += "," + c.Nucleus
+				}
+			}
+		}
+		kind := en.Kind
+		if en.Diastereotopic {
+			kind += ", diastereotopic"
+		}
+		fmt.Fprintf(bw, "%-4d %-13s %-5.2f %-3d %-24s %-11s %s, atoms %v\n", en.ID, shift, en.Sigma, en.H, mult, by, kind, en.Atoms)
+		if len(en.Breakdown) > 0 {
+			parts := make([]string, len(en.Breakdown))
+			sum := 0.0
+			for i, t := range en.Breakdown {
+				sum += t.PPM
+				if i == 0 {
+					parts[i] = fmt.Sprintf("%s %.2f", t.Term, t.PPM)
+				} else {
+					parts[i] = fmt.Sprintf("%s %+.2f", t.Term, t.PPM)
+				}
+			}
+			fmt.Fprintf(bw, "     = %s", strings.Join(parts, "; "))
+			if math.Abs(sum-en.Shift) > 0.005 {
+				fmt.Fprintf(bw, " (sum %.2f)", sum)
+			}
+			fmt.Fprintln(bw)
+		}
+		for _, r := range en.Reasons {
+			fmt.Fprintf(bw, "     · %s\n", r)
+		}
+	}
+	for _, n := range out.Notes {
+		fmt.Fprintf(bw, "\nnote: %s\n", n)
+	}
+	fmt.Fprintf(bw, "\n%s\n", out.Caution)
+	return bw.Flush()
 }
