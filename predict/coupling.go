@@ -191,7 +191,7 @@ func (p *Predictor) singleBondJ(m *mol, A, B *hgroup, bi int, out []jterm) []jte
 		return out
 	default:
 		if m.ringBond[bi] > 0 && m.ringBond[bi] <= 7 {
-			return append(out, jterm{j: jRingAlkeneAlly, n: B.h, label: "vicinal =CH–CH (ring)", atom: b})
+			return append(out, jterm{j: jRingAlkeneAlly, n: B.h, label: "ring vicinal =CH–CH", atom: b})
 		}
 		return append(out, jterm{j: jAllylic3, n: B.h, label: "vicinal =CH–CH", atom: b})
 	}
@@ -313,7 +313,7 @@ func (p *Predictor) aromaticJ(m *mol, A *hgroup, b, d int) jterm {
 // 1 / 2 / 3 F on the neighbouring carbon; H–C=C–F cis 20, trans 50;
 // aromatic H–F ortho 9, meta 5.5; 1J P–H 200 (P(III)) / 600 (P(V)); 2J
 // H–C–P 3 / 15; 3J H–C–C–P 13 / 18; 3J H–C–O–P 11; aromatic P ortho 12,
-// meta 3.
+// meta 3; 3J H–C–N–P 9.5 (HMPA).
 func (p *Predictor) heteroJ(m *mol, A *hgroup, out []jterm) []jterm {
 	g := m.g
 	a := A.atom
@@ -357,10 +357,14 @@ func (p *Predictor) heteroJ(m *mol, A *hgroup, out []jterm) []jterm {
 			} else {
 				add(3, "2J H–C–P", "31P", x)
 			}
-		case molecule.O:
+		case molecule.O, molecule.N:
 			for _, n2 := range g.Neighbors(x) {
 				if n2.Atom != a && g.Atoms[n2.Atom].Element == molecule.P {
-					add(11, "3J H–C–O–P", "31P", n2.Atom)
+					if g.Atoms[x].Element == molecule.O {
+						add(11, "3J H–C–O–P", "31P", n2.Atom)
+					} else {
+						add(9.5, "3J H–C–N–P", "31P", n2.Atom)
+					}
 				}
 			}
 		case molecule.C:

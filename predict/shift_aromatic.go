@@ -2,16 +2,19 @@ package predict
 
 import "shiftrank/molecule"
 
-// Six-membered aromatic rings: 7.26 (benzene, Pretsch) plus increments for
-// each ring N by position relative to the H (pyridine in CDCl3: α 8.62,
-// β 7.29, γ 7.68, Gottlieb 1997), a second α-N adds less (pyrimidine H2
-// 9.26), an α-N bonded to another ring N adds more (pyridazine H3 9.21).
+// Six-membered aromatic rings: benzene base plus increments for each ring N
+// by position relative to the H (pyridine in CDCl3: α 8.62, β 7.29, γ 7.68,
+// Gottlieb 1997), a second α-N adds less (pyrimidine H2 9.26), an α-N
+// bonded to another ring N adds more (pyridazine H3 9.21). The base is
+// 7.30 rather than Pretsch's 7.26 (measured in CCl4): benzene in CDCl3 is
+// 7.36 (Gottlieb 1997), and 7.30 fits toluene, anisole and benzaldehyde
+// in CDCl3 best with Pretsch's increments.
 const (
-	baseBenzene  = 7.26
-	ringNAlpha   = 1.36
+	baseBenzene  = 7.30
+	ringNAlpha   = 1.32
 	ringNAlpha2  = 0.65
-	ringNBeta    = 0.03
-	ringNGamma   = 0.42
+	ringNBeta    = -0.01
+	ringNGamma   = 0.38
 	ringNNAlpha  = 0.55
 	fiveRingElse = 6.80
 )
@@ -136,6 +139,9 @@ func (p *Predictor) aromaticH(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 			var v float64
 			if d <= 3 {
 				v = benzeneInc[s][d-1]
+				if s == subAlkyl {
+					v = alkylBenzeneInc[min(g.Atoms[y].HCount, 3)][d-1]
+				}
 			}
 			if p.opts.Explain {
 				ac.add([3]string{"ortho: ", "meta: ", "para: "}[d-1]+subName[s], v)
@@ -144,6 +150,17 @@ func (p *Predictor) aromaticH(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 			}
 		}
 	}
+}
+
+// alkylBenzeneInc[h] = {ortho, meta, para} for an alkyl substituent with h
+// hydrogens on its attachment carbon: tert-butyl (0.02, −0.08, −0.21),
+// CHR2 (−0.13, −0.08, −0.18), CH2R (−0.14, −0.06, −0.17), CH3 (−0.18,
+// −0.11, −0.21); Pretsch, from memory.
+var alkylBenzeneInc = [4][3]float64{
+	{0.02, -0.08, -0.21},
+	{-0.13, -0.08, -0.18},
+	{-0.14, -0.06, -0.17},
+	{-0.18, -0.11, -0.21},
 }
 
 func inRing(ring []int, x int) bool {

@@ -58,7 +58,7 @@ const (
 	subNitroso // N=O
 	subNN      // N–N
 	subNO      // N–O
-	subNS      // N–S
+	subNS      // N–S, N–P(=O)
 	subNArom   // ring N of a heteroaromatic (pyrrole type)
 	subSR      // SH, S–C(sp3)
 	subSAr
@@ -171,7 +171,7 @@ func (m *mol) classify(from, x int) sub {
 				best = subAmideN
 			case ey == molecule.C && m.arom[y] && best == subAmine:
 				best = subNAryl
-			case ey == molecule.S && best == subAmine:
+			case (ey == molecule.S || ey == molecule.P && m.multi[y] > 0) && best == subAmine:
 				best = subNS
 			case ey == molecule.N && best == subAmine:
 				best = subNN

@@ -48,7 +48,7 @@ var alphaInc = [numSub][3]float64{
 	subBr:         {1.83, 2.13, 2.66},    // CH3Br 2.69, EtBr 3.43, iPrBr 4.21
 	subI:          {1.30, 1.90, 2.69},    // CH3I 2.16, EtI 3.20, iPrI 4.24
 	subOH:         {2.63, 2.42, 2.49},    // methanol 3.49, ethanol 3.72, 2-propanol 4.04
-	subOR:         {2.38, 2.18, 2.10},    // Me2O 3.24, Et2O 3.48, iPr2O 3.65
+	subOR:         {2.47, 2.18, 2.10},    // methyl propyl ether 3.33 (Me2O 3.24, MTBE 3.22), Et2O 3.48, iPr2O 3.65
 	subOAr:        {2.94, 2.72, 2.98},    // anisole 3.80, phenetole 4.02
 	subOVinyl:     {2.64, 2.45, 2.55},    // methyl vinyl ether 3.5
 	subOAcyl:      {2.81, 2.82, 3.46},    // methyl acetate 3.67, ethyl acetate 4.12, iPrOAc 5.01
@@ -96,7 +96,7 @@ var betaInc = [numSub]float64{
 	subCHO: 0.27, subKetone: 0.20, subArKetone: 0.36, subCOOH: 0.30, subEster: 0.28, subAmideC: 0.28,
 	subAcylX: 0.38, subThioester: 0.30, subAcylOther: 0.30, subCN: 0.44, subImineC: 0.20, subThioC: 0.30,
 	subCOther: 0.20,
-	subF:      0.40, subCl: 0.62, subBr: 0.81, subI: 0.97,
+	subF:      0.20, subCl: 0.62, subBr: 0.81, subI: 0.97,
 	subOH: 0.37, subOR: 0.35, subOAr: 0.54, subOVinyl: 0.40, subOAcyl: 0.40, subOFormyl: 0.44,
 	subOAroyl: 0.52, subOCarbonate: 0.45, subOCarbamate: 0.40, subOO: 0.35, subON: 0.40, subOS: 0.55,
 	subOP: 0.48, subOSi: 0.35, subOB: 0.35, subOX: 0.45,
