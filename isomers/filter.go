@@ -516,10 +516,10 @@ func antiaromaticRing(o *outputBuilder, m *mol) bool {
 			if !cc {
 				continue
 			}
-			// three-membered ring a–b–x with a lone-pair donor x
+			// three-membered ring a=b–x–a with a lone-pair donor x
 			for j := 0; j < int(m.deg[a]); j++ {
 				x := int(m.nb[a][j])
-				if x != b && m.order(b, x) > 0 && lonePairDonor(m, x) {
+				if x != b && m.order(b, x) > 0 && lonePairDonor(m, x) && !o.aromatic(m, a, k) {
 					return true
 				}
 			}
@@ -534,7 +534,10 @@ func antiaromaticRing(o *outputBuilder, m *mol) bool {
 					if d == b || d == a || m.bo[c][i] != 2 {
 						continue
 					}
-					if m.order(d, a) == 1 {
+					// A Kekulé structure of a larger aromatic system (for
+					// example biphenylene) may draw the four-membered ring
+					// this way; only non-aromatic double bonds count.
+					if m.order(d, a) == 1 && !o.aromatic(m, a, k) && !o.aromatic(m, c, i) {
 						return true
 					}
 				}

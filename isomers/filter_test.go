@@ -1,0 +1,134 @@
+package isomers
+
+import (
+	"errors"
+	"regexp"
+	"testing"
+
+	"shiftrank/molecule"
+)
+
+// filterCases: for each rule, structures it removes and real compounds it
+// keeps. The kept compounds are known, isolable substances (common
+// practice: cyclooctyne, 1,2-cyclononadiene, bicyclo[3.3.1]non-1-ene
+// (Fawcett's S = 7, isolable), Δ9,10-octalin, norbornene, phenol,
+// acetamide, acetaldoxime, 2-hydroxypyridine, ethylene glycol,
+// 2-methoxyethanol, ethanolamine, N-(hydroxymethyl)acetamide,
+// 2-chloroethanol, cyclopropene, cyclopropenone, 2H-azirines, biphenylene,
+// DMSO, phosphorous acid, SF4, PCl5, dimethyl sulfone).
+var filterCases = []struct {
+	rule   string
+	remove []string
+	keep   []string
+}{
+	{"no-small-ring-triple", []string{"C1CC#CC1", "C1CCC#CCC1"}, []string{"C1CCCC#CCC1", "CC#CC", "C#CC1CC1"}},
+	{"no-small-ring-allene", []string{"C1CC=C=C1", "C1CCC=C=CC1"}, []string{"C1CCCC=C=CCC1", "C=C=C", "C=C=C1CC1"}},
+	{"no-bredt-violation", []string{"C12=CCC(C1)CC2", "C12=CCC(CC1)CC2"}, []string{"C12=CCCC(CCC1)C2", "C1=CC2CCC1C2", "C1CCC2=C(C1)CCCC2", "c1ccc2ccccc2c1"}},
+	{"no-peroxide", []string{"COOC", "CCOO"}, []string{"COC", "CC(=O)OC", "O=O"}},
+	{"no-enol", []string{"C=CO", "CC(O)=CC", "C#CO"}, []string{"Oc1ccccc1", "CC(C)=O", "C=CCO", "C=COC"}},
+	{"no-imidic-acid", []string{"CC(O)=N", "OC=NC"}, []string{"CC(N)=O", "CC=NO", "Oc1ccccn1"}},
+	{"no-gem-diol", []string{"CC(O)O", "OC(O)(C)C"}, []string{"OCCO", "OC(=O)CO"}},
+	{"no-hemiacetal", []string{"CC(O)OC", "OC1CCCO1"}, []string{"COCCO", "CC(=O)O", "COC(C)OC"}},
+	{"no-hemiaminal", []string{"CC(O)N", "OCN(C)C"}, []string{"NCCO", "OCNC(C)=O", "CC(N)=O"}},
+	{"no-hypohalite", []string{"COCl", "CCOBr"}, []string{"ClCCO", "CC(=O)Cl"}},
+	{"no-antiaromatic-ring", []string{"C1=CO1", "C1=CS1", "C1=CN1", "C1=CC=C1", "CC1=NC=C1"}, []string{"C1=CC1", "O=C1C=C1", "C1=NC1", "c1ccc2c(c1)-c1ccccc1-2", "C1=CCC1"}},
+	{"no-hypervalent-hydride", []string{"C[SH3]", "[PH5]", "C[SH](=O)(=O)"}, []string{"CS(C)=O", "O[PH](O)=O", "CS", "CP"}},
+	{"no-bare-hypervalent", []string{"C[S](C)(C)C", "C[P](C)(C)(C)C"}, []string{"FS(F)(F)F", "ClP(Cl)(Cl)(Cl)Cl", "CS(C)(=O)=O", "CS(C)=O", "COP(=O)(OC)OC"}},
+}
+
+func TestFilterRules(t *testing.T) {
+	seen := map[string]bool{}
+	for _, c := range filterCases {
+		seen[c.rule] = true
+		only, err := ParseFilter("none,+" + c.rule)
+		if err != nil {
+			t.Fatalf("ParseFilter: %v", err)
+		}
+		for _, s := range c.remove {
+			g, err := molecule.ParseSMILES(s)
+			if err != nil {
+				t.Fatalf("ParseSMILES(%q): %v", s, err)
+			}
+			if ok, rule := only.Allows(g); ok || rule != c.rule {
+				t.Errorf("rule %s: Allows(%q) = %v, %q; want removed", c.rule, s, ok, rule)
+			}
+		}
+		for _, s := range c.keep {
+			g, err := molecule.ParseSMILES(s)
+			if err != nil {
+				t.Fatalf("ParseSMILES(%q): %v", s, err)
+			}
+			if ok, _ := only.Allows(g); !ok {
+				t.Errorf("rule %s: removes real compound %q", c.rule, s)
+			}
+			if ok, rule := DefaultFilter().Allows(g); !ok {
+				t.Errorf("default filter removes real compound %q by %s", s, rule)
+			}
+		}
+	}
+	kebab := regexp.MustCompile(`^[a-z]+(-[a-z0-9]+)*$`)
+	names := map[string]bool{}
+	for _, r := range Rules() {
+		if !kebab.MatchString(r.Name) || len(r.Reason) < 40 {
+			t.Errorf("rule %q: name must be kebab-case and reason written out (%q)", r.Name, r.Reason)
+		}
+		if names[r.Name] {
+			t.Errorf("rule %q listed twice", r.Name)
+		}
+		names[r.Name] = true
+		if !seen[r.Name] {
+			t.Errorf("rule %q has no table test", r.Name)
+		}
+	}
+}
+
+func TestParseFilter(t *testing.T) {
+	all := len(Rules())
+	cases := []struct {
+		in      string
+		enabled int
+		wantErr bool
+		bad     string // offending token when an error is expected
+	}{
+		{"", all, false, ""},
+		{"plausible", all, false, ""},
+		{"none", 0, false, ""},
+		{"plausible,-no-enol", all - 1, false, ""},
+		{" plausible , -no-enol , -no-peroxide", all - 2, false, ""},
+		{"none,+no-peroxide", 1, false, ""},
+		{"no-peroxide", all, false, ""},
+		{"none,no-peroxide,+no-enol", 2, false, ""},
+		{"plausible,-no-such-rule", 0, true, "-no-such-rule"},
+		{"none,plausible", 0, true, "plausible"},
+		{"none,,+no-enol", 0, true, ""},
+		{"bogus", 0, true, "bogus"},
+	}
+	for _, c := range cases {
+		f, err := ParseFilter(c.in)
+		var fe *FilterError
+		if c.wantErr {
+			if !errors.As(err, &fe) {
+				t.Errorf("ParseFilter(%q) error = %v, want *FilterError", c.in, err)
+				continue
+			}
+			if fe.Token != c.bad || fe.Input[fe.Pos:fe.Pos+len(fe.Token)] != fe.Token {
+				t.Errorf("ParseFilter(%q) error token %q at %d, want %q", c.in, fe.Token, fe.Pos, c.bad)
+			}
+			continue
+		}
+		if err != nil {
+			t.Errorf("ParseFilter(%q): %v", c.in, err)
+			continue
+		}
+		if got := len(f.Enabled()); got != c.enabled {
+			t.Errorf("ParseFilter(%q) enables %d rules, want %d", c.in, got, c.enabled)
+		}
+		back, err := ParseFilter(f.String())
+		if err != nil || back != f {
+			t.Errorf("ParseFilter(%q).String() = %q does not parse back (%v)", c.in, f.String(), err)
+		}
+	}
+	if (Filter{}) != NoFilter() {
+		t.Error("zero Filter must equal NoFilter()")
+	}
+}
