@@ -100,7 +100,7 @@ func (p *smilesParser) parse() (*Graph, error) {
 	prev := -1
 	var bondSym byte // pending bond symbol, 0 if none
 	bondAt := 0
-	var stack []int   // atoms at open branches
+	var stack []int    // atoms at open branches
 	var stackPos []int // positions of '('
 	justOpened := false
 	s := p.s
