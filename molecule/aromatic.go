@@ -30,15 +30,16 @@ package molecule
 //     all simple cycles, so fused systems need no special case. A ring of
 //     4n π electrons (cyclobutadiene, cyclooctatetraene, pentalene) is not
 //     aromatic, so its Kekulé structures stay distinct.
-//  3. For large candidate subgraphs (more than maxAromCycles simple
-//     cycles, which no molecule of ordinary size reaches) only cycles of at
-//     most fallbackCycleLen atoms are examined. Both limits depend only on
-//     the graph, so the result is still independent of atom numbering.
+//  3. For large candidate subgraphs (cyclomatic number above
+//     maxCandRings, as in large polycyclic aromatics) only cycles of at
+//     most fallbackCycleLen atoms are examined, which bounds the work.
+//     The limit depends only on the graph, so the result is still
+//     independent of atom numbering.
 //
 // The result is invariant under renumbering the atoms and under Kekulé
 // shifts within the aromatic bonds, which is what canonical forms need.
 const (
-	maxAromCycles    = 4096
+	maxCandRings     = 8
 	fallbackCycleLen = 10
 )
 
@@ -78,10 +79,7 @@ type aromaticity struct {
 	path    []int
 	onPath  []bool
 	pathSum int
-	cycles  int
 	maxLen  int
-	overCap bool
-	mark    bool
 	// bridge finding
 	disc, low []int
 	// candidate adjacency (CSR over atoms)
@@ -157,19 +155,15 @@ func (a *aromaticity) perceive(g *Graph) []bool {
 	a.cStart[n] = len(a.cNbr)
 
 	a.onPath = resizeBools(a.onPath, n)
-	// First pass counts cycles (up to the cap) without marking; if the cap
-	// is exceeded, the marking pass uses the length limit.
+	// Simple paths, and so the work of enumerating cycles, grow
+	// exponentially with the cyclomatic number of the candidate subgraph;
+	// past maxCandRings only rings of at most fallbackCycleLen atoms are
+	// examined (the number is a graph invariant, so the choice does not
+	// depend on atom numbering).
 	a.maxLen = n
-	a.mark = false
-	a.cycles = 0
-	a.overCap = false
-	a.enumerate(g)
-	if a.overCap {
+	if a.candRings(n) > maxCandRings {
 		a.maxLen = fallbackCycleLen
 	}
-	a.mark = true
-	a.cycles = 0
-	a.overCap = false
 	a.enumerate(g)
 	return a.arom
 }
@@ -270,7 +264,7 @@ func lowestValence(e Element, q int) int {
 // smaller than the last.
 func (a *aromaticity) enumerate(g *Graph) {
 	n := len(g.Atoms)
-	for s := 0; s < n && !a.overCap; s++ {
+	for s := 0; s < n; s++ {
 		if !a.cand[s] {
 			continue
 		}
@@ -287,9 +281,6 @@ func (a *aromaticity) extend(g *Graph, s, v int) {
 		w := a.cNbr[k]
 		if w == s && len(a.path) >= 3 && a.path[1] < v {
 			a.cycle(g)
-			if a.overCap {
-				return
-			}
 			continue
 		}
 		if w <= s || a.onPath[w] || len(a.path) >= a.maxLen {
@@ -302,21 +293,11 @@ func (a *aromaticity) extend(g *Graph, s, v int) {
 		a.pathSum -= int(a.pi[w])
 		a.onPath[w] = false
 		a.path = a.path[:len(a.path)-1]
-		if a.overCap {
-			return
-		}
 	}
 }
 
 // cycle handles the cycle a.path (closed back to its first atom).
 func (a *aromaticity) cycle(g *Graph) {
-	a.cycles++
-	if !a.mark {
-		if a.cycles > maxAromCycles {
-			a.overCap = true
-		}
-		return
-	}
 	if a.pathSum%4 != 2 {
 		return
 	}
@@ -327,6 +308,33 @@ func (a *aromaticity) cycle(g *Graph) {
 			}
 		}
 	}
+}
+
+// candRings returns the cyclomatic number (edges − vertices + components)
+// of the candidate subgraph.
+func (a *aromaticity) candRings(n int) int {
+	verts, comps := 0, 0
+	a.deg = resizeInts(a.deg, n) // reused as a visited mark
+	for s := 0; s < n; s++ {
+		if !a.cand[s] || a.deg[s] != 0 {
+			continue
+		}
+		comps++
+		a.path = append(a.path[:0], s)
+		a.deg[s] = 1
+		for len(a.path) > 0 {
+			v := a.path[len(a.path)-1]
+			a.path = a.path[:len(a.path)-1]
+			verts++
+			for k := a.cStart[v]; k < a.cStart[v+1]; k++ {
+				if w := a.cNbr[k]; a.deg[w] == 0 {
+					a.deg[w] = 1
+					a.path = append(a.path, w)
+				}
+			}
+		}
+	}
+	return len(a.cNbr)/2 - verts + comps
 }
 
 // findRingBonds marks the bonds that lie on a cycle (are not bridges).

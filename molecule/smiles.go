@@ -47,7 +47,7 @@ const maxSMILESAtoms = 1000
 // more than 1000 atoms. ParseSMILES never panics.
 func ParseSMILES(s string) (*Graph, error) {
 	p := smilesParser{s: s}
-	g, err := p.parse()
+	g, err := p.parseGraph()
 	if err != nil {
 		return nil, err
 	}
@@ -80,6 +80,7 @@ type smilesParser struct {
 	atomPos  []int
 	atomLen  []int
 	bondPos  []int
+	bondSym  []byte // bond symbol written for each bond, 0 if none
 	rings    [100]ringOpen
 	fragment bool // parse as a substructure query: no valence check
 }
@@ -95,7 +96,7 @@ func (p *smilesParser) errAt(pos, n int, msg string) error {
 	return &SMILESError{Input: p.s, Pos: pos, Token: p.s[pos:end], Msg: msg}
 }
 
-func (p *smilesParser) parse() (*Graph, error) {
+func (p *smilesParser) parseGraph() (*Graph, error) {
 	p.g = NewGraph(len(p.s))
 	prev := -1
 	var bondSym byte // pending bond symbol, 0 if none
@@ -210,6 +211,9 @@ func (p *smilesParser) parse() (*Graph, error) {
 	if len(p.g.Atoms) == 0 {
 		return nil, &SMILESError{Input: p.s, Pos: 0, Token: p.s, Msg: "no atoms"}
 	}
+	if p.fragment {
+		return p.g, nil
+	}
 	if err := p.finish(); err != nil {
 		return nil, err
 	}
@@ -251,6 +255,7 @@ func (p *smilesParser) addBond(a, b int, sym byte, at, atomAt int) error {
 		return p.errAt(atomAt, 1, "invalid bond")
 	}
 	p.bondPos = append(p.bondPos, atomAt)
+	p.bondSym = append(p.bondSym, sym)
 	return nil
 }
 
@@ -564,9 +569,6 @@ func (p *smilesParser) finish() error {
 			return p.errAt(p.atomPos[bad], p.atomLen[bad], err.Error())
 		}
 		return &SMILESError{Input: p.s, Pos: 0, Token: p.s, Msg: err.Error()}
-	}
-	if p.fragment {
-		return nil
 	}
 	for i, a := range g.Atoms {
 		v := g.Valence(i)
