@@ -12,10 +12,14 @@ const (
 	// be an impurity, a satellite or noise rather than a signal of the
 	// compound; it does not count as holding a hydrogen.
 	minorPeakH = 0.4
-	// poorFitRMS: above this rms difference between the scaled integrals
-	// and the nearest whole numbers the fit is reported as poor. Routine
-	// integration is good to about ±10 % (common practice).
-	poorFitRMS = 0.25
+	// poorFitRMS: above this rms difference (in H) between the scaled
+	// integrals and their whole numbers the fit is reported as poor.
+	// Routine integration is good to about ±10 % (common practice), which
+	// keeps the rms of a sound list near or below 0.1 H.
+	poorFitRMS = 0.15
+	// wholeTolerance: integrals within this of whole numbers are read as
+	// hydrogen counts the chemist has already scaled.
+	wholeTolerance = 0.15
 	// missingPenalty is added to the rms misfit for each hydrogen the fit
 	// leaves unobserved, so that the full count wins unless a smaller one
 	// fits clearly better.
@@ -72,9 +76,6 @@ func ScaleIntegrals(pl PeakList, hTotal int) (implied []float64, warnings []stri
 		}
 		return implied, []string{w}, nil
 	}
-	if len(missing) > 0 {
-		warnings = append(warnings, fmt.Sprintf("no integral for the peak(s) at %s ppm: scaled from the others", joinList(missing)))
-	}
 
 	// Separate minor peaks (impurities) from signals: iterate because the
 	// scale depends on which peaks count.
@@ -96,21 +97,35 @@ func ScaleIntegrals(pl PeakList, hTotal int) (implied []float64, warnings []stri
 		}
 		major = next
 	}
-	if len(major) > hTotal {
-		p := pl.Peaks[major[hTotal]]
+	// Each peak without an integral holds at least one hydrogen.
+	hAvail := hTotal - len(missing)
+	if len(major) > hAvail {
+		p := pl.Peaks[major[max(hAvail, 0)]]
 		return nil, nil, &PeakError{Pos: p.Pos, Token: p.Text, Field: "integral",
-			Msg: fmt.Sprintf("%d peaks of at least 1 H but the formula has only %d H", len(major), hTotal)}
+			Msg: fmt.Sprintf("%d peaks of at least 1 H but the formula has only %d H", len(major)+len(missing), hTotal)}
 	}
 	a := make([]float64, len(major))
+	asum := 0.0
+	whole := true // the integrals read as hydrogen counts already
 	for k, i := range major {
 		a[k] = pl.Peaks[i].Integral
+		asum += a[k]
+		whole = whole && math.Abs(a[k]-math.Round(a[k])) <= wholeTolerance
+	}
+	userT := -1
+	if whole {
+		userT = int(math.Round(asum))
 	}
 
 	bestT, bestScore, bestScale, bestRMS := 0, math.Inf(1), 0.0, 0.0
-	for t := hTotal; t >= max(len(major), hTotal-maxMissing, 1); t-- {
+	for t := hAvail; t >= max(len(major), hAvail-maxMissing, 1); t-- {
 		n := roundToSum(a, t)
 		scale, rms := fitScale(a, n)
-		score := rms + missingPenalty*float64(hTotal-t)
+		score := rms + missingPenalty*float64(hAvail-t)
+		if t == userT {
+			// The chemist's own scale: no penalty, and it wins ties.
+			score = rms - 0.01
+		}
 		if score < bestScore-1e-12 {
 			bestT, bestScore, bestScale, bestRMS = t, score, scale, rms
 		}
@@ -118,23 +133,26 @@ func ScaleIntegrals(pl PeakList, hTotal int) (implied []float64, warnings []stri
 	for _, i := range given {
 		implied[i] = pl.Peaks[i].Integral * bestScale
 	}
+	total := 0.0
+	for _, i := range major {
+		total += implied[i]
+	}
+	if len(missing) > 0 {
+		warnings = append(warnings, fmt.Sprintf("no integral for the peak(s) at %s ppm: they hold the remaining %.1f H",
+			joinList(missing), float64(hTotal)-total))
+	} else if bestT < hTotal {
+		warnings = append(warnings, fmt.Sprintf("integrals sum to %.1f H of %d: %s exchangeable H not observed?",
+			total, hTotal, countWord(hTotal-bestT)))
+	}
+	if bestRMS > poorFitRMS {
+		warnings = append(warnings, fmt.Sprintf("integrals fit whole hydrogen counts poorly (rms %.2f H over %d H): check the integration or the formula",
+			bestRMS, bestT))
+	}
 	var minor []string
 	for _, i := range given {
 		if implied[i] < minorPeakH {
 			minor = append(minor, fmt.Sprintf("%s ppm (%.2f H)", peakNum(pl.Peaks[i].Shift), implied[i]))
 		}
-	}
-	if bestT < hTotal {
-		total := 0.0
-		for _, k := range major {
-			total += implied[k]
-		}
-		warnings = append(warnings, fmt.Sprintf("integrals sum to %.1f H of %d: %s exchangeable H not observed?",
-			total, hTotal, countWord(hTotal-bestT)))
-	}
-	if bestRMS > poorFitRMS {
-		warnings = append(warnings, fmt.Sprintf("integrals fit whole hydrogen counts poorly (rms %.2f H for %d H): check the integration or the formula",
-			bestRMS, bestT))
 	}
 	if len(minor) > 0 {
 		warnings = append(warnings, fmt.Sprintf("minor peak(s) at %s: impurity, satellite or noise?", joinList(minor)))

@@ -134,6 +134,7 @@ func normLabel(s string) string {
 // records splits the input into labelled data records.
 func (jc *jcamp) records() ([]ldr, error) {
 	var out []ldr
+	var parts [][]string // value lines of each record
 	s := jc.in
 	i := 0
 	for i < len(s) {
@@ -155,15 +156,17 @@ func (jc *jcamp) records() ([]ldr, error) {
 			val := body[eq+1:]
 			vlead := len(val) - len(strings.TrimLeft(val, " \t"))
 			r := ldr{label: normLabel(raw), raw: strings.TrimSpace(raw), pos: i + lead, vpos: i + lead + eq + 1 + vlead}
-			r.value = stripComment(val[vlead:])
 			out = append(out, r)
+			parts = append(parts, []string{stripComment(val[vlead:])})
 		} else if len(out) > 0 {
-			last := &out[len(out)-1]
-			last.value += "\n" + stripComment(line)
+			parts[len(out)-1] = append(parts[len(out)-1], stripComment(line))
 		} else if strings.TrimSpace(stripComment(line)) != "" {
 			return nil, jc.errAt(i+lead, trimTok(body), "TITLE", "a JCAMP-DX file starts with ##TITLE=")
 		}
 		i = end + 1
+	}
+	for k := range out {
+		out[k].value = strings.Join(parts[k], "\n")
 	}
 	return out, nil
 }

@@ -21,6 +21,9 @@ const (
 	MaxPeakInput = 1 << 20
 	// MaxPeaks is the largest number of peaks accepted in one list.
 	MaxPeaks = 1000
+	// MaxJValues is the largest number of coupling constants accepted for
+	// one peak.
+	MaxJValues = 12
 )
 
 // Peak is one observed 1H signal.
@@ -163,6 +166,9 @@ func checkPeak(p Peak) (field, msg string) {
 	}
 	if p.Integral < 0 {
 		return "integral", "negative integral"
+	}
+	if len(p.J) > MaxJValues {
+		return "j", fmt.Sprintf("more than %d J values", MaxJValues)
 	}
 	for _, j := range p.J {
 		if !(j > 0) || j > MaxJ {

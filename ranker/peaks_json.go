@@ -226,8 +226,8 @@ func (jp *jsonPeaks) numbers(field string) ([]float64, []int, error) {
 	var vs []float64
 	var ps []int
 	for jp.dec.More() {
-		if len(vs) == 64 {
-			return nil, nil, jp.errAt(int(jp.dec.InputOffset()), "", field, "more than 64 values")
+		if len(vs) == MaxJValues {
+			return nil, nil, jp.errAt(int(jp.dec.InputOffset()), "", field, "more than 12 values")
 		}
 		v, p, err := jp.number(field)
 		if err != nil {

@@ -622,6 +622,9 @@ func (p *journal) describe(pk *Peak, from, to int) error {
 				jPos, jTok = it.pos, text
 			}
 			pk.J = append(pk.J, js...)
+			if len(pk.J) > MaxJValues {
+				return p.errAt(it.pos, text, "j", "more than 12 J values")
+			}
 			lastJ = true
 			continue
 		}
@@ -631,6 +634,9 @@ func (p *journal) describe(pk *Peak, from, to int) error {
 				return err
 			}
 			pk.J = append(pk.J, js...)
+			if len(pk.J) > MaxJValues {
+				return p.errAt(it.pos, text, "j", "more than 12 J values")
+			}
 			continue
 		}
 		lastJ = false

@@ -1,0 +1,106 @@
+package ranker_test
+
+import (
+	"fmt"
+
+	"shiftrank/ranker"
+)
+
+// Ethyl acetate in CDCl3 as a journal reports it (shifts from Gottlieb,
+// Kotlyar, Nudelman, J. Org. Chem. 1997, 62, 7512; from memory).
+func ExampleParsePeaks() {
+	pl, err := ranker.ParsePeaks("1H NMR (400 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H).")
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(pl.MHz, pl.Solvent)
+	for _, p := range pl.Peaks {
+		fmt.Printf("%.2f ppm %s J=%v %gH\n", p.Shift, p.Multiplicity, p.J, p.Integral)
+	}
+	// Output:
+	// 400 CDCl3
+	// 4.12 ppm q J=[7.1] 2H
+	// 2.05 ppm s J=[] 3H
+	// 1.26 ppm t J=[7.1] 3H
+}
+
+func ExampleParsePeaks_error() {
+	_, err := ranker.ParsePeaks("δ 4.12 (q, 2H), 2.05 (s, J = 7.1 Hz, 3H)")
+	fmt.Println(err)
+	// Output:
+	// peak list: j: J given for a singlet at position 26 ("J = 7.1 Hz")
+}
+
+func ExamplePeakList_String() {
+	pl, _ := ranker.ParsePeaks("δH (CDCl3; 500 MHz) 7.20-7.35 (5 H, m), 5.1 (brs, 1 H)")
+	fmt.Println(pl)
+	// Output:
+	// 1H NMR (500 MHz, CDCl3) δ 7.35–7.2 (m, 5H), 5.1 (br s, 1H)
+}
+
+func ExampleParsePeaksJSON() {
+	pl, err := ranker.ParsePeaksJSON([]byte(`{"mhz": 400, "solvent": "CDCl3", "peaks": [
+		{"shift": 4.12, "multiplicity": "q", "j": [7.1], "integral": 2},
+		{"range": [7.35, 7.20], "multiplicity": "m", "integral": 5}]}`))
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(pl)
+	// Output:
+	// 1H NMR (400 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 7.35–7.2 (m, 5H)
+}
+
+func ExampleParseJCAMP() {
+	// An invented demo record.
+	jdx := `##TITLE= SR-DEMO-0100 demo peak assignments
+##JCAMP-DX= 5.01
+##DATA TYPE= NMR PEAK ASSIGNMENTS
+##.OBSERVE FREQUENCY= 400.13
+##.OBSERVE NUCLEUS= ^1H
+##.SOLVENT NAME= CDCl3
+##XUNITS= PPM
+##PEAK ASSIGNMENTS= (XYMA)
+(4.12, 30, Q, <OCH2>)
+(2.05, 100, S, <CH3CO>)
+(1.26, 45, T, <CH3>)
+##END=
+`
+	pl, err := ranker.ParseJCAMP([]byte(jdx))
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(pl)
+	// Output:
+	// 1H NMR (400.13 MHz, CDCl3) δ 4.12 (q, OCH2), 2.05 (s, CH3CO), 1.26 (t, CH3)
+}
+
+// Ethanol (C2H6O) whose OH signal was not observed; fractional integrals
+// as measured. Shifts from Gottlieb et al. 1997 (from memory).
+func ExampleScaleIntegrals() {
+	pl, _ := ranker.ParsePeaks("δ 3.72 (q, J = 7.0 Hz, 2.04H), 1.25 (t, J = 7.0 Hz, 3.1H)")
+	implied, warnings, err := ranker.ScaleIntegrals(pl, 6)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("%.2f\n", implied)
+	for _, w := range warnings {
+		fmt.Println(w)
+	}
+	// Output:
+	// [1.98 3.01]
+	// integrals sum to 5.0 H of 6: one exchangeable H not observed?
+}
+
+func ExampleFlagSolvent() {
+	pl, _ := ranker.ParsePeaks("1H NMR (DMSO-d6) δ 7.9 (d, J = 8 Hz, 2H), 3.34 (br s), 2.50 (quint), 2.35 (s, 3H)")
+	for _, f := range ranker.FlagSolvent(pl, "") {
+		fmt.Printf("peak %d at %.2f: %s %s (exclude %v)\n", f.Peak, pl.Peaks[f.Peak].Shift, f.Signal.Kind, f.Signal.Name, f.Exclude)
+	}
+	// Output:
+	// peak 1 at 3.34: water H2O (exclude true)
+	// peak 2 at 2.50: residual DMSO-d5 (exclude true)
+}
