@@ -95,52 +95,61 @@ func (p *assignProblem) evaluateWith(first, second []int, load []int) float64 {
 // option is one choice for one environment.
 type option struct {
 	cost   float64
-	p1, p2 int // p1 = -1: unobserved; p2 = -1: not split
-}
-
-func compareOptions(a, b option) int {
-	switch {
-	case a.cost < b.cost:
-		return -1
-	case a.cost > b.cost:
-		return 1
-	case a.p1 != b.p1:
-		return a.p1 - b.p1
-	}
-	return a.p2 - b.p2
+	rc     float64 // reduced cost: cost minus the Lagrange prices of its H
+	p1, p2 int     // p1 = -1: unobserved; p2 = -1: not split
 }
 
 // solver holds the scratch space of the branch and bound so that a worker
 // can score many candidates without allocating.
 type solver struct {
-	p       *assignProblem
-	order   []int      // environments in search order
-	opts    [][]option // per environment (indexed by position in order), sorted by cost
-	restMin []float64  // restMin[d] = sum of the cheapest option of order[d:]
-	minFrom []float64  // nPeak*(maxLoad+1): min over L' >= L of peakCost(j, L')
-	load    []int
-	curP1   []int
-	curP2   []int
-	best    float64
-	bestP1  []int
-	bestP2  []int
-	nodes   int
+	p      *assignProblem
+	order  []int      // environments in search order
+	opts   [][]option // per environment (indexed by position in order)
+	lambda []float64  // Lagrange price of one hydrogen on each peak, nats
+	restG  []float64  // restG[d] = sum of the least reduced cost of order[d:]
+	phi    []float64  // nPeak*(maxLoad+1): per-peak part of the bound
+	load   []int
+	curP1  []int
+	curP2  []int
+	best   float64
+	bestP1 []int
+	bestP2 []int
+	tmpP1  []int
+	tmpP2  []int
+	xLoad  []int
+	nodes  int
+	// seen maps a search state (depth and per-peak loads, packed) to the
+	// least separable cost it was reached with: the rest of the search
+	// depends only on that state, so reaching it again at no lower cost
+	// cannot lead to a better assignment.
+	seen     map[uint64]float64
+	packable bool
+	bits     uint
 }
+
+// lagrangeRounds is the number of subgradient steps that tune the prices.
+const lagrangeRounds = 24
 
 // solve returns the optimal assignment of p. The returned slices are owned
 // by the solver and valid until the next call.
 //
-// The search visits environments in decreasing order of H (they constrain
-// the integrals most) and, for each, its options from cheapest up. A branch
-// is cut when its cost so far, plus the cheapest option of every remaining
-// environment, plus for every peak the least per-peak cost reachable from
-// its current load (loads only grow), cannot beat the best complete
-// assignment found so far. The first complete assignment is the greedy one,
-// so the search starts with a good bound. Because every cut is by a valid
-// lower bound, the result is the exact optimum.
+// The bound is Lagrangian. The only coupling between environments is the
+// per-peak cost of the summed load; giving each peak j a price λ_j per
+// hydrogen, the remaining cost of any partial assignment splits exactly
+// into Σ_i [sep_i − λ·h_i] over the remaining environments plus
+// Σ_j [f_j(ℓ_j + x_j) + λ_j x_j] over peaks (x_j the load still to come),
+// and minimising each term on its own gives a lower bound for every λ.
+// The prices are tuned at the root by subgradient ascent (which also
+// yields good complete assignments to start from); in the tree both parts
+// are precomputed tables, so the bound costs O(1) per node. A depth-first
+// search over environments (largest H first, options by reduced cost)
+// cuts every branch whose bound cannot beat the best assignment found,
+// and every state (depth, loads) already reached at no higher cost, so the
+// result is the exact optimum.
 func (s *solver) solve(p *assignProblem) assignment {
 	s.p = p
 	n, m := p.nEnv, p.nPeak
+	w := p.maxLoad + 1
 	s.order = grow(s.order, n)
 	for i := range s.order {
 		s.order[i] = i
@@ -165,55 +174,195 @@ func (s *solver) solve(p *assignProblem) assignment {
 				}
 			}
 		}
-		slices.SortFunc(o, compareOptions)
 		s.opts[d] = o
 	}
-	s.restMin = growF(s.restMin, n+1)
-	s.restMin[n] = 0
-	for d := n - 1; d >= 0; d-- {
-		s.restMin[d] = s.restMin[d+1] + s.opts[d][0].cost
-	}
-	w := p.maxLoad + 1
-	s.minFrom = growF(s.minFrom, m*w)
-	for j := 0; j < m; j++ {
-		mn := math.Inf(1)
-		for l := p.maxLoad; l >= 0; l-- {
-			if c := p.peak[j*w+l]; c < mn {
-				mn = c
-			}
-			s.minFrom[j*w+l] = mn
-		}
-	}
 	s.load = grow(s.load, m)
-	clear(s.load)
+	s.xLoad = grow(s.xLoad, m)
 	s.curP1 = grow(s.curP1, n)
 	s.curP2 = grow(s.curP2, n)
 	s.bestP1 = grow(s.bestP1, n)
 	s.bestP2 = grow(s.bestP2, n)
+	s.tmpP1 = grow(s.tmpP1, n)
+	s.tmpP2 = grow(s.tmpP2, n)
+	s.lambda = growF(s.lambda, m)
+	s.restG = growF(s.restG, n+1)
+	s.phi = growF(s.phi, m*w)
 	s.nodes = 0
+	s.best = math.Inf(1)
 
-	// Greedy incumbent: every environment takes its cheapest option.
-	for d, i := range s.order {
-		s.bestP1[i], s.bestP2[i] = s.opts[d][0].p1, s.opts[d][0].p2
+	s.tunePrices()
+
+	// Reduced costs at the chosen prices, options sorted by them.
+	for d := range s.order {
+		o := s.opts[d]
+		h := p.envH[s.order[d]]
+		for k := range o {
+			o[k].rc = s.reduced(o[k], h)
+		}
+		slices.SortFunc(o, compareOptions)
 	}
-	s.best = p.evaluateWith(s.bestP1, s.bestP2, s.load) + 1e-12
-	clear(s.load)
+	s.restG[n] = 0
+	for d := n - 1; d >= 0; d-- {
+		s.restG[d] = s.restG[d+1] + s.opts[d][0].rc
+	}
+	s.fillPhi()
 
+	clear(s.load)
+	s.bits = uint(bitsFor(p.maxLoad))
+	s.packable = uint(m)*s.bits+uint(bitsFor(n)) <= 64
+	if s.seen == nil {
+		s.seen = make(map[uint64]float64)
+	}
+	clear(s.seen)
 	pb := 0.0
 	for j := 0; j < m; j++ {
-		pb += s.minFrom[j*w]
+		pb += s.phi[j*w]
 	}
 	s.search(0, 0, pb)
-	s.best -= 1e-12
-	// Recompute the cost of the optimum exactly (the search accumulates
-	// sums in a different order).
 	cost := p.evaluateWith(s.bestP1, s.bestP2, s.load)
 	clear(s.load)
 	return assignment{first: s.bestP1, second: s.bestP2, cost: cost}
 }
 
+// reduced returns the cost of option o of an environment of h hydrogens
+// minus the prices of the hydrogens it places.
+func (s *solver) reduced(o option, h int) float64 {
+	switch {
+	case o.p1 < 0:
+		return o.cost
+	case o.p2 < 0:
+		return o.cost - s.lambda[o.p1]*float64(h)
+	}
+	return o.cost - (s.lambda[o.p1]+s.lambda[o.p2])*float64(h/2)
+}
+
+// tunePrices runs subgradient ascent on the Lagrangian dual, keeps the
+// prices with the highest bound in s.lambda, and records the best complete
+// assignment met on the way as the incumbent.
+func (s *solver) tunePrices() {
+	p := s.p
+	m := p.nPeak
+	w := p.maxLoad + 1
+	clear(s.lambda)
+	bestLB := math.Inf(-1)
+	var saved [16]float64
+	keep := saved[:0]
+	if m <= len(saved) {
+		keep = saved[:m]
+	} else {
+		keep = make([]float64, m)
+	}
+	step := 1.0
+	for round := 0; round < lagrangeRounds; round++ {
+		// Environment part: each takes its least reduced-cost option.
+		lb := 0.0
+		clear(s.load)
+		for d, i := range s.order {
+			h := p.envH[i]
+			bo, brc := s.opts[d][0], math.Inf(1)
+			for _, o := range s.opts[d] {
+				if rc := s.reduced(o, h); rc < brc {
+					bo, brc = o, rc
+				}
+			}
+			lb += brc
+			s.tmpP1[i], s.tmpP2[i] = bo.p1, bo.p2
+			switch {
+			case bo.p1 < 0:
+			case bo.p2 < 0:
+				s.load[bo.p1] += h
+			default:
+				s.load[bo.p1] += h / 2
+				s.load[bo.p2] += h / 2
+			}
+		}
+		// Peak part: each takes its best load at its price.
+		for j := 0; j < m; j++ {
+			bx, bv := 0, math.Inf(1)
+			for l := 0; l < w; l++ {
+				if v := p.peak[j*w+l] + s.lambda[j]*float64(l); v < bv {
+					bx, bv = l, v
+				}
+			}
+			lb += bv
+			s.xLoad[j] = bx
+		}
+		if lb > bestLB {
+			bestLB = lb
+			copy(keep, s.lambda)
+		}
+		// The environments' choices are a complete assignment.
+		clear(s.load)
+		if c := p.evaluateWith(s.tmpP1, s.tmpP2, s.load); c < s.best {
+			s.best = c
+			copy(s.bestP1, s.tmpP1)
+			copy(s.bestP2, s.tmpP2)
+		}
+		// Recount the environments' loads (evaluateWith reset them).
+		clear(s.load)
+		for i := range s.tmpP1 {
+			switch {
+			case s.tmpP1[i] < 0:
+			case s.tmpP2[i] < 0:
+				s.load[s.tmpP1[i]] += p.envH[i]
+			default:
+				s.load[s.tmpP1[i]] += p.envH[i] / 2
+				s.load[s.tmpP2[i]] += p.envH[i] / 2
+			}
+		}
+		moved := false
+		for j := 0; j < m; j++ {
+			if g := s.xLoad[j] - s.load[j]; g != 0 {
+				s.lambda[j] += step * float64(g) / float64(1+abs(g))
+				moved = true
+			}
+		}
+		if !moved {
+			break // the relaxation is tight: its solution is optimal
+		}
+		step *= 0.8
+	}
+	copy(s.lambda, keep)
+}
+
+func abs(x int) int {
+	if x < 0 {
+		return -x
+	}
+	return x
+}
+
+// fillPhi tabulates phi[j][ℓ] = min over L ≥ ℓ of f_j(L) + λ_j (L − ℓ).
+func (s *solver) fillPhi() {
+	p := s.p
+	w := p.maxLoad + 1
+	for j := 0; j < p.nPeak; j++ {
+		lam := s.lambda[j]
+		// g(L) = f(L) + λL; phi(ℓ) = min_{L≥ℓ} g(L) − λℓ.
+		mn := math.Inf(1)
+		for l := p.maxLoad; l >= 0; l-- {
+			if g := p.peak[j*w+l] + lam*float64(l); g < mn {
+				mn = g
+			}
+			s.phi[j*w+l] = mn - lam*float64(l)
+		}
+	}
+}
+
+func compareOptions(a, b option) int {
+	switch {
+	case a.rc < b.rc:
+		return -1
+	case a.rc > b.rc:
+		return 1
+	case a.p1 != b.p1:
+		return a.p1 - b.p1
+	}
+	return a.p2 - b.p2
+}
+
 // search extends the partial assignment of order[:d] (separable cost cur,
-// per-peak lower bound pb).
+// per-peak part of the bound pb).
 func (s *solver) search(d int, cur, pb float64) {
 	s.nodes++
 	p := s.p
@@ -229,16 +378,27 @@ func (s *solver) search(d int, cur, pb float64) {
 		}
 		return
 	}
+	if s.packable && d > 0 {
+		k := uint64(d)
+		for j := 0; j < p.nPeak; j++ {
+			k = k<<s.bits | uint64(s.load[j])
+		}
+		if c, ok := s.seen[k]; ok && c <= cur {
+			return
+		}
+		s.seen[k] = cur
+	}
 	i := s.order[d]
 	h := p.envH[i]
 	w := p.maxLoad + 1
-	rest := s.restMin[d+1]
+	rest := s.restG[d+1]
+	const eps = 1e-12
 	for _, o := range s.opts[d] {
-		c := cur + o.cost
-		// minFrom is non-decreasing in the load, so no option lowers the
-		// per-peak bound below pb, and options are sorted by separable cost:
-		// once this bound fails, it fails for every later option too.
-		if c+rest+pb >= s.best {
+		// The per-peak part can fall by at most λ·h when the option's
+		// hydrogens join a peak (phi(ℓ) ≤ phi(ℓ+h) + λh), so cur + rc +
+		// rest + pb bounds this option and, options being sorted by rc,
+		// every later one.
+		if cur+o.rc+rest+pb >= s.best-eps {
 			break
 		}
 		nb := pb
@@ -246,13 +406,14 @@ func (s *solver) search(d int, cur, pb float64) {
 		case o.p1 < 0:
 		case o.p2 < 0:
 			j := o.p1
-			nb += s.minFrom[j*w+s.load[j]+h] - s.minFrom[j*w+s.load[j]]
+			nb += s.phi[j*w+s.load[j]+h] - s.phi[j*w+s.load[j]]
 		default:
 			j, k := o.p1, o.p2
-			nb += s.minFrom[j*w+s.load[j]+h/2] - s.minFrom[j*w+s.load[j]]
-			nb += s.minFrom[k*w+s.load[k]+h/2] - s.minFrom[k*w+s.load[k]]
+			nb += s.phi[j*w+s.load[j]+h/2] - s.phi[j*w+s.load[j]]
+			nb += s.phi[k*w+s.load[k]+h/2] - s.phi[k*w+s.load[k]]
 		}
-		if c+rest+nb >= s.best {
+		c := cur + o.cost
+		if c+rest+nb >= s.best-eps {
 			continue
 		}
 		s.curP1[i], s.curP2[i] = o.p1, o.p2
@@ -274,6 +435,15 @@ func (s *solver) search(d int, cur, pb float64) {
 			s.load[o.p2] -= h / 2
 		}
 	}
+}
+
+// bitsFor returns the number of bits needed to hold 0..n.
+func bitsFor(n int) int {
+	b := 1
+	for 1<<b <= n {
+		b++
+	}
+	return b
 }
 
 func grow(s []int, n int) []int {

@@ -174,6 +174,8 @@ type Result struct {
 	Warnings        []string       `json:"warnings"`
 	Caution         string         `json:"caution"`
 	ElapsedSeconds  float64        `json:"elapsed_seconds"`
+
+	logZ float64 // log Σ exp(Score/T) over every scored candidate
 }
 
 // Candidate is one ranked structure with its explanation.
@@ -216,7 +218,7 @@ type Assignment struct {
 	ExpectedH             int         `json:"expected_h"` // assigned predicted H
 	ObservedH             float64     `json:"observed_h"` // implied from the integral (0 if none)
 	// ScoreShare is this peak's contribution to Score, nats (shift +
-	// multiplicity + J + integration terms).
+	// multiplicity + J + integration + overlap terms).
 	ScoreShare float64             `json:"score_share"`
 	Terms      ScoreTerms          `json:"terms"`
 	Details    []EnvironmentDetail `json:"environment_details"`
@@ -228,6 +230,7 @@ type ScoreTerms struct {
 	Multiplicity float64 `json:"multiplicity"`
 	J            float64 `json:"j"`
 	Integration  float64 `json:"integration"`
+	Overlap      float64 `json:"overlap"` // environments beyond the first on a first-order peak
 }
 
 // EnvironmentDetail is one predicted environment on a peak.

@@ -40,6 +40,9 @@ import (
 // H from its integral, so each observed peak contributes about one unit of
 // evidence however many environments share it. Without integrals w = 1.
 //
+// Overlap. Each environment beyond the first on a peak reported with a
+// first-order pattern costs Overlap.
+//
 // Integration. For a peak of implied h_j holding L assigned hydrogens, a
 // Gaussian term −(L − h_j)²/(2 s²) with s = IntAbs + IntRel·h_j.
 //
@@ -60,6 +63,13 @@ type Model struct {
 	MaxWeight  float64 // upper limit of the per-peak weight H_i / h_j
 
 	IntAbs, IntRel float64 // integration error s = IntAbs + IntRel·h, in H
+
+	// Overlap is the cost, nats, of each environment beyond the first on
+	// a peak reported with a resolved first-order pattern (s, d, t, dd,
+	// ...): inequivalent hydrogens rarely coincide so exactly that their
+	// sum reads as one clean multiplet. Peaks reported as m, as ranges or
+	// without a multiplicity hold several environments at no cost.
+	Overlap float64
 
 	UnexplainedBase, UnexplainedPerH   float64 // nats
 	UnobservedBase, UnobservedPerH     float64 // nats
@@ -86,6 +96,7 @@ func DefaultModel() Model {
 		MaxWeight:        1.5,
 		IntAbs:           0.2,
 		IntRel:           0.05,
+		Overlap:          1.4,
 		UnexplainedBase:  3,
 		UnexplainedPerH:  3,
 		UnobservedBase:   4,
@@ -94,6 +105,49 @@ func DefaultModel() Model {
 		ExchangeablePerH: 0.3,
 		Temperature:      1,
 	}
+}
+
+// logSum accumulates log Σ exp(x) in a numerically stable way.
+type logSum struct {
+	max, sum float64
+	n        int64
+}
+
+func (l *logSum) add(x float64) {
+	switch {
+	case l.n == 0:
+		l.max, l.sum = x, 1
+	case x > l.max:
+		l.sum = l.sum*math.Exp(l.max-x) + 1
+		l.max = x
+	default:
+		l.sum += math.Exp(x - l.max)
+	}
+	l.n++
+}
+
+func (l *logSum) merge(o logSum) {
+	if o.n == 0 {
+		return
+	}
+	if l.n == 0 {
+		*l = o
+		return
+	}
+	if o.max > l.max {
+		l.sum = l.sum*math.Exp(l.max-o.max) + o.sum
+		l.max = o.max
+	} else {
+		l.sum += o.sum * math.Exp(o.max-l.max)
+	}
+	l.n += o.n
+}
+
+func (l *logSum) value() float64 {
+	if l.n == 0 {
+		return math.Inf(-1)
+	}
+	return l.max + math.Log(l.sum)
 }
 
 // predEnv is the part of a predicted environment the likelihood reads.
@@ -210,6 +264,14 @@ func (s *scorer) pairCost(t terms, w float64) float64 {
 	return -w * (t.shift + t.mult + s.m.JWeight*t.j)
 }
 
+// overlapCost returns the cost of one extra environment on peak p.
+func (s *scorer) overlapCost(p *obsPeak) float64 {
+	if p.mult.kind != patFirstOrder || p.lo != p.hi {
+		return 0
+	}
+	return s.m.Overlap
+}
+
 // integrationLogP returns the integration log-likelihood of load assigned
 // hydrogens on a peak of implied H h (relative to a perfect match, ≤ 0).
 func (s *scorer) integrationLogP(load int, h float64) float64 {
@@ -253,17 +315,21 @@ func (s *scorer) build(envs []predEnv, peaks []obsPeak) {
 		p.unobs[i] = -s.unobservedLogP(e)
 		for j := range peaks {
 			t := s.pairTerms(e, &peaks[j])
-			p.whole[i*m+j] = s.pairCost(t, s.weight(float64(e.h), peaks[j].h))
+			ov := s.overlapCost(&peaks[j])
+			p.whole[i*m+j] = s.pairCost(t, s.weight(float64(e.h), peaks[j].h)) + ov
 			if p.split[i] {
-				p.half[i*m+j] = s.pairCost(t, s.weight(float64(e.h)/2, peaks[j].h))
+				p.half[i*m+j] = s.pairCost(t, s.weight(float64(e.h)/2, peaks[j].h)) + ov
 			}
 		}
 	}
 	w := total + 1
 	for j := range peaks {
 		p.peak[j*w] = -s.unexplainedLogP(peaks[j].h)
+		// Every environment on the peak paid the overlap cost; the
+		// first one is refunded here, so k environments cost (k−1)·Overlap.
+		ov := s.overlapCost(&peaks[j])
 		for l := 1; l <= total; l++ {
-			p.peak[j*w+l] = -s.integrationLogP(l, peaks[j].h)
+			p.peak[j*w+l] = -s.integrationLogP(l, peaks[j].h) - ov
 		}
 	}
 }

@@ -2,10 +2,110 @@ package main
 
 import (
 	"context"
+	"encoding/json"
 	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+
+	"shiftrank/ranker"
 )
 
-// runBench is being written; this placeholder is replaced by its owner's first commit.
+// runBench runs the accuracy benchmark over a reference file.
 func runBench(ctx context.Context, args []string, e env) error {
-	return errors.New("bench: not built yet")
+	fs := flag.NewFlagSet("bench", flag.ContinueOnError)
+	fs.SetOutput(e.stderr)
+	top := fs.Int("top", 5, "candidates explained per compound")
+	maxCand := fs.Int64("max-candidates", ranker.DefaultMaxCandidates, "per compound: stop after this many isomers")
+	budget := fs.Duration("time-budget", ranker.DefaultTimeBudget, "per compound: stop generating after this long")
+	filter := fs.String("filter", ranker.DefaultFilter, "plausibility filter")
+	asJSON := fs.Bool("json", false, "print the report as JSON")
+	fs.Usage = func() {
+		fmt.Fprintln(e.stderr, "usage: shiftrank bench [flags] FILE")
+		fs.PrintDefaults()
+	}
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			return nil
+		}
+		return badInput(err)
+	}
+	if fs.NArg() != 1 {
+		return badInputf("bench: want one reference file (e.g. testdata/accuracy.json), got %d arguments", fs.NArg())
+	}
+	b, err := os.ReadFile(fs.Arg(0))
+	if err != nil {
+		return badInputf("bench: %w", err)
+	}
+	set, err := ranker.ParseReferenceSet(b)
+	if err != nil {
+		return badInputf("bench: %s: %w", fs.Arg(0), err)
+	}
+	opts := ranker.BenchOptions{TopK: *top, MaxCandidates: *maxCand, TimeBudget: *budget, Filter: *filter}
+	var done func(int, ranker.BenchCase)
+	if e.stderrTTY {
+		done = func(i int, c ranker.BenchCase) {
+			fmt.Fprintf(e.stderr, "\r%d/%d %-30s", i+1, len(set.Compounds), c.Name)
+		}
+	}
+	rep, err := ranker.New(ranker.Options{}).Bench(ctx, set, opts, done)
+	if e.stderrTTY {
+		fmt.Fprintln(e.stderr)
+	}
+	if err != nil {
+		return fmt.Errorf("bench: %w", err)
+	}
+	if *asJSON {
+		enc := json.NewEncoder(e.stdout)
+		enc.SetIndent("", "  ")
+		return enc.Encode(rep)
+	}
+	writeBench(e.stdout, rep)
+	return nil
+}
+
+// writeBench prints a benchmark report: one line per compound, each miss
+// with its explanation, then the figures.
+func writeBench(w io.Writer, rep *ranker.BenchReport) {
+	fmt.Fprintln(w, "rank  p(true)  p(top)  scored   compound (formula)")
+	for _, c := range rep.Cases {
+		rank := "-"
+		if c.Rank > 0 {
+			rank = fmt.Sprint(c.Rank)
+		}
+		fmt.Fprintf(w, "%4s  %7s  %6s  %7d  %s (%s)", rank, formatProb(c.Probability), formatProb(c.TopProbability), c.Scored, c.Name, c.Formula)
+		if !c.Complete && c.Error == "" {
+			fmt.Fprint(w, " [incomplete search]")
+		}
+		if c.Error != "" {
+			fmt.Fprintf(w, " ERROR: %s", c.Error)
+		}
+		fmt.Fprintln(w)
+	}
+	misses := 0
+	for _, c := range rep.Cases {
+		if c.Rank == 1 {
+			continue
+		}
+		if misses == 0 {
+			fmt.Fprintln(w, "\nmisses:")
+		}
+		misses++
+		fmt.Fprintf(w, "\n== %s (%s), true %s ranked %d; source: %s\n", c.Name, c.Formula, c.SMILES, c.Rank, c.Source)
+		fmt.Fprintf(w, "   peaks: %s\n", c.Peaks)
+		if c.Top != nil {
+			writeCandidate(w, nil, c.Top)
+		}
+		if c.True != nil {
+			fmt.Fprintln(w, "   the true structure:")
+			writeCandidate(w, nil, c.True)
+		}
+	}
+	fmt.Fprintf(w, "\n%d compounds: top-1 %.1f %%, top-3 %.1f %%, mean reciprocal rank %.3f\n",
+		rep.N, 100*rep.Top1, 100*rep.Top3, rep.MRR)
+	fmt.Fprintf(w, "calibration: mean probability of the top candidate %.3f vs observed top-1 rate %.3f; mean probability of the true structure %.3f\n",
+		rep.MeanTopProbability, rep.Top1, rep.MeanTrueProbability)
+	fmt.Fprintf(w, "%.1f s\n", rep.Seconds)
+	fmt.Fprintf(w, "\nCaution: %s\n", ranker.Caution)
 }

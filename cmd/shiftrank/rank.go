@@ -2,10 +2,233 @@ package main
 
 import (
 	"context"
+	"encoding/json"
 	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"strings"
+
+	"shiftrank/ranker"
 )
 
-// runRank is being written; this placeholder is replaced by its owner's first commit.
+// stringList is a repeatable string flag.
+type stringList []string
+
+func (s *stringList) String() string     { return strings.Join(*s, ",") }
+func (s *stringList) Set(v string) error { *s = append(*s, v); return nil }
+
+// runRank ranks the isomers of a formula against an observed peak list.
 func runRank(ctx context.Context, args []string, e env) error {
-	return errors.New("rank: not built yet")
+	fs := flag.NewFlagSet("rank", flag.ContinueOnError)
+	fs.SetOutput(e.stderr)
+	formula := fs.String("formula", "", "molecular formula, e.g. C4H8O2 (required)")
+	peaks := fs.String("peaks", "", "observed peak list: journal text, @FILE, or - for stdin; JSON and JCAMP-DX are recognised (required)")
+	mhz := fs.Float64("mhz", 0, "spectrometer 1H frequency in MHz (default: from the peak list header, else 400)")
+	solvent := fs.String("solvent", "", "NMR solvent (default: from the peak list header, else CDCl3)")
+	top := fs.Int("top", ranker.DefaultTopK, "number of candidates to show")
+	filter := fs.String("filter", ranker.DefaultFilter, `plausibility filter: "plausible", "none", or edits such as "plausible,-RULE"`)
+	var require, forbid stringList
+	fs.Var(&require, "require", "fragment SMILES every candidate must contain (repeatable)")
+	fs.Var(&forbid, "forbid", "fragment SMILES no candidate may contain (repeatable)")
+	maxCand := fs.Int64("max-candidates", ranker.DefaultMaxCandidates, "stop after this many isomers")
+	budget := fs.Duration("time-budget", ranker.DefaultTimeBudget, "stop generating after this long")
+	keepSolvent := fs.Bool("keep-solvent", false, "score peaks that match the solvent or water signals")
+	asJSON := fs.Bool("json", false, "print the result as JSON")
+	fs.Usage = func() {
+		fmt.Fprintln(e.stderr, "usage: shiftrank rank --formula F --peaks TEXT|@FILE|- [flags]")
+		fs.PrintDefaults()
+	}
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			return nil
+		}
+		return badInput(err)
+	}
+	if fs.NArg() > 0 {
+		return badInputf("rank: unexpected argument %q (quote the peak list and pass it with --peaks)", fs.Arg(0))
+	}
+	if *formula == "" {
+		return badInputf("rank: --formula is required")
+	}
+	if *peaks == "" {
+		return badInputf("rank: --peaks is required")
+	}
+	pl, err := readPeakList(*peaks, e.stdin)
+	if err != nil {
+		return err
+	}
+	req := ranker.Request{
+		Formula: *formula, Peaks: pl, MHz: *mhz, Solvent: *solvent, TopK: *top, Filter: *filter,
+		Require: require, Forbid: forbid, MaxCandidates: *maxCand, TimeBudget: *budget,
+		KeepSolventPeaks: *keepSolvent,
+	}
+	var progress func(ranker.Progress)
+	if e.stderrTTY {
+		progress = func(p ranker.Progress) {
+			fmt.Fprintf(e.stderr, "\rgenerated %d, scored %d ", p.Generated, p.Scored)
+		}
+	}
+	res, err := ranker.New(ranker.Options{}).Rank(ctx, req, progress)
+	if e.stderrTTY {
+		fmt.Fprintln(e.stderr)
+	}
+	if err != nil {
+		var re *ranker.RequestError
+		if errors.As(err, &re) {
+			return badInput(err)
+		}
+		return fmt.Errorf("rank: %w", err)
+	}
+	if *asJSON {
+		enc := json.NewEncoder(e.stdout)
+		enc.SetIndent("", "  ")
+		return enc.Encode(res)
+	}
+	writeResult(e.stdout, res)
+	return nil
+}
+
+// readPeakList reads --peaks: inline text, @FILE or - (stdin). JSON input
+// (starting with [ or {) and JCAMP-DX (starting with ##) are recognised.
+func readPeakList(arg string, stdin io.Reader) (ranker.PeakList, error) {
+	var data []byte
+	switch {
+	case arg == "-":
+		b, err := io.ReadAll(io.LimitReader(stdin, ranker.MaxPeakInput+1))
+		if err != nil {
+			return ranker.PeakList{}, fmt.Errorf("read peaks from stdin: %w", err)
+		}
+		data = b
+	case strings.HasPrefix(arg, "@"):
+		b, err := os.ReadFile(arg[1:])
+		if err != nil {
+			return ranker.PeakList{}, badInputf("--peaks: %w", err)
+		}
+		data = b
+	default:
+		data = []byte(arg)
+	}
+	if len(data) > ranker.MaxPeakInput {
+		return ranker.PeakList{}, badInputf("--peaks: input exceeds %d bytes", ranker.MaxPeakInput)
+	}
+	var pl ranker.PeakList
+	var err error
+	switch t := strings.TrimSpace(string(data)); {
+	case strings.HasPrefix(t, "[") || strings.HasPrefix(t, "{"):
+		pl, err = ranker.ParsePeaksJSON(data)
+	case strings.HasPrefix(t, "##"):
+		pl, err = ranker.ParseJCAMP(data)
+	default:
+		pl, err = ranker.ParsePeaks(string(data))
+	}
+	if err != nil {
+		return ranker.PeakList{}, badInputf("--peaks: %w", err)
+	}
+	return pl, nil
+}
+
+// writeResult prints a ranking for a reader.
+func writeResult(w io.Writer, res *ranker.Result) {
+	total := fmt.Sprintf("%d isomers", res.IsomersTotal)
+	if res.IsomersEstimated {
+		total = fmt.Sprintf("about %d isomers (estimate)", res.IsomersTotal)
+	}
+	fmt.Fprintf(w, "%s (DBE %d): %s, %d scored", res.Formula, res.DBE, total, res.Scored)
+	if !res.Complete {
+		fmt.Fprint(w, " — INCOMPLETE SEARCH")
+	}
+	fmt.Fprintf(w, "\n%.0f MHz, %s, filter %s; prior %s; %.1f s\n", res.MHz, res.Solvent, res.Filter, res.Prior, res.ElapsedSeconds)
+	if len(res.Require) > 0 {
+		fmt.Fprintf(w, "required fragments: %s\n", strings.Join(res.Require, ", "))
+	}
+	if len(res.Forbid) > 0 {
+		fmt.Fprintf(w, "forbidden fragments: %s\n", strings.Join(res.Forbid, ", "))
+	}
+	fmt.Fprintln(w)
+	if len(res.Candidates) > 0 {
+		fmt.Fprintln(w, "rank  probability  score     SMILES")
+		for _, c := range res.Candidates {
+			fmt.Fprintf(w, "%4d  %11s  %8.2f  %s\n", c.Rank, formatProb(c.Probability), c.Score, c.SMILES)
+		}
+	}
+	for _, c := range res.Candidates {
+		fmt.Fprintln(w)
+		writeCandidate(w, res, &c)
+	}
+	if len(res.Warnings) > 0 {
+		fmt.Fprintln(w, "\nwarnings:")
+		for _, s := range res.Warnings {
+			fmt.Fprintf(w, "  - %s\n", s)
+		}
+	}
+	fmt.Fprintf(w, "\nCaution: %s\n", res.Caution)
+}
+
+func formatProb(p float64) string {
+	switch {
+	case p >= 0.001:
+		return fmt.Sprintf("%.3f", p)
+	case p > 0:
+		return fmt.Sprintf("%.1e", p)
+	}
+	return "0"
+}
+
+// writeCandidate prints one candidate's per-peak table.
+func writeCandidate(w io.Writer, res *ranker.Result, c *ranker.Candidate) {
+	fmt.Fprintf(w, "#%d %s  (probability %s, score %.2f)\n", c.Rank, c.SMILES, formatProb(c.Probability), c.Score)
+	if c.Summary != "" {
+		fmt.Fprintf(w, "  %s\n", c.Summary)
+	}
+	fmt.Fprintln(w, "  peak  δ obs        δ pred  mult obs/pred   H obs/exp  share  atoms  env")
+	for _, a := range c.Assignments {
+		obs := fmt.Sprintf("%.2f", a.ObservedShift)
+		if len(a.ObservedRange) == 2 {
+			obs = fmt.Sprintf("%.2f–%.2f", a.ObservedRange[0], a.ObservedRange[1])
+		}
+		mult := orDash(a.ObservedMultiplicity) + " / " + a.PredictedMultiplicity
+		oh := "-"
+		if a.ObservedH > 0 {
+			oh = fmt.Sprintf("%.1f", a.ObservedH)
+		}
+		fmt.Fprintf(w, "  %4d  %-11s  %6.2f  %-14s  %4s/%-4d  %+5.1f  %-5s  %s\n",
+			a.Peak+1, obs, a.PredictedShift, mult, oh, a.ExpectedH, a.ScoreShare, joinInts(a.Atoms), joinInts(a.Environments))
+		if a.MultiplicityReason != "" {
+			fmt.Fprintf(w, "        multiplicity: %s\n", a.MultiplicityReason)
+		}
+		if len(a.Breakdown) > 0 {
+			parts := make([]string, len(a.Breakdown))
+			for i, t := range a.Breakdown {
+				parts[i] = fmt.Sprintf("%s %+.2f", t.Term, t.PPM)
+			}
+			fmt.Fprintf(w, "        shift: %s\n", strings.Join(parts, ", "))
+		}
+	}
+	for _, u := range c.UnexplainedPeaks {
+		fmt.Fprintf(w, "  peak %d (δ %.2f, %s) unexplained: %+.1f\n", u.Peak+1, u.ObservedShift, orDash(u.Multiplicity), u.ScoreShare)
+	}
+	for _, u := range c.UnobservedEnvironments {
+		fmt.Fprintf(w, "  environment %d (%s, %d H, δ %.2f %s, atoms %s) not observed: %+.1f — %s\n",
+			u.Environment, u.Kind, u.H, u.PredictedShift, u.PredictedMultiplicity, joinInts(u.Atoms), u.ScoreShare, u.Reason)
+	}
+	for _, n := range c.Notes {
+		fmt.Fprintf(w, "  note: %s\n", n)
+	}
+}
+
+func orDash(s string) string {
+	if s == "" {
+		return "-"
+	}
+	return s
+}
+
+func joinInts(a []int) string {
+	s := make([]string, len(a))
+	for i, x := range a {
+		s[i] = fmt.Sprint(x)
+	}
+	return strings.Join(s, ",")
 }

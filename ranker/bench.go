@@ -1,0 +1,242 @@
+package ranker
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"strings"
+	"time"
+
+	"shiftrank/molecule"
+)
+
+// Reference is one compound of an accuracy set: a formula, an observed
+// peak list in journal notation, the true structure and where the data
+// come from.
+type Reference struct {
+	Name    string `json:"name"`
+	Formula string `json:"formula"`
+	SMILES  string `json:"smiles"`
+	Peaks   string `json:"peaks"`
+	Source  string `json:"source"`
+	Group   string `json:"group,omitempty"`
+}
+
+// ReferenceSet is an accuracy set (testdata/accuracy.json).
+type ReferenceSet struct {
+	Description string      `json:"description,omitempty"`
+	Compounds   []Reference `json:"compounds"`
+}
+
+// MaxReferenceSet is the largest accuracy-set file accepted, bytes.
+const MaxReferenceSet = 8 << 20
+
+// ParseReferenceSet reads an accuracy set. Every compound must have a
+// name, a formula, a SMILES, a peak list and a source. Errors are
+// *RequestError with Field "compounds[i].field" and, for JSON syntax
+// errors, the byte offset in Pos.
+func ParseReferenceSet(b []byte) (*ReferenceSet, error) {
+	if len(b) > MaxReferenceSet {
+		return nil, &RequestError{Field: "file", Msg: fmt.Sprintf("%d bytes exceed the limit of %d", len(b), MaxReferenceSet)}
+	}
+	dec := json.NewDecoder(bytes.NewReader(b))
+	dec.DisallowUnknownFields()
+	var set ReferenceSet
+	if err := dec.Decode(&set); err != nil {
+		var se *json.SyntaxError
+		var te *json.UnmarshalTypeError
+		switch {
+		case errors.As(err, &se):
+			return nil, &RequestError{Field: "file", Pos: int(se.Offset), Token: near(b, int(se.Offset)), Msg: se.Error(), Err: err}
+		case errors.As(err, &te):
+			return nil, &RequestError{Field: te.Field, Pos: int(te.Offset), Token: near(b, int(te.Offset)), Msg: "expected " + te.Type.String(), Err: err}
+		}
+		return nil, &RequestError{Field: "file", Msg: err.Error(), Err: err}
+	}
+	if _, err := dec.Token(); err != io.EOF {
+		return nil, &RequestError{Field: "file", Pos: int(dec.InputOffset()), Msg: "data after the top-level object"}
+	}
+	if len(set.Compounds) == 0 {
+		return nil, &RequestError{Field: "compounds", Msg: "no compounds"}
+	}
+	for i, c := range set.Compounds {
+		for _, f := range []struct{ name, v string }{
+			{"name", c.Name}, {"formula", c.Formula}, {"smiles", c.SMILES}, {"peaks", c.Peaks}, {"source", c.Source},
+		} {
+			if strings.TrimSpace(f.v) == "" {
+				return nil, &RequestError{Field: fmt.Sprintf("compounds[%d].%s", i, f.name), Msg: "missing"}
+			}
+		}
+	}
+	return &set, nil
+}
+
+// near returns a few bytes of b around off, for error messages.
+func near(b []byte, off int) string {
+	lo, hi := max(off-8, 0), min(off+8, len(b))
+	if lo > hi {
+		return ""
+	}
+	return string(b[lo:hi])
+}
+
+// BenchOptions configures Bench.
+type BenchOptions struct {
+	TopK          int           // candidates explained per compound (default 5)
+	MaxCandidates int64         // per compound (default DefaultMaxCandidates)
+	TimeBudget    time.Duration // per compound (default DefaultTimeBudget)
+	Filter        string        // default "plausible"
+}
+
+// BenchCase is the outcome for one reference compound.
+type BenchCase struct {
+	Reference
+	// Rank of the true structure among all scored candidates (1 = best);
+	// 0 if it was not scored (removed by the filter, outside the budget,
+	// or the input could not be read: see Error).
+	Rank int `json:"rank"`
+	// Ties counts other candidates with the same score as the true one.
+	Ties int `json:"ties,omitempty"`
+	// Probability given to the true structure.
+	Probability float64 `json:"probability"`
+	// TopProbability is the probability of the first candidate.
+	TopProbability float64 `json:"top_probability"`
+	TopSMILES      string  `json:"top_smiles"`
+	Scored         int64   `json:"scored"`
+	Complete       bool    `json:"complete"`
+	Error          string  `json:"error,omitempty"`
+	// Top is the first candidate and True the true structure's candidate
+	// (explained even when it is outside the top K), for misses.
+	Top  *Candidate `json:"top,omitempty"`
+	True *Candidate `json:"true,omitempty"`
+}
+
+// BenchReport summarises an accuracy run.
+type BenchReport struct {
+	Cases []BenchCase `json:"cases"`
+	N     int         `json:"n"`
+	Top1  float64     `json:"top1"` // fraction with the true structure first
+	Top3  float64     `json:"top3"`
+	MRR   float64     `json:"mrr"` // mean reciprocal rank (0 for unscored)
+	// MeanTopProbability is the mean probability of the first candidate;
+	// for a calibrated score it is close to Top1.
+	MeanTopProbability float64 `json:"mean_top_probability"`
+	// MeanTrueProbability is the mean probability given to the true
+	// structure.
+	MeanTrueProbability float64 `json:"mean_true_probability"`
+	Seconds             float64 `json:"seconds"`
+}
+
+// Bench ranks every compound of set and reports how often the true
+// structure comes first, in the top three, its mean reciprocal rank and
+// the calibration of the probabilities. caseDone, if not nil, is called
+// after each compound.
+func (r *Ranker) Bench(ctx context.Context, set *ReferenceSet, opts BenchOptions, caseDone func(i int, c BenchCase)) (*BenchReport, error) {
+	if opts.TopK <= 0 {
+		opts.TopK = 5
+	}
+	start := time.Now()
+	rep := &BenchReport{}
+	for i, ref := range set.Compounds {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		c, err := r.benchOne(ctx, ref, opts)
+		if err != nil {
+			if ctx.Err() != nil {
+				return nil, ctx.Err()
+			}
+			c.Error = err.Error()
+		}
+		rep.Cases = append(rep.Cases, c)
+		if caseDone != nil {
+			caseDone(i, c)
+		}
+	}
+	rep.N = len(rep.Cases)
+	for _, c := range rep.Cases {
+		if c.Rank == 1 {
+			rep.Top1++
+		}
+		if c.Rank >= 1 && c.Rank <= 3 {
+			rep.Top3++
+		}
+		if c.Rank >= 1 {
+			rep.MRR += 1 / float64(c.Rank)
+		}
+		rep.MeanTopProbability += c.TopProbability
+		rep.MeanTrueProbability += c.Probability
+	}
+	if rep.N > 0 {
+		n := float64(rep.N)
+		rep.Top1 /= n
+		rep.Top3 /= n
+		rep.MRR /= n
+		rep.MeanTopProbability /= n
+		rep.MeanTrueProbability /= n
+	}
+	rep.Seconds = time.Since(start).Seconds()
+	return rep, nil
+}
+
+// benchOne ranks one reference compound and finds the exact rank of its
+// true structure: the true structure is scored first, and the ranking
+// counts how many candidates score higher.
+func (r *Ranker) benchOne(ctx context.Context, ref Reference, opts BenchOptions) (BenchCase, error) {
+	c := BenchCase{Reference: ref}
+	pl, err := ParsePeaks(ref.Peaks)
+	if err != nil {
+		return c, fmt.Errorf("peaks: %w", err)
+	}
+	req := Request{Formula: ref.Formula, Peaks: pl, TopK: opts.TopK, Filter: opts.Filter,
+		MaxCandidates: opts.MaxCandidates, TimeBudget: opts.TimeBudget}
+	j, err := r.prepare(req)
+	if err != nil {
+		return c, err
+	}
+	g, err := molecule.ParseSMILES(ref.SMILES)
+	if err != nil {
+		return c, fmt.Errorf("true structure: %w", err)
+	}
+	if g.Formula() != j.formula {
+		return c, fmt.Errorf("true structure %s has formula %s, not %s", ref.SMILES, g.Formula(), j.formula)
+	}
+	trueSMILES := molecule.CanonicalSMILES(g)
+	tg, err := molecule.ParseSMILES(trueSMILES)
+	if err != nil {
+		return c, fmt.Errorf("true structure: canonical SMILES %s: %w", trueSMILES, err)
+	}
+	tc, err := r.explainOne(j, tg, trueSMILES)
+	if err != nil {
+		return c, err
+	}
+	pr := &probe{score: tc.Score, smiles: trueSMILES}
+	res, err := r.run(ctx, j, nil, pr)
+	if err != nil {
+		return c, err
+	}
+	c.Scored, c.Complete = res.Scored, res.Complete
+	if len(res.Candidates) > 0 {
+		top := res.Candidates[0]
+		c.TopSMILES, c.TopProbability = top.SMILES, top.Probability
+		c.Top = &top
+	}
+	allowed, rule := j.filter.Allows(tg)
+	switch {
+	case !allowed:
+		return c, fmt.Errorf("true structure %s is removed by the filter rule %q", trueSMILES, rule)
+	case pr.seen == 0:
+		return c, fmt.Errorf("true structure %s was not among the %d candidates scored", trueSMILES, res.Scored)
+	}
+	c.Rank = int(pr.above) + 1
+	c.Ties = int(pr.ties)
+	tc.Rank = c.Rank
+	tc.Probability = math.Exp(tc.Score/r.model.Temperature - res.logZ)
+	c.Probability = tc.Probability
+	c.True = &tc
+	return c, nil
+}

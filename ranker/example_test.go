@@ -1,0 +1,36 @@
+package ranker_test
+
+import (
+	"context"
+	"fmt"
+
+	"shiftrank/ranker"
+)
+
+// Rank the isomers of C4H8O2 against the published spectrum of ethyl
+// acetate in CDCl3 (Gottlieb, Kotlyar, Nudelman, J. Org. Chem. 1997, 62,
+// 7512; from memory).
+func ExampleRanker_Rank() {
+	pl, err := ranker.ParsePeaks("1H NMR (300 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H)")
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	res, err := ranker.New(ranker.Options{}).Rank(context.Background(), ranker.Request{Formula: "C4H8O2", Peaks: pl, TopK: 3}, nil)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(res.Formula, "all isomers scored:", res.Complete && res.Scored == res.IsomersTotal)
+	best := res.Candidates[0]
+	fmt.Println("first:", best.SMILES)
+	for _, a := range best.Assignments {
+		fmt.Printf("δ %.2f %s %dH -> atoms %v (%s)\n", a.ObservedShift, a.ObservedMultiplicity, a.ExpectedH, a.Atoms, a.PredictedMultiplicity)
+	}
+	// Output:
+	// C4H8O2 all isomers scored: true
+	// first: CCOC(C)=O
+	// δ 4.12 q 2H -> atoms [1] (q)
+	// δ 2.05 s 3H -> atoms [4] (s)
+	// δ 1.26 t 3H -> atoms [0] (t)
+}

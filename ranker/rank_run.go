@@ -1,0 +1,467 @@
+package ranker
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"strings"
+	"sync"
+	"sync/atomic"
+	"time"
+
+	"shiftrank/isomers"
+	"shiftrank/molecule"
+	"shiftrank/predict"
+)
+
+// job is a validated Request with everything parsed.
+type job struct {
+	req      Request
+	formula  molecule.Formula
+	filter   isomers.Filter
+	require  []*molecule.Fragment
+	forbid   []*molecule.Fragment
+	mhz      float64
+	solvent  string
+	topK     int
+	maxCand  int64
+	budget   time.Duration
+	peaks    []ObservedPeak // every input peak, in input order
+	scored   []int          // indices into peaks of the peaks that are scored
+	obs      []obsPeak      // the scored peaks, for the likelihood
+	warnings []string
+}
+
+// prepare validates req and applies the defaults.
+func (r *Ranker) prepare(req Request) (*job, error) {
+	j := &job{req: req}
+	maxHeavy := req.MaxHeavyAtoms
+	if maxHeavy == 0 {
+		maxHeavy = molecule.DefaultMaxHeavyAtoms
+	}
+	f, err := molecule.ParseFormulaLimit(req.Formula, maxHeavy)
+	if err != nil {
+		var fe *molecule.FormulaError
+		if errors.As(err, &fe) {
+			return nil, &RequestError{Field: "formula", Pos: fe.Pos, Token: fe.Token, Msg: fe.Msg, Err: err}
+		}
+		return nil, &RequestError{Field: "formula", Msg: err.Error(), Err: err}
+	}
+	j.formula = f
+	if f.HydrogenCount() == 0 {
+		return nil, &RequestError{Field: "formula", Token: req.Formula, Msg: "no hydrogens: a 1H spectrum cannot distinguish its isomers"}
+	}
+
+	switch {
+	case req.MHz < 0 || math.IsNaN(req.MHz) || math.IsInf(req.MHz, 0):
+		return nil, &RequestError{Field: "mhz", Token: fmt.Sprint(req.MHz), Msg: "spectrometer frequency must be positive"}
+	case req.MHz > 0:
+		j.mhz = req.MHz
+	case req.Peaks.MHz > 0:
+		j.mhz = req.Peaks.MHz
+	default:
+		j.mhz = DefaultMHz
+	}
+	if j.mhz < 20 || j.mhz > 2000 {
+		return nil, &RequestError{Field: "mhz", Token: fmt.Sprint(j.mhz), Msg: "spectrometer frequency outside 20–2000 MHz"}
+	}
+
+	j.solvent = DefaultSolvent
+	switch {
+	case req.Solvent != "":
+		c, ok := CanonicalSolvent(req.Solvent)
+		if !ok {
+			return nil, &RequestError{Field: "solvent", Token: req.Solvent, Msg: "unknown solvent (known: " + strings.Join(Solvents(), ", ") + ")"}
+		}
+		j.solvent = c
+	case req.Peaks.Solvent != "":
+		j.solvent = req.Peaks.Solvent
+	}
+
+	j.topK = req.TopK
+	switch {
+	case j.topK == 0:
+		j.topK = DefaultTopK
+	case j.topK < 0 || j.topK > MaxTopK:
+		return nil, &RequestError{Field: "top", Token: fmt.Sprint(req.TopK), Msg: fmt.Sprintf("number of candidates must be 1–%d", MaxTopK)}
+	}
+	j.maxCand = req.MaxCandidates
+	switch {
+	case j.maxCand == 0:
+		j.maxCand = DefaultMaxCandidates
+	case j.maxCand < 0:
+		return nil, &RequestError{Field: "max_candidates", Token: fmt.Sprint(req.MaxCandidates), Msg: "must be positive"}
+	}
+	j.budget = req.TimeBudget
+	switch {
+	case j.budget == 0:
+		j.budget = DefaultTimeBudget
+	case j.budget < 0:
+		return nil, &RequestError{Field: "time_budget", Token: req.TimeBudget.String(), Msg: "must be positive"}
+	}
+
+	fs := req.Filter
+	if fs == "" {
+		fs = DefaultFilter
+	}
+	flt, err := isomers.ParseFilter(fs)
+	if err != nil {
+		return nil, &RequestError{Field: "filter", Token: fs, Msg: err.Error(), Err: err}
+	}
+	j.filter = flt
+
+	for k, s := range req.Require {
+		fr, err := parseFragment(fmt.Sprintf("require[%d]", k), s)
+		if err != nil {
+			return nil, err
+		}
+		j.require = append(j.require, fr)
+	}
+	for k, s := range req.Forbid {
+		fr, err := parseFragment(fmt.Sprintf("forbid[%d]", k), s)
+		if err != nil {
+			return nil, err
+		}
+		j.forbid = append(j.forbid, fr)
+	}
+
+	if err := j.preparePeaks(); err != nil {
+		return nil, err
+	}
+	return j, nil
+}
+
+func parseFragment(field, s string) (*molecule.Fragment, error) {
+	fr, err := molecule.ParseFragment(s)
+	if err != nil {
+		var se *molecule.SMILESError
+		if errors.As(err, &se) {
+			return nil, &RequestError{Field: field, Pos: se.Pos, Token: se.Token, Msg: se.Msg, Err: err}
+		}
+		return nil, &RequestError{Field: field, Token: s, Msg: err.Error(), Err: err}
+	}
+	return fr, nil
+}
+
+// preparePeaks checks the peaks, flags solvent signals and scales the
+// integrals of the peaks that are scored.
+func (j *job) preparePeaks() error {
+	pl := j.req.Peaks
+	if len(pl.Peaks) == 0 {
+		return &RequestError{Field: "peaks", Msg: "no peaks"}
+	}
+	if len(pl.Peaks) > MaxPeaks {
+		return &RequestError{Field: "peaks", Msg: fmt.Sprintf("%d peaks exceed the limit of %d", len(pl.Peaks), MaxPeaks)}
+	}
+	for i, p := range pl.Peaks {
+		if field, msg := checkPeak(p); msg != "" {
+			return &RequestError{Field: fmt.Sprintf("peaks[%d].%s", i, field), Pos: p.Pos, Token: p.Text, Msg: msg}
+		}
+	}
+	j.peaks = make([]ObservedPeak, len(pl.Peaks))
+	for i, p := range pl.Peaks {
+		op := ObservedPeak{Index: i, Shift: p.Shift, Multiplicity: p.Multiplicity, J: p.J, Integral: p.Integral, Text: p.Text}
+		if p.IsRange() {
+			op.ShiftLo, op.ShiftHi = p.ShiftLo, p.ShiftHi
+		}
+		j.peaks[i] = op
+	}
+	excluded := make([]bool, len(pl.Peaks))
+	for _, fl := range FlagSolvent(pl, j.solvent) {
+		k := fl.Peak
+		if k < 0 || k >= len(j.peaks) {
+			continue
+		}
+		j.peaks[k].Solvent = fl.Signal.Kind + " " + fl.Signal.Name
+		switch {
+		case !fl.Exclude:
+			j.warnings = append(j.warnings, fmt.Sprintf("peak %d (δ %.2f) overlaps the %s signal of %s in %s: its integral may include it",
+				k+1, pl.Peaks[k].Shift, fl.Signal.Kind, fl.Signal.Name, j.solvent))
+		case j.req.KeepSolventPeaks:
+			j.warnings = append(j.warnings, fmt.Sprintf("peak %d (δ %.2f) matches the %s signal of %s in %s; scored as asked",
+				k+1, pl.Peaks[k].Shift, fl.Signal.Kind, fl.Signal.Name, j.solvent))
+		default:
+			j.peaks[k].Excluded = true
+			excluded[k] = true
+			j.warnings = append(j.warnings, fmt.Sprintf("peak %d (δ %.2f) matches the %s signal of %s in %s and is not scored (keep solvent peaks to score it)",
+				k+1, pl.Peaks[k].Shift, fl.Signal.Kind, fl.Signal.Name, j.solvent))
+		}
+	}
+	kept := PeakList{MHz: pl.MHz, Solvent: pl.Solvent}
+	for i, p := range pl.Peaks {
+		if !excluded[i] {
+			kept.Peaks = append(kept.Peaks, p)
+			j.scored = append(j.scored, i)
+		}
+	}
+	if len(kept.Peaks) == 0 {
+		return &RequestError{Field: "peaks", Msg: "every peak is a solvent or water signal: nothing to score"}
+	}
+	implied, warns, err := ScaleIntegrals(kept, j.formula.HydrogenCount())
+	if err != nil {
+		var pe *PeakError
+		if errors.As(err, &pe) {
+			return &RequestError{Field: "peaks." + pe.Field, Pos: pe.Pos, Token: pe.Token, Msg: pe.Msg, Err: err}
+		}
+		return &RequestError{Field: "peaks", Msg: err.Error(), Err: err}
+	}
+	j.warnings = append(j.warnings, warns...)
+	j.obs = make([]obsPeak, len(kept.Peaks))
+	for k, p := range kept.Peaks {
+		lo, hi := p.ShiftLo, p.ShiftHi
+		if !p.IsRange() {
+			lo, hi = p.Shift, p.Shift
+		}
+		h := 0.0
+		if k < len(implied) {
+			h = implied[k]
+		}
+		j.peaks[j.scored[k]].ImpliedH = h
+		j.obs[k] = obsPeak{shift: p.Shift, lo: lo, hi: hi, mult: parsePattern(p.Multiplicity), j: p.J, h: h}
+	}
+	return nil
+}
+
+// worker is the per-goroutine state of a ranking.
+type worker struct {
+	sc      *scorer
+	envs    []predEnv
+	top     *topK[*molecule.Graph]
+	ls      logSum
+	failed  int64
+	lastErr error
+	above   int64 // probe counts
+	ties    int64
+	seen    int64
+	_       [64]byte // keep workers' hot fields on separate cache lines
+}
+
+// toEnvs converts a predicted spectrum for the likelihood, reusing buf.
+func toEnvs(sp *predict.Spectrum, buf []predEnv) []predEnv {
+	buf = buf[:0]
+	for k := range sp.Environments {
+		e := &sp.Environments[k]
+		lo, hi := e.ShiftMin, e.ShiftMax
+		if lo == 0 && hi == 0 || lo > hi {
+			lo, hi = e.Shift, e.Shift
+		}
+		buf = append(buf, predEnv{
+			h: e.H, shift: e.Shift, lo: math.Min(lo, e.Shift), hi: math.Max(hi, e.Shift), sigma: e.Sigma,
+			mult: parsePattern(e.Multiplicity), j: e.J,
+			exchangeable: e.Exchangeable, diastereotopic: e.Diastereotopic,
+		})
+	}
+	return buf
+}
+
+// Rank generates the isomers of req.Formula, scores each against
+// req.Peaks and returns the best req.TopK with explanations. progress, if
+// not nil, is called from one goroutine at most every ProgressInterval and
+// once at the end.
+//
+// Errors: *RequestError for bad input; ctx.Err() when ctx is cancelled
+// (a budget running out is not an error: the Result says Complete=false).
+func (r *Ranker) Rank(ctx context.Context, req Request, progress func(Progress)) (*Result, error) {
+	j, err := r.prepare(req)
+	if err != nil {
+		return nil, err
+	}
+	return r.run(ctx, j, progress, nil)
+}
+
+// probe counts, during a ranking, the candidates scoring above a given
+// score (the benchmark's true structure), to give its exact rank.
+type probe struct {
+	score  float64
+	smiles string // canonical SMILES of the probed structure
+	above  int64  // candidates with a higher score
+	ties   int64  // other candidates with the same score
+	seen   int64  // times the probed structure itself was scored
+}
+
+// probeTolerance is the score difference below which two candidates tie
+// (sums over environments in different orders differ by rounding).
+const probeTolerance = 1e-9
+
+// run is Rank after validation.
+func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *probe) (*Result, error) {
+	start := time.Now()
+	gctx, cancel := context.WithTimeoutCause(ctx, j.budget, errBudget)
+	defer cancel()
+
+	pred := predict.New(predict.Options{MHz: j.mhz, LineWidthHz: r.lineW})
+	workers := make([]worker, r.workers)
+	for w := range workers {
+		workers[w].sc = newScorer(r.model)
+		workers[w].top = newTopK[*molecule.Graph](j.topK)
+	}
+	var generated, scored atomic.Int64
+
+	var wg sync.WaitGroup
+	stopProgress := make(chan struct{})
+	if progress != nil {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			t := time.NewTicker(r.interval)
+			defer t.Stop()
+			for {
+				select {
+				case <-stopProgress:
+					return
+				case <-t.C:
+					progress(Progress{Generated: generated.Load(), Scored: scored.Load()})
+				}
+			}
+		}()
+	}
+
+	temp := r.model.Temperature
+	canon := func(g *molecule.Graph) string { return molecule.CanonicalSMILES(g) }
+	clone := func(g *molecule.Graph) *molecule.Graph { return g.Clone() }
+	yield := func(w int, g *molecule.Graph) bool {
+		generated.Add(1)
+		for _, fr := range j.require {
+			if !fr.Matches(g) {
+				return true
+			}
+		}
+		for _, fr := range j.forbid {
+			if fr.Matches(g) {
+				return true
+			}
+		}
+		wk := &workers[w]
+		sp, err := pred.Predict(g)
+		if err != nil {
+			wk.failed++
+			wk.lastErr = err
+			return true
+		}
+		wk.envs = toEnvs(sp, wk.envs)
+		s, _ := wk.sc.score(wk.envs, j.obs)
+		wk.ls.add(s / temp)
+		wk.top.offer(s, g, canon, clone)
+		if pr != nil {
+			switch d := s - pr.score; {
+			case d > probeTolerance:
+				wk.above++
+			case d >= -probeTolerance:
+				if pr.smiles != "" && canon(g) == pr.smiles {
+					wk.seen++
+				} else {
+					wk.ties++
+				}
+			}
+		}
+		scored.Add(1)
+		return true
+	}
+	stats, gerr := isomers.GenerateConcurrent(gctx, j.formula, isomers.Options{Filter: j.filter, Limit: j.maxCand, Workers: r.workers}, yield)
+	close(stopProgress)
+	wg.Wait()
+	if ctx.Err() != nil {
+		return nil, ctx.Err()
+	}
+	timedOut := errors.Is(context.Cause(gctx), errBudget)
+	if gerr != nil && !(timedOut && errors.Is(gerr, context.DeadlineExceeded)) {
+		return nil, fmt.Errorf("generate isomers of %s: %w", j.formula, gerr)
+	}
+
+	res := &Result{
+		Formula: j.formula.String(), DBE: j.formula.DBE(),
+		Generated: generated.Load(), Scored: scored.Load(),
+		Complete: stats.Complete && !timedOut,
+		MHz:      j.mhz, Solvent: j.solvent, Filter: orDefault(j.req.Filter, DefaultFilter),
+		Require: j.req.Require, Forbid: j.req.Forbid,
+		Peaks: j.peaks, Caution: Caution,
+	}
+	res.Warnings = append(res.Warnings, j.warnings...)
+	top := newTopK[*molecule.Graph](j.topK)
+	var ls logSum
+	var failed int64
+	var lastErr error
+	for w := range workers {
+		wk := &workers[w]
+		top.merge(wk.top)
+		ls.merge(wk.ls)
+		failed += wk.failed
+		if wk.lastErr != nil {
+			lastErr = wk.lastErr
+		}
+		if pr != nil {
+			pr.above += wk.above
+			pr.ties += wk.ties
+			pr.seen += wk.seen
+		}
+	}
+	res.PredictFailures = failed
+	if failed > 0 {
+		res.Warnings = append(res.Warnings, fmt.Sprintf("%d isomers could not be predicted and were not scored (last error: %v)", failed, lastErr))
+	}
+	r.totals(res, stats, timedOut, j)
+	res.logZ = ls.value()
+
+	cands, err := r.explainTop(ctx, j, top.sorted(), res.logZ)
+	if err != nil {
+		return nil, err
+	}
+	res.Candidates = cands
+	if res.Scored == 0 {
+		res.Warnings = append(res.Warnings, "no isomer satisfied the constraints: nothing was scored")
+	}
+	res.ElapsedSeconds = time.Since(start).Seconds()
+	if progress != nil {
+		progress(Progress{Generated: res.Generated, Scored: res.Scored, TotalEstimate: res.IsomersTotal})
+	}
+	if res.Warnings == nil {
+		res.Warnings = []string{}
+	}
+	return res, nil
+}
+
+var errBudget = errors.New("time budget exhausted")
+
+func orDefault(s, d string) string {
+	if s == "" {
+		return d
+	}
+	return s
+}
+
+// totals fills the isomer count, the prior and the budget warnings.
+func (r *Ranker) totals(res *Result, st isomers.Stats, timedOut bool, j *job) {
+	constrained := len(j.require) > 0 || len(j.forbid) > 0
+	if res.Complete {
+		res.IsomersTotal = st.Emitted
+	} else {
+		res.IsomersEstimated = true
+		est := res.Generated
+		if st.Fraction > 0 && st.Fraction <= 1 {
+			est = int64(math.Round(float64(res.Generated) / st.Fraction))
+		}
+		if est < res.Generated {
+			est = res.Generated
+		}
+		res.IsomersTotal = est
+		why := fmt.Sprintf("the candidate limit (%d)", j.maxCand)
+		if timedOut {
+			why = fmt.Sprintf("the time budget (%s)", j.budget)
+		}
+		frac := ""
+		if st.Fraction > 0 {
+			frac = fmt.Sprintf(", %.1f %% of the search space", 100*st.Fraction)
+		}
+		res.Warnings = append(res.Warnings, fmt.Sprintf(
+			"incomplete search: %s stopped the generator after %d isomers (%d scored%s); about %d isomers exist. "+
+				"The true structure may be among those not scored: add required or forbidden fragments (--require/--forbid) to narrow the search, or raise the budget.",
+			why, res.Generated, res.Scored, frac, res.IsomersTotal))
+	}
+	switch {
+	case constrained:
+		res.Prior = fmt.Sprintf("uniform over the %d scored isomers that pass the plausibility filter and the fragment constraints", res.Scored)
+	default:
+		res.Prior = fmt.Sprintf("uniform over the %d scored isomers that pass the plausibility filter", res.Scored)
+	}
+}

@@ -1,0 +1,207 @@
+package ranker
+
+import (
+	"context"
+	"encoding/json"
+	"errors"
+	"strings"
+	"sync/atomic"
+	"testing"
+	"time"
+)
+
+// ethylAcetate is ethyl acetate in CDCl3 (Gottlieb, Kotlyar, Nudelman,
+// J. Org. Chem. 1997, 62, 7512, Table 1; from memory).
+const ethylAcetate = "1H NMR (300 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H)"
+
+func mustPeaks(t testing.TB, s string) PeakList {
+	t.Helper()
+	pl, err := ParsePeaks(s)
+	if err != nil {
+		t.Fatalf("ParsePeaks(%q): %v", s, err)
+	}
+	return pl
+}
+
+func TestRankRequestErrors(t *testing.T) {
+	pl := mustPeaks(t, ethylAcetate)
+	tests := []struct {
+		name  string
+		req   Request
+		field string
+		token string
+	}{
+		{"unknown element", Request{Formula: "C4H8Xy2", Peaks: pl}, "formula", "Xy"},
+		{"empty formula", Request{Formula: "", Peaks: pl}, "formula", ""},
+		{"odd electrons", Request{Formula: "C4H7O2", Peaks: pl}, "formula", "C4H7O2"},
+		{"no hydrogens", Request{Formula: "CCl4", Peaks: pl}, "formula", "CCl4"},
+		{"no peaks", Request{Formula: "C4H8O2"}, "peaks", ""},
+		{"bad filter", Request{Formula: "C4H8O2", Peaks: pl, Filter: "plausible,-no-such-rule"}, "filter", "plausible,-no-such-rule"},
+		{"bad fragment", Request{Formula: "C4H8O2", Peaks: pl, Require: []string{"C(=O"}}, "require[0]", ""},
+		{"bad forbid", Request{Formula: "C4H8O2", Peaks: pl, Forbid: []string{"CO", "C1CC"}}, "forbid[1]", ""},
+		{"negative top", Request{Formula: "C4H8O2", Peaks: pl, TopK: -1}, "top", "-1"},
+		{"negative budget", Request{Formula: "C4H8O2", Peaks: pl, TimeBudget: -time.Second}, "time_budget", "-1s"},
+		{"unknown solvent", Request{Formula: "C4H8O2", Peaks: pl, Solvent: "THF-d8x"}, "solvent", "THF-d8x"},
+		{"too many H for the peaks", Request{Formula: "CH4O", Peaks: mustPeaks(t, "5.0 (s, 1H), 4.0 (s, 1H), 3.0 (s, 1H), 2.0 (s, 1H), 1.0 (s, 1H)")}, "peaks", ""},
+	}
+	r := New(Options{Workers: 1})
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := r.Rank(context.Background(), tc.req, nil)
+			var re *RequestError
+			if !errors.As(err, &re) {
+				t.Fatalf("Rank error = %v (%T), want *RequestError", err, err)
+			}
+			if !strings.HasPrefix(re.Field, tc.field) {
+				t.Errorf("Field = %q, want prefix %q (error %v)", re.Field, tc.field, err)
+			}
+			if tc.token != "" && re.Token != tc.token {
+				t.Errorf("Token = %q, want %q (error %v)", re.Token, tc.token, err)
+			}
+		})
+	}
+}
+
+func TestRankEthylAcetate(t *testing.T) {
+	r := New(Options{})
+	var calls atomic.Int64
+	res, err := r.Rank(context.Background(), Request{Formula: "C4H8O2", Peaks: mustPeaks(t, ethylAcetate), TopK: 5},
+		func(Progress) { calls.Add(1) })
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !res.Complete || res.IsomersEstimated {
+		t.Errorf("Complete = %v, IsomersEstimated = %v for a small formula", res.Complete, res.IsomersEstimated)
+	}
+	if res.Scored != res.IsomersTotal || res.Scored == 0 {
+		t.Errorf("scored %d of %d isomers", res.Scored, res.IsomersTotal)
+	}
+	if calls.Load() == 0 {
+		t.Error("progress never called")
+	}
+	if len(res.Candidates) != 5 {
+		t.Fatalf("%d candidates, want 5", len(res.Candidates))
+	}
+	sum := 0.0
+	for i, c := range res.Candidates {
+		if c.Rank != i+1 {
+			t.Errorf("candidate %d has rank %d", i, c.Rank)
+		}
+		if i > 0 && c.Score > res.Candidates[i-1].Score {
+			t.Errorf("candidate %d scores %.3f above candidate %d (%.3f)", i+1, c.Score, i, res.Candidates[i-1].Score)
+		}
+		sum += c.Probability
+		// Every scored peak is either assigned or unexplained.
+		if n := len(c.Assignments) + len(c.UnexplainedPeaks); n != 3 {
+			t.Errorf("%s: %d assigned + unexplained peaks, want 3", c.SMILES, n)
+		}
+	}
+	if sum > 1+1e-9 {
+		t.Errorf("probabilities of the top 5 sum to %.6f > 1", sum)
+	}
+	// The true structure must be first (the reason the product exists).
+	if got := res.Candidates[0].SMILES; got != "CCOC(C)=O" {
+		t.Errorf("first candidate %s, want ethyl acetate CCOC(C)=O", got)
+	}
+}
+
+func TestRankDeterministic(t *testing.T) {
+	req := Request{Formula: "C5H10O", Peaks: mustPeaks(t, "2.44 (q, J = 7.3 Hz, 4H), 1.05 (t, J = 7.3 Hz, 6H)"), TopK: 8}
+	a, err := New(Options{Workers: 1}).Rank(context.Background(), req, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := New(Options{Workers: 3}).Rank(context.Background(), req, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(a.Candidates) != len(b.Candidates) {
+		t.Fatalf("%d vs %d candidates", len(a.Candidates), len(b.Candidates))
+	}
+	for i := range a.Candidates {
+		if a.Candidates[i].SMILES != b.Candidates[i].SMILES {
+			t.Errorf("rank %d: %s with 1 worker, %s with 3", i+1, a.Candidates[i].SMILES, b.Candidates[i].SMILES)
+		}
+	}
+}
+
+func TestRankBudgetIsNotSilent(t *testing.T) {
+	req := Request{Formula: "C6H12O2", Peaks: mustPeaks(t, "4.12 (q, 2H), 2.28 (t, 2H), 1.64 (m, 2H), 1.25 (t, 3H), 0.94 (t, 3H)"),
+		MaxCandidates: 500, TopK: 3}
+	res, err := New(Options{}).Rank(context.Background(), req, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Complete {
+		t.Fatalf("Complete = true after a 500-candidate limit (scored %d)", res.Scored)
+	}
+	if !res.IsomersEstimated || res.IsomersTotal <= res.Generated {
+		t.Errorf("IsomersTotal = %d (estimated %v), generated %d: want an estimate above what was generated", res.IsomersTotal, res.IsomersEstimated, res.Generated)
+	}
+	w := strings.Join(res.Warnings, "\n")
+	for _, want := range []string{"incomplete", "candidate limit", "scored", "fragment"} {
+		if !strings.Contains(w, want) {
+			t.Errorf("warnings lack %q:\n%s", want, w)
+		}
+	}
+}
+
+func TestRankCancelled(t *testing.T) {
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	_, err := New(Options{}).Rank(ctx, Request{Formula: "C8H10", Peaks: mustPeaks(t, "7.05 (s, 4H), 2.31 (s, 6H)")}, nil)
+	if !errors.Is(err, context.Canceled) {
+		t.Errorf("error %v, want context.Canceled", err)
+	}
+}
+
+func TestRankSolventPeakExcluded(t *testing.T) {
+	// 7.26 is residual CHCl3 in CDCl3 (Gottlieb et al. 1997).
+	pl := mustPeaks(t, "1H NMR (400 MHz, CDCl3) δ 7.26 (s, 0.1H), 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H)")
+	res, err := New(Options{}).Rank(context.Background(), Request{Formula: "C4H8O2", Peaks: pl, TopK: 1}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !res.Peaks[0].Excluded {
+		t.Errorf("peak at 7.26 not excluded: %+v", res.Peaks[0])
+	}
+	for _, a := range res.Candidates[0].Assignments {
+		if a.Peak == 0 {
+			t.Errorf("solvent peak assigned: %+v", a)
+		}
+	}
+}
+
+func TestResultJSONFieldNames(t *testing.T) {
+	res, err := New(Options{}).Rank(context.Background(), Request{Formula: "C4H8O2", Peaks: mustPeaks(t, ethylAcetate), TopK: 2}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := json.Marshal(res)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var m map[string]any
+	if err := json.Unmarshal(b, &m); err != nil {
+		t.Fatal(err)
+	}
+	// Field names fixed by the rank --json contract.
+	for _, k := range []string{"formula", "dbe", "isomers_total", "scored", "complete", "candidates", "warnings"} {
+		if _, ok := m[k]; !ok {
+			t.Errorf("result JSON lacks %q", k)
+		}
+	}
+	c := m["candidates"].([]any)[0].(map[string]any)
+	for _, k := range []string{"rank", "smiles", "score", "probability", "assignments", "unexplained_peaks", "unobserved_environments"} {
+		if _, ok := c[k]; !ok {
+			t.Errorf("candidate JSON lacks %q", k)
+		}
+	}
+	a := c["assignments"].([]any)[0].(map[string]any)
+	for _, k := range []string{"peak", "observed_shift", "predicted_shift", "environments", "atoms", "breakdown",
+		"observed_multiplicity", "predicted_multiplicity", "multiplicity_reason", "expected_h", "observed_h", "score_share"} {
+		if _, ok := a[k]; !ok {
+			t.Errorf("assignment JSON lacks %q", k)
+		}
+	}
+}

@@ -1,0 +1,130 @@
+package ranker
+
+import (
+	"math"
+	"testing"
+)
+
+func TestStudentTDensity(t *testing.T) {
+	// Student t density at 0 and the ratio f(1)/f(0); values of the
+	// standard t distribution (Γ function identities, common practice):
+	// f_6(0) = Γ(3.5)/(Γ(3)·√(6π)) = 0.38273, f_6(1)/f_6(0) = (7/6)^−3.5.
+	if got, want := math.Exp(tConst(6)), 0.38273; math.Abs(got-want) > 5e-5 {
+		t.Errorf("t_6(0) = %.5f, want %.5f", got, want)
+	}
+	if got, want := math.Exp(logTRel(1, 6)), math.Pow(7.0/6, -3.5); math.Abs(got-want) > 1e-12 {
+		t.Errorf("t_6(1)/t_6(0) = %.6f, want %.6f", got, want)
+	}
+	// ν = 1 is the Cauchy density, f(0) = 1/π.
+	if got, want := math.Exp(tConst(1)), 1/math.Pi; math.Abs(got-want) > 1e-12 {
+		t.Errorf("t_1(0) = %.6f, want 1/π = %.6f", got, want)
+	}
+}
+
+func TestMultiplicityTable(t *testing.T) {
+	// The table's order, not its values, is the check: exact beats
+	// compatible beats contradicting (common practice in reading spectra).
+	p := func(obs, pred string) float64 {
+		v, _ := multiplicityJudge(parsePattern(obs), parsePattern(pred), false)
+		return v
+	}
+	tests := []struct {
+		name          string
+		better, worse [2]string // {observed, predicted}
+	}{
+		{"exact q beats q seen as t", [2]string{"q", "q"}, [2]string{"t", "q"}},
+		{"dt seen as t (small J unresolved) beats dt seen as q+1 partners", [2]string{"t", "dt"}, [2]string{"quint", "dt"}},
+		{"dd seen as t (equal J) beats s seen as t", [2]string{"t", "dd"}, [2]string{"t", "s"}},
+		{"dt seen as m beats s seen as d", [2]string{"m", "dt"}, [2]string{"d", "s"}},
+		{"exact sept beats sept seen as sext", [2]string{"sept", "sept"}, [2]string{"sext", "sept"}},
+		{"singlet seen as s beats singlet seen as m", [2]string{"s", "s"}, [2]string{"m", "s"}},
+	}
+	for _, tc := range tests {
+		b, w := p(tc.better[0], tc.better[1]), p(tc.worse[0], tc.worse[1])
+		if !(b > w) {
+			t.Errorf("%s: P(%s|%s) = %.3f, P(%s|%s) = %.3f", tc.name, tc.better[0], tc.better[1], b, tc.worse[0], tc.worse[1], w)
+		}
+	}
+	// Exchangeable H: a broad singlet is the most likely report.
+	bs, _ := multiplicityJudge(parsePattern("br s"), parsePattern("br s"), true)
+	tt, _ := multiplicityJudge(parsePattern("t"), parsePattern("br s"), true)
+	if !(bs > tt) {
+		t.Errorf("exchangeable: P(br s) = %.3f not above P(t) = %.3f", bs, tt)
+	}
+	// Not reported: no evidence either way.
+	if v, _ := multiplicityJudge(parsePattern(""), parsePattern("q"), false); v != 1 {
+		t.Errorf("unreported multiplicity: P = %v, want 1", v)
+	}
+}
+
+func TestParsePattern(t *testing.T) {
+	tests := []struct {
+		code     string
+		partners int
+		kind     patternKind
+	}{
+		{"s", 0, patFirstOrder}, {"d", 1, patFirstOrder}, {"q", 3, patFirstOrder},
+		{"quint", 4, patFirstOrder}, {"sext", 5, patFirstOrder}, {"sept", 6, patFirstOrder},
+		{"dt", 3, patFirstOrder}, {"td", 3, patFirstOrder}, {"ddd", 3, patFirstOrder},
+		{"qd", 4, patFirstOrder}, {"br s", 0, patFirstOrder}, {"m", 0, patMultiplet},
+		{"", 0, patUnknown}, {"xyz", 0, patMultiplet},
+	}
+	for _, tc := range tests {
+		p := parsePattern(tc.code)
+		if p.kind != tc.kind || p.partners() != tc.partners {
+			t.Errorf("parsePattern(%q) = kind %d, %d partners; want kind %d, %d partners (n+1 rule)", tc.code, p.kind, p.partners(), tc.kind, tc.partners)
+		}
+	}
+}
+
+func TestLogSum(t *testing.T) {
+	xs := []float64{-1000, -3, 2.5, -7, 0, 2.5, -1e6}
+	var a, b logSum
+	direct := 0.0
+	for i, x := range xs {
+		direct += math.Exp(x)
+		if i%2 == 0 {
+			a.add(x)
+		} else {
+			b.add(x)
+		}
+	}
+	a.merge(b)
+	if got, want := a.value(), math.Log(direct); math.Abs(got-want) > 1e-12 {
+		t.Errorf("log-sum-exp = %.15f, want %.15f", got, want)
+	}
+	if a.n != int64(len(xs)) {
+		t.Errorf("count %d, want %d", a.n, len(xs))
+	}
+}
+
+// TestScoreEthylAcetatePattern scores hand-written environments shaped
+// like ethyl acetate's against its published peaks (Gottlieb et al.,
+// J. Org. Chem. 1997, 62, 7512: δ 4.12 q 2H, 2.05 s 3H, 1.26 t 3H; from
+// memory) and checks that the assignment is the chemical one and that a
+// swapped prediction scores worse.
+func TestScoreEthylAcetatePattern(t *testing.T) {
+	peaks := []obsPeak{
+		{shift: 4.12, lo: 4.12, hi: 4.12, mult: parsePattern("q"), j: []float64{7.1}, h: 2},
+		{shift: 2.05, lo: 2.05, hi: 2.05, mult: parsePattern("s"), h: 3},
+		{shift: 1.26, lo: 1.26, hi: 1.26, mult: parsePattern("t"), j: []float64{7.1}, h: 3},
+	}
+	env := func(h int, shift float64, mult string, j ...float64) predEnv {
+		return predEnv{h: h, shift: shift, lo: shift, hi: shift, sigma: 0.15, mult: parsePattern(mult), j: j}
+	}
+	right := []predEnv{env(3, 1.25, "t", 7.1), env(2, 4.10, "q", 7.1), env(3, 2.02, "s")}
+	// Methyl propanoate's pattern: OCH3 s, CH2 q at 2.3, CH3 t.
+	wrong := []predEnv{env(3, 3.67, "s"), env(2, 2.32, "q", 7.6), env(3, 1.13, "t", 7.6)}
+	sc := newScorer(DefaultModel())
+	sRight, a := sc.score(right, peaks)
+	want := []int{2, 0, 1}
+	for i, p := range want {
+		if a.first[i] != p {
+			t.Errorf("environment %d on peak %d, want %d", i, a.first[i], p)
+		}
+	}
+	sWrong, _ := sc.score(wrong, peaks)
+	if !(sRight > sWrong+3) {
+		t.Errorf("score(right) = %.2f, score(wrong) = %.2f: want right ahead by more than 3 nats", sRight, sWrong)
+	}
+}
