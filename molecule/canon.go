@@ -79,8 +79,8 @@ type Canonicalizer struct {
 	touched  []int32
 	tcells   []int32
 	tmp      []int32
-	keyed []vertexKey
-	key   []byte
+	keyed    []vertexKey
+	key      []byte
 }
 
 type vertexKey struct {
