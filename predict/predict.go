@@ -3,7 +3,6 @@ package predict
 import (
 	"errors"
 	"fmt"
-	"sync"
 
 	"shiftrank/molecule"
 )
@@ -34,10 +33,6 @@ const (
 // is safe for concurrent use by multiple goroutines.
 type Predictor struct {
 	opts Options
-	// work reuses scratch space across calls (a molecule.Canonicalizer
-	// and the per-molecule arrays are not safe for concurrent use; the
-	// pool is).
-	work sync.Pool
 }
 
 // New returns a Predictor. Zero or negative MHz or LineWidthHz take the
@@ -49,9 +44,7 @@ func New(opts Options) *Predictor {
 	if !(opts.LineWidthHz > 0) {
 		opts.LineWidthHz = DefaultLineWidthHz
 	}
-	p := &Predictor{opts: opts}
-	p.work.New = func() any { return new(work) }
-	return p
+	return &Predictor{opts: opts}
 }
 
 // Options returns the Predictor's options with defaults applied.
@@ -187,11 +180,8 @@ func (p *Predictor) Predict(g *molecule.Graph) (*Spectrum, error) {
 	if err := checkGraph(g); err != nil {
 		return nil, err
 	}
-	w := p.work.Get().(*work)
-	m := w.analyse(g)
-	sp := p.predict(m, w)
-	p.work.Put(w)
-	return sp, nil
+	m := analyse(g)
+	return p.predict(m), nil
 }
 
 func checkGraph(g *molecule.Graph) error {

@@ -36,6 +36,9 @@ type assignProblem struct {
 	unobs       []float64 // nEnv
 	peak        []float64 // nPeak*(maxLoad+1)
 	maxLoad     int       // sum of envH
+	// splitOK[j*nPeak+k] reports whether a split environment may put its
+	// halves on peaks j and k (the model limits how far apart they are).
+	splitOK []bool
 }
 
 // reset sizes the problem for nEnv environments and nPeak peaks with
@@ -48,6 +51,7 @@ func (p *assignProblem) reset(nEnv, nPeak, maxLoad int) {
 	p.half = growF(p.half, nEnv*nPeak)
 	p.unobs = growF(p.unobs, nEnv)
 	p.peak = growF(p.peak, nPeak*(maxLoad+1))
+	p.splitOK = growBool(p.splitOK, nPeak*nPeak)
 }
 
 // peakCost returns the per-peak cost of peak j holding load hydrogens.
@@ -118,6 +122,7 @@ type solver struct {
 	tmpP2  []int
 	xLoad  []int
 	nodes  int
+	rootLB float64
 	// seen maps a search state (depth and per-peak loads, packed) to the
 	// least separable cost it was reached with: the rest of the search
 	// depends only on that state, so reaching it again at no lower cost
@@ -128,7 +133,7 @@ type solver struct {
 }
 
 // lagrangeRounds is the number of subgradient steps that tune the prices.
-const lagrangeRounds = 24
+const lagrangeRounds = 30
 
 // solve returns the optimal assignment of p. The returned slices are owned
 // by the solver and valid until the next call.
@@ -170,7 +175,9 @@ func (s *solver) solve(p *assignProblem) assignment {
 		if p.split[i] && p.envH[i]%2 == 0 {
 			for j := 0; j < m; j++ {
 				for k := j + 1; k < m; k++ {
-					o = append(o, option{cost: p.half[i*m+j] + p.half[i*m+k], p1: j, p2: k})
+					if p.splitOK[j*m+k] {
+						o = append(o, option{cost: p.half[i*m+j] + p.half[i*m+k], p1: j, p2: k})
+					}
 				}
 			}
 		}
@@ -252,7 +259,7 @@ func (s *solver) tunePrices() {
 	} else {
 		keep = make([]float64, m)
 	}
-	step := 1.0
+	theta, stall, prevLB := 1.0, 0, math.Inf(-1)
 	for round := 0; round < lagrangeRounds; round++ {
 		// Environment part: each takes its least reduced-cost option.
 		lb := 0.0
@@ -310,19 +317,34 @@ func (s *solver) tunePrices() {
 				s.load[s.tmpP2[i]] += p.envH[i] / 2
 			}
 		}
-		moved := false
+		// Polyak step towards the incumbent's cost: the subgradient of
+		// the dual at λ_j is (best load of peak j) − (load the
+		// environments put there).
+		norm := 0.0
 		for j := 0; j < m; j++ {
-			if g := s.xLoad[j] - s.load[j]; g != 0 {
-				s.lambda[j] += step * float64(g) / float64(1+abs(g))
-				moved = true
-			}
+			g := float64(s.xLoad[j] - s.load[j])
+			norm += g * g
 		}
-		if !moved {
+		if norm == 0 {
 			break // the relaxation is tight: its solution is optimal
 		}
-		step *= 0.8
+		if lb > prevLB+1e-9 {
+			stall = 0
+		} else if stall++; stall >= 3 {
+			theta /= 2
+			stall = 0
+		}
+		prevLB = math.Max(prevLB, lb)
+		t := theta * (s.best - lb) / norm
+		if t <= 0 {
+			break
+		}
+		for j := 0; j < m; j++ {
+			s.lambda[j] += t * float64(s.xLoad[j]-s.load[j])
+		}
 	}
 	copy(s.lambda, keep)
+	s.rootLB = bestLB
 }
 
 func abs(x int) int {

@@ -28,6 +28,9 @@ func bruteForce(p *assignProblem) float64 {
 			rec(i + 1)
 			if p.split[i] && p.envH[i]%2 == 0 {
 				for k := j + 1; k < p.nPeak; k++ {
+					if !p.splitOK[j*p.nPeak+k] {
+						continue
+					}
 					first[i], second[i] = j, k
 					rec(i + 1)
 				}
@@ -71,6 +74,11 @@ func randomProblem(r *rand.Rand, nEnv, nPeak int) *assignProblem {
 			p.half[i*nPeak+j] = 0.5*p.whole[i*nPeak+j] + r.Float64()
 		}
 	}
+	for j := 0; j < nPeak; j++ {
+		for k := 0; k < nPeak; k++ {
+			p.splitOK[j*nPeak+k] = math.Abs(peakShift[j]-peakShift[k]) < 4
+		}
+	}
 	w := total + 1
 	for j := 0; j < nPeak; j++ {
 		p.peak[j*w] = 3 + 2*implied[j]
@@ -108,6 +116,7 @@ func TestSolveOverlapSplitAndUnobserved(t *testing.T) {
 	copy(p.envH, []int{2, 1, 3})
 	p.split[0] = true
 	m := 2
+	p.splitOK[0*m+1] = true
 	p.whole[0*m+0], p.whole[0*m+1] = 0.1, 0.1
 	p.half[0*m+0], p.half[0*m+1] = 0.05, 0.05
 	p.whole[1*m+0], p.whole[1*m+1] = 50, 50

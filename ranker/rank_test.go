@@ -8,6 +8,8 @@ import (
 	"sync/atomic"
 	"testing"
 	"time"
+
+	"shiftrank/molecule"
 )
 
 // ethylAcetate is ethyl acetate in CDCl3 (Gottlieb, Kotlyar, Nudelman,
@@ -101,7 +103,52 @@ func TestRankEthylAcetate(t *testing.T) {
 	}
 	// The true structure must be first (the reason the product exists).
 	if got := res.Candidates[0].SMILES; got != "CCOC(C)=O" {
-		t.Errorf("first candidate %s, want ethyl acetate CCOC(C)=O", got)
+		t.Fatalf("first candidate %s, want ethyl acetate CCOC(C)=O", got)
+	}
+	// Atom numbers index the candidate's SMILES: the 4.12 q is the OCH2,
+	// the 2.05 s the acetyl CH3, the 1.26 t the CH3 next to the CH2.
+	for _, c := range res.Candidates {
+		g, err := molecule.ParseSMILES(c.SMILES)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, a := range c.Assignments {
+			h := 0
+			for _, at := range a.Atoms {
+				if at < 0 || at >= len(g.Atoms) || g.Atoms[at].HCount == 0 {
+					t.Fatalf("%s: peak %d assigned to atom %d, which carries no H", c.SMILES, a.Peak, at)
+				}
+				h += g.Atoms[at].HCount
+			}
+			if h < a.ExpectedH {
+				t.Errorf("%s: peak %d expects %d H on atoms %v holding %d", c.SMILES, a.Peak, a.ExpectedH, a.Atoms, h)
+			}
+		}
+	}
+	g := molecule.MustParseSMILES("CCOC(C)=O")
+	for _, a := range res.Candidates[0].Assignments {
+		if len(a.Atoms) != 1 {
+			t.Fatalf("peak %d on atoms %v, want one atom", a.Peak, a.Atoms)
+		}
+		at := a.Atoms[0]
+		nextToO := false
+		for _, nb := range g.Neighbors(at) {
+			nextToO = nextToO || g.Atoms[nb.Atom].Element == molecule.O
+		}
+		switch a.Peak {
+		case 0:
+			if g.Atoms[at].HCount != 2 || !nextToO {
+				t.Errorf("4.12 q on atom %d, want the OCH2 (atom 1)", at)
+			}
+		case 1:
+			if at != 4 {
+				t.Errorf("2.05 s on atom %d, want the acetyl CH3 (atom 4)", at)
+			}
+		case 2:
+			if at != 0 {
+				t.Errorf("1.26 t on atom %d, want the ethyl CH3 (atom 0)", at)
+			}
+		}
 	}
 }
 
@@ -143,6 +190,25 @@ func TestRankBudgetIsNotSilent(t *testing.T) {
 		if !strings.Contains(w, want) {
 			t.Errorf("warnings lack %q:\n%s", want, w)
 		}
+	}
+}
+
+func TestRankTimeBudget(t *testing.T) {
+	req := Request{Formula: "C10H14O", Peaks: mustPeaks(t, "7.20 (m, 4H), 3.80 (s, 3H), 2.60 (q, 2H), 1.20 (t, 3H), 2.30 (s, 2H)"),
+		TimeBudget: 200 * time.Millisecond, TopK: 2}
+	start := time.Now()
+	res, err := New(Options{}).Rank(context.Background(), req, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d := time.Since(start); d > 20*time.Second {
+		t.Errorf("a 200 ms budget took %s", d)
+	}
+	if res.Complete {
+		t.Fatalf("C10H14O complete within 200 ms (scored %d)?", res.Scored)
+	}
+	if w := strings.Join(res.Warnings, "\n"); !strings.Contains(w, "time budget") {
+		t.Errorf("warnings do not mention the time budget:\n%s", w)
 	}
 }
 

@@ -61,6 +61,10 @@ type Model struct {
 	SigmaJ     float64 // Hz, scale of J residuals
 	JWeight    float64 // weight of the J term relative to the shift term
 	MaxWeight  float64 // upper limit of the per-peak weight H_i / h_j
+	// MaxSplitGap, ppm, is how far apart the two peaks of a split
+	// diastereotopic CH2 may be (their shifts rarely differ by more than
+	// about 1 ppm in small molecules; common practice).
+	MaxSplitGap float64
 
 	IntAbs, IntRel float64 // integration error s = IntAbs + IntRel·h, in H
 
@@ -94,6 +98,7 @@ func DefaultModel() Model {
 		SigmaJ:           1.2,
 		JWeight:          0.5,
 		MaxWeight:        1.5,
+		MaxSplitGap:      1.0,
 		IntAbs:           0.2,
 		IntRel:           0.05,
 		Overlap:          1.4,
@@ -320,6 +325,11 @@ func (s *scorer) build(envs []predEnv, peaks []obsPeak) {
 			if p.split[i] {
 				p.half[i*m+j] = s.pairCost(t, s.weight(float64(e.h)/2, peaks[j].h)) + ov
 			}
+		}
+	}
+	for j := range peaks {
+		for k := range peaks {
+			p.splitOK[j*m+k] = j != k && math.Abs(peaks[j].shift-peaks[k].shift) <= s.m.MaxSplitGap
 		}
 	}
 	w := total + 1

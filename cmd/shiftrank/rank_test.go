@@ -1,0 +1,120 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"errors"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// runCmd runs the command line args and returns stdout, stderr and the
+// error.
+func runCmd(t *testing.T, stdin string, args ...string) (string, string, error) {
+	t.Helper()
+	var out, errb bytes.Buffer
+	e := env{getenv: func(string) string { return "" }, stdin: strings.NewReader(stdin), stdout: &out, stderr: &errb}
+	err := run(context.Background(), args, e)
+	return out.String(), errb.String(), err
+}
+
+// Ethyl acetate in CDCl3: Gottlieb, Kotlyar, Nudelman, J. Org. Chem. 1997,
+// 62, 7512, Table 1 (from memory).
+const ethylAcetatePeaks = "1H NMR (300 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H)"
+
+func TestRankCommandReadable(t *testing.T) {
+	out, _, err := runCmd(t, "", "rank", "--formula", "C4H8O2", "--peaks", ethylAcetatePeaks, "--top", "3")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"C4H8O2 (DBE 1)", "CCOC(C)=O", "probability", "multiplicity:", "Caution: A ranking is a hypothesis"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("output lacks %q:\n%s", want, out)
+		}
+	}
+}
+
+func TestRankCommandJSONFromStdinAndFile(t *testing.T) {
+	out, _, err := runCmd(t, ethylAcetatePeaks, "rank", "--formula", "C4H8O2", "--peaks", "-", "--json", "--top", "2")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var res struct {
+		Formula    string `json:"formula"`
+		Complete   bool   `json:"complete"`
+		Candidates []struct {
+			Rank   int    `json:"rank"`
+			SMILES string `json:"smiles"`
+		} `json:"candidates"`
+		Warnings []string `json:"warnings"`
+	}
+	if err := json.Unmarshal([]byte(out), &res); err != nil {
+		t.Fatalf("--json output is not JSON: %v\n%s", err, out)
+	}
+	if res.Formula != "C4H8O2" || len(res.Candidates) != 2 || res.Candidates[0].SMILES != "CCOC(C)=O" {
+		t.Errorf("unexpected result %+v", res)
+	}
+	file := filepath.Join(t.TempDir(), "peaks.txt")
+	if err := os.WriteFile(file, []byte(ethylAcetatePeaks), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	out2, _, err := runCmd(t, "", "rank", "--formula", "C4H8O2", "--peaks", "@"+file, "--json", "--top", "2")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(out2, `"smiles": "CCOC(C)=O"`) {
+		t.Errorf("@FILE ranking differs:\n%s", out2)
+	}
+}
+
+func TestRankCommandBadInput(t *testing.T) {
+	tests := []struct {
+		name string
+		args []string
+		want string // in the message
+	}{
+		{"unknown element", []string{"--formula", "C4H8Xx", "--peaks", "4.12 (q, 2H)"}, `"Xx"`},
+		{"bad multiplicity", []string{"--formula", "C4H8O2", "--peaks", "4.12 (qz, 2H)"}, "qz"},
+		{"bad fragment", []string{"--formula", "C4H8O2", "--peaks", "4.12 (q, 2H)", "--require", "C(=O"}, "require[0]"},
+		{"missing formula", []string{"--peaks", "4.12 (q, 2H)"}, "--formula"},
+		{"missing file", []string{"--formula", "C4H8O2", "--peaks", "@/nonexistent/peaks.txt"}, "peaks"},
+		{"unknown flag", []string{"--formula", "C4H8O2", "--peaks", "1.0 (s, 8H)", "--bogus"}, "bogus"},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			_, _, err := runCmd(t, "", append([]string{"rank"}, tc.args...)...)
+			var u usageError
+			if !errors.As(err, &u) {
+				t.Fatalf("error %v, want bad input (exit 2)", err)
+			}
+			if !strings.Contains(err.Error(), tc.want) {
+				t.Errorf("error %q does not name %q", err, tc.want)
+			}
+		})
+	}
+}
+
+func TestBenchCommand(t *testing.T) {
+	file := filepath.Join(t.TempDir(), "set.json")
+	set := `{"compounds": [
+	  {"name": "ethyl acetate", "formula": "C4H8O2", "smiles": "CCOC(C)=O", "peaks": "` + ethylAcetatePeaks + `",
+	   "source": "Gottlieb, Kotlyar, Nudelman, J. Org. Chem. 1997, 62, 7512 (from memory)"}]}`
+	if err := os.WriteFile(file, []byte(set), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	out, _, err := runCmd(t, "", "bench", file)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"top-1 100.0 %", "top-3 100.0 %", "mean reciprocal rank 1.000", "calibration"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("bench output lacks %q:\n%s", want, out)
+		}
+	}
+	if _, _, err := runCmd(t, "", "bench"); err == nil {
+		t.Error("bench without a file: no error")
+	}
+}
