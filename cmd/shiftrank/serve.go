@@ -2,10 +2,216 @@ package main
 
 import (
 	"context"
+	"encoding/hex"
 	"errors"
+	"flag"
+	"fmt"
+	"log/slog"
+	"net"
+	"net/http"
+	"runtime"
+	"strings"
+	"sync"
+	"time"
+
+	"shiftrank/molecule"
+	"shiftrank/ranker"
+	"shiftrank/server"
+	"shiftrank/store"
+	"shiftrank/web"
 )
 
-// runServe is being written; this placeholder is replaced by its owner's first commit.
+// serveStore is what serve needs of a store: the server's part and Close.
+type serveStore interface {
+	server.JobStore
+	Close()
+}
+
+// runServe runs the HTTP API and the worker pool until ctx is cancelled
+// (SIGINT or SIGTERM), then shuts down gracefully: it stops taking work,
+// lets running jobs finish for --grace and hands the rest back to the queue.
 func runServe(ctx context.Context, args []string, e env) error {
-	return errors.New("serve: not built yet")
+	fs := flag.NewFlagSet("serve", flag.ContinueOnError)
+	fs.SetOutput(e.stderr)
+	addr := fs.String("addr", "127.0.0.1:8080", "listen address (host:port); a non-loopback address requires API keys")
+	workers := fs.Int("workers", 0, "jobs run at once by this process (0 = number of cores, -1 = none: API only)")
+	maxHeavy := fs.Int("max-heavy-atoms", molecule.DefaultMaxHeavyAtoms, "most non-hydrogen atoms accepted in a formula")
+	maxCand := fs.Int64("max-candidates", 2_000_000, "most isomers scored per job")
+	budget := fs.Duration("time-budget", 60*time.Second, "ranking time per job; the best candidates so far are kept when it runs out")
+	maxBody := fs.Int64("max-body", 1<<20, "largest request body accepted, bytes")
+	baseURL := fs.String("base-url", "", "public base URL for Location headers and callbacks, e.g. https://nmr.example.org (default http://ADDR)")
+	anon := fs.Bool("allow-anonymous", false, "accept requests without an API key (they share one anonymous owner)")
+	lease := fs.Duration("lease", 30*time.Second, "how long a claimed job stays with its worker without renewal; a dead worker's job is taken up again after this")
+	grace := fs.Duration("grace", 30*time.Second, "on shutdown, how long running jobs may finish before they are handed back to the queue")
+	fs.Usage = func() {
+		fmt.Fprintln(e.stderr, "usage: shiftrank serve [flags]")
+		fmt.Fprintln(e.stderr)
+		fmt.Fprintln(e.stderr, "Runs the HTTP API (/v1, described at /v1/openapi.json), the web page and the job workers.")
+		fmt.Fprintln(e.stderr, "With DATABASE_URL set, jobs are kept in PostgreSQL (migrations are applied on start) and")
+		fmt.Fprintln(e.stderr, "several serve processes may share the database; without it they live in memory only.")
+		fmt.Fprintln(e.stderr, "Each flag may also be set by the environment: --max-body as SHIFTRANK_MAX_BODY, and so on.")
+		fmt.Fprintln(e.stderr, "SHIFTRANK_CALLBACK_SECRET (hex or text) signs callbacks of anonymous jobs.")
+		fmt.Fprintln(e.stderr)
+		fs.PrintDefaults()
+	}
+	if err := flagsFromEnv(fs, e.getenv); err != nil {
+		return badInput(err)
+	}
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			return nil
+		}
+		return badInput(err)
+	}
+	if fs.NArg() > 0 {
+		return badInputf("serve: unexpected argument %q", fs.Arg(0))
+	}
+	host, _, err := net.SplitHostPort(*addr)
+	if err != nil {
+		return badInputf("serve: --addr %q: %v", *addr, err)
+	}
+	switch {
+	case *maxHeavy < 1:
+		return badInputf("serve: --max-heavy-atoms must be at least 1")
+	case *maxCand < 1:
+		return badInputf("serve: --max-candidates must be at least 1")
+	case *budget <= 0:
+		return badInputf("serve: --time-budget must be positive")
+	case *maxBody < 1024:
+		return badInputf("serve: --max-body must be at least 1024 bytes")
+	case *lease < time.Second:
+		return badInputf("serve: --lease must be at least 1s")
+	}
+	if *baseURL != "" && !strings.HasPrefix(*baseURL, "http://") && !strings.HasPrefix(*baseURL, "https://") {
+		return badInputf("serve: --base-url %q must start with http:// or https://", *baseURL)
+	}
+
+	log := slog.New(slog.NewTextHandler(e.stderr, nil))
+	var st serveStore
+	memory := false
+	if dsn := e.getenv("DATABASE_URL"); dsn != "" {
+		pg, err := store.Open(ctx, dsn)
+		if err != nil {
+			return fmt.Errorf("serve: %w", err)
+		}
+		st = pg
+		log.Info("store: PostgreSQL; migrations applied")
+	} else {
+		st = store.NewMemory()
+		memory = true
+		log.Info("store: in memory; jobs will not survive a restart (set DATABASE_URL to keep them in PostgreSQL)")
+	}
+	defer st.Close()
+
+	allowAnon := *anon || (memory && isLoopback(host))
+	if memory && !allowAnon {
+		return badInputf("serve: listening on %s with the in-memory store would require API keys, which need DATABASE_URL; "+
+			"listen on a loopback address, set DATABASE_URL, or pass --allow-anonymous", *addr)
+	}
+	var anonSecret []byte
+	if sec := e.getenv("SHIFTRANK_CALLBACK_SECRET"); sec != "" {
+		if b, err := hex.DecodeString(sec); err == nil && len(b) >= 16 {
+			anonSecret = b
+		} else {
+			anonSecret = []byte(sec)
+		}
+	}
+
+	ln, err := net.Listen("tcp", *addr)
+	if err != nil {
+		return fmt.Errorf("serve: %w", err)
+	}
+	public := *baseURL
+	if public == "" {
+		public = "http://" + ln.Addr().String()
+	}
+
+	// Jobs run side by side share the cores: each ranking gets its part.
+	nw := *workers
+	if nw == 0 {
+		nw = runtime.NumCPU()
+	}
+	rk := ranker.New(ranker.Options{Workers: max(1, runtime.GOMAXPROCS(0)/max(nw, 1))})
+	srv := server.New(log, st, rk, server.Config{
+		Workers:         *workers,
+		MaxHeavyAtoms:   *maxHeavy,
+		MaxCandidates:   *maxCand,
+		TimeBudget:      *budget,
+		MaxBodyBytes:    *maxBody,
+		BaseURL:         public,
+		AllowAnonymous:  allowAnon,
+		AnonymousSecret: anonSecret,
+		Lease:           *lease,
+		Web:             web.Handler(),
+	})
+	srv.Start()
+	hs := &http.Server{
+		Handler:           srv,
+		ReadHeaderTimeout: 10 * time.Second,
+		ReadTimeout:       time.Minute,
+		IdleTimeout:       2 * time.Minute,
+		ErrorLog:          slog.NewLogLogger(log.Handler(), slog.LevelWarn),
+	}
+	if allowAnon {
+		log.Info("requests without an API key are accepted (anonymous)")
+	} else {
+		log.Info("every request needs an API key (shiftrank apikey create --name NAME)")
+	}
+	log.Info("listening", "addr", ln.Addr().String(), "url", public)
+
+	served := make(chan error, 1)
+	go func() { served <- hs.Serve(ln) }()
+	select {
+	case err := <-served:
+		shutdownPool(srv, *grace)
+		return fmt.Errorf("serve: %w", err)
+	case <-ctx.Done():
+	}
+	log.Info("shutting down: no new work; running jobs may finish", "grace", *grace)
+	var wg sync.WaitGroup
+	wg.Add(1)
+	go func() {
+		defer wg.Done()
+		shutdownPool(srv, *grace)
+	}()
+	hctx, cancel := context.WithTimeout(context.Background(), 10*time.Second)
+	defer cancel()
+	if err := hs.Shutdown(hctx); err != nil {
+		log.Warn("http shutdown", "err", err)
+	}
+	wg.Wait()
+	log.Info("stopped")
+	return nil
+}
+
+func shutdownPool(srv *server.Server, grace time.Duration) {
+	ctx, cancel := context.WithTimeout(context.Background(), grace)
+	defer cancel()
+	_ = srv.Shutdown(ctx)
+}
+
+// isLoopback reports whether a listen host is a loopback address only
+// ("" and 0.0.0.0 listen on every interface).
+func isLoopback(host string) bool {
+	if host == "localhost" {
+		return true
+	}
+	ip := net.ParseIP(host)
+	return ip != nil && ip.IsLoopback()
+}
+
+// flagsFromEnv sets each flag of fs from SHIFTRANK_<NAME> (upper case,
+// dashes as underscores) when that variable is set. Command-line flags,
+// parsed afterwards, win.
+func flagsFromEnv(fs *flag.FlagSet, getenv func(string) string) error {
+	var err error
+	fs.VisitAll(func(f *flag.Flag) {
+		name := "SHIFTRANK_" + strings.ToUpper(strings.ReplaceAll(f.Name, "-", "_"))
+		if v := getenv(name); v != "" && err == nil {
+			if serr := fs.Set(f.Name, v); serr != nil {
+				err = fmt.Errorf("serve: %s=%q: %v", name, v, serr)
+			}
+		}
+	})
+	return err
 }

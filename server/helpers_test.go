@@ -1,0 +1,252 @@
+package server_test
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"io"
+	"log/slog"
+	"net/http"
+	"net/http/httptest"
+	"os"
+	"strings"
+	"sync"
+	"testing"
+	"time"
+
+	"shiftrank/ranker"
+	"shiftrank/server"
+	"shiftrank/store"
+	"shiftrank/store/pgtest"
+)
+
+// testStore is a store as the tests use it: the server's part plus the
+// administrative calls the tests make directly.
+type testStore interface {
+	server.JobStore
+	CreateAPIKey(ctx context.Context, name string) (string, store.APIKey, error)
+	RevokeAPIKey(ctx context.Context, idOrName string) error
+	History(ctx context.Context, owner, id string) ([]store.StatusChange, error)
+	Deliveries(ctx context.Context, jobID string) ([]store.Delivery, error)
+	Close()
+}
+
+var (
+	_ server.JobStore = (*store.Memory)(nil)
+	_ server.JobStore = (*store.Postgres)(nil)
+	_ server.Ranker   = (*ranker.Ranker)(nil)
+)
+
+// stores lists the store implementations every API test runs against.
+// The PostgreSQL case skips (fails under CI=true) without TEST_DATABASE_URL.
+func stores() map[string]func(t *testing.T) testStore {
+	return map[string]func(t *testing.T) testStore{
+		"memory":   func(t *testing.T) testStore { return store.NewMemory() },
+		"postgres": postgresStore,
+	}
+}
+
+// forEachStore runs f as a subtest per store.
+func forEachStore(t *testing.T, f func(t *testing.T, st testStore)) {
+	t.Helper()
+	for name, open := range stores() {
+		t.Run(name, func(t *testing.T) {
+			st := open(t)
+			t.Cleanup(st.Close)
+			f(t, st)
+		})
+	}
+}
+
+// quietLogger discards logs unless -v is given.
+func quietLogger(t *testing.T) *slog.Logger {
+	if testing.Verbose() {
+		return slog.New(slog.NewTextHandler(os.Stderr, &slog.HandlerOptions{Level: slog.LevelDebug}))
+	}
+	return slog.New(slog.NewTextHandler(io.Discard, nil))
+}
+
+// fakeRanker returns a fixed ranking at once, or, with block set, reports
+// progress until its context is cancelled.
+type fakeRanker struct {
+	block bool
+	mu    sync.Mutex
+	calls int
+	reqs  []ranker.Request
+}
+
+func (f *fakeRanker) Rank(ctx context.Context, req ranker.Request, progress func(ranker.Progress)) (*ranker.Result, error) {
+	f.mu.Lock()
+	f.calls++
+	f.reqs = append(f.reqs, req)
+	f.mu.Unlock()
+	if f.block {
+		var n int64
+		for {
+			select {
+			case <-ctx.Done():
+				return nil, ctx.Err()
+			case <-time.After(10 * time.Millisecond):
+			}
+			n += 100
+			progress(ranker.Progress{Generated: n, Scored: n / 2, TotalEstimate: 1_000_000})
+		}
+	}
+	progress(ranker.Progress{Generated: 3, Scored: 3, TotalEstimate: 3})
+	return &ranker.Result{
+		Formula:      req.Formula,
+		IsomersTotal: 3,
+		Scored:       3,
+		Complete:     true,
+		Candidates: []ranker.Candidate{
+			{Rank: 1, SMILES: "CCO", Score: -1.5, Probability: 0.9},
+			{Rank: 2, SMILES: "COC", Score: -4.0, Probability: 0.08},
+			{Rank: 3, SMILES: "OCC", Score: -6.0, Probability: 0.02},
+		},
+		Warnings: []string{},
+	}, nil
+}
+
+func (f *fakeRanker) Calls() int {
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	return f.calls
+}
+
+// fastConfig makes workers and callbacks quick enough for tests.
+func fastConfig(cfg server.Config) server.Config {
+	if cfg.Workers == 0 {
+		cfg.Workers = 2
+	}
+	cfg.Lease = 2 * time.Second
+	cfg.CancelPoll = 50 * time.Millisecond
+	cfg.ProgressEvery = 50 * time.Millisecond
+	cfg.IdleMin = 10 * time.Millisecond
+	cfg.IdleMax = 50 * time.Millisecond
+	cfg.CallbackBackoff = 20 * time.Millisecond
+	return cfg
+}
+
+// startServer serves the API over loopback HTTP with its workers running.
+func startServer(t *testing.T, st testStore, rk server.Ranker, cfg server.Config) (*server.Server, *httptest.Server) {
+	t.Helper()
+	srv := server.New(quietLogger(t), st, rk, fastConfig(cfg))
+	srv.Start()
+	hs := httptest.NewServer(srv)
+	t.Cleanup(func() {
+		hs.Close()
+		ctx, cancel := context.WithTimeout(context.Background(), 5*time.Second)
+		defer cancel()
+		_ = srv.Shutdown(ctx)
+	})
+	return srv, hs
+}
+
+// client sends requests with an optional API key.
+type client struct {
+	t    *testing.T
+	base string
+	key  string
+}
+
+type reply struct {
+	status int
+	header http.Header
+	body   []byte
+}
+
+func (r reply) decode(t *testing.T, v any) {
+	t.Helper()
+	if err := json.Unmarshal(r.body, v); err != nil {
+		t.Fatalf("decode %s: %v", r.body, err)
+	}
+}
+
+func (c client) do(method, path string, body any, header ...string) reply {
+	c.t.Helper()
+	var rd io.Reader
+	switch b := body.(type) {
+	case nil:
+	case string:
+		rd = strings.NewReader(b)
+	case []byte:
+		rd = bytes.NewReader(b)
+	default:
+		j, err := json.Marshal(b)
+		if err != nil {
+			c.t.Fatal(err)
+		}
+		rd = bytes.NewReader(j)
+	}
+	req, err := http.NewRequest(method, c.base+path, rd)
+	if err != nil {
+		c.t.Fatal(err)
+	}
+	if rd != nil {
+		req.Header.Set("Content-Type", "application/json")
+	}
+	if c.key != "" {
+		req.Header.Set("Authorization", "Bearer "+c.key)
+	}
+	for i := 0; i+1 < len(header); i += 2 {
+		req.Header.Set(header[i], header[i+1])
+	}
+	resp, err := http.DefaultClient.Do(req)
+	if err != nil {
+		c.t.Fatalf("%s %s: %v", method, path, err)
+	}
+	defer resp.Body.Close()
+	b, err := io.ReadAll(resp.Body)
+	if err != nil {
+		c.t.Fatal(err)
+	}
+	return reply{status: resp.StatusCode, header: resp.Header, body: b}
+}
+
+// waitJob polls a job until it reaches a terminal state.
+func (c client) waitJob(id string, timeout time.Duration) server.JobView {
+	c.t.Helper()
+	deadline := time.Now().Add(timeout)
+	for {
+		r := c.do("GET", "/v1/jobs/"+id, nil)
+		if r.status != http.StatusOK {
+			c.t.Fatalf("GET job %s: %d %s", id, r.status, r.body)
+		}
+		var j server.JobView
+		r.decode(c.t, &j)
+		if store.Status(j.Status).Terminal() {
+			return j
+		}
+		if time.Now().After(deadline) {
+			c.t.Fatalf("job %s still %s after %v", id, j.Status, timeout)
+		}
+		time.Sleep(20 * time.Millisecond)
+	}
+}
+
+const ethanolPeaks = "3.69 (q, 2H), 1.22 (t, 3H), 2.6 (br s, 1H)"
+
+func ethanolJob() map[string]any {
+	return map[string]any{"formula": "C2H6O", "peaks": ethanolPeaks, "reference": "NB-0042-a"}
+}
+
+// postgresStore opens a PostgreSQL store in a fresh schema dropped at the
+// end of the test.
+func postgresStore(t *testing.T) testStore {
+	t.Helper()
+	base, schema := pgtest.Schema(t)
+	ctx, cancel := context.WithTimeout(context.Background(), 30*time.Second)
+	defer cancel()
+	st, err := store.OpenSchema(ctx, base, schema)
+	if err != nil {
+		t.Fatalf("open PostgreSQL store: %v", err)
+	}
+	return st
+}
+
+// httptestRecorder serves one request in process.
+func httptestRecorder(h http.Handler, method, path string) *httptest.ResponseRecorder {
+	rec := httptest.NewRecorder()
+	h.ServeHTTP(rec, httptest.NewRequest(method, path, nil))
+	return rec
+}

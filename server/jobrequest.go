@@ -1,0 +1,311 @@
+package server
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"net/url"
+	"strings"
+	"time"
+	"unicode/utf8"
+
+	"shiftrank/isomers"
+	"shiftrank/molecule"
+	"shiftrank/ranker"
+)
+
+// JobRequest is the body of POST /v1/jobs. Field names are part of the
+// public contract.
+type JobRequest struct {
+	// Formula is the molecular formula, e.g. "C4H8O2" (required).
+	Formula string `json:"formula"`
+	// Peaks is the observed 1H peak list: either journal text such as
+	// "4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H)" or a JSON array of
+	// {"shift" or "range", "multiplicity", "j", "integral"} objects (required).
+	Peaks json.RawMessage `json:"peaks"`
+	// MHz is the spectrometer 1H frequency; 0 means the peak-list header's
+	// or 400.
+	MHz float64 `json:"mhz,omitempty"`
+	// Solvent is the NMR solvent, e.g. "CDCl3"; "" means the peak-list
+	// header's or CDCl3.
+	Solvent string `json:"solvent,omitempty"`
+	// Options tune the ranking.
+	Options JobOptions `json:"options"`
+	// Reference is the client's own label (a notebook sample id), stored
+	// and echoed; at most 200 characters.
+	Reference string `json:"reference,omitempty"`
+	// CallbackURL, if set, receives a signed POST of the job summary when
+	// the job ends. Only http and https URLs.
+	CallbackURL string `json:"callback_url,omitempty"`
+}
+
+// JobOptions are the ranking options of a JobRequest.
+type JobOptions struct {
+	TopK             int      `json:"top_k,omitempty"`              // candidates kept, 1..MaxTopK; 0 = 10
+	Filter           string   `json:"filter,omitempty"`             // isomer plausibility rules; "" = "plausible"
+	Require          []string `json:"require,omitempty"`            // SMILES fragments every candidate must contain
+	Forbid           []string `json:"forbid,omitempty"`             // SMILES fragments no candidate may contain
+	KeepSolventPeaks bool     `json:"keep_solvent_peaks,omitempty"` // do not drop residual solvent and water peaks
+}
+
+// Request limits that do not depend on the configuration.
+const (
+	MaxTopK         = ranker.MaxTopK
+	maxReferenceLen = 200
+	maxFragments    = 20
+	maxFragmentLen  = 200
+	maxURLLen       = 2000
+	minMHz, maxMHz  = 20, 2000
+)
+
+// limits are the configured bounds a job request is validated against.
+type limits struct {
+	maxHeavyAtoms int
+	maxCandidates int64
+	timeBudget    time.Duration
+}
+
+// decodeJobRequest decodes and validates a POST /v1/jobs body. It returns
+// the request, its ranker form, and an *Error naming every bad field.
+func decodeJobRequest(data []byte, lim limits) (JobRequest, ranker.Request, error) {
+	var jr JobRequest
+	if err := unmarshalStrict(data, &jr); err != nil {
+		return jr, ranker.Request{}, err
+	}
+	rr, fields := jr.rankerRequest(lim)
+	if len(fields) > 0 {
+		return jr, rr, invalidFields(fields)
+	}
+	return jr, rr, nil
+}
+
+// rankerRequest validates jr and builds the ranker request. Every problem
+// found is reported, not only the first.
+func (jr JobRequest) rankerRequest(lim limits) (ranker.Request, []FieldError) {
+	var fields []FieldError
+	bad := func(field, detail string) { fields = append(fields, FieldError{Field: field, Detail: detail}) }
+
+	rr := ranker.Request{
+		Formula:          strings.TrimSpace(jr.Formula),
+		MHz:              jr.MHz,
+		Solvent:          strings.TrimSpace(jr.Solvent),
+		TopK:             jr.Options.TopK,
+		Filter:           jr.Options.Filter,
+		Require:          jr.Options.Require,
+		Forbid:           jr.Options.Forbid,
+		MaxCandidates:    lim.maxCandidates,
+		KeepSolventPeaks: jr.Options.KeepSolventPeaks,
+		MaxHeavyAtoms:    lim.maxHeavyAtoms,
+	}
+	rr.TimeBudget = lim.timeBudget
+
+	if strings.TrimSpace(jr.Formula) == "" {
+		bad("/formula", "required: a molecular formula such as C4H8O2")
+	} else if _, err := molecule.ParseFormulaLimit(jr.Formula, lim.maxHeavyAtoms); err != nil {
+		fields = append(fields, formulaField(err))
+	}
+
+	pl, fe := parsePeaksField(jr.Peaks)
+	fields = append(fields, fe...)
+	rr.Peaks = pl
+
+	if jr.MHz != 0 && (jr.MHz < minMHz || jr.MHz > maxMHz) {
+		bad("/mhz", fmt.Sprintf("spectrometer frequency %g MHz is outside %d..%d", jr.MHz, minMHz, maxMHz))
+	}
+	if rr.Solvent != "" {
+		if c, ok := ranker.CanonicalSolvent(rr.Solvent); ok {
+			rr.Solvent = c
+		} else {
+			bad("/solvent", fmt.Sprintf("unknown solvent %q (e.g. CDCl3, DMSO-d6, D2O, CD3OD, C6D6, acetone-d6)", truncate(rr.Solvent, 50)))
+		}
+	}
+	if jr.Options.TopK < 0 || jr.Options.TopK > MaxTopK {
+		bad("/options/top_k", fmt.Sprintf("must be between 1 and %d (0 or absent means %d)", MaxTopK, ranker.DefaultTopK))
+	}
+	if jr.Options.Filter != "" {
+		if _, err := isomers.ParseFilter(jr.Options.Filter); err != nil {
+			fields = append(fields, filterField("/options/filter", err))
+		}
+	}
+	fields = append(fields, fragmentFields("/options/require", jr.Options.Require)...)
+	fields = append(fields, fragmentFields("/options/forbid", jr.Options.Forbid)...)
+	if utf8.RuneCountInString(jr.Reference) > maxReferenceLen {
+		bad("/reference", fmt.Sprintf("longer than %d characters", maxReferenceLen))
+	}
+	if jr.CallbackURL != "" {
+		if err := checkCallbackURL(jr.CallbackURL); err != nil {
+			bad("/callback_url", err.Error())
+		}
+	}
+	return rr, fields
+}
+
+func formulaField(err error) FieldError {
+	var fe *molecule.FormulaError
+	if errors.As(err, &fe) {
+		pos := fe.Pos
+		return FieldError{Field: "/formula", Detail: fe.Msg, Position: &pos, Token: fe.Token}
+	}
+	return FieldError{Field: "/formula", Detail: err.Error()}
+}
+
+// parsePeaksField parses the "peaks" member: a JSON string of journal text
+// or a JSON array of peak objects.
+func parsePeaksField(raw json.RawMessage) (ranker.PeakList, []FieldError) {
+	raw = bytes.TrimSpace(raw)
+	if len(raw) == 0 || string(raw) == "null" {
+		return ranker.PeakList{}, []FieldError{{Field: "/peaks", Detail: "required: journal text such as \"3.69 (q, 2H), 1.22 (t, 3H)\" or an array of peak objects"}}
+	}
+	var pl ranker.PeakList
+	var err error
+	switch raw[0] {
+	case '"':
+		var text string
+		if err := json.Unmarshal(raw, &text); err != nil {
+			return pl, []FieldError{{Field: "/peaks", Detail: "not a valid JSON string"}}
+		}
+		if strings.TrimSpace(text) == "" {
+			return pl, []FieldError{{Field: "/peaks", Detail: "required: the peak list is empty"}}
+		}
+		pl, err = ranker.ParsePeaks(text)
+	case '[':
+		pl, err = ranker.ParsePeaksJSON(raw)
+	default:
+		return pl, []FieldError{{Field: "/peaks", Detail: "must be a string of journal text or an array of peak objects"}}
+	}
+	if err != nil {
+		var pe *ranker.PeakError
+		if errors.As(err, &pe) {
+			pos := pe.Pos
+			f := FieldError{Field: "/peaks", Detail: pe.Msg, Token: pe.Token, Position: &pos}
+			switch {
+			case raw[0] == '[' && pe.Field != "":
+				f.Field = peakPathPointer(pe.Field)
+			case pe.Field != "":
+				f.Detail = pe.Field + ": " + pe.Msg
+			}
+			return pl, []FieldError{f}
+		}
+		return pl, []FieldError{{Field: "/peaks", Detail: err.Error()}}
+	}
+	if len(pl.Peaks) == 0 {
+		return pl, []FieldError{{Field: "/peaks", Detail: "the peak list has no peaks"}}
+	}
+	return pl, nil
+}
+
+func fragmentFields(base string, frags []string) []FieldError {
+	var fields []FieldError
+	if len(frags) > maxFragments {
+		return []FieldError{{Field: base, Detail: fmt.Sprintf("at most %d fragments", maxFragments)}}
+	}
+	for i, s := range frags {
+		field := fmt.Sprintf("%s/%d", base, i)
+		if len(s) > maxFragmentLen {
+			fields = append(fields, FieldError{Field: field, Detail: fmt.Sprintf("longer than %d characters", maxFragmentLen)})
+			continue
+		}
+		if _, err := molecule.ParseFragment(s); err != nil {
+			var se *molecule.SMILESError
+			if errors.As(err, &se) {
+				pos := se.Pos
+				fields = append(fields, FieldError{Field: field, Detail: se.Msg, Position: &pos, Token: se.Token})
+			} else {
+				fields = append(fields, FieldError{Field: field, Detail: err.Error()})
+			}
+		}
+	}
+	return fields
+}
+
+// checkCallbackURL accepts absolute http and https URLs with a host and
+// no user information.
+func checkCallbackURL(s string) error {
+	if len(s) > maxURLLen {
+		return fmt.Errorf("longer than %d characters", maxURLLen)
+	}
+	u, err := url.Parse(s)
+	if err != nil {
+		return errors.New("not a valid URL")
+	}
+	if u.Scheme != "http" && u.Scheme != "https" {
+		return errors.New("must be an http or https URL")
+	}
+	if u.Host == "" || u.Hostname() == "" {
+		return errors.New("must be an absolute URL with a host")
+	}
+	if u.User != nil {
+		return errors.New("must not carry user information")
+	}
+	return nil
+}
+
+// canonical returns the request as compact JSON with a fixed member order,
+// and the hex SHA-256 of it (used to recognise an idempotent repeat).
+func (jr JobRequest) canonical() (json.RawMessage, string, error) {
+	c := jr
+	c.Formula = strings.TrimSpace(c.Formula)
+	c.Solvent = strings.TrimSpace(c.Solvent)
+	var buf bytes.Buffer
+	if err := json.Compact(&buf, c.Peaks); err != nil {
+		return nil, "", fmt.Errorf("compact peaks: %w", err)
+	}
+	c.Peaks = buf.Bytes()
+	b, err := json.Marshal(c)
+	if err != nil {
+		return nil, "", fmt.Errorf("encode request: %w", err)
+	}
+	sum := sha256.Sum256(b)
+	return b, hex.EncodeToString(sum[:]), nil
+}
+
+// truncate shortens s to at most n runes for echoing in messages.
+func truncate(s string, n int) string {
+	if utf8.RuneCountInString(s) <= n {
+		return s
+	}
+	return string([]rune(s)[:n]) + "…"
+}
+
+// peakPathPointer turns the peak parser's path of a structured peak list
+// ("peaks[1].j", "[0].color") into a JSON Pointer into the request
+// ("/peaks/1/j", "/peaks/0/color").
+func peakPathPointer(path string) string {
+	path = strings.TrimPrefix(path, "peaks")
+	var b strings.Builder
+	b.WriteString("/peaks")
+	for path != "" {
+		switch path[0] {
+		case '[':
+			end := strings.IndexByte(path, ']')
+			if end < 0 {
+				return b.String()
+			}
+			b.WriteString("/" + path[1:end])
+			path = path[end+1:]
+		case '.':
+			path = path[1:]
+			end := strings.IndexAny(path, ".[")
+			if end < 0 {
+				end = len(path)
+			}
+			b.WriteString("/" + escapePointer(path[:end]))
+			path = path[end:]
+		default:
+			return b.String()
+		}
+	}
+	return b.String()
+}
+
+func filterField(field string, err error) FieldError {
+	var fe *isomers.FilterError
+	if errors.As(err, &fe) {
+		pos := fe.Pos
+		return FieldError{Field: field, Detail: fe.Msg, Position: &pos, Token: fe.Token}
+	}
+	return FieldError{Field: field, Detail: err.Error()}
+}
