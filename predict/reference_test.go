@@ -23,9 +23,9 @@ type refRow struct {
 	source string
 }
 
-func loadReference(t *testing.T) []refRow {
+func loadReference(t *testing.T, file string) []refRow {
 	t.Helper()
-	f, err := os.Open("testdata/reference.tsv")
+	f, err := os.Open(file)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -41,13 +41,13 @@ func loadReference(t *testing.T) []refRow {
 		}
 		c := strings.Split(line, "\t")
 		if len(c) != 8 {
-			t.Fatalf("reference.tsv:%d: %d columns, want 8", ln, len(c))
+			t.Fatalf("%s:%d: %d columns, want 8", file, ln, len(c))
 		}
 		r := refRow{line: ln, name: c[0], smiles: c[1], mult: c[6], source: c[7]}
 		for _, a := range strings.Split(c[2], ",") {
 			n, err := strconv.Atoi(a)
 			if err != nil {
-				t.Fatalf("reference.tsv:%d: atoms %q: %v", ln, c[2], err)
+				t.Fatalf("%s:%d: atoms %q: %v", file, ln, c[2], err)
 			}
 			r.atoms = append(r.atoms, n)
 		}
@@ -56,7 +56,7 @@ func loadReference(t *testing.T) []refRow {
 		r.tol, e2 = strconv.ParseFloat(c[4], 64)
 		r.h, e3 = strconv.Atoi(c[5])
 		if e1 != nil || e2 != nil || e3 != nil {
-			t.Fatalf("reference.tsv:%d: bad number", ln)
+			t.Fatalf("%s:%d: bad number", file, ln)
 		}
 		rows = append(rows, r)
 	}
@@ -68,7 +68,18 @@ func loadReference(t *testing.T) []refRow {
 // environment within its tolerance, H count and first-order multiplicity
 // exact, and the mean absolute error over all rows at most 0.20 ppm.
 func TestReferenceShifts(t *testing.T) {
-	rows := loadReference(t)
+	checkReference(t, "testdata/reference.tsv")
+}
+
+// TestHoldoutShifts does the same for handbook compounds that were not used
+// to derive the increment tables (testdata/holdout.tsv), an independent
+// check of the additive schemes.
+func TestHoldoutShifts(t *testing.T) {
+	checkReference(t, "testdata/holdout.tsv")
+}
+
+func checkReference(t *testing.T, file string) {
+	rows := loadReference(t, file)
 	p := New(Options{})
 	spectra := map[string]*Spectrum{}
 	used := map[string]map[int]bool{}
@@ -123,7 +134,7 @@ func TestReferenceShifts(t *testing.T) {
 		}
 	}
 	mae := sumErr / float64(n)
-	t.Logf("reference set: %d environments of %d compounds, mean absolute error %.3f ppm", n, len(spectra), mae)
+	t.Logf("%s: %d environments of %d compounds, mean absolute error %.3f ppm", file, n, len(spectra), mae)
 	if mae > 0.20 {
 		t.Errorf("mean absolute error %.3f ppm, want ≤ 0.20", mae)
 	}

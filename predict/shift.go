@@ -332,8 +332,13 @@ func (p *Predictor) alkeneH(m *mol, gr *hgroup, q int, r *shiftResult, ac *acc) 
 	dblRing := m.ringBond[dbl]
 	z := func(from, x int, col int) (float64, sub) {
 		s := m.classify(from, x)
-		if s == subAlkyl && dblRing > 0 && dblRing <= 7 && m.ringBond[g.BondBetween(from, x)] > 0 {
-			return pmsRingAlkyl[col], s
+		if s == subAlkyl {
+			if dblRing > 0 && dblRing <= 7 && m.ringBond[g.BondBetween(from, x)] > 0 {
+				return pmsRingAlkyl[col], s
+			}
+			if row, ok := m.pmsAlkylRow(from, x); ok {
+				return row[col], s
+			}
 		}
 		return pms[s][col], s
 	}
@@ -470,4 +475,41 @@ func amideN(m *mol, x int) int {
 		}
 	}
 	return -1
+}
+
+// Pascual–Meier–Simon rows for substituted alkyl groups (Pretsch, from
+// memory): CH2–O, CH2–N, CH2–halogen, CH2–S, CH2–C=O/C≡N, CH2–Ar.
+var (
+	pmsCH2O   = [3]float64{0.64, -0.01, -0.02}
+	pmsCH2N   = [3]float64{0.58, -0.10, -0.08}
+	pmsCH2Hal = [3]float64{0.70, 0.11, -0.04}
+	pmsCH2S   = [3]float64{0.71, -0.13, -0.22}
+	pmsCH2CO  = [3]float64{0.69, -0.08, -0.06}
+	pmsCH2Ar  = [3]float64{1.05, -0.29, -0.32}
+)
+
+// pmsAlkylRow returns the PMS row for alkyl substituent x (seen from alkene
+// carbon from) when x carries a heteroatom, carbonyl or aryl group.
+func (m *mol) pmsAlkylRow(from, x int) ([3]float64, bool) {
+	for _, nb := range m.g.Neighbors(x) {
+		if nb.Atom == from {
+			continue
+		}
+		s := m.classify(x, nb.Atom)
+		switch {
+		case s >= subOH && s <= subOX:
+			return pmsCH2O, true
+		case s >= subAmine && s <= subNArom:
+			return pmsCH2N, true
+		case s >= subF && s <= subI:
+			return pmsCH2Hal, true
+		case s >= subSR && s <= subSOther:
+			return pmsCH2S, true
+		case s >= subCHO && s <= subCN:
+			return pmsCH2CO, true
+		case s == subAryl || s == subHetAryl:
+			return pmsCH2Ar, true
+		}
+	}
+	return [3]float64{}, false
 }

@@ -17,10 +17,24 @@ func (p *Predictor) sp3(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 	var subRing [4]bool
 	ns := 0
 	odd := false
+	conj, hetAdj := 0, 0.0
+	longAlkyl := 0
 	for _, nb := range g.Neighbors(c) {
 		s := m.classify(c, nb.Atom)
 		if unusual[s] {
 			odd = true
+		}
+		switch s {
+		case subAlkenyl:
+			if m.conjugatedAcceptor(nb.Atom) {
+				conj++
+			}
+		case subHetAryl:
+			hetAdj += m.hetArylAdjust(nb.Atom)
+		case subAlkyl:
+			if g.Degree(nb.Atom) > 1 && m.ringBond[nb.Bond] == 0 {
+				longAlkyl++
+			}
 		}
 		if s != subAlkyl && ns < 4 {
 			subRing[ns] = m.ringBond[nb.Bond] > 0 && g.Atoms[nb.Atom].Element != molecule.C
@@ -80,6 +94,25 @@ func (p *Predictor) sp3(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 			ac.addSub("α: ", s, alphaInc[s][idx]*d)
 		}
 	}
+	if conj > 0 {
+		// C=C conjugated with C=O/C≡N: allylic H are further deshielded
+		// (crotonaldehyde CH3 2.03, methyl methacrylate CH3 1.95;
+		// Pretsch, from memory).
+		ac.add("C=C conjugated with C=O", 0.27*float64(conj))
+	}
+	if hetAdj != 0 {
+		ac.add("heteroaryl position", hetAdj)
+	}
+	if ns > 0 && longAlkyl > 0 && h <= 2 {
+		// A longer alkyl chain next to an X-bearing carbon lowers its H
+		// (ethanol 3.72 vs 1-propanol 3.58; 2-propanol 4.04 vs 2-butanol
+		// 3.72; Gottlieb 1997, Silverstein, from memory).
+		v := -0.08
+		if h == 1 {
+			v = -0.15
+		}
+		ac.add("γ: longer alkyl chain", v*float64(longAlkyl))
+	}
 	if nO := countO(subs[:ns]); nO >= 2 {
 		// Acetal and orthoester carbons lie well below the additive
 		// estimate (Pretsch: CH2(OMe)2 4.58).
@@ -109,10 +142,19 @@ func (p *Predictor) sp3(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 				odd = true
 			}
 			nb++
-			ac.addSub("β: ", s, betaInc[s]*scale)
+			v := betaInc[s] * scale
+			if m.ringBond[n1.Bond] > 0 && m.ringBond[n2.Bond] > 0 && ringAcceptor(s) {
+				// C=O or SO2 in the same ring: the β effect is about twice
+				// the acyclic one (cyclohexanone β-H 1.86, sulfolane 2.22).
+				v *= 2
+			}
+			ac.addSub("β: ", s, v)
 		}
 	}
 	r.sigma += 0.02 * float64(min(nb, 5))
+	if m.ringAtom[c] > 0 && m.ringCarbonylGamma(c) {
+		ac.add("γ: ring C=O", 0.25)
+	}
 	if sz := m.ringAtom[c]; sz > 0 {
 		p.ringCorrection(m, c, h, int(sz), subs[:ns], subRing[:ns], r, ac)
 	}
@@ -217,4 +259,80 @@ func itoa(n int) string {
 		b = append([]byte{'-'}, b...)
 	}
 	return string(b)
+}
+
+func ringAcceptor(s sub) bool {
+	return s >= subCHO && s <= subAcylOther || s == subSO || s == subSO2
+}
+
+// conjugatedAcceptor reports whether alkene carbon x or its double-bond
+// partner carries a C=O or C≡N group.
+func (m *mol) conjugatedAcceptor(x int) bool {
+	g := m.g
+	for _, nb := range g.Neighbors(x) {
+		if nb.Order != molecule.Double {
+			continue
+		}
+		for _, y := range [2]int{x, nb.Atom} {
+			for _, n2 := range g.Neighbors(y) {
+				z := n2.Atom
+				if n2.Order == molecule.Single && g.Atoms[z].Element == molecule.C && (m.carbonylOf(z) >= 0 || m.tripleN(z)) {
+					return true
+				}
+			}
+		}
+	}
+	return false
+}
+
+func (m *mol) tripleN(z int) bool {
+	for _, nb := range m.g.Neighbors(z) {
+		if nb.Order == molecule.Triple && m.g.Atoms[nb.Atom].Element == molecule.N {
+			return true
+		}
+	}
+	return false
+}
+
+// hetArylAdjust corrects the heteroaryl α increment by ring position:
+// CH3 next to a ring N (2-picoline 2.55) vs on a furan (2-methylfuran
+// 2.28) or elsewhere (3-picoline 2.32); Pretsch, from memory.
+func (m *mol) hetArylAdjust(x int) float64 {
+	g := m.g
+	for _, nb := range g.Neighbors(x) {
+		if !m.arom[nb.Atom] {
+			continue
+		}
+		switch g.Atoms[nb.Atom].Element {
+		case molecule.N:
+			return 0
+		case molecule.O:
+			return -0.18
+		case molecule.S:
+			return -0.05
+		}
+	}
+	return -0.20
+}
+
+// ringCarbonylGamma reports whether ring CH2 c is two ring bonds from a
+// ring carbon bearing C=O (cyclohexanone γ-H 1.72 vs cyclohexane 1.43).
+func (m *mol) ringCarbonylGamma(c int) bool {
+	g := m.g
+	for _, n1 := range g.Neighbors(c) {
+		if m.ringBond[n1.Bond] == 0 {
+			continue
+		}
+		for _, n2 := range g.Neighbors(n1.Atom) {
+			if n2.Atom == c || m.ringBond[n2.Bond] == 0 {
+				continue
+			}
+			for _, n3 := range g.Neighbors(n2.Atom) {
+				if n3.Atom != n1.Atom && m.ringBond[n3.Bond] > 0 && g.Atoms[n3.Atom].Element == molecule.C && m.carbonylOf(n3.Atom) >= 0 {
+					return true
+				}
+			}
+		}
+	}
+	return false
 }
