@@ -93,6 +93,17 @@ func (a *aromaticity) perceive(g *Graph) []bool {
 	if n < 3 || m < 3 {
 		return a.arom
 	}
+	// Quick exit: fewer than three atoms that could be candidates at all
+	// (saturated skeletons are the common case in isomer generation).
+	maybe := 0
+	for v := 0; v < n && maybe < 3; v++ {
+		if a.mayBeCandidate(g, v) {
+			maybe++
+		}
+	}
+	if maybe < 3 {
+		return a.arom
+	}
 	a.findRingBonds(g)
 	a.pi = resizeInt8(a.pi, n)
 	a.cand = resizeBools(a.cand, n)
@@ -166,6 +177,29 @@ func (a *aromaticity) perceive(g *Graph) []bool {
 	}
 	a.enumerate(g)
 	return a.arom
+}
+
+// mayBeCandidate is a necessary condition for piCount(v) >= 0 that needs
+// no ring information.
+func (a *aromaticity) mayBeCandidate(g *Graph, v int) bool {
+	nbs := g.Neighbors(v)
+	if len(nbs) < 2 {
+		return false
+	}
+	at := g.Atoms[v]
+	if at.Charge != 0 {
+		return true
+	}
+	for _, nb := range nbs {
+		if nb.Order != Single {
+			return true
+		}
+	}
+	switch at.Element {
+	case N, P, O, S:
+		return true
+	}
+	return false
 }
 
 // piCount returns the π-electron count of atom v as described in the

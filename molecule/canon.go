@@ -54,6 +54,7 @@ type Canonicalizer struct {
 	labs  [][]int32 // position -> vertex
 	invs  [][]int32 // vertex -> position
 	cells [][]int32 // position -> start position of its cell
+	clens [][]int32 // cell start position -> cell length (valid at starts)
 	cellV [][]int32 // vertices of the target cell
 	expl  [][]int32 // explored children
 	orbs  [][]int32 // orbit representatives under the stabiliser
@@ -70,11 +71,16 @@ type Canonicalizer struct {
 	gens      [][]int32
 	genPool   [][]int32
 
-	sig   []uint32
-	idx   []int32
-	tmp   []int32
-	keyed []vertexKey
-	key   []byte
+	// refinement scratch
+	queue    []int32
+	inQueue  []bool   // per cell start
+	cellMark []bool   // per cell start
+	cnt      []uint64 // per vertex: neighbours in the splitter, by order
+	touched  []int32
+	tcells   []int32
+	tmp      []int32
+	keyed    []vertexKey
+	key      []byte
 }
 
 type vertexKey struct {
@@ -216,6 +222,7 @@ func (c *Canonicalizer) search(g *Graph) {
 		c.labs = append(c.labs, nil)
 		c.invs = append(c.invs, nil)
 		c.cells = append(c.cells, nil)
+		c.clens = append(c.clens, nil)
 		c.cellV = append(c.cellV, nil)
 		c.expl = append(c.expl, nil)
 		c.orbs = append(c.orbs, nil)
@@ -224,6 +231,7 @@ func (c *Canonicalizer) search(g *Graph) {
 		c.labs[d] = grow32(c.labs[d], n)
 		c.invs[d] = grow32(c.invs[d], n)
 		c.cells[d] = grow32(c.cells[d], n)
+		c.clens[d] = grow32(c.clens[d], n)
 	}
 	c.path = grow32(c.path, n+1)
 	c.firstLab = grow32(c.firstLab, n)
@@ -271,134 +279,161 @@ func (c *Canonicalizer) search(g *Graph) {
 		}
 		return int(a.v - b.v)
 	})
-	lab, inv, cs := c.labs[0], c.invs[0], c.cells[0]
+	lab, inv, cs, cl := c.labs[0], c.invs[0], c.cells[0], c.clens[0]
 	start := 0
 	for p, k := range c.keyed {
 		if p > 0 && k.k != c.keyed[p-1].k {
+			cl[start] = int32(p - start)
 			start = p
 		}
 		lab[p] = k.v
 		inv[k.v] = int32(p)
 		cs[p] = int32(start)
 	}
+	cl[start] = int32(n - start)
+	if cap(c.inQueue) < n {
+		c.inQueue = make([]bool, n)
+		c.cellMark = make([]bool, n)
+		c.cnt = make([]uint64, n)
+	}
+	c.inQueue = c.inQueue[:n]
+	c.cellMark = c.cellMark[:n]
+	c.cnt = c.cnt[:n]
+	c.queue = c.queue[:0]
+	for s := 0; s < n; s += int(cl[s]) {
+		c.queue = append(c.queue, int32(s))
+		c.inQueue[s] = true
+	}
 	c.refine(0)
 	c.node(0)
 }
 
-// refine makes the partition at depth d equitable: vertices of one cell
-// end up with the same number of neighbours in every cell by every bond
-// order. Cells split in place, ordered by their signatures, so the result
-// depends only on the (labelled) partition, not on vertex numbers.
+// refine makes the partition at depth d equitable: afterwards vertices of
+// one cell have the same number of neighbours in every cell by every bond
+// order. c.queue holds the cells to split by (all cells initially, the new
+// singleton after individualisation). Cells split in place, their parts
+// ordered by neighbour counts, and the work is driven by cell positions
+// and counts only, so the result depends only on the labelled partition,
+// never on vertex numbers. Parts of a cell not waiting in the queue are
+// queued except the (first) largest, as in Hopcroft's algorithm.
 func (c *Canonicalizer) refine(d int) {
-	n := c.n
-	cs := c.cells[d]
-	for {
-		changed := false
-		for s := 0; s < n; {
-			e := s + 1
-			for e < n && cs[e] == int32(s) {
-				e++
+	lab, inv, cs, cl := c.labs[d], c.invs[d], c.cells[d], c.clens[d]
+	cnt := c.cnt
+	for head := 0; head < len(c.queue); head++ {
+		w := c.queue[head]
+		c.inQueue[w] = false
+		touched := c.touched[:0]
+		for p := w; p < w+cl[w]; p++ {
+			v := lab[p]
+			for a := c.adjStart[v]; a < c.adjStart[v+1]; a++ {
+				u := c.adjNbr[a]
+				if cnt[u] == 0 {
+					touched = append(touched, u)
+				}
+				cnt[u] += 1 << (16 * (uint(c.adjOrd[a]) - 1))
 			}
-			if e-s > 1 && c.splitCell(d, s, e) {
-				changed = true
+		}
+		tc := c.tcells[:0]
+		for _, u := range touched {
+			s := cs[inv[u]]
+			if !c.cellMark[s] && cl[s] > 1 {
+				c.cellMark[s] = true
+				tc = append(tc, s)
 			}
-			s = e
 		}
-		if !changed {
-			return
+		slices.Sort(tc)
+		for _, s := range tc {
+			c.cellMark[s] = false
+			c.splitByCount(lab, inv, cs, cl, s)
 		}
+		for _, u := range touched {
+			cnt[u] = 0
+		}
+		c.touched, c.tcells = touched, tc
 	}
+	c.queue = c.queue[:0]
 }
 
-// splitCell splits cell [s,e) at depth d by neighbour signatures and
-// reports whether it split.
-func (c *Canonicalizer) splitCell(d, s, e int) bool {
-	lab, inv, cs := c.labs[d], c.invs[d], c.cells[d]
-	v0 := lab[s]
-	deg := int(c.adjStart[v0+1] - c.adjStart[v0])
-	if deg == 0 {
-		return false
-	}
-	size := e - s
-	if cap(c.sig) < size*deg {
-		c.sig = make([]uint32, size*deg)
-	}
-	sig := c.sig[:size*deg]
-	for k := 0; k < size; k++ {
-		v := lab[s+k]
-		row := sig[k*deg : (k+1)*deg]
-		j := 0
-		for a := c.adjStart[v]; a < c.adjStart[v+1]; a++ {
-			row[j] = uint32(cs[inv[c.adjNbr[a]]])<<3 | uint32(c.adjOrd[a])
-			j++
+// splitByCount splits cell s by c.cnt and queues the new parts.
+func (c *Canonicalizer) splitByCount(lab, inv, cs, cl []int32, s int32) {
+	e := s + cl[s]
+	cell := lab[s:e]
+	cnt := c.cnt
+	// insertion sort by count: cells are small
+	same := true
+	for i := 1; i < len(cell); i++ {
+		x := cell[i]
+		kx := cnt[x]
+		if kx != cnt[cell[0]] {
+			same = false
 		}
-		// insertion sort: degrees are small
-		for x := 1; x < deg; x++ {
-			y := row[x]
-			z := x - 1
-			for z >= 0 && row[z] > y {
-				row[z+1] = row[z]
-				z--
+		j := i - 1
+		for j >= 0 && cnt[cell[j]] > kx {
+			cell[j+1] = cell[j]
+			j--
+		}
+		cell[j+1] = x
+	}
+	if same {
+		return
+	}
+	wasQueued := c.inQueue[s]
+	// Find the first largest part when the cell was not queued.
+	largest, largestLen := int32(-1), int32(0)
+	if !wasQueued {
+		start := s
+		for p := s + 1; p <= e; p++ {
+			if p == e || cnt[lab[p]] != cnt[lab[p-1]] {
+				if p-start > largestLen {
+					largest, largestLen = start, p-start
+				}
+				start = p
 			}
-			row[z+1] = y
 		}
-	}
-	// Quick check: all equal?
-	allEq := true
-	for k := 1; k < size && allEq; k++ {
-		if !slices.Equal(sig[0:deg], sig[k*deg:(k+1)*deg]) {
-			allEq = false
-		}
-	}
-	if allEq {
-		return false
-	}
-	idx := c.idx[:0]
-	for k := 0; k < size; k++ {
-		idx = append(idx, int32(k))
-	}
-	slices.SortStableFunc(idx, func(a, b int32) int {
-		return slices.Compare(sig[int(a)*deg:int(a+1)*deg], sig[int(b)*deg:int(b+1)*deg])
-	})
-	c.idx = idx
-	tmp := grow32(c.tmp, size)
-	for k := 0; k < size; k++ {
-		tmp[k] = lab[s+int(idx[k])]
 	}
 	start := s
-	for k := 0; k < size; k++ {
-		p := s + k
-		if k > 0 && !slices.Equal(sig[int(idx[k])*deg:int(idx[k]+1)*deg], sig[int(idx[k-1])*deg:int(idx[k-1]+1)*deg]) {
+	for p := s; p < e; p++ {
+		if p > s && cnt[lab[p]] != cnt[lab[p-1]] {
+			cl[start] = p - start
+			c.pushPart(start, s, wasQueued, largest)
 			start = p
 		}
-		lab[p] = tmp[k]
-		inv[tmp[k]] = int32(p)
-		cs[p] = int32(start)
+		cs[p] = start
+		inv[lab[p]] = p
 	}
-	c.tmp = tmp
-	return true
+	cl[start] = e - start
+	c.pushPart(start, s, wasQueued, largest)
+}
+
+func (c *Canonicalizer) pushPart(start, s int32, wasQueued bool, largest int32) {
+	if wasQueued {
+		if start != s {
+			c.queue = append(c.queue, start)
+			c.inQueue[start] = true
+		}
+		return
+	}
+	if start != largest {
+		c.queue = append(c.queue, start)
+		c.inQueue[start] = true
+	}
 }
 
 // targetCell returns the first smallest non-singleton cell at depth d, or
 // s = -1 if the partition is discrete.
 func (c *Canonicalizer) targetCell(d int) (s, e int) {
 	n := c.n
-	cs := c.cells[d]
-	bs, be := -1, -1
-	for p := 0; p < n; {
-		q := p + 1
-		for q < n && cs[q] == int32(p) {
-			q++
-		}
-		if q-p > 1 && (bs < 0 || q-p < be-bs) {
-			bs, be = p, q
-			if q-p == 2 {
+	cl := c.clens[d]
+	bs, bl := -1, 0
+	for p := 0; p < n; p += int(cl[p]) {
+		if l := int(cl[p]); l > 1 && (bs < 0 || l < bl) {
+			bs, bl = p, l
+			if l == 2 {
 				break
 			}
 		}
-		p = q
 	}
-	return bs, be
+	return bs, bs + bl
 }
 
 // node explores the search-tree node at depth d (partition already
@@ -441,6 +476,7 @@ func (c *Canonicalizer) node(d int) int {
 		copy(c.labs[d+1][:n], c.labs[d][:n])
 		copy(c.invs[d+1][:n], c.invs[d][:n])
 		copy(c.cells[d+1][:n], c.cells[d][:n])
+		copy(c.clens[d+1][:n], c.clens[d][:n])
 		c.individualize(d+1, w)
 		c.refine(d + 1)
 		if r := c.node(d + 1); r < d {
@@ -481,19 +517,20 @@ func (c *Canonicalizer) stabOrbits(d int) {
 
 // individualize splits w off the front of its cell at depth d.
 func (c *Canonicalizer) individualize(d int, w int32) {
-	lab, inv, cs := c.labs[d], c.invs[d], c.cells[d]
+	lab, inv, cs, cl := c.labs[d], c.invs[d], c.cells[d], c.clens[d]
 	p := inv[w]
 	s := cs[p]
-	e := s + 1
-	for int(e) < c.n && cs[e] == s {
-		e++
-	}
+	e := s + cl[s]
 	u := lab[s]
 	lab[s], lab[p] = w, u
 	inv[w], inv[u] = s, p
 	for q := s + 1; q < e; q++ {
 		cs[q] = s + 1
 	}
+	cl[s] = 1
+	cl[s+1] = e - s - 1
+	c.queue = append(c.queue[:0], s)
+	c.inQueue[s] = true
 }
 
 // leaf handles a discrete partition at depth d.

@@ -5,6 +5,7 @@ import "shiftrank/molecule"
 // mol holds what Predict derives from a graph before assigning shifts.
 type mol struct {
 	g        *molecule.Graph
+	w        *work
 	arom     []bool  // Hückel-aromatic atoms (molecule.AromaticAtoms)
 	hetRing  []bool  // aromatic atom whose smallest aromatic ring has a heteroatom
 	multi    []int8  // number of double/triple bonds at the atom
@@ -20,24 +21,73 @@ type mol struct {
 	par   []int
 }
 
-func analyse(g *molecule.Graph) *mol {
+// work is the scratch space of one Predict call, reused through a pool.
+type work struct {
+	canon  molecule.Canonicalizer
+	m      mol
+	i16    []int16
+	i8     []int8
+	ints   []int
+	bools  []bool
+	col    []uint64
+	groups []hgroup
+	jbuf   []jterm
+	rings  []int
+}
+
+func growInt16(s []int16, n int) []int16 {
+	if cap(s) < n {
+		return make([]int16, n)
+	}
+	s = s[:n]
+	clear(s)
+	return s
+}
+
+func (w *work) analyse(g *molecule.Graph) *mol {
 	n := len(g.Atoms)
-	m := &mol{g: g}
+	m := &w.m
+	*m = mol{g: g, w: w}
 	// One backing array for the small per-atom slices.
-	i16 := make([]int16, 3*n+len(g.Bonds))
+	w.i16 = growInt16(w.i16, 3*n+len(g.Bonds))
+	i16 := w.i16
 	m.ringAtom, m.rsys, m.dist, m.ringBond = i16[:n], i16[n:2*n], i16[2*n:3*n], i16[3*n:]
-	m.multi = make([]int8, n)
-	m.queue = make([]int, 0, n)
-	m.par = make([]int, n)
+	if cap(w.i8) < n {
+		w.i8 = make([]int8, n)
+	}
+	m.multi = w.i8[:n]
+	clear(m.multi)
+	if cap(w.ints) < 4*n {
+		w.ints = make([]int, 4*n)
+	}
+	m.queue = w.ints[:0:n]
+	m.par = w.ints[n : 2*n]
+	m.orbit = w.ints[2*n : 3*n]
+	m.label = w.ints[3*n : 4*n]
+	if cap(w.bools) < 2*n {
+		w.bools = make([]bool, 2*n)
+	}
+	m.arom, m.hetRing = w.bools[:n], w.bools[n:2*n]
+	clear(m.arom)
+	clear(m.hetRing)
+	w.rings = w.rings[:0]
 	for _, b := range g.Bonds {
 		if b.Order >= molecule.Double && b.Order <= molecule.Triple {
 			m.multi[b.A]++
 			m.multi[b.B]++
 		}
 	}
-	m.arom = molecule.AromaticAtoms(g)
-	c := molecule.Canonicalize(g)
-	m.orbit, m.label = c.Orbits, c.Labels
+	var aromBond []bool
+	if g.NumRings() > 0 {
+		aromBond = molecule.AromaticBonds(g)
+		for i, ar := range aromBond {
+			if ar {
+				m.arom[g.Bonds[i].A] = true
+				m.arom[g.Bonds[i].B] = true
+			}
+		}
+	}
+	m.symmetry(aromBond, &w.canon)
 	for i := range m.rsys {
 		m.rsys[i] = -1
 	}
@@ -60,7 +110,6 @@ func analyse(g *molecule.Graph) *mol {
 		}
 		m.ringSystems()
 	}
-	m.hetRing = make([]bool, n)
 	for i := range g.Atoms {
 		if m.arom[i] {
 			for _, x := range m.aromRing(i) {
@@ -156,7 +205,10 @@ func (m *mol) aromRing(a int) []int {
 			if d < 0 || (best != nil && d+2 >= len(best)) {
 				continue
 			}
-			ring := make([]int, d+2)
+			// Rings live in the work's shared backing array.
+			start := len(m.w.rings)
+			m.w.rings = append(m.w.rings, make([]int, d+2)...)
+			ring := m.w.rings[start : start+d+2 : start+d+2]
 			ring[0] = a
 			k := d + 1
 			for v := q; v >= 0; v = m.par[v] {

@@ -1,7 +1,6 @@
 package predict
 
 import (
-	"sort"
 	"strconv"
 
 	"shiftrank/molecule"
@@ -61,9 +60,10 @@ func round3(v float64) float64 {
 	return float64(int64(v*1000+0.5)) / 1000
 }
 
-func (p *Predictor) predict(m *mol) *Spectrum {
+func (p *Predictor) predict(m *mol, w *work) *Spectrum {
 	g := m.g
-	groups := p.makeGroups(m)
+	groups := p.makeGroups(m, w.groups[:0])
+	w.groups = groups
 	// Environments: groups with equal keys (orbit, split identity, amide
 	// sides) are equivalent.
 	type envKey struct {
@@ -85,8 +85,10 @@ func (p *Predictor) predict(m *mol) *Spectrum {
 		}
 		return k
 	}
-	keys := make([]envKey, 0, len(groups))
-	reps := make([]int, 0, len(groups)) // representative group of each env
+	var keyBuf [24]envKey
+	keys := keyBuf[:0]
+	ints := make([]int, 3*len(groups)+len(groups))
+	reps := ints[:0:len(groups)] // representative group of each env
 	for i := range groups {
 		k := keyOf(&groups[i])
 		e := -1
@@ -109,18 +111,23 @@ func (p *Predictor) predict(m *mol) *Spectrum {
 		res[e] = p.shiftOf(m, &groups[reps[e]])
 	}
 	// Order environments by decreasing shift, then by atom.
-	order := make([]int, nEnv)
+	order := ints[len(groups) : len(groups)+nEnv]
 	for i := range order {
 		order[i] = i
 	}
-	sort.SliceStable(order, func(x, y int) bool {
-		a, b := order[x], order[y]
+	less := func(a, b int) bool {
 		if res[a].shift != res[b].shift {
 			return res[a].shift > res[b].shift
 		}
 		return groups[reps[a]].atom < groups[reps[b]].atom
-	})
-	newID := make([]int, nEnv)
+	}
+	for i := 1; i < len(order); i++ {
+		for j := i; j > 0 && less(order[j], order[j-1]); j-- {
+			order[j], order[j-1] = order[j-1], order[j]
+		}
+	}
+	newID := ints[2*len(groups) : 2*len(groups)+nEnv]
+	atomBuf := ints[3*len(groups):]
 	for id, e := range order {
 		newID[e] = id
 	}
@@ -140,17 +147,32 @@ func (p *Predictor) predict(m *mol) *Spectrum {
 		env.Breakdown = r.terms
 		env.Reasons = r.reasons
 	}
-	for i := range groups {
-		gr := &groups[i]
-		env := &sp.Environments[gr.env]
-		env.H += gr.h
-		if n := len(env.Atoms); n == 0 || env.Atoms[n-1] != gr.atom {
-			env.Atoms = append(env.Atoms, gr.atom)
+	// Atoms of each environment, carved from one backing array.
+	off := 0
+	for id := range sp.Environments {
+		env := &sp.Environments[id]
+		start := off
+		for i := range groups {
+			gr := &groups[i]
+			if gr.env != id {
+				continue
+			}
+			env.H += gr.h
+			if off == start || atomBuf[off-1] != gr.atom {
+				atomBuf[off] = gr.atom
+				off++
+			}
 		}
+		env.Atoms = atomBuf[start:off:off]
 	}
 	for id := range sp.Environments {
 		env := &sp.Environments[id]
-		sort.Ints(env.Atoms)
+		a0 := env.Atoms
+		for i := 1; i < len(a0); i++ {
+			for j := i; j > 0 && a0[j] < a0[j-1]; j-- {
+				a0[j], a0[j-1] = a0[j-1], a0[j]
+			}
+		}
 		rep := &groups[reps[order[id]]]
 		a := g.Atoms[rep.atom]
 		if a.Element == molecule.C && a.HCount == 2 && rep.split == 0 && m.multi[rep.atom] == 0 && !m.arom[rep.atom] {
@@ -187,14 +209,20 @@ func (p *Predictor) predict(m *mol) *Spectrum {
 			env.Sigma += 0.5
 		}
 	}
-	broad := make([]bool, nEnv)
+	var broadBuf [24]bool
+	broad := broadBuf[:0]
+	if nEnv > len(broadBuf) {
+		broad = make([]bool, nEnv)
+	} else {
+		broad = broadBuf[:nEnv]
+	}
 	for id, e := range order {
 		broad[id] = res[e].broad
 		if res[e].broad && !res[e].exch {
 			sp.Environments[id].Multiplicity = "br s"
 		}
 	}
-	p.couple(m, groups, reps, order, sp, broad)
+	p.couple(m, w, groups, reps, order, sp, broad)
 	return sp
 }
 
@@ -212,9 +240,8 @@ func intList(a []int) string {
 // makeGroups lists the H groups of the molecule, splitting =CH2 and amide
 // NH2 hydrogens that are not equivalent and marking amide N-substituent
 // sides.
-func (p *Predictor) makeGroups(m *mol) []hgroup {
+func (p *Predictor) makeGroups(m *mol, groups []hgroup) []hgroup {
 	g := m.g
-	groups := make([]hgroup, 0, len(g.Atoms)+2)
 	for i, a := range g.Atoms {
 		if a.HCount == 0 {
 			continue

@@ -179,10 +179,10 @@ func (p *Predictor) singleBondJ(m *mol, A, B *hgroup, bi int, out []jterm) []jte
 			cis, trans := ringVicinal(size)
 			if B.h == 2 {
 				return append(out,
-					jterm{j: round1(trans), n: 1, label: "ring vicinal trans (" + itoa(size) + "-ring)", atom: b},
-					jterm{j: round1(cis), n: 1, label: "ring vicinal cis (" + itoa(size) + "-ring)", atom: b})
+					jterm{j: round1(trans), n: 1, label: ringTransLabel[size], atom: b},
+					jterm{j: round1(cis), n: 1, label: ringCisLabel[size], atom: b})
 			}
-			return append(out, jterm{j: round1((cis + trans) / 2), n: B.h, label: "ring vicinal, cis/trans not fixed (" + itoa(size) + "-ring)", atom: b})
+			return append(out, jterm{j: round1((cis + trans) / 2), n: B.h, label: ringEitherLabel[size], atom: b})
 		}
 		return append(out, jterm{j: jVicinal, n: B.h, label: "vicinal sp3", atom: b})
 	case ha == 2 && hb == 2:
@@ -196,6 +196,13 @@ func (p *Predictor) singleBondJ(m *mol, A, B *hgroup, bi int, out []jterm) []jte
 		return append(out, jterm{j: jAllylic3, n: B.h, label: "vicinal =CH–CH", atom: b})
 	}
 }
+
+var (
+	ringCisLabel    = [7]string{3: "ring vicinal cis (3-ring)", 4: "ring vicinal cis (4-ring)", 5: "ring vicinal cis (5-ring)", 6: "ring vicinal cis (6-ring)"}
+	ringTransLabel  = [7]string{3: "ring vicinal trans (3-ring)", 4: "ring vicinal trans (4-ring)", 5: "ring vicinal trans (5-ring)", 6: "ring vicinal trans (6-ring)"}
+	ringEitherLabel = [7]string{3: "ring vicinal, cis/trans not fixed (3-ring)", 4: "ring vicinal, cis/trans not fixed (4-ring)", 5: "ring vicinal, cis/trans not fixed (5-ring)", 6: "ring vicinal, cis/trans not fixed (6-ring)"}
+	alkeneRingLabel = [8]string{3: "alkene cis (3-ring)", 4: "alkene cis (4-ring)", 5: "alkene cis (5-ring)", 6: "alkene cis (6-ring)", 7: "alkene cis (7-ring)"}
+)
 
 func round1(v float64) float64 { return math.Round(v*10) / 10 }
 
@@ -218,7 +225,7 @@ func (p *Predictor) alkeneJ(m *mol, A, B *hgroup, bi int) jterm {
 	cis := max(jAlkeneCis-2.0*float64(neg), 4)
 	trans := jAlkeneTrans - 1.5*float64(neg)
 	if ring := int(m.ringBond[bi]); ring > 0 && ring <= 7 {
-		return jterm{j: alkeneRingCis(ring), n: 1, label: "alkene cis (" + itoa(ring) + "-ring)", atom: b}
+		return jterm{j: alkeneRingCis(ring), n: 1, label: alkeneRingLabel[ring], atom: b}
 	}
 	// Split =CH2 halves know their geometry.
 	if A.split == 1 {
@@ -239,7 +246,7 @@ func (p *Predictor) alkeneJ(m *mol, A, B *hgroup, bi int) jterm {
 	// 1,2-disubstituted alkene: E/Z not fixed by the constitution; we
 	// report the mean of cis and trans so that either observed value is
 	// within ~3 Hz.
-	return jterm{j: round1((cis + trans) / 2), n: 1, label: "alkene 3J, E/Z not fixed (cis ~" + ftoa1(cis) + ", trans ~" + ftoa1(trans) + ")", atom: b}
+	return jterm{j: round1((cis + trans) / 2), n: 1, label: "alkene 3J, E/Z not fixed (mean of cis and trans)", atom: b}
 }
 
 func ftoa1(v float64) string { return strconv.FormatFloat(v, 'f', 1, 64) }
@@ -426,10 +433,11 @@ func (p *Predictor) heteroJ(m *mol, A *hgroup, out []jterm) []jterm {
 }
 
 // couple fills Couplings, J and Multiplicity of every environment.
-func (p *Predictor) couple(m *mol, groups []hgroup, reps, order []int, sp *Spectrum, broad []bool) {
+func (p *Predictor) couple(m *mol, w *work, groups []hgroup, reps, order []int, sp *Spectrum, broad []bool) {
 	envs := sp.Environments
 	lw := p.opts.LineWidthHz
-	var buf []jterm
+	buf := w.jbuf[:0]
+	defer func() { w.jbuf = buf[:0] }()
 	for id := range envs {
 		e := &envs[id]
 		if e.Exchangeable || broad[id] {

@@ -3,6 +3,7 @@ package predict
 import (
 	"errors"
 	"fmt"
+	"sync"
 
 	"shiftrank/molecule"
 )
@@ -33,6 +34,10 @@ const (
 // is safe for concurrent use by multiple goroutines.
 type Predictor struct {
 	opts Options
+	// work reuses scratch space across calls (a molecule.Canonicalizer
+	// and the per-molecule arrays are not safe for concurrent use; the
+	// pool is).
+	work sync.Pool
 }
 
 // New returns a Predictor. Zero or negative MHz or LineWidthHz take the
@@ -44,7 +49,9 @@ func New(opts Options) *Predictor {
 	if !(opts.LineWidthHz > 0) {
 		opts.LineWidthHz = DefaultLineWidthHz
 	}
-	return &Predictor{opts: opts}
+	p := &Predictor{opts: opts}
+	p.work.New = func() any { return new(work) }
+	return p
 }
 
 // Options returns the Predictor's options with defaults applied.
@@ -180,8 +187,11 @@ func (p *Predictor) Predict(g *molecule.Graph) (*Spectrum, error) {
 	if err := checkGraph(g); err != nil {
 		return nil, err
 	}
-	m := analyse(g)
-	return p.predict(m), nil
+	w := p.work.Get().(*work)
+	m := w.analyse(g)
+	sp := p.predict(m, w)
+	p.work.Put(w)
+	return sp, nil
 }
 
 func checkGraph(g *molecule.Graph) error {

@@ -371,6 +371,35 @@ function loadExample() {
   $("formula").focus();
 }
 
+// fillForm puts a job's request (the service's echo of it) back in the form.
+function fillForm(req) {
+  clearErrors();
+  $("formula").value = req.formula || "";
+  $("mhz").value = req.mhz ? String(req.mhz) : "400";
+  if (req.solvent) {
+    const sel = $("solvent");
+    if (![...sel.options].some((o) => o.value === req.solvent)) sel.append(new Option(req.solvent, req.solvent));
+    sel.value = req.solvent;
+  }
+  $("reference").value = req.reference || "";
+  if (typeof req.peaks === "string") $("peaks-text").value = req.peaks;
+  else if (Array.isArray(req.peaks)) {
+    $("peaks-text").value = formatPeaks(req.peaks.map((p) => ({
+      shift: Array.isArray(p.range) ? `${Math.max(...p.range)}–${Math.min(...p.range)}` : String(p.shift ?? ""),
+      mult: p.multiplicity || "", j: (p.j || []).join(", "), integral: p.integral ? String(p.integral) : "",
+    })));
+  }
+  const o = req.options || {};
+  $("top-k").value = String(o.top_k || 10);
+  $("filter").value = o.filter || "plausible";
+  $("require").value = (o.require || []).join("\n");
+  $("forbid").value = (o.forbid || []).join("\n");
+  $("keep-solvent").checked = !!o.keep_solvent_peaks;
+  updateDBE();
+  syncRowsFromText();
+  $("formula").focus();
+}
+
 function clearForm() {
   $("submit-form").reset();
   rows = [{ shift: "", mult: "", j: "", integral: "" }];
@@ -452,7 +481,7 @@ function showJobState(job) {
   const parts = [
     ["generated", fmt.format(gen)],
     ["scored", fmt.format(scored)],
-    ["estimated total", total > 0 ? `${done ? "" : "≈ "}${fmt.format(total)}` : "not known yet"],
+    ["estimated total", total > 0 ? `${done ? "" : "≈ "}${fmt.format(total)}` : st === "queued" || st === "running" ? "not known yet" : "not known"],
   ];
   for (const [k, v] of parts) {
     const span = document.createElement("span");
@@ -464,9 +493,14 @@ function showJobState(job) {
     $("job-counts").append(span);
   }
   $("job-elapsed").textContent = elapsedText(job);
+  $("resubmit").hidden = !(req && req.formula);
+  $("resubmit").onclick = () => { go("/"); fillForm(req); };
   const active = st === "queued" || st === "running";
   $("cancel-job").hidden = !active;
-  $("job-error").textContent = job.error ? `The job stopped: ${job.error}` : "";
+  const errEl = $("job-error");
+  errEl.classList.toggle("quiet-note", st === "cancelled");
+  errEl.textContent = st === "cancelled" ? "This job was cancelled, so it has no ranking. Submit the unknown again to rank it."
+    : job.error ? `The job stopped: ${job.error}` : "";
 }
 
 function showJob(id) {
