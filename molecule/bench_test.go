@@ -58,6 +58,17 @@ func BenchmarkCanonicalizerKey(b *testing.B) {
 	}
 }
 
+func BenchmarkCanonicalizerAppendKey(b *testing.B) {
+	for _, m := range benchMolecules {
+		g := MustParseSMILES(m.smiles)
+		b.Run(m.name, func(b *testing.B) {
+			var c Canonicalizer
+			var buf []byte
+			loop(b, func() { buf = c.AppendKey(buf[:0], g) })
+		})
+	}
+}
+
 func BenchmarkCanonicalize(b *testing.B) {
 	for _, m := range benchMolecules {
 		g := MustParseSMILES(m.smiles)

@@ -50,14 +50,12 @@ type Canonicalizer struct {
 	bondOrd  []uint8
 	inv0     []int32 // initial invariant index per vertex (sorted rank)
 
-	// per search depth
-	labs  [][]int32 // position -> vertex
-	invs  [][]int32 // vertex -> position
-	cells [][]int32 // position -> start position of its cell
-	clens [][]int32 // cell start position -> cell length (valid at starts)
-	cellV [][]int32 // vertices of the target cell
-	expl  [][]int32 // explored children
-	orbs  [][]int32 // orbit representatives under the stabiliser
+	// Per search depth d, seven arrays of n int32 in one flat slice (see
+	// lvl): position->vertex, vertex->position, position->cell start, cell
+	// start->cell length, target-cell vertices, explored children, orbit
+	// representatives under the stabiliser.
+	lv    []int32
+	ncell []int // number of cells per depth
 	path  []int32
 
 	haveFirst bool
@@ -68,8 +66,8 @@ type Canonicalizer struct {
 	firstCert []uint64
 	bestCert  []uint64
 	cert      []uint64
-	gens      [][]int32
-	genPool   [][]int32
+	gens      []int32 // automorphisms found, n entries each
+	ngen      int
 
 	// refinement scratch
 	queue    []int32
@@ -80,12 +78,35 @@ type Canonicalizer struct {
 	tcells   []int32
 	tmp      []int32
 	keyed    []vertexKey
+	packed   []uint64
 	key      []byte
 }
 
 type vertexKey struct {
 	k [7]int
 	v int32
+}
+
+const (
+	lvLab = iota
+	lvInv
+	lvCell
+	lvLen
+	lvCellV
+	lvExpl
+	lvOrb
+	lvArrays
+)
+
+// lvl returns array k of depth d.
+func (c *Canonicalizer) lvl(d, k int) []int32 {
+	o := (d*lvArrays + k) * c.n
+	return c.lv[o : o+c.n : o+c.n]
+}
+
+// gen returns automorphism k.
+func (c *Canonicalizer) gen(k int) []int32 {
+	return c.gens[k*c.n : (k+1)*c.n : (k+1)*c.n]
 }
 
 // Canonicalize is like the package-level Canonicalize, reusing c's memory.
@@ -107,6 +128,41 @@ func (c *Canonicalizer) Key(g *Graph) string {
 	c.search(g)
 	c.key = c.appendKey(c.key[:0])
 	return string(c.key)
+}
+
+// AppendKey appends the canonical certificate of g (see Canon.Key) to dst
+// and returns the extended slice; with a reused dst it does not allocate.
+// string(AppendKey(...)) equals Key(g); a map lookup m[string(b)] does not
+// copy b.
+func (c *Canonicalizer) AppendKey(dst []byte, g *Graph) []byte {
+	c.search(g)
+	return c.appendKey(dst)
+}
+
+// Orbits computes the automorphism orbits of g (see Canon.Orbits) into dst,
+// which is grown as needed, and returns it.
+func (c *Canonicalizer) Orbits(dst []int, g *Graph) []int {
+	c.search(g)
+	if cap(dst) < c.n {
+		dst = make([]int, c.n)
+	}
+	dst = dst[:c.n]
+	c.orbitsInto(dst)
+	return dst
+}
+
+// Labels computes the canonical labelling of g (see Canon.Labels) into
+// dst, which is grown as needed, and returns it.
+func (c *Canonicalizer) Labels(dst []int, g *Graph) []int {
+	c.search(g)
+	if cap(dst) < c.n {
+		dst = make([]int, c.n)
+	}
+	dst = dst[:c.n]
+	for p, v := range c.bestLab[:c.n] {
+		dst[v] = p
+	}
+	return dst
 }
 
 func (c *Canonicalizer) appendKey(b []byte) []byte {
@@ -131,7 +187,8 @@ func (c *Canonicalizer) orbitsInto(out []int) {
 	for i := 0; i < n; i++ {
 		uf = append(uf, int32(i))
 	}
-	for _, gamma := range c.gens {
+	for k := 0; k < c.ngen; k++ {
+		gamma := c.gen(k)
 		for v := 0; v < n; v++ {
 			ufUnion(uf, int32(v), gamma[v])
 		}
@@ -218,26 +275,19 @@ func grow32(s []int32, n int) []int32 {
 func (c *Canonicalizer) search(g *Graph) {
 	c.load(g)
 	n := c.n
-	for len(c.labs) < n+1 {
-		c.labs = append(c.labs, nil)
-		c.invs = append(c.invs, nil)
-		c.cells = append(c.cells, nil)
-		c.clens = append(c.clens, nil)
-		c.cellV = append(c.cellV, nil)
-		c.expl = append(c.expl, nil)
-		c.orbs = append(c.orbs, nil)
+	if need := (n + 1) * lvArrays * n; cap(c.lv) < need {
+		c.lv = make([]int32, need)
+	} else {
+		c.lv = c.lv[:need]
 	}
-	for d := 0; d <= n; d++ {
-		c.labs[d] = grow32(c.labs[d], n)
-		c.invs[d] = grow32(c.invs[d], n)
-		c.cells[d] = grow32(c.cells[d], n)
-		c.clens[d] = grow32(c.clens[d], n)
+	if cap(c.ncell) < n+1 {
+		c.ncell = make([]int, n+1)
 	}
+	c.ncell = c.ncell[:n+1]
 	c.path = grow32(c.path, n+1)
 	c.firstLab = grow32(c.firstLab, n)
 	c.bestLab = grow32(c.bestLab, n)
-	c.genPool = append(c.genPool, c.gens...)
-	c.gens = c.gens[:0]
+	c.ngen = 0
 	c.haveFirst = false
 	c.firstCert = c.firstCert[:0]
 	c.bestCert = c.bestCert[:0]
@@ -248,49 +298,14 @@ func (c *Canonicalizer) search(g *Graph) {
 	// Initial partition: cells of equal cheap invariants, in invariant
 	// order (degree first, so that rank 0 is a terminal atom when there is
 	// one, which gives natural-looking canonical SMILES).
-	c.keyed = c.keyed[:0]
-	for v := 0; v < n; v++ {
-		var k vertexKey
-		k.v = int32(v)
-		k.k[0] = int(c.adjStart[v+1] - c.adjStart[v])
-		k.k[1] = int(c.elem[v])
-		k.k[2] = c.hc[v]
-		k.k[3] = c.chg[v]
-		for j := c.adjStart[v]; j < c.adjStart[v+1]; j++ {
-			switch c.adjOrd[j] {
-			case uint8(Double):
-				k.k[4]++
-			case uint8(Triple):
-				k.k[5]++
-			case uint8(Aromatic):
-				k.k[6]++
-			}
-		}
-		c.keyed = append(c.keyed, k)
+	lab, inv, cs, cl := c.lvl(0, lvLab), c.lvl(0, lvInv), c.lvl(0, lvCell), c.lvl(0, lvLen)
+	if !c.packedPartition(lab, inv, cs, cl) {
+		c.keyedPartition(lab, inv, cs, cl)
 	}
-	slices.SortFunc(c.keyed, func(a, b vertexKey) int {
-		for i := range a.k {
-			if a.k[i] != b.k[i] {
-				if a.k[i] < b.k[i] {
-					return -1
-				}
-				return 1
-			}
-		}
-		return int(a.v - b.v)
-	})
-	lab, inv, cs, cl := c.labs[0], c.invs[0], c.cells[0], c.clens[0]
-	start := 0
-	for p, k := range c.keyed {
-		if p > 0 && k.k != c.keyed[p-1].k {
-			cl[start] = int32(p - start)
-			start = p
-		}
-		lab[p] = k.v
-		inv[k.v] = int32(p)
-		cs[p] = int32(start)
+	c.ncell[0] = 0
+	for s := 0; s < n; s += int(cl[s]) {
+		c.ncell[0]++
 	}
-	cl[start] = int32(n - start)
 	if cap(c.inQueue) < n {
 		c.inQueue = make([]bool, n)
 		c.cellMark = make([]bool, n)
@@ -308,6 +323,93 @@ func (c *Canonicalizer) search(g *Graph) {
 	c.node(0)
 }
 
+// vertexInvariant returns the cheap invariants of vertex v used for the
+// initial partition: degree, element, hydrogens, charge, and the numbers
+// of double, triple and aromatic bonds.
+func (c *Canonicalizer) vertexInvariant(v int) [7]int {
+	var k [7]int
+	k[0] = int(c.adjStart[v+1] - c.adjStart[v])
+	k[1] = int(c.elem[v])
+	k[2] = c.hc[v]
+	k[3] = c.chg[v]
+	for j := c.adjStart[v]; j < c.adjStart[v+1]; j++ {
+		switch c.adjOrd[j] {
+		case uint8(Double):
+			k[4]++
+		case uint8(Triple):
+			k[5]++
+		case uint8(Aromatic):
+			k[6]++
+		}
+	}
+	return k
+}
+
+// packedPartition builds the initial partition with the invariants packed
+// into 4-bit fields of one integer (the common case) and reports false if
+// some invariant does not fit.
+func (c *Canonicalizer) packedPartition(lab, inv, cs, cl []int32) bool {
+	n := c.n
+	c.packed = c.packed[:0]
+	for v := 0; v < n; v++ {
+		k := c.vertexInvariant(v)
+		k[3] += 8
+		var key uint64
+		for _, f := range k {
+			if f < 0 || f > 15 {
+				return false
+			}
+			key = key<<4 | uint64(f)
+		}
+		c.packed = append(c.packed, key<<32|uint64(v))
+	}
+	slices.Sort(c.packed)
+	start := 0
+	for p, x := range c.packed {
+		if p > 0 && x>>32 != c.packed[p-1]>>32 {
+			cl[start] = int32(p - start)
+			start = p
+		}
+		v := int32(uint32(x))
+		lab[p] = v
+		inv[v] = int32(p)
+		cs[p] = int32(start)
+	}
+	cl[start] = int32(n - start)
+	return true
+}
+
+// keyedPartition is packedPartition for unusual invariants.
+func (c *Canonicalizer) keyedPartition(lab, inv, cs, cl []int32) {
+	n := c.n
+	c.keyed = c.keyed[:0]
+	for v := 0; v < n; v++ {
+		c.keyed = append(c.keyed, vertexKey{c.vertexInvariant(v), int32(v)})
+	}
+	slices.SortFunc(c.keyed, func(a, b vertexKey) int {
+		for i := range a.k {
+			if a.k[i] != b.k[i] {
+				if a.k[i] < b.k[i] {
+					return -1
+				}
+				return 1
+			}
+		}
+		return int(a.v - b.v)
+	})
+	start := 0
+	for p, k := range c.keyed {
+		if p > 0 && k.k != c.keyed[p-1].k {
+			cl[start] = int32(p - start)
+			start = p
+		}
+		lab[p] = k.v
+		inv[k.v] = int32(p)
+		cs[p] = int32(start)
+	}
+	cl[start] = int32(n - start)
+}
+
 // refine makes the partition at depth d equitable: afterwards vertices of
 // one cell have the same number of neighbours in every cell by every bond
 // order. c.queue holds the cells to split by (all cells initially, the new
@@ -317,11 +419,18 @@ func (c *Canonicalizer) search(g *Graph) {
 // never on vertex numbers. Parts of a cell not waiting in the queue are
 // queued except the (first) largest, as in Hopcroft's algorithm.
 func (c *Canonicalizer) refine(d int) {
-	lab, inv, cs, cl := c.labs[d], c.invs[d], c.cells[d], c.clens[d]
+	lab, inv, cs, cl := c.lvl(d, lvLab), c.lvl(d, lvInv), c.lvl(d, lvCell), c.lvl(d, lvLen)
 	cnt := c.cnt
 	for head := 0; head < len(c.queue); head++ {
 		w := c.queue[head]
 		c.inQueue[w] = false
+		if c.ncell[d] == c.n {
+			// Discrete: nothing left to split.
+			for _, q := range c.queue[head+1:] {
+				c.inQueue[q] = false
+			}
+			break
+		}
 		touched := c.touched[:0]
 		for p := w; p < w+cl[w]; p++ {
 			v := lab[p]
@@ -344,7 +453,7 @@ func (c *Canonicalizer) refine(d int) {
 		slices.Sort(tc)
 		for _, s := range tc {
 			c.cellMark[s] = false
-			c.splitByCount(lab, inv, cs, cl, s)
+			c.ncell[d] += c.splitByCount(lab, inv, cs, cl, s)
 		}
 		for _, u := range touched {
 			cnt[u] = 0
@@ -354,8 +463,9 @@ func (c *Canonicalizer) refine(d int) {
 	c.queue = c.queue[:0]
 }
 
-// splitByCount splits cell s by c.cnt and queues the new parts.
-func (c *Canonicalizer) splitByCount(lab, inv, cs, cl []int32, s int32) {
+// splitByCount splits cell s by c.cnt, queues the new parts and returns
+// the number of cells added.
+func (c *Canonicalizer) splitByCount(lab, inv, cs, cl []int32, s int32) int {
 	e := s + cl[s]
 	cell := lab[s:e]
 	cnt := c.cnt
@@ -375,7 +485,7 @@ func (c *Canonicalizer) splitByCount(lab, inv, cs, cl []int32, s int32) {
 		cell[j+1] = x
 	}
 	if same {
-		return
+		return 0
 	}
 	wasQueued := c.inQueue[s]
 	// Find the first largest part when the cell was not queued.
@@ -392,17 +502,20 @@ func (c *Canonicalizer) splitByCount(lab, inv, cs, cl []int32, s int32) {
 		}
 	}
 	start := s
+	added := 0
 	for p := s; p < e; p++ {
 		if p > s && cnt[lab[p]] != cnt[lab[p-1]] {
 			cl[start] = p - start
 			c.pushPart(start, s, wasQueued, largest)
 			start = p
+			added++
 		}
 		cs[p] = start
 		inv[lab[p]] = p
 	}
 	cl[start] = e - start
 	c.pushPart(start, s, wasQueued, largest)
+	return added
 }
 
 func (c *Canonicalizer) pushPart(start, s int32, wasQueued bool, largest int32) {
@@ -423,7 +536,7 @@ func (c *Canonicalizer) pushPart(start, s int32, wasQueued bool, largest int32) 
 // s = -1 if the partition is discrete.
 func (c *Canonicalizer) targetCell(d int) (s, e int) {
 	n := c.n
-	cl := c.clens[d]
+	cl := c.lvl(d, lvLen)
 	bs, bl := -1, 0
 	for p := 0; p < n; p += int(cl[p]) {
 		if l := int(cl[p]); l > 1 && (bs < 0 || l < bl) {
@@ -447,18 +560,17 @@ func (c *Canonicalizer) node(d int) int {
 		return c.leaf(d)
 	}
 	n := c.n
-	cell := append(c.cellV[d][:0], c.labs[d][s:e]...)
+	cell := append(c.lvl(d, lvCellV)[:0], c.lvl(d, lvLab)[s:e]...)
 	slices.Sort(cell)
-	c.cellV[d] = cell
-	expl := c.expl[d][:0]
+	expl := c.lvl(d, lvExpl)[:0]
 	orbGens := -1
 	for _, w := range cell {
-		if len(c.gens) > 0 && len(expl) > 0 {
-			if orbGens != len(c.gens) {
+		if c.ngen > 0 && len(expl) > 0 {
+			if orbGens != c.ngen {
 				c.stabOrbits(d)
-				orbGens = len(c.gens)
+				orbGens = c.ngen
 			}
-			orb := c.orbs[d]
+			orb := c.lvl(d, lvOrb)
 			skip := false
 			for _, u := range expl {
 				if orb[u] == orb[w] {
@@ -471,12 +583,11 @@ func (c *Canonicalizer) node(d int) int {
 			}
 		}
 		expl = append(expl, w)
-		c.expl[d] = expl
 		c.path[d] = w
-		copy(c.labs[d+1][:n], c.labs[d][:n])
-		copy(c.invs[d+1][:n], c.invs[d][:n])
-		copy(c.cells[d+1][:n], c.cells[d][:n])
-		copy(c.clens[d+1][:n], c.clens[d][:n])
+		// Child partition: copy the first four arrays of depth d.
+		o := d * lvArrays * n
+		copy(c.lv[o+lvArrays*n:o+lvArrays*n+4*n], c.lv[o:o+4*n])
+		c.ncell[d+1] = c.ncell[d] + 1
 		c.individualize(d+1, w)
 		c.refine(d + 1)
 		if r := c.node(d + 1); r < d {
@@ -490,11 +601,12 @@ func (c *Canonicalizer) node(d int) int {
 // automorphisms found so far that fix the individualised vertices path[:d].
 func (c *Canonicalizer) stabOrbits(d int) {
 	n := c.n
-	orb := grow32(c.orbs[d], n)
+	orb := c.lvl(d, lvOrb)
 	for i := range orb {
 		orb[i] = int32(i)
 	}
-	for _, gamma := range c.gens {
+	for k := 0; k < c.ngen; k++ {
+		gamma := c.gen(k)
 		fixes := true
 		for _, v := range c.path[:d] {
 			if gamma[v] != v {
@@ -512,12 +624,11 @@ func (c *Canonicalizer) stabOrbits(d int) {
 	for v := 0; v < n; v++ {
 		orb[v] = ufFind(orb, int32(v))
 	}
-	c.orbs[d] = orb
 }
 
 // individualize splits w off the front of its cell at depth d.
 func (c *Canonicalizer) individualize(d int, w int32) {
-	lab, inv, cs, cl := c.labs[d], c.invs[d], c.cells[d], c.clens[d]
+	lab, inv, cs, cl := c.lvl(d, lvLab), c.lvl(d, lvInv), c.lvl(d, lvCell), c.lvl(d, lvLen)
 	p := inv[w]
 	s := cs[p]
 	e := s + cl[s]
@@ -536,7 +647,7 @@ func (c *Canonicalizer) individualize(d int, w int32) {
 // leaf handles a discrete partition at depth d.
 func (c *Canonicalizer) leaf(d int) int {
 	n := c.n
-	lab, inv := c.labs[d], c.invs[d]
+	lab, inv := c.lvl(d, lvLab), c.lvl(d, lvInv)
 	cert := c.cert[:0]
 	for i := range c.bondA {
 		a, b := uint64(inv[c.bondA[i]]), uint64(inv[c.bondB[i]])
@@ -575,16 +686,19 @@ func (c *Canonicalizer) leaf(d int) int {
 
 // addGen records the automorphism mapping leaf from to leaf to.
 func (c *Canonicalizer) addGen(from, to []int32) {
-	var gamma []int32
-	if k := len(c.genPool); k > 0 {
-		gamma = c.genPool[k-1]
-		c.genPool = c.genPool[:k-1]
+	n := c.n
+	if need := (c.ngen + 1) * n; len(c.gens) < need {
+		if cap(c.gens) >= need {
+			c.gens = c.gens[:need]
+		} else {
+			c.gens = append(c.gens[:cap(c.gens)], make([]int32, need-cap(c.gens))...)
+		}
 	}
-	gamma = grow32(gamma, c.n)
-	for p := 0; p < c.n; p++ {
+	c.ngen++
+	gamma := c.gen(c.ngen - 1)
+	for p := 0; p < n; p++ {
 		gamma[from[p]] = to[p]
 	}
-	c.gens = append(c.gens, gamma)
 }
 
 func commonPrefix(a, b []int32) int {

@@ -2,6 +2,7 @@ package molecule
 
 import (
 	"math/rand/v2"
+	"slices"
 	"testing"
 )
 
@@ -250,4 +251,26 @@ func groupOrder(g *Graph) int {
 		return total
 	}
 	return rec(0)
+}
+
+func TestCanonicalizerMethodsAgree(t *testing.T) {
+	var c Canonicalizer
+	var buf []byte
+	for _, s := range rdkitCrossCheckSMILES {
+		g := MustParseSMILES(s)
+		want := Canonicalize(g)
+		if got := c.Key(g); got != want.Key {
+			t.Errorf("%s: Canonicalizer.Key differs from Canonicalize", s)
+		}
+		buf = c.AppendKey(buf[:0], g)
+		if string(buf) != want.Key {
+			t.Errorf("%s: AppendKey differs", s)
+		}
+		if got := c.Orbits(nil, g); !slices.Equal(got, want.Orbits) {
+			t.Errorf("%s: Orbits %v, want %v", s, got, want.Orbits)
+		}
+		if got := c.Labels(nil, g); !slices.Equal(got, want.Labels) {
+			t.Errorf("%s: Labels %v, want %v", s, got, want.Labels)
+		}
+	}
 }
