@@ -34,24 +34,28 @@ const (
 // counts for a formula with hTotal hydrogens. pl should already be
 // without solvent peaks (see ExcludeFlagged).
 //
-// The scale is a least-squares fit: for each total T from hTotal down to
-// hTotal−4 (exchangeable hydrogens may not be observed) the integrals are
-// scaled to sum to T, rounded to whole numbers of at least 1 H per peak
-// with the same sum, and the scale refitted by least squares to those
-// whole numbers; the T with the smallest rms misfit (plus a small penalty
-// per unobserved hydrogen) wins. implied[i] is the integral of peak i
-// times that scale: fractional hydrogens, 0 for a peak without an
-// integral.
+// The scale is a least-squares fit. Peaks without an integral are set
+// aside, each holding at least 1 H; peaks whose scaled integral stays
+// below 0.4 H are minor (impurities, satellites) and do not constrain
+// the fit. For each total T of the integrated peaks, from the hydrogens
+// available down to four fewer (exchangeable OH, NH and COOH hydrogens are
+// often not observed), the integrals are rounded to whole numbers of at
+// least 1 H per peak summing to T and the scale is refitted by least
+// squares to those whole numbers; the T with the smallest rms misfit plus
+// a penalty of 0.08 H per unobserved hydrogen wins. When the integrals are
+// already whole numbers their own total is preferred. implied[i] is the
+// integral of peak i times the fitted scale (fractional hydrogens; 0 for a
+// peak without an integral).
 //
-// Warnings (readable sentences) report a total below hTotal ("integrals
-// sum to 9.0 H of 10: one exchangeable H not observed?"), a poor fit,
-// minor peaks (impurities?), and peaks without integrals. If no peak has
-// an integral, implied is all zeros with a warning.
+// Warnings are readable sentences: a total below hTotal ("integrals sum
+// to 5.0 H of 6: one exchangeable H not observed?"), the hydrogens left to
+// peaks without an integral, a poor fit (rms above 0.15 H), and minor
+// peaks. If no peak has an integral, implied is all zeros with a warning.
 //
-// It returns a *PeakError when the formula cannot hold the peaks: more
-// peaks of at least about 1 H than hTotal (the error names the first peak
-// in excess, with its Pos and Text from the original input; Input is
-// empty), or hTotal < 1.
+// It returns a *PeakError (Field "integral") when the formula cannot hold
+// the peaks: more peaks of at least about 1 H than hTotal. The error names
+// the first peak in excess with its Pos and Text from the original input
+// (Input is empty). hTotal < 1 is an error too.
 func ScaleIntegrals(pl PeakList, hTotal int) (implied []float64, warnings []string, err error) {
 	implied = make([]float64, len(pl.Peaks))
 	if hTotal < 1 {

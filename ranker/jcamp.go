@@ -273,7 +273,7 @@ func (jc *jcamp) pick(root *jblock) (*jblock, error) {
 		if nuc, ok := b.get(".OBSERVENUCLEUS"); ok {
 			n := strings.ToUpper(strings.TrimSpace(nuc.value))
 			n = strings.TrimPrefix(n, "^")
-			if n != "1H" {
+			if n != "1H" && n != "H1" && n != "PROTON" {
 				other = strings.TrimSpace(nuc.value)
 				continue
 			}

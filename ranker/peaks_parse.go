@@ -15,22 +15,27 @@ import (
 // The header is optional and free in order ("1H NMR (CDCl3, 400 MHz):",
 // "δH", "δ (ppm)", "500 MHz, DMSO-d6"); the field in MHz and the solvent
 // (any spelling CanonicalSolvent accepts) are taken from it. A header for
-// another nucleus ("13C NMR") is an error. Each peak is a shift in ppm or a
-// range in either order joined by a hyphen, en or em dash or minus sign
-// ("7.35–7.20"), optionally followed by a parenthesised description whose
-// comma-separated items may come in any order: a multiplicity (see
-// NormalizeMultiplicity), coupling constants ("J = 8.0, 2.1 Hz",
-// "J1 = 8.0 Hz, J2 = 2.1 Hz", "J = 7.1 and 1.2 Hz", "3J = 7.1 Hz"), an
-// integral ("2H", "2 H", "2.04H") and free assignment notes ("OCH2",
-// "H-3") kept as Label. Peaks are separated by commas, semicolons or line
-// breaks; a final "." or ";" is allowed, and a following section for
-// another nucleus or technique ("13C NMR ...", "HRMS ...") ends the list.
+// another nucleus ("13C NMR") is an error.
+//
+// Each peak is a shift in ppm, or a range in either order joined by a
+// hyphen, en or em dash or minus sign ("7.35–7.20"), optionally followed
+// by a parenthesised description whose comma-separated items may come in
+// any order: a multiplicity (see NormalizeMultiplicity); coupling
+// constants ("J = 8.0, 2.1 Hz", "J1 = 8.0 Hz, J2 = 2.1 Hz",
+// "J = 7.1 and 1.2 Hz", "3J = 7.1 Hz", also "8.0 Hz" or a bare number
+// right after a split multiplicity); an integral ("2H", "2 H", "2.04H");
+// and free assignment notes ("OCH2", "H-3", "2 × CH3", "H-2,6") kept as
+// Label. Peaks are separated by commas, semicolons or line breaks; a final
+// "." or ";" is allowed, and a following section for another nucleus or
+// technique ("13C NMR ...", "HRMS ...") ends the list.
 //
 // Errors are *PeakError naming the token and its byte position: malformed
-// numbers, a shift outside MinShift..MaxShift, an unknown multiplicity
-// code, a negative or zero integral, J on a singlet, a J outside 0 to MaxJ
+// numbers, a decimal comma ("4,12"), a shift outside MinShift..MaxShift,
+// an unknown multiplicity code, a negative or zero integral, a bare
+// number where an integral belongs, J on a singlet, a J outside 0 to MaxJ
 // Hz, unbalanced parentheses, no peaks at all, or input longer than
-// MaxPeakInput bytes or with more than MaxPeaks peaks.
+// MaxPeakInput bytes or with more than MaxPeaks peaks or MaxJValues J
+// values on one peak.
 func ParsePeaks(s string) (PeakList, error) {
 	var pl PeakList
 	p := &journal{in: s}
@@ -551,6 +556,10 @@ func (p *journal) peak() (Peak, error) {
 	if a < MinShift || a > MaxShift {
 		return pk, p.errAt(start, tokA, "shift", "shift outside -1 to 16 ppm")
 	}
+	if p.i+1 < len(p.in) && p.in[p.i] == ',' && p.in[p.i+1] >= '0' && p.in[p.i+1] <= '9' && !strings.Contains(tokA, ".") {
+		// "4,12": a decimal comma would silently give two peaks.
+		return pk, p.errAt(start, peakWordAt(p.in, start)+p.in[p.i:p.i+2], "shift", "decimal comma: write the shift with a point")
+	}
 	b := a
 	save := p.i
 	p.skipSpace()
@@ -605,7 +614,9 @@ func (p *journal) peak() (Peak, error) {
 func (p *journal) describe(pk *Peak, from, to int) error {
 	lastJ := false
 	jPos, jTok := -1, ""
-	brOnly := false // the multiplicity so far is a bare "br"
+	brOnly := false    // the multiplicity so far is a bare "br"
+	lastLabel := false // the previous item was an assignment note
+	lastMult := false  // the previous item was a split multiplicity
 	var labels []string
 	for _, it := range splitPeakItems(p.in, from, to) {
 		text := it.text
@@ -628,36 +639,55 @@ func (p *journal) describe(pk *Peak, from, to int) error {
 			lastJ = true
 			continue
 		}
-		if lastJ && numberAt(text, 0) && !isIntegral(text) {
+		afterMult := lastMult
+		lastMult = false
+		if (lastJ || afterMult || strings.Contains(strings.ToLower(text), "hz")) && isJList(text) {
+			// "J = 8.0, 2.1 Hz" continued, or "8.0 Hz" (or a bare number
+			// after a split multiplicity: "dd, 8.0, 2.1 Hz") without "J =".
 			js, err := p.jValues(text, it.pos)
 			if err != nil {
 				return err
+			}
+			if jPos < 0 {
+				jPos, jTok = it.pos, text
 			}
 			pk.J = append(pk.J, js...)
 			if len(pk.J) > MaxJValues {
 				return p.errAt(it.pos, text, "j", "more than 12 J values")
 			}
+			lastJ = true
 			continue
 		}
 		lastJ = false
+		afterLabel := lastLabel
+		lastLabel = false
 		if numberAt(text, 0) {
-			if !isIntegral(text) {
-				return p.errAt(it.pos, text, "integral", "expected an integral such as 2H")
-			}
-			num := strings.TrimRightFunc(strings.TrimSuffix(text, "H"), unicode.IsSpace)
-			v, tok, end, ok := scanNumber(num, 0)
-			if !ok || end != len(num) {
-				return p.errAt(it.pos, tok, "integral", "malformed number")
-			}
+			_, tok, end, ok := scanNumber(text, 0)
 			switch {
-			case v < 0:
-				return p.errAt(it.pos, text, "integral", "negative integral")
-			case v == 0:
-				return p.errAt(it.pos, text, "integral", "integral must be positive")
-			case pk.Integral != 0:
-				return p.errAt(it.pos, text, "integral", "second integral for one peak")
+			case !ok:
+				return p.errAt(it.pos, tok, "integral", "malformed number")
+			case isIntegral(text):
+				v, _, _, _ := scanNumber(text, 0)
+				switch {
+				case v < 0:
+					return p.errAt(it.pos, text, "integral", "negative integral")
+				case v == 0:
+					return p.errAt(it.pos, text, "integral", "integral must be positive")
+				case pk.Integral != 0:
+					return p.errAt(it.pos, text, "integral", "second integral for one peak")
+				}
+				pk.Integral = v
+			case end == len(text) && afterLabel:
+				// "H-2,6": the number continues the assignment note.
+				labels = append(labels, text)
+				lastLabel = true
+			case end == len(text):
+				return p.errAt(it.pos, text, "integral", "expected an integral such as 2H")
+			default:
+				// An assignment note such as "2 × CH3" or "6-ArH".
+				labels = append(labels, text)
+				lastLabel = true
 			}
-			pk.Integral = v
 			continue
 		}
 		if code, app, ok := NormalizeMultiplicity(text); ok {
@@ -665,6 +695,7 @@ func (p *journal) describe(pk *Peak, from, to int) error {
 			case pk.Multiplicity == "":
 				pk.Multiplicity, pk.Apparent = code, app
 				brOnly = isBareBroad(text)
+				lastMult = !isSinglet(code)
 			case brOnly:
 				// "(br, s)": the broad flag came first.
 				base, _ := SplitMultiplicity(code)
@@ -681,6 +712,7 @@ func (p *journal) describe(pk *Peak, from, to int) error {
 			return p.errAt(it.pos, text, "multiplicity", "unknown multiplicity")
 		}
 		labels = append(labels, text)
+		lastLabel = true
 	}
 	pk.Label = strings.Join(labels, ", ")
 	if len(pk.J) > 0 && isSinglet(pk.Multiplicity) {
@@ -707,6 +739,26 @@ func looksLikeCode(s string) bool {
 		}
 	}
 	return true
+}
+
+// isJList reports whether s is a list of coupling constants without a
+// "J =" label: numbers joined by spaces, "and", "&" or "/", each
+// optionally followed by "Hz".
+func isJList(s string) bool {
+	n := 0
+	for _, w := range strings.Fields(strings.NewReplacer("/", " ", "&", " ").Replace(s)) {
+		lw := strings.ToLower(w)
+		if lw == "hz" || lw == "and" {
+			continue
+		}
+		lw = strings.TrimSuffix(lw, "hz")
+		_, _, end, ok := scanNumber(lw, 0)
+		if !ok || end != len(lw) {
+			return false
+		}
+		n++
+	}
+	return n > 0
 }
 
 // isIntegral reports whether s reads "2H", "2 H", "2.04H".

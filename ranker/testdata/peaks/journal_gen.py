@@ -78,6 +78,12 @@ ok("following HRMS ends the list", "δ 2.05 (s, 3H). HRMS (ESI) m/z calcd for C4
 ok("ppm after shift", "δ 2.05 ppm (s, 3H)", peaks=[P(2.05, m="s", i=3)])
 ok("non-breaking and thin spaces", "δ\u00a04.12\u2009(q, J\u00a0=\u00a07.1\u00a0Hz, 2H)", peaks=[P(4.12, m="q", j=[7.1], i=2)])
 
+ok("labels with digits and commas", "δ 7.10 (d, J = 8.5 Hz, 2H, H-2,6), 1.20 (s, 6H, 2 × CH3), 6.80 (d, J = 8.5 Hz, 3-H)",
+   peaks=[P(7.10, m="d", j=[8.5], i=2, label="H-2, 6"), P(1.20, m="s", i=6, label="2 × CH3"), P(6.80, m="d", j=[8.5], label="3-H")])
+ok("J without J =", "δ 7.80 (dd, 8.0, 2.1 Hz, 1H), 1.26 (t, 7.1 Hz, 3H)", peaks=[P(7.80, m="dd", j=[8.0, 2.1], i=1), P(1.26, m="t", j=[7.1], i=3)])
+
+bad("decimal comma", "δ 4,12 (q, 2H)", "4,1", "shift")
+bad("malformed integral", "δ 4.12 (q, 2.0.4H)", "2.0.4H", "integral")
 bad("unknown multiplicity", "1H NMR (400 MHz, CDCl3) δ 4.12 (x, 2H)", "x", "multiplicity")
 bad("unknown multiplicity word", "δ 4.12 (qx, J = 7.1 Hz, 2H)", "qx", "multiplicity")
 bad("shift above 16 ppm", "δ 4.12 (q, 2H), 17.5 (s, 1H)", "17.5", "shift")
@@ -99,5 +105,6 @@ bad("two integrals", "δ 4.12 (q, 2H, 3H)", "3H", "integral")
 bad("missing comma", "δ 4.12 (q, 2H) x 2.05 (s, 3H)", "x", "")
 bad("text after the final period", "δ 4.12 (q, 2H). and more", "and", "")
 bad("field out of range", "1H NMR (4000 MHz) δ 2.05 (s)", "4000 MHz", "mhz")
-bad("bare number item", "δ 4.12 (q, 2, 2H)", "2", "integral", occurrence=2)
+bad("bare number item", "δ 4.12 (q, 2H, 2)", "2", "integral", occurrence=3)
+bad("bare number after a singlet", "δ 4.12 (s, 3)", "3", "integral")
 print(json.dumps(cases, ensure_ascii=False, indent=1))
