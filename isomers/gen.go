@@ -149,6 +149,8 @@ type searcher struct {
 	covered float64 // weight of finished subtrees (see Stats.Fraction)
 	cut     [MaxAtoms]bool
 	res     canonResult
+	distA   [MaxAtoms]int8
+	distB   [MaxAtoms]int8
 }
 
 func newSearcher(p *plan) *searcher {
@@ -474,6 +476,9 @@ func coarseKey(m *mol, x int) uint32 {
 // the orbit of the canonical deletion vertex.
 func (s *searcher) accept() bool {
 	m := &s.m
+	if m.isTree() {
+		return s.acceptTree()
+	}
 	n := m.n
 	v := n - 1
 	cz := &s.cz
@@ -570,4 +575,121 @@ func (s *searcher) accept() bool {
 		}
 	}
 	return s.res.orbit[bm] == s.res.orbit[v]
+}
+
+// acceptTree is accept for trees, where the new atom is a leaf and the
+// eligible vertices are exactly the leaves. The deletion vertex is chosen
+// by the key (coarse key, neighbour tuple, eccentricity), which is cheap to
+// compare and separates most leaves before any refinement; in a tree the
+// cells of the equitable partition are the automorphism orbits (colour
+// refinement identifies vertex- and edge-coloured trees), so no search is
+// needed.
+func (s *searcher) acceptTree() bool {
+	m := &s.m
+	n := m.n
+	v := n - 1
+	cv := coarseKey(m, v)
+	for x := 0; x < n-1; x++ {
+		// only leaves can have a larger coarse key than the leaf v
+		if coarseKey(m, x) > cv {
+			return false
+		}
+	}
+	cz := &s.cz
+	// A leaf's neighbour hash is a function of its one neighbour; compare
+	// the packed (degree, colour, bond-order sum, bond order) tuple of that
+	// neighbour instead, which orders the same way for the tie test below
+	// (equal tuples give equal hashes).
+	u := int(m.nb[v][0])
+	tv := leafTuple(m, v)
+	tie := false
+	for x := 0; x < n-1; x++ {
+		if m.deg[x] != 1 || coarseKey(m, x) != cv {
+			continue
+		}
+		tx := leafTuple(m, x)
+		if tx > tv {
+			return false
+		}
+		// leaves on v's own neighbour with v's bond order are v's images
+		// under a transposition, hence in v's orbit
+		if tx == tv && int(m.nb[x][0]) != u {
+			tie = true
+		}
+	}
+	if !tie {
+		return true
+	}
+	// eccentricities from the two ends of a diameter
+	a := s.bfs(v, &s.distA)
+	b := s.bfs(a, &s.distA)
+	s.bfs(b, &s.distB)
+	ecc := func(x int) uint64 { return uint64(max(s.distA[x], s.distB[x])) }
+	ev := ecc(v)
+	tie = false
+	for x := 0; x < n-1; x++ {
+		if m.deg[x] != 1 || coarseKey(m, x) != cv || leafTuple(m, x) != tv || int(m.nb[x][0]) == u {
+			continue
+		}
+		if ex := ecc(x); ex > ev {
+			return false
+		} else if ex == ev {
+			tie = true
+		}
+	}
+	if !tie {
+		return true
+	}
+	for x := 0; x < n; x++ {
+		var t uint64
+		if m.deg[x] == 1 {
+			t = uint64(leafTuple(m, x))
+		} else {
+			t = cz.vertexKey(x) & (1<<32 - 1)
+		}
+		cz.key[x] = uint64(coarseKey(m, x))<<40 | t<<8 | ecc(x)
+	}
+	var p partition
+	cz.initPartition(&p)
+	// leaves have the largest keys, so the last cell holds the deletion
+	// vertex's orbit
+	last := 0
+	for st := 0; st < n; st = int(p.end[st]) {
+		last = st
+	}
+	return int(p.cellOf[v]) == last
+}
+
+// leafTuple packs the neighbour of leaf x: degree, colour, bond-order
+// sum, and the bond order to x.
+func leafTuple(m *mol, x int) uint32 {
+	u := m.nb[x][0]
+	return uint32(m.deg[u])<<18 | uint32(m.col[u])<<10 | uint32(m.bsum[u])<<2 | uint32(m.bo[x][0])
+}
+
+// bfs fills dist with distances from src and returns a farthest vertex.
+func (s *searcher) bfs(src int, dist *[MaxAtoms]int8) int {
+	m := &s.m
+	for i := 0; i < m.n; i++ {
+		dist[i] = -1
+	}
+	var q [MaxAtoms]uint8
+	q[0] = uint8(src)
+	dist[src] = 0
+	h, t := 0, 1
+	far := src
+	for h < t {
+		x := int(q[h])
+		h++
+		far = x
+		for k := 0; k < int(m.deg[x]); k++ {
+			u := m.nb[x][k]
+			if dist[u] < 0 {
+				dist[u] = dist[x] + 1
+				q[t] = u
+				t++
+			}
+		}
+	}
+	return far
 }
