@@ -80,6 +80,12 @@ type Canonicalizer struct {
 	keyed    []vertexKey
 	packed   []uint64
 	key      []byte
+
+	// SMILES writing
+	w        smilesWriter
+	rank     []int32
+	atomArom []bool
+	out      []byte
 }
 
 type vertexKey struct {

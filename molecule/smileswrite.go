@@ -1,10 +1,5 @@
 package molecule
 
-import (
-	"slices"
-	"strings"
-)
-
 // SMILES writes g as a Kekulé SMILES string: a depth-first walk from atom 0
 // visiting neighbours in increasing atom index, so a graph read by
 // ParseSMILES from a string in that form is written back the same way.
@@ -16,17 +11,16 @@ import (
 // are written ':'.
 func (g *Graph) SMILES() string {
 	n := len(g.Atoms)
-	rank := make([]int, n)
+	rank := make([]int32, n)
 	for i := range rank {
-		rank[i] = i
+		rank[i] = int32(i)
 	}
-	orders := make([]Order, len(g.Bonds))
+	orders := make([]uint8, len(g.Bonds))
 	for i, b := range g.Bonds {
-		orders[i] = b.Order
+		orders[i] = uint8(b.Order)
 	}
 	var w smilesWriter
-	s, _ := w.write(g, orders, nil, rank)
-	return s
+	return string(w.write(nil, g, orders, nil, rank, false))
 }
 
 // CanonicalSMILES returns one SMILES string per compound: atoms are
@@ -34,12 +28,12 @@ func (g *Graph) SMILES() string {
 // systems are written lowercase with implicit aromatic bonds (c1ccccc1,
 // c1ccncc1, c1cc[nH]c1), so Kekulé structures that differ only by shifted
 // double bonds give the same string; a single bond between two aromatic
-// atoms is written '-' (biphenyl: c1ccc(-c2ccccc2)cc1). ParseSMILES reads
+// atoms is written '-' (biphenyl: c1ccc(cc1)-c1ccccc1). ParseSMILES reads
 // the result back (kekulising it) to an isomorphic graph, and writing that
-// again gives the same string.
+// again gives the same string. For many calls, use a Canonicalizer.
 func CanonicalSMILES(g *Graph) string {
-	s, _ := CanonicalSMILESOrder(g)
-	return s
+	var c Canonicalizer
+	return string(c.AppendCanonicalSMILES(nil, g))
 }
 
 // CanonicalSMILESOrder is CanonicalSMILES that also returns the atom order
@@ -51,134 +45,190 @@ func CanonicalSMILESOrder(g *Graph) (string, []int) {
 }
 
 // CanonicalSMILES is like the package-level CanonicalSMILESOrder, reusing
-// c's memory.
+// c's memory. The returned slice is owned by the caller.
 func (c *Canonicalizer) CanonicalSMILES(g *Graph) (string, []int) {
 	c.search(g)
-	n := c.n
-	rank := make([]int, n)
-	for p, v := range c.bestLab[:n] {
-		rank[v] = p
+	b := c.writeCanonical(g, true)
+	order := make([]int, len(c.w.order))
+	for i, v := range c.w.order {
+		order[i] = int(v)
 	}
-	orders := make([]Order, len(g.Bonds))
-	atomArom := make([]bool, n)
-	for i := range g.Bonds {
-		orders[i] = Order(c.bondOrd[i])
-		if orders[i] == Aromatic {
-			atomArom[g.Bonds[i].A] = true
-			atomArom[g.Bonds[i].B] = true
-		}
-	}
-	var w smilesWriter
-	return w.write(g, orders, atomArom, rank)
+	return string(b), order
 }
 
+// AppendCanonicalSMILES appends CanonicalSMILES(g) to dst and returns the
+// extended slice, reusing c's memory.
+func (c *Canonicalizer) AppendCanonicalSMILES(dst []byte, g *Graph) []byte {
+	c.search(g)
+	return append(dst, c.writeCanonical(g, false)...)
+}
+
+func (c *Canonicalizer) writeCanonical(g *Graph, wantOrder bool) []byte {
+	n := c.n
+	c.rank = grow32(c.rank, n)
+	for p, v := range c.bestLab[:n] {
+		c.rank[v] = int32(p)
+	}
+	c.atomArom = resizeBools(c.atomArom, n)
+	for i := range g.Bonds {
+		if Order(c.bondOrd[i]) == Aromatic {
+			c.atomArom[g.Bonds[i].A] = true
+			c.atomArom[g.Bonds[i].B] = true
+		}
+	}
+	c.out = c.w.write(c.out[:0], g, c.bondOrd, c.atomArom, c.rank, wantOrder)
+	return c.out
+}
+
+// smilesWriter writes a depth-first SMILES walk; its buffers are reused.
 type smilesWriter struct {
 	g        *Graph
-	orders   []Order
-	arom     []bool
-	rank     []int
-	visited  []bool
+	orders   []uint8 // per bond, Aromatic for aromatic bonds
+	arom     []bool  // per atom: write lowercase (nil: none)
+	rank     []int32 // visiting priority per atom
+	nbStart  []int32 // neighbours of each atom sorted by rank (CSR)
+	nbAtom   []int32
+	nbBond   []int32
+	visit    []int32 // visiting order per atom, -1 if not visited
+	parent   []int32 // bond to the parent in the walk, -1 for roots
 	bondKind []uint8 // 0 unclassified, 1 tree, 2 ring closure
-	children [][]int // tree bonds to children, in visiting order
-	closeAt  [][]int // ring-closure bonds whose second end is this atom
-	openAt   [][]int // ring-closure bonds whose first end is this atom
-	digit    []int   // per bond: ring-closure number in use
-	free     []bool  // ring numbers in use
-	order    []int
-	b        strings.Builder
+	digit    []int8  // per bond: ring-closure number in use
+	inUse    [100]bool
+	byRank   []int32
+	order    []int32
+	wantOrd  bool
+	b        []byte
 }
 
-func (w *smilesWriter) write(g *Graph, orders []Order, arom []bool, rank []int) (string, []int) {
-	n := len(g.Atoms)
-	w.g, w.orders, w.arom, w.rank = g, orders, arom, rank
-	w.visited = make([]bool, n)
-	w.bondKind = make([]uint8, len(g.Bonds))
-	w.children = make([][]int, n)
-	w.closeAt = make([][]int, n)
-	w.openAt = make([][]int, n)
-	w.digit = make([]int, len(g.Bonds))
-	w.free = make([]bool, 100)
-	byRank := make([]int, n)
-	for v := range byRank {
-		byRank[v] = v
+func (w *smilesWriter) write(dst []byte, g *Graph, orders []uint8, arom []bool, rank []int32, wantOrder bool) []byte {
+	n, m := len(g.Atoms), len(g.Bonds)
+	w.g, w.orders, w.arom, w.rank, w.wantOrd = g, orders, arom, rank, wantOrder
+	w.b = dst
+	w.order = w.order[:0]
+	w.inUse = [100]bool{}
+	// Neighbours sorted by rank.
+	w.nbStart = grow32(w.nbStart, n+1)
+	w.nbAtom = w.nbAtom[:0]
+	w.nbBond = w.nbBond[:0]
+	for v := 0; v < n; v++ {
+		w.nbStart[v] = int32(len(w.nbAtom))
+		s := len(w.nbAtom)
+		for _, nb := range g.Neighbors(v) {
+			w.nbAtom = append(w.nbAtom, int32(nb.Atom))
+			w.nbBond = append(w.nbBond, int32(nb.Bond))
+			for k := len(w.nbAtom) - 1; k > s && rank[w.nbAtom[k]] < rank[w.nbAtom[k-1]]; k-- {
+				w.nbAtom[k], w.nbAtom[k-1] = w.nbAtom[k-1], w.nbAtom[k]
+				w.nbBond[k], w.nbBond[k-1] = w.nbBond[k-1], w.nbBond[k]
+			}
+		}
 	}
-	slices.SortFunc(byRank, func(a, b int) int { return rank[a] - rank[b] })
+	w.nbStart[n] = int32(len(w.nbAtom))
+	w.visit = grow32(w.visit, n)
+	w.parent = grow32(w.parent, n)
+	for v := 0; v < n; v++ {
+		w.visit[v], w.parent[v] = -1, -1
+	}
+	if cap(w.bondKind) < m {
+		w.bondKind = make([]uint8, m)
+		w.digit = make([]int8, m)
+	}
+	w.bondKind = w.bondKind[:m]
+	w.digit = w.digit[:m]
+	clear(w.bondKind)
+	w.byRank = grow32(w.byRank, n)
+	for v := 0; v < n; v++ {
+		w.byRank[rank[v]] = int32(v)
+	}
+	t := int32(0)
 	first := true
-	for _, s := range byRank {
-		if w.visited[s] {
+	for _, s := range w.byRank {
+		if w.visit[s] >= 0 {
 			continue
 		}
-		w.classify(s, -1)
+		t = w.classify(s, t)
 		if !first {
-			w.b.WriteByte('.')
+			w.b = append(w.b, '.')
 		}
 		first = false
 		w.emit(s, -1)
 	}
-	return w.b.String(), w.order
+	return w.b
 }
 
-// sortedNeighbors returns v's neighbours ordered by rank.
-func (w *smilesWriter) sortedNeighbors(v int) []Neighbor {
-	nbs := append([]Neighbor(nil), w.g.Neighbors(v)...)
-	slices.SortFunc(nbs, func(a, b Neighbor) int { return w.rank[a.Atom] - w.rank[b.Atom] })
-	return nbs
+// classify walks depth-first from s (recursively: the depth is at most
+// the atom count), sorting bonds into tree bonds and ring closures, and
+// returns the next visiting number.
+func (w *smilesWriter) classify(s, t int32) int32 {
+	w.visit[s] = t
+	return w.classifyFrom(s, t+1)
 }
 
-// classify walks depth-first from v, sorting bonds into tree bonds and
-// ring closures.
-func (w *smilesWriter) classify(v, parentBond int) {
-	w.visited[v] = true
-	for _, nb := range w.sortedNeighbors(v) {
-		if nb.Bond == parentBond || w.bondKind[nb.Bond] != 0 {
+func (w *smilesWriter) classifyFrom(v, t int32) int32 {
+	for k := w.nbStart[v]; k < w.nbStart[v+1]; k++ {
+		u, bi := w.nbAtom[k], w.nbBond[k]
+		if bi == w.parent[v] || w.bondKind[bi] != 0 {
 			continue
 		}
-		if w.visited[nb.Atom] {
-			// Back edge: nb.Atom is an ancestor, written earlier.
-			w.bondKind[nb.Bond] = 2
-			w.openAt[nb.Atom] = append(w.openAt[nb.Atom], nb.Bond)
-			w.closeAt[v] = append(w.closeAt[v], nb.Bond)
+		if w.visit[u] >= 0 {
+			w.bondKind[bi] = 2 // back edge to an ancestor
 			continue
 		}
-		w.bondKind[nb.Bond] = 1
-		w.children[v] = append(w.children[v], nb.Bond)
-		w.classify(nb.Atom, nb.Bond)
+		w.bondKind[bi] = 1
+		w.parent[u] = bi
+		w.visit[u] = t
+		t++
+		t = w.classifyFrom(u, t)
 	}
+	return t
 }
 
-func (w *smilesWriter) emit(v, fromBond int) {
+func (w *smilesWriter) emit(v, fromBond int32) {
 	if fromBond >= 0 {
 		w.bondSymbol(fromBond)
 	}
-	w.order = append(w.order, v)
-	w.atom(v)
-	// Ring closures ending here first, freeing their numbers, then those
-	// opening here, in the order their partners are reached.
-	for _, bi := range w.closeAt[v] {
-		w.bondSymbol(bi)
-		w.ringNumber(w.digit[bi])
-		w.free[w.digit[bi]] = false
+	if w.wantOrd {
+		w.order = append(w.order, v)
 	}
-	opens := w.openAt[v]
-	slices.SortFunc(opens, func(a, b int) int {
-		return w.rank[w.g.Bonds[a].Other(v)] - w.rank[w.g.Bonds[b].Other(v)]
-	})
-	for _, bi := range opens {
-		d := 1
-		for d < 99 && w.free[d] {
-			d++
+	w.atom(int(v))
+	lo, hi := w.nbStart[v], w.nbStart[v+1]
+	// Ring closures ending here first (partners visited earlier), freeing
+	// their numbers, then those opening here, in rank order of partners.
+	for k := lo; k < hi; k++ {
+		u, bi := w.nbAtom[k], w.nbBond[k]
+		if w.bondKind[bi] == 2 && w.visit[u] < w.visit[v] {
+			w.bondSymbol(bi)
+			w.ringNumber(int(w.digit[bi]))
+			w.inUse[w.digit[bi]] = false
 		}
-		w.free[d] = true
-		w.digit[bi] = d
-		w.ringNumber(d)
 	}
-	ch := w.children[v]
-	for i, bi := range ch {
-		u := w.g.Bonds[bi].Other(v)
-		if i < len(ch)-1 {
-			w.b.WriteByte('(')
+	for k := lo; k < hi; k++ {
+		u, bi := w.nbAtom[k], w.nbBond[k]
+		if w.bondKind[bi] == 2 && w.visit[u] > w.visit[v] {
+			d := 1
+			for d < 99 && w.inUse[d] {
+				d++
+			}
+			w.inUse[d] = true
+			w.digit[bi] = int8(d)
+			w.ringNumber(d)
+		}
+	}
+	children := 0
+	for k := lo; k < hi; k++ {
+		if u := w.nbAtom[k]; w.parent[u] == w.nbBond[k] && w.bondKind[w.nbBond[k]] == 1 && w.visit[u] > w.visit[v] {
+			children++
+		}
+	}
+	for k := lo; k < hi; k++ {
+		u, bi := w.nbAtom[k], w.nbBond[k]
+		if w.parent[u] != bi || w.bondKind[bi] != 1 || w.visit[u] < w.visit[v] {
+			continue
+		}
+		children--
+		if children > 0 {
+			w.b = append(w.b, '(')
 			w.emit(u, bi)
-			w.b.WriteByte(')')
+			w.b = append(w.b, ')')
 		} else {
 			w.emit(u, bi)
 		}
@@ -187,30 +237,28 @@ func (w *smilesWriter) emit(v, fromBond int) {
 
 func (w *smilesWriter) ringNumber(d int) {
 	if d < 10 {
-		w.b.WriteByte(byte('0' + d))
+		w.b = append(w.b, byte('0'+d))
 		return
 	}
-	w.b.WriteByte('%')
-	w.b.WriteByte(byte('0' + d/10))
-	w.b.WriteByte(byte('0' + d%10))
+	w.b = append(w.b, '%', byte('0'+d/10), byte('0'+d%10))
 }
 
 func (w *smilesWriter) isArom(v int) bool { return w.arom != nil && w.arom[v] }
 
-func (w *smilesWriter) bondSymbol(bi int) {
+func (w *smilesWriter) bondSymbol(bi int32) {
 	b := w.g.Bonds[bi]
-	switch w.orders[bi] {
+	switch Order(w.orders[bi]) {
 	case Single:
 		if w.isArom(b.A) && w.isArom(b.B) {
-			w.b.WriteByte('-')
+			w.b = append(w.b, '-')
 		}
 	case Double:
-		w.b.WriteByte('=')
+		w.b = append(w.b, '=')
 	case Triple:
-		w.b.WriteByte('#')
+		w.b = append(w.b, '#')
 	case Aromatic:
 		if !(w.isArom(b.A) && w.isArom(b.B)) {
-			w.b.WriteByte(':')
+			w.b = append(w.b, ':')
 		}
 	}
 }
@@ -224,35 +272,38 @@ func organicSubset(e Element) bool {
 	return false
 }
 
+var lowerSymbol = [NumElements]string{B: "b", C: "c", N: "n", O: "o", P: "p", S: "s"}
+
 func (w *smilesWriter) atom(v int) {
 	a := w.g.Atoms[v]
-	arom := w.isArom(v) && (a.Element == B || a.Element == C || a.Element == N || a.Element == O || a.Element == P || a.Element == S)
 	sym := a.Element.Symbol()
-	if arom {
-		sym = strings.ToLower(sym)
+	arom := false
+	if w.isArom(v) && a.Element < NumElements && lowerSymbol[a.Element] != "" {
+		arom = true
+		sym = lowerSymbol[a.Element]
 	}
 	if a.Charge == 0 && organicSubset(a.Element) {
 		sum := 0
 		for _, nb := range w.g.Neighbors(v) {
-			if o := w.orders[nb.Bond]; o == Aromatic {
+			if o := Order(w.orders[nb.Bond]); o == Aromatic {
 				sum++
 			} else {
 				sum += int(o)
 			}
 		}
 		if organicHydrogens(a.Element, arom, sum) == a.HCount {
-			w.b.WriteString(sym)
+			w.b = append(w.b, sym...)
 			return
 		}
 	}
-	w.b.WriteByte('[')
-	w.b.WriteString(sym)
+	w.b = append(w.b, '[')
+	w.b = append(w.b, sym...)
 	if a.HCount > 0 {
-		w.b.WriteByte('H')
+		w.b = append(w.b, 'H')
 		if a.HCount > 1 {
-			w.b.WriteString(itoa(a.HCount))
+			w.b = append(w.b, itoa(a.HCount)...)
 		}
 	}
-	w.b.WriteString(chargeSuffix(a.Charge))
-	w.b.WriteByte(']')
+	w.b = append(w.b, chargeSuffix(a.Charge)...)
+	w.b = append(w.b, ']')
 }
