@@ -128,7 +128,7 @@ func (p *Predictor) aromaticH(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 				continue
 			}
 			var s sub
-			if nb.Order == molecule.Double {
+			if nb.Order == molecule.Double && !m.arom[y] {
 				s = subKetone // exocyclic C=O/C=N on a ring carbon
 			} else {
 				s = m.classify(x, y)

@@ -1,0 +1,215 @@
+package predict
+
+import (
+	"testing"
+
+	"shiftrank/molecule"
+)
+
+func predictSMILES(t *testing.T, p *Predictor, smi string) *Spectrum {
+	t.Helper()
+	g, err := molecule.ParseSMILES(smi)
+	if err != nil {
+		t.Fatalf("ParseSMILES(%q): %v", smi, err)
+	}
+	sp, err := p.Predict(g)
+	if err != nil {
+		t.Fatalf("Predict(%q): %v", smi, err)
+	}
+	return sp
+}
+
+// envOn returns the environments containing atom a.
+func envOn(sp *Spectrum, a int) []Environment {
+	var out []Environment
+	for _, e := range sp.Environments {
+		if containsInt(e.Atoms, a) {
+			out = append(out, e)
+		}
+	}
+	return out
+}
+
+// TestCommonPracticeRanges checks the shift regions every chemist knows
+// (common practice; e.g. Silverstein ch. 3 overview chart): alkyl H below
+// ~1.5, H on carbon bonded to O 3.3–4 (up to ~4.1 for CH–O), alkene H
+// 4.5–6.5, benzene-ring H 6.5–8, aldehyde H 9.5–10, carboxylic acid H
+// 10–12.
+func TestCommonPracticeRanges(t *testing.T) {
+	p := New(Options{})
+	cases := []struct {
+		name   string
+		smiles string
+		atom   int
+		lo, hi float64
+	}{
+		{"alkyl: propane CH3", "CCC", 0, 0.5, 1.5},
+		{"alkyl: propane CH2", "CCC", 1, 0.5, 1.5},
+		{"alkyl: 2,2-dimethylbutane CH2", "CCC(C)(C)C", 1, 0.5, 1.5},
+		{"alkyl: methylcyclohexane CH3", "CC1CCCCC1", 0, 0.5, 1.5},
+		{"alkyl: cyclohexane", "C1CCCCC1", 0, 0.5, 1.5},
+		{"H–C–O: methanol", "CO", 0, 3.3, 4.0},
+		{"H–C–O: diethyl ether CH2", "CCOCC", 1, 3.3, 4.0},
+		{"H–C–O: 1-butanol CH2O", "CCCCO", 3, 3.3, 4.0},
+		{"H–C–O: THF", "C1CCOC1", 2, 3.3, 4.0},
+		{"H–C–O: 2-propanol CH", "CC(C)O", 1, 3.3, 4.1},
+		{"H–C–O: methyl tert-butyl ether OCH3", "COC(C)(C)C", 0, 3.1, 4.0},
+		{"alkene: cyclohexene", "C1=CCCCC1", 0, 4.5, 6.5},
+		{"alkene: 2-butene", "CC=CC", 1, 4.5, 6.5},
+		{"alkene: isobutylene", "C=C(C)C", 0, 4.5, 6.5},
+		{"alkene: 1-hexene CH", "C=CCCCC", 1, 4.5, 6.5},
+		{"alkene: 1-hexene CH2", "C=CCCCC", 0, 4.5, 6.5},
+		{"benzene ring: toluene ortho", "Cc1ccccc1", 2, 6.5, 8.0},
+		{"benzene ring: chlorobenzene ortho", "Clc1ccccc1", 2, 6.5, 8.0},
+		{"benzene ring: anisole ortho", "COc1ccccc1", 3, 6.5, 8.0},
+		{"benzene ring: methyl benzoate ortho", "COC(=O)c1ccccc1", 5, 6.5, 8.1},
+		{"aldehyde: propanal", "CCC=O", 2, 9.5, 10.0},
+		{"aldehyde: benzaldehyde", "O=Cc1ccccc1", 1, 9.5, 10.1},
+		{"aldehyde: butanal", "CCCC=O", 3, 9.5, 10.0},
+		{"aldehyde: 2-methylpropanal", "CC(C)C=O", 3, 9.5, 10.0},
+		{"acid: acetic acid OH", "CC(=O)O", 3, 10, 12},
+		{"acid: benzoic acid OH", "OC(=O)c1ccccc1", 0, 10, 12},
+	}
+	for _, tc := range cases {
+		sp := predictSMILES(t, p, tc.smiles)
+		es := envOn(sp, tc.atom)
+		if len(es) == 0 {
+			t.Errorf("%s: no environment on atom %d", tc.name, tc.atom)
+			continue
+		}
+		for _, e := range es {
+			if e.Shift < tc.lo || e.Shift > tc.hi {
+				t.Errorf("%s (%s): shift %.2f outside %.1f–%.1f ppm (common practice)", tc.name, tc.smiles, e.Shift, tc.lo, tc.hi)
+			}
+		}
+	}
+}
+
+// TestTMS: tetramethylsilane is the shift reference, δ 0 (common practice).
+func TestTMS(t *testing.T) {
+	sp := predictSMILES(t, New(Options{}), "C[Si](C)(C)C")
+	if len(sp.Environments) != 1 || sp.Environments[0].H != 12 || sp.Environments[0].Multiplicity != "s" {
+		t.Fatalf("TMS: got %+v, want one 12H singlet", sp.Environments)
+	}
+	if s := sp.Environments[0].Shift; s < -0.1 || s > 0.1 {
+		t.Errorf("TMS shift %.2f, want 0.00 ± 0.10", s)
+	}
+}
+
+// TestQuartetNextToCH3AndO: a CH2 between CH3 and O is a quartet, and the
+// O–H does not split its neighbours (fast exchange); common practice.
+func TestQuartetNextToCH3AndO(t *testing.T) {
+	p := New(Options{})
+	for _, tc := range []struct {
+		smiles string
+		ch2    int
+	}{
+		{"CCO", 1}, {"CCOCC", 1}, {"CC(=O)OCC", 4}, {"O=COCC", 3}, {"CCOc1ccccc1", 1},
+	} {
+		sp := predictSMILES(t, p, tc.smiles)
+		for _, e := range envOn(sp, tc.ch2) {
+			if e.Multiplicity != "q" {
+				t.Errorf("%s: CH2 multiplicity %q (J %v), want q (common practice)", tc.smiles, e.Multiplicity, e.J)
+			}
+		}
+	}
+	sp := predictSMILES(t, p, "CO") // methanol
+	for _, e := range sp.Environments {
+		switch {
+		case e.Exchangeable && e.Multiplicity != "br s":
+			t.Errorf("methanol OH: %q, want br s", e.Multiplicity)
+		case !e.Exchangeable && e.Multiplicity != "s":
+			t.Errorf("methanol CH3: %q, want s (O–H does not split)", e.Multiplicity)
+		}
+		if e.Exchangeable && len(e.Couplings) > 0 {
+			t.Errorf("methanol OH has couplings %+v", e.Couplings)
+		}
+	}
+}
+
+// TestExchangeableRanges: exchangeable H are broad singlets with the wide
+// ranges of common practice.
+func TestExchangeableRanges(t *testing.T) {
+	p := New(Options{})
+	for _, tc := range []struct {
+		smiles string
+		atom   int
+		lo, hi float64
+	}{
+		{"CCO", 2, 0.5, 5},              // alcohol
+		{"Oc1ccccc1", 0, 4, 8},          // phenol
+		{"CC(=O)O", 3, 10, 13},          // acid
+		{"CCN", 2, 0.5, 5},              // amine
+		{"CC(=O)NC", 3, 5, 9},           // amide
+	} {
+		sp := predictSMILES(t, p, tc.smiles)
+		es := envOn(sp, tc.atom)
+		if len(es) != 1 {
+			t.Errorf("%s: %d environments on atom %d", tc.smiles, len(es), tc.atom)
+			continue
+		}
+		e := es[0]
+		if !e.Exchangeable || e.Multiplicity != "br s" {
+			t.Errorf("%s: exchangeable=%v multiplicity %q, want exchangeable br s", tc.smiles, e.Exchangeable, e.Multiplicity)
+		}
+		if e.ShiftMin != tc.lo || e.ShiftMax != tc.hi || e.Shift < tc.lo || e.Shift > tc.hi {
+			t.Errorf("%s: range %.1f–%.1f (shift %.1f), want %.1f–%.1f (common practice)", tc.smiles, e.ShiftMin, e.ShiftMax, e.Shift, tc.lo, tc.hi)
+		}
+	}
+}
+
+// TestMultiplicities checks first-order patterns beyond the plain n+1 rule
+// (common practice): merged alike J (propyl CH2 sextet), distinct J kept
+// apart (vinyl dd), para-disubstituted benzene as a pair of doublets,
+// heteronuclear 19F/31P splittings, diastereotopic and amide flags.
+func TestMultiplicities(t *testing.T) {
+	p := New(Options{})
+	for _, tc := range []struct {
+		name   string
+		smiles string
+		atom   int
+		mult   string
+	}{
+		{"propyl CH2 between CH3 and CH2: sextet", "CCCBr", 1, "sext"},
+		{"isopropyl CH: septet", "CC(C)Cl", 1, "sept"},
+		{"styrene CH: dd", "C=Cc1ccccc1", 1, "dd"},
+		{"4-chloroanisole: AA'BB' as d", "COc1ccc(Cl)cc1", 3, "d"},
+		{"fluoromethyl: d (2J H–F ~47)", "FCc1ccccc1", 1, "d"},
+		{"trimethyl phosphate: d (3J H–P ~11)", "COP(=O)(OC)OC", 0, "d"},
+		{"acetaldehyde CHO: q", "CC=O", 1, "q"},
+		{"propanal CH2: qd", "CCC=O", 1, "qd"},
+		{"terminal alkyne: t (4J propargylic)", "C#CCO", 0, "t"},
+		{"1,2,4-trisubstituted ring H between substituents: d (meta)", "Cc1ccc(Cl)c(Cl)c1", 8, "d"},
+		{"1,2,4-trisubstituted ring H ortho+meta: dd", "Cc1ccc(Cl)c(Cl)c1", 2, "dd"},
+	} {
+		sp := predictSMILES(t, p, tc.smiles)
+		es := envOn(sp, tc.atom)
+		if len(es) == 0 {
+			t.Errorf("%s: no environment on atom %d", tc.name, tc.atom)
+			continue
+		}
+		if es[0].Multiplicity != tc.mult {
+			t.Errorf("%s (%s): %q J %v, want %q", tc.name, tc.smiles, es[0].Multiplicity, es[0].J, tc.mult)
+		}
+	}
+	// 2-butanol has a stereocentre: its CH2 is diastereotopic.
+	sp := predictSMILES(t, p, "CCC(C)O")
+	if es := envOn(sp, 1); len(es) != 1 || !es[0].Diastereotopic {
+		t.Errorf("2-butanol CH2: want one diastereotopic environment, got %+v", es)
+	}
+	// Diethyl ether has none.
+	sp = predictSMILES(t, p, "CCOCC")
+	if es := envOn(sp, 1); len(es) != 1 || es[0].Diastereotopic {
+		t.Errorf("diethyl ether CH2: want not diastereotopic, got %+v", es)
+	}
+	// Methylcyclohexane ring CH2: the ring faces differ.
+	sp = predictSMILES(t, p, "CC1CCCCC1")
+	if es := envOn(sp, 2); len(es) != 1 || !es[0].Diastereotopic {
+		t.Errorf("methylcyclohexane ring CH2: want diastereotopic, got %+v", es)
+	}
+	// DMF: two N-methyl singlets (Gottlieb 1997: 2.96, 2.88).
+	sp = predictSMILES(t, p, "CN(C)C=O")
+	if a, b := envOn(sp, 0), envOn(sp, 2); len(a) != 1 || len(b) != 1 || a[0].ID == b[0].ID || a[0].Shift == b[0].Shift {
+		t.Errorf("DMF: want two different N-CH3 environments, got %+v / %+v", a, b)
+	}
+}
