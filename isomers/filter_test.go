@@ -132,3 +132,26 @@ func TestParseFilter(t *testing.T) {
 		t.Error("zero Filter must equal NoFilter()")
 	}
 }
+
+func FuzzParseFilter(f *testing.F) {
+	for _, s := range []string{"", "plausible", "none", "plausible,-no-enol", "none,+no-peroxide", " none , no-enol ", ",", "-", "+", "none,plausible", "no-such", "plausible,,", "ünï,-x"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		flt, err := ParseFilter(s)
+		if err != nil {
+			var fe *FilterError
+			if !errors.As(err, &fe) {
+				t.Fatalf("ParseFilter(%q): %T, want *FilterError", s, err)
+			}
+			if fe.Pos < 0 || fe.Pos+len(fe.Token) > len(s) || s[fe.Pos:fe.Pos+len(fe.Token)] != fe.Token {
+				t.Fatalf("ParseFilter(%q): token %q not at position %d", s, fe.Token, fe.Pos)
+			}
+			return
+		}
+		back, err := ParseFilter(flt.String())
+		if err != nil || back != flt {
+			t.Fatalf("ParseFilter(%q).String() = %q does not parse back", s, flt.String())
+		}
+	})
+}
