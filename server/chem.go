@@ -53,7 +53,7 @@ func (s *Server) handlePredict(w http.ResponseWriter, r *http.Request) {
 		s.writeError(w, r, invalidFields([]FieldError{{Field: "/smiles", Detail: perr.Error()}}))
 		return
 	}
-	s.writeJSON(w, http.StatusOK, predictOutput(req.SMILES, mhz, spec))
+	s.writeJSON(w, http.StatusOK, predictOutput(strings.TrimSpace(req.SMILES), g, mhz, spec))
 }
 
 func parseSMILESField(smi string) (*molecule.Graph, *FieldError) {

@@ -2,6 +2,7 @@ package server_test
 
 import (
 	"net/http"
+	"strings"
 	"testing"
 
 	"shiftrank/server"
@@ -67,7 +68,10 @@ func TestPredict(t *testing.T) {
 			byAtom[a] = e
 		}
 	}
-	if out.SMILES != "CCO" || len(out.Environments) != 3 || h != 6 {
+	if out.SMILES != "CCO" || out.Formula != "C2H6O" || out.CanonicalSMILES == "" || !strings.Contains(out.Caution, "authentic sample") {
+		t.Errorf("predict CCO header = %+v", out)
+	}
+	if len(out.Environments) != 3 || h != 6 {
 		t.Fatalf("predict CCO = %d environments with %d H: %s", len(out.Environments), h, r.body)
 	}
 	if e := byAtom[0]; e.H != 3 || e.Multiplicity != "t" {

@@ -18,7 +18,7 @@ func decodeJSON(w http.ResponseWriter, r *http.Request, maxBytes int64, v any) e
 	if ct := r.Header.Get("Content-Type"); ct != "" {
 		mt, _, err := mime.ParseMediaType(ct)
 		if err != nil || (mt != "application/json" && !strings.HasSuffix(mt, "+json")) {
-			return errorf(CodeUnsupportedMedia, "the request body must be application/json, not %q", ct)
+			return errorf(CodeUnsupportedMedia, "the request body must be JSON sent with Content-Type: application/json, not %q", ct)
 		}
 	}
 	body, err := io.ReadAll(http.MaxBytesReader(w, r.Body, maxBytes))

@@ -59,7 +59,7 @@ func forEachStore(t *testing.T, f func(t *testing.T, st testStore)) {
 }
 
 // quietLogger discards logs unless -v is given.
-func quietLogger(t *testing.T) *slog.Logger {
+func quietLogger(t testing.TB) *slog.Logger {
 	if testing.Verbose() {
 		return slog.New(slog.NewTextHandler(os.Stderr, &slog.HandlerOptions{Level: slog.LevelDebug}))
 	}
