@@ -136,11 +136,11 @@ func TestExchangeableRanges(t *testing.T) {
 		atom   int
 		lo, hi float64
 	}{
-		{"CCO", 2, 0.5, 5},              // alcohol
-		{"Oc1ccccc1", 0, 4, 8},          // phenol
-		{"CC(=O)O", 3, 10, 13},          // acid
-		{"CCN", 2, 0.5, 5},              // amine
-		{"CC(=O)NC", 3, 5, 9},           // amide
+		{"CCO", 2, 0.5, 5},     // alcohol
+		{"Oc1ccccc1", 0, 4, 8}, // phenol
+		{"CC(=O)O", 3, 10, 13}, // acid
+		{"CCN", 2, 0.5, 5},     // amine
+		{"CC(=O)NC", 3, 5, 9},  // amide
 	} {
 		sp := predictSMILES(t, p, tc.smiles)
 		es := envOn(sp, tc.atom)

@@ -235,12 +235,10 @@ func binom(n, k int) float64 {
 func exactLines(envs []Environment, mem []int, mhz float64) ([]Line, error) {
 	idx := make(map[int]int, len(mem)) // env -> first spin
 	var nu []float64
-	var owner []int
 	for _, e := range mem {
 		idx[e] = len(nu)
 		for k := 0; k < envs[e].H; k++ {
 			nu = append(nu, envs[e].Shift*mhz)
-			owner = append(owner, e)
 		}
 	}
 	n := len(nu)
@@ -282,9 +280,16 @@ func exactLines(envs []Environment, mem []int, mhz float64) ([]Line, error) {
 	for _, t := range tl {
 		total += t.Intensity
 	}
+	kept := 0.0
+	for _, t := range tl {
+		if t.Intensity >= 1e-6*total {
+			kept += t.Intensity
+		}
+	}
+	total = kept
 	out := make([]Line, 0, len(tl))
 	for _, t := range tl {
-		if t.Intensity < 1e-6*total {
+		if t.Intensity < 1e-6*kept {
 			continue
 		}
 		// Attribute the line to the environment whose shift is nearest.
@@ -296,7 +301,6 @@ func exactLines(envs []Environment, mem []int, mhz float64) ([]Line, error) {
 		}
 		out = append(out, Line{PPM: t.Hz / mhz, Intensity: t.Intensity * float64(n) / total, Env: best})
 	}
-	_ = owner
 	return out, nil
 }
 

@@ -111,3 +111,63 @@ func TestSpinTransitionsErrors(t *testing.T) {
 		t.Error("20 spins: want error")
 	}
 }
+
+// TestSimulateFromPrediction: simulated areas equal the H counts; a weakly
+// coupled ethyl group is first order (quartet 1:3:3:1, triplet 1:2:1).
+func TestSimulateFromPrediction(t *testing.T) {
+	p := New(Options{})
+	for _, s := range []string{"CCOC(C)=O", "C=Cc1ccccc1", "c1ccncc1", "CCCCCCCC", "CC(C)O", "COc1ccc(Cl)cc1"} {
+		g := mustParse(t, s)
+		sp, err := p.Predict(g)
+		if err != nil {
+			t.Fatal(err)
+		}
+		tr := Simulate(sp, SimOptions{MHz: 400})
+		area := 0.0
+		for _, l := range tr.Lines {
+			area += l.Intensity
+		}
+		if math.Abs(area-float64(g.HydrogenCount())) > 1e-6 {
+			t.Errorf("%s: line areas sum to %.4f, want %d", s, area, g.HydrogenCount())
+		}
+		// Numerical integral of the trace (Lorentzian tails beyond the
+		// window are lost: allow 3 %).
+		integ := 0.0
+		for i := 1; i < len(tr.PPM); i++ {
+			integ += (tr.Intensity[i] + tr.Intensity[i-1]) / 2 * (tr.PPM[i] - tr.PPM[i-1])
+		}
+		if math.Abs(integ-float64(g.HydrogenCount())) > 0.03*float64(g.HydrogenCount()) {
+			t.Errorf("%s: trace integral %.3f, want %d", s, integ, g.HydrogenCount())
+		}
+	}
+	sp, _ := p.Predict(mustParse(t, "CCOC(C)=O"))
+	tr := Simulate(sp, SimOptions{MHz: 400})
+	var q []float64
+	for _, l := range tr.Lines {
+		if l.PPM > 4.0 && l.PPM < 4.2 {
+			q = append(q, l.Intensity)
+		}
+	}
+	want := []float64{0.25, 0.75, 0.75, 0.25}
+	if len(q) != 4 {
+		t.Fatalf("ethyl acetate OCH2: %d lines, want 4 (quartet)", len(q))
+	}
+	for i := range q {
+		if math.Abs(q[i]-want[i]) > 1e-9 {
+			t.Errorf("quartet line %d: %.3f, want %.3f", i, q[i], want[i])
+		}
+	}
+}
+
+// TestSimulateLargeSpinSystem: a strongly coupled system beyond
+// MaxSpinSystem falls back to first order with a note.
+func TestSimulateLargeSpinSystem(t *testing.T) {
+	sp, err := New(Options{}).Predict(mustParse(t, "CCCCCCCCCC"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	tr := Simulate(sp, SimOptions{})
+	if len(tr.Notes) == 0 {
+		t.Errorf("decane: want a first-order fallback note, got none")
+	}
+}
