@@ -47,7 +47,8 @@ type canonizer struct {
 // vertexKeys fills c.key with an isomorphism-invariant key per vertex. The
 // top bits are (8 − degree), so the vertices with the largest key always
 // have the smallest degree; then the colour, the bond-order sum and a hash
-// of the neighbours' (degree, colour, order) multiset.
+// of the neighbours' (degree, colour, order) multiset (for a leaf, the
+// packed tuple of its one neighbour).
 func (c *canonizer) vertexKeys() {
 	for x := 0; x < c.m.n; x++ {
 		c.key[x] = c.vertexKey(x)
@@ -57,6 +58,10 @@ func (c *canonizer) vertexKeys() {
 // vertexKey returns the key of vertex x (see vertexKeys).
 func (c *canonizer) vertexKey(x int) uint64 {
 	m := c.m
+	if m.deg[x] == 1 {
+		// a leaf: the exact packed tuple of its neighbour instead of a hash
+		return uint64(coarseKey(m, x))<<40 | uint64(leafTuple(m, x))
+	}
 	var h uint64
 	for k := 0; k < int(m.deg[x]); k++ {
 		u := m.nb[x][k]

@@ -70,6 +70,7 @@ func relabel(m *mol, perm []int) *mol {
 		for k := 0; k < int(m.deg[i]); k++ {
 			r.nb[j][k] = uint8(perm[m.nb[i][k]])
 			r.bo[j][k] = m.bo[i][k]
+			r.adj[j] |= 1 << uint(perm[m.nb[i][k]])
 		}
 	}
 	return r

@@ -148,6 +148,7 @@ type searcher struct {
 	nodes   int
 	covered float64 // weight of finished subtrees (see Stats.Fraction)
 	cut     [MaxAtoms]bool
+	cutw    cutScratch
 	res     canonResult
 	distA   [MaxAtoms]int8
 	distB   [MaxAtoms]int8
@@ -483,49 +484,37 @@ func (s *searcher) accept() bool {
 	v := n - 1
 	cz := &s.cz
 	// Compare keys cheaply first: the top part (degree, colour, bond-order
-	// sum) without the neighbour hash.
+	// sum) without the neighbour hash. A vertex beats v if its key is
+	// larger and it is not a cut vertex (leaves never are).
 	cv := coarseKey(m, v)
-	greater := false
 	for x := 0; x < n-1; x++ {
-		if c := coarseKey(m, x); c > cv {
-			if m.deg[x] == 1 {
-				return false // a leaf is never a cut vertex
-			}
-			greater = true
+		if coarseKey(m, x) > cv && !m.isCut(x) {
+			return false
 		}
 	}
-	cutDone := false
-	if greater {
-		m.articulation(&s.cut)
-		cutDone = true
-		for x := 0; x < n-1; x++ {
-			if coarseKey(m, x) > cv && !s.cut[x] {
-				return false
-			}
-		}
-	}
-	// Vertices with v's coarse key have v's degree; if that is 1 they are
-	// leaves (eligible), otherwise the cut vertices among them are not.
-	needCut := m.deg[v] > 1
-	if needCut && !cutDone {
-		m.articulation(&s.cut)
-	}
-	if !needCut {
-		for x := 0; x < n; x++ {
-			s.cut[x] = false
-		}
-	}
+	// Vertices with v's coarse key have v's degree: leaves if v is one
+	// (eligible), otherwise the cut vertices among them are not eligible.
+	leafV := m.deg[v] == 1
+	u := m.nb[v][0]
 	kv := cz.vertexKey(v)
 	tie := false
+	s.cut[v] = false
 	for x := 0; x < n-1; x++ {
-		if coarseKey(m, x) == cv && !s.cut[x] {
-			kx := cz.vertexKey(x)
-			if kx > kv {
-				return false
-			}
-			if kx == kv {
-				tie = true
-			}
+		if coarseKey(m, x) != cv {
+			continue
+		}
+		s.cut[x] = !leafV && m.isCut(x)
+		if s.cut[x] {
+			continue
+		}
+		kx := cz.vertexKey(x)
+		if kx > kv {
+			return false
+		}
+		// leaves on v's own neighbour with v's key are v's images under a
+		// transposition, hence in v's orbit
+		if kx == kv && !(leafV && m.nb[x][0] == u) {
+			tie = true
 		}
 	}
 	if !tie {

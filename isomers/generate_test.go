@@ -222,6 +222,6 @@ func ExampleGenerate() {
 	// Output:
 	// CC(C)O
 	// CCCO
-	// CCOC
+	// COCC
 	// 3 true <nil>
 }

@@ -1,6 +1,10 @@
 package isomers
 
-import "shiftrank/molecule"
+import (
+	"math/bits"
+
+	"shiftrank/molecule"
+)
 
 // MaxAtoms is the largest number of heavy atoms the generator accepts.
 const MaxAtoms = 64
@@ -31,6 +35,7 @@ type mol struct {
 	bsum  [MaxAtoms]uint8
 	nb    [MaxAtoms][maxDeg]uint8
 	bo    [MaxAtoms][maxDeg]uint8
+	adj   [MaxAtoms]uint64 // neighbour sets as bit masks
 }
 
 // free returns the unused valence (the implicit H count) of atom i.
@@ -46,6 +51,7 @@ func (m *mol) push(c uint8, e molecule.Element, val int, att, ord []uint8) {
 	m.val[v] = uint8(val)
 	m.deg[v] = 0
 	m.bsum[v] = 0
+	m.adj[v] = 0
 	for k, u := range att {
 		o := ord[k]
 		m.nb[v][m.deg[v]] = u
@@ -56,6 +62,8 @@ func (m *mol) push(c uint8, e molecule.Element, val int, att, ord []uint8) {
 		m.bo[u][m.deg[u]] = o
 		m.deg[u]++
 		m.bsum[u] += o
+		m.adj[v] |= 1 << u
+		m.adj[u] |= 1 << uint(v)
 	}
 	m.edges += len(att)
 }
@@ -67,6 +75,7 @@ func (m *mol) pop() {
 		u := m.nb[v][k]
 		m.deg[u]--
 		m.bsum[u] -= m.bo[v][k]
+		m.adj[u] &^= 1 << uint(v)
 	}
 	m.edges -= int(m.deg[v])
 	m.n--
@@ -86,50 +95,81 @@ func (m *mol) order(a, b int) int {
 	return 0
 }
 
-// articulation marks the cut vertices of the connected graph m in cut.
-func (m *mol) articulation(cut *[MaxAtoms]bool) {
-	var disc, low, parent, iter [MaxAtoms]int
-	for i := 0; i < m.n; i++ {
-		cut[i] = false
-		disc[i] = -1
+// isCut reports whether removing atom x disconnects the connected graph m
+// (a flood fill over bit masks).
+func (m *mol) isCut(x int) bool {
+	if m.deg[x] < 2 {
+		return false
 	}
-	if m.n == 0 {
+	all := uint64(1)<<uint(m.n) - 1
+	if m.n == 64 {
+		all = ^uint64(0)
+	}
+	all &^= 1 << uint(x)
+	start := uint64(1) << m.nb[x][0]
+	reach, frontier := start, start
+	for frontier != 0 {
+		var next uint64
+		for f := frontier; f != 0; f &= f - 1 {
+			next |= m.adj[bits.TrailingZeros64(f)]
+		}
+		next &= all &^ reach
+		reach |= next
+		frontier = next
+	}
+	return reach != all
+}
+
+// cutScratch is the working memory of articulation, kept by the caller
+// so that nothing is zeroed per call.
+type cutScratch struct {
+	disc, low, parent, iter, stack [MaxAtoms]int8
+}
+
+// articulation marks the cut vertices of the connected graph m in cut
+// (iterative Tarjan; only the first m.n entries are touched).
+func (m *mol) articulation(cut *[MaxAtoms]bool, w *cutScratch) {
+	n := m.n
+	for i := 0; i < n; i++ {
+		cut[i] = false
+		w.disc[i] = -1
+	}
+	if n == 0 {
 		return
 	}
-	var stack [MaxAtoms]int
-	t := 0
+	var t int8
 	sp := 0
-	stack[sp] = 0
+	w.stack[sp] = 0
 	sp++
-	disc[0], low[0], parent[0], iter[0] = t, t, -1, 0
+	w.disc[0], w.low[0], w.parent[0], w.iter[0] = 0, 0, -1, 0
 	t++
 	rootChildren := 0
 	for sp > 0 {
-		v := stack[sp-1]
-		if iter[v] < int(m.deg[v]) {
-			u := int(m.nb[v][iter[v]])
-			iter[v]++
-			if disc[u] < 0 {
-				parent[u] = v
-				disc[u], low[u], iter[u] = t, t, 0
+		v := w.stack[sp-1]
+		if w.iter[v] < int8(m.deg[v]) {
+			u := int8(m.nb[v][w.iter[v]])
+			w.iter[v]++
+			if w.disc[u] < 0 {
+				w.parent[u] = v
+				w.disc[u], w.low[u], w.iter[u] = t, t, 0
 				t++
-				stack[sp] = u
+				w.stack[sp] = u
 				sp++
 				if v == 0 {
 					rootChildren++
 				}
-			} else if u != parent[v] && disc[u] < low[v] {
-				low[v] = disc[u]
+			} else if u != w.parent[v] && w.disc[u] < w.low[v] {
+				w.low[v] = w.disc[u]
 			}
 			continue
 		}
 		sp--
-		p := parent[v]
+		p := w.parent[v]
 		if p >= 0 {
-			if low[v] < low[p] {
-				low[p] = low[v]
+			if w.low[v] < w.low[p] {
+				w.low[p] = w.low[v]
 			}
-			if p != 0 && low[v] >= disc[p] {
+			if p != 0 && w.low[v] >= w.disc[p] {
 				cut[p] = true
 			}
 		}
@@ -171,6 +211,8 @@ func fromGraph(g *molecule.Graph, m *mol) bool {
 		m.bsum[b.B] += o
 		m.val[b.A] += o
 		m.val[b.B] += o
+		m.adj[b.A] |= 1 << uint(b.B)
+		m.adj[b.B] |= 1 << uint(b.A)
 		m.edges++
 	}
 	for i := 0; i < n; i++ {
