@@ -208,6 +208,9 @@ func (p *Predictor) predict(m *mol, w *work) *Spectrum {
 		if a.Charge != 0 {
 			env.Sigma += 0.5
 		}
+		if !env.Exchangeable && env.Sigma >= 0.5 {
+			sp.Notes = append(sp.Notes, "environment "+strconv.Itoa(id)+" ("+env.Kind+"): estimate outside the increment tables, σ "+ftoa1(env.Sigma)+" ppm")
+		}
 	}
 	var broadBuf [24]bool
 	broad := broadBuf[:0]

@@ -99,6 +99,11 @@ func (p *Predictor) carbonH(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 		r.reasons = append(r.reasons, "H on a carbon triply bonded to a heteroatom is outside the tables: estimate")
 	case dblO > 0:
 		p.formylH(m, c, r, ac)
+	case dblS > 0 && g.Valence(m.thioCarbonylOf(c)) > 2:
+		r.kind = "H on C=S (sulfine/sulfene, unusual)"
+		ac.add("estimate: H on a hypervalent C=S", 6.5)
+		r.sigma = 1.5
+		r.reasons = append(r.reasons, "H on carbon doubly bonded to a hypervalent sulfur is outside the tables: estimate")
 	case dblS > 0:
 		r.kind = "CH=S (thioformyl)"
 		ac.add("estimate: thioaldehyde H", 10.5)
