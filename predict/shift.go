@@ -401,12 +401,22 @@ func (p *Predictor) alkeneH(m *mol, gr *hgroup, q int, r *shiftResult, ac *acc) 
 			}
 		}
 		if gem >= 0 && dblRing > 0 && dblRing <= 7 {
+			// gem is cis to the position closing the smaller ring (≤ 7
+			// atoms with the double bond); a tie leaves it open.
+			var d [2]int
 			for k, y := range pos {
+				d[k] = -1
 				if y >= 0 {
-					if d := m.pathLen(gem, y, -1, c, q); d > 0 && d+3 <= 7 {
-						cisIdx = 1 - k // gem cis to y => H cis to the other
+					if l := m.pathLen(gem, y, -1, c, q); l > 0 && l+3 <= 7 {
+						d[k] = l
 					}
 				}
+			}
+			switch {
+			case d[0] > 0 && (d[1] < 0 || d[0] < d[1]):
+				cisIdx = 1 // gem cis to pos[0] => H cis to pos[1]
+			case d[1] > 0 && (d[0] < 0 || d[1] < d[0]):
+				cisIdx = 0
 			}
 		}
 		if cisIdx >= 0 {

@@ -42,6 +42,13 @@ func (p *Predictor) sp3(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 			ns++
 		}
 	}
+	// The ring heteroatom (if any) before the substituents are sorted.
+	ringHet, hasRingHet := sub(0), false
+	for k := 0; k < ns; k++ {
+		if subRing[k] && (!hasRingHet || subs[k] > ringHet) {
+			ringHet, hasRingHet = subs[k], true
+		}
+	}
 	r.sigma = 0.10 + 0.06*float64(ns)
 	switch h {
 	case 4:
@@ -156,7 +163,7 @@ func (p *Predictor) sp3(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 		ac.add("γ: ring C=O", 0.25)
 	}
 	if sz := m.ringAtom[c]; sz > 0 {
-		p.ringCorrection(m, c, h, int(sz), subs[:ns], subRing[:ns], r, ac)
+		p.ringCorrection(h, int(sz), ringHet, hasRingHet, r, ac)
 	}
 	if g.Atoms[c].Element != molecule.C {
 		r.sigma += 0.4
@@ -181,15 +188,8 @@ func countO(s []sub) int {
 // parent cycloalkanes (cyclopropane 0.22, cyclobutane 1.96, cyclopentane
 // 1.51, cyclohexane 1.43, cycloheptane 1.54; oxirane 2.54, thiirane 2.27,
 // aziridine 1.62, oxetane 4.73; Pretsch, from memory).
-func (p *Predictor) ringCorrection(m *mol, c, h, size int, subs []sub, inRing []bool, r *shiftResult, ac *acc) {
+func (p *Predictor) ringCorrection(h, size int, hetero sub, hasHet bool, r *shiftResult, ac *acc) {
 	var v float64
-	hetero := sub(0)
-	hasHet := false
-	for k, s := range subs {
-		if inRing[k] {
-			hetero, hasHet = s, true
-		}
-	}
 	switch size {
 	case 3:
 		v = -1.08
