@@ -96,7 +96,7 @@ func ScaleIntegrals(pl PeakList, hTotal int) (implied []float64, warnings []stri
 				next = append(next, i)
 			}
 		}
-		if len(next) == len(major) {
+		if len(next) == len(major) || len(next) == 0 {
 			break
 		}
 		major = next

@@ -87,6 +87,11 @@ func TestScaleIntegralsErrors(t *testing.T) {
 	if pe.Field != "integral" || pe.Token != "1.0 (s, 1H)" || pe.Pos != strings.Index(in, "1.0 (s, 1H)") {
 		t.Errorf("error = %+v, want field integral at the fifth peak", pe)
 	}
+	// Equal peaks far beyond the H count: still an error, never NaN.
+	many, _ := ParsePeaks("δ 5 (1H), 4 (1H), 3 (1H), 2 (1H), 1 (1H)")
+	if _, _, err := ScaleIntegrals(many, 1); err == nil {
+		t.Error("ScaleIntegrals(5 equal peaks, 1 H) gave no error")
+	}
 	if _, _, err := ScaleIntegrals(pl, 0); err == nil {
 		t.Error("ScaleIntegrals(hTotal 0) gave no error")
 	}

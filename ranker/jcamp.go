@@ -569,14 +569,14 @@ func (jc *jcamp) entry(r ldr, vars string, fields []jfield, ax axis, pos int, te
 			s := ax.ppm(x)
 			pk.setShift(s, s)
 		case 'Y', 'W':
-			if f.text == "" {
+			if f.text == "" || f.text == "?" { // "?": value not known
 				continue
 			}
 			if _, ok := jnum(f.text); !ok {
 				return pk, jc.errAt(f.pos, trimTok(f.text), r.raw, "malformed number")
 			}
 		case 'M':
-			if f.text == "" {
+			if f.text == "" || f.text == "?" {
 				continue
 			}
 			code, app, ok := NormalizeMultiplicity(f.text)

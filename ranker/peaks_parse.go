@@ -70,6 +70,10 @@ func ParsePeaks(s string) (PeakList, error) {
 		}
 		pl.Peaks = append(pl.Peaks, pk)
 		p.skipSpace()
+		if hasPrefixFold(p.in[p.i:], "ppm") && !letterAt(p.in, p.i+3) {
+			p.i += 3 // "7.26 (s) ppm"
+			p.skipSpace()
+		}
 		if p.eof() {
 			break
 		}
@@ -413,6 +417,15 @@ func headerWord(s string, i int) string {
 }
 
 func firstRune(s string) rune { r, _ := utf8.DecodeRuneInString(s); return r }
+
+// letterAt reports whether a letter starts at s[i].
+func letterAt(s string, i int) bool {
+	if i >= len(s) {
+		return false
+	}
+	r, _ := utf8.DecodeRuneInString(s[i:])
+	return unicode.IsLetter(r)
+}
 
 func hasPrefixFold(s, prefix string) bool {
 	return len(s) >= len(prefix) && strings.EqualFold(s[:len(prefix)], prefix)

@@ -75,6 +75,7 @@ ok("full-word multiplicities", "δ 7.80 (doublet of doublets, J = 8.0, 2.1 Hz, 1
 ok("AB quartet read as multiplet", "δ 4.55 (ABq, J = 12.0 Hz, 2H)", peaks=[P(4.55, m="m", j=[12.0], i=2)])
 ok("following 13C section ends the list", "1H NMR (400 MHz, CDCl3) δ 2.05 (s, 3H); 13C NMR (101 MHz, CDCl3) δ 171.1, 21.0.", 400, "CDCl3", [P(2.05, m="s", i=3)])
 ok("following HRMS ends the list", "δ 2.05 (s, 3H). HRMS (ESI) m/z calcd for C4H8O2", peaks=[P(2.05, m="s", i=3)])
+ok("ppm after the list", "δ 2.05 (s, 3H), 1.26 (t, 3H) ppm.", peaks=[P(2.05, m="s", i=3), P(1.26, m="t", i=3)])
 ok("ppm after shift", "δ 2.05 ppm (s, 3H)", peaks=[P(2.05, m="s", i=3)])
 ok("non-breaking and thin spaces", "δ\u00a04.12\u2009(q, J\u00a0=\u00a07.1\u00a0Hz, 2H)", peaks=[P(4.12, m="q", j=[7.1], i=2)])
 
