@@ -34,12 +34,13 @@ const maxSMILESAtoms = 1000
 // single bonds: shiftrank does not handle stereochemistry; @ marks are
 // ignored likewise), atom classes ([CH3:1], ignored) and aromatic atoms
 // b c n o p s, which are kekulised (an error if no Kekulé structure
-// exists).
+// exists). Explicit hydrogen atoms [H] bonded to one heavy atom are
+// folded into that atom's hydrogen count ([H]C([H])([H])O is methanol); the
+// atom numbering then counts heavy atoms only.
 //
 // Rejected with a *SMILESError naming the token and its byte position:
 // dot-disconnected input (one molecule per SMILES), elements other than
-// B C N O F Si P S Cl Br I, explicit hydrogen atoms ([H]; write the count
-// in the neighbour's bracket, [CH4]), isotopes, charges beyond ±1 (±1 only
+// B C N O F Si P S Cl Br I, isotopes ([2H]), charges beyond ±1 (±1 only
 // on B C N O P S and halogens), valences not allowed for the element and
 // charge (C(C)(C)(C)(C)C; bracket atoms are taken as written, so [CH2] and
 // [S] are accepted with open valences, but not with too many bonds),
@@ -81,6 +82,7 @@ type smilesParser struct {
 	atomLen  []int
 	bondPos  []int
 	bondSym  []byte // bond symbol written for each bond, 0 if none
+	extraH   []int  // per atom: explicit [H] atoms folded into it
 	rings    [100]ringOpen
 	fragment bool // parse as a substructure query: no valence check
 }
@@ -210,6 +212,9 @@ func (p *smilesParser) parseGraph() (*Graph, error) {
 	}
 	if len(p.g.Atoms) == 0 {
 		return nil, &SMILESError{Input: p.s, Pos: 0, Token: p.s, Msg: "no atoms"}
+	}
+	if err := p.foldHydrogens(); err != nil {
+		return nil, err
 	}
 	if p.fragment {
 		return p.g, nil
@@ -371,7 +376,20 @@ func (p *smilesParser) bracketAtom() (int, error) {
 	c := s[p.i]
 	switch {
 	case c == 'H' && (p.i+1 == end || !(s[p.i+1] >= 'a' && s[p.i+1] <= 'z')):
-		return 0, p.errAt(open, tok, "explicit hydrogen atoms are not supported (write the count in the neighbour's bracket, as in [CH4])")
+		// An explicit hydrogen atom: [H] (or [H:n]) only; it is folded
+		// into its neighbour's hydrogen count after parsing.
+		q := p.i + 1
+		if q < end && s[q] == ':' {
+			q++
+			for q < end && isDigit(s[q]) {
+				q++
+			}
+		}
+		if q != end {
+			return 0, p.errAt(open, tok, "explicit hydrogen atoms must be written [H] (no charge or hydrogen count; write [CH4] style counts instead)")
+		}
+		p.i = end + 1
+		return p.newAtom(H, 0, 0, false, true, open, tok), nil
 	case c >= 'A' && c <= 'Z':
 		j := p.i + 1
 		if j < end && s[j] >= 'a' && s[j] <= 'z' {
@@ -547,6 +565,70 @@ func organicHydrogens(e Element, arom bool, sum int) int {
 	return 0
 }
 
+// foldHydrogens removes explicit [H] atoms, each of which must have exactly
+// one single bond to a heavy atom, and counts them in p.extraH of that
+// atom; the remaining atoms keep their input order.
+func (p *smilesParser) foldHydrogens() error {
+	g := p.g
+	nH := 0
+	for _, a := range g.Atoms {
+		if a.Element == H {
+			nH++
+		}
+	}
+	if nH == 0 {
+		return nil
+	}
+	if nH == len(g.Atoms) {
+		return &SMILESError{Input: p.s, Pos: 0, Token: p.s, Msg: "no heavy (non-hydrogen) atoms"}
+	}
+	newIdx := make([]int, len(g.Atoms))
+	k := 0
+	for i, a := range g.Atoms {
+		if a.Element == H {
+			newIdx[i] = -1
+			nbs := g.Neighbors(i)
+			if len(nbs) != 1 || nbs[0].Order != Single || g.Atoms[nbs[0].Atom].Element == H {
+				return p.errAt(p.atomPos[i], p.atomLen[i], "an explicit hydrogen atom must have exactly one single bond to a heavy atom")
+			}
+			continue
+		}
+		newIdx[i] = k
+		k++
+	}
+	h := NewGraph(k)
+	extra := make([]int, k)
+	var arom, bracket []bool
+	var pos, ln []int
+	for i, a := range g.Atoms {
+		if newIdx[i] < 0 {
+			extra[newIdx[g.Neighbors(i)[0].Atom]]++
+			continue
+		}
+		h.AddAtom(a.Element, a.HCount)
+		h.Atoms[newIdx[i]].Charge = a.Charge
+		arom = append(arom, p.arom[i])
+		bracket = append(bracket, p.bracket[i])
+		pos = append(pos, p.atomPos[i])
+		ln = append(ln, p.atomLen[i])
+	}
+	var syms []byte
+	for bi, b := range g.Bonds {
+		if newIdx[b.A] < 0 || newIdx[b.B] < 0 {
+			continue
+		}
+		h.MustAddBond(newIdx[b.A], newIdx[b.B], b.Order)
+		syms = append(syms, p.bondSym[bi])
+	}
+	for i := range extra {
+		if bracket[i] {
+			h.Atoms[i].HCount += extra[i]
+		}
+	}
+	p.g, p.arom, p.bracket, p.atomPos, p.atomLen, p.bondSym, p.extraH = h, arom, bracket, pos, ln, syms, extra
+	return nil
+}
+
 // finish assigns implicit hydrogens, kekulises and checks valences.
 func (p *smilesParser) finish() error {
 	g := p.g
@@ -554,7 +636,10 @@ func (p *smilesParser) finish() error {
 		if p.bracket[i] {
 			continue
 		}
-		sum := 0
+		sum, extra := 0, 0
+		if p.extraH != nil {
+			extra = p.extraH[i]
+		}
 		for _, nb := range g.Neighbors(i) {
 			if nb.Order == Aromatic {
 				sum++
@@ -562,7 +647,8 @@ func (p *smilesParser) finish() error {
 				sum += int(nb.Order)
 			}
 		}
-		g.Atoms[i].HCount = organicHydrogens(g.Atoms[i].Element, p.arom[i], sum)
+		// Folded [H] atoms count as bonds for the implicit-hydrogen rule.
+		g.Atoms[i].HCount = organicHydrogens(g.Atoms[i].Element, p.arom[i], sum+extra) + extra
 	}
 	if bad, err := kekulize(g); err != nil {
 		if bad >= 0 {

@@ -34,6 +34,11 @@ func TestParseSMILES(t *testing.T) {
 		{"OB(O)O", "BH3O3"},
 		{"C#C", "C2H2"},
 		{"[S]", "S"},
+		{"[H]C([H])([H])O", "CH4O"},
+		{"[H]OC", "CH4O"},
+		{"[CH2]([H])O", "CH4O"},
+		{"[H]C(=O)O", "CH2O2"},
+		{"[H]c1ccccc1", "C6H6"},
 	}
 	for _, tc := range tests {
 		g, err := ParseSMILES(tc.smiles)
@@ -84,6 +89,10 @@ func TestParseSMILESErrors(t *testing.T) {
 		{"[N+2]", 0, "[N+2]"},
 		{"C:C", 1, ":"},
 		{"[se]1cccc1", 1, "se"},
+		{"[H][H]", 0, "[H][H]"},
+		{"C[H]C", 1, "[H]"},
+		{"[H+]C", 0, "[H+]"},
+		{"[H]=C", 0, "[H]"},
 	}
 	for _, tc := range tests {
 		_, err := ParseSMILES(tc.smiles)
