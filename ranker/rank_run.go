@@ -144,6 +144,10 @@ func parseFragment(field, s string) (*molecule.Fragment, error) {
 	return fr, nil
 }
 
+// solventMaxH is the implied H count from which a peak on a solvent or
+// water shift is taken to be the compound's (see preparePeaks).
+const solventMaxH = 1.5
+
 // preparePeaks checks the peaks, flags solvent signals and scales the
 // integrals of the peaks that are scored.
 func (j *job) preparePeaks() error {
@@ -168,6 +172,12 @@ func (j *job) preparePeaks() error {
 		j.peaks[i] = op
 	}
 	excluded := make([]bool, len(pl.Peaks))
+	// A solvent or water signal is small next to the compound's: a
+	// flagged peak that integrates for at least solventMaxH hydrogens of
+	// the formula when every peak is counted is taken to be the
+	// compound's (tert-butyl chloride's 9 H singlet at 1.62 ppm sits on
+	// the water signal of CDCl3).
+	allH, _, scaleErr := ScaleIntegrals(pl, j.formula.HydrogenCount())
 	for _, fl := range FlagSolvent(pl, j.solvent) {
 		k := fl.Peak
 		if k < 0 || k >= len(j.peaks) {
@@ -175,6 +185,9 @@ func (j *job) preparePeaks() error {
 		}
 		j.peaks[k].Solvent = fl.Signal.Kind + " " + fl.Signal.Name
 		switch {
+		case fl.Exclude && !j.req.KeepSolventPeaks && scaleErr == nil && k < len(allH) && allH[k] >= solventMaxH:
+			j.warnings = append(j.warnings, fmt.Sprintf("peak %d (δ %.2f) lies on the %s signal of %s in %s but integrates for %.1f H: scored as a signal of the compound",
+				k+1, pl.Peaks[k].Shift, fl.Signal.Kind, fl.Signal.Name, j.solvent, allH[k]))
 		case !fl.Exclude:
 			j.warnings = append(j.warnings, fmt.Sprintf("peak %d (δ %.2f) overlaps the %s signal of %s in %s: its integral may include it",
 				k+1, pl.Peaks[k].Shift, fl.Signal.Kind, fl.Signal.Name, j.solvent))
