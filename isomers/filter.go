@@ -2,6 +2,7 @@ package isomers
 
 import (
 	"fmt"
+	"math/bits"
 	"strings"
 
 	"shiftrank/molecule"
@@ -205,29 +206,28 @@ func (f Filter) check(o *outputBuilder, m *mol) int {
 }
 
 // ringSize returns the size of the smallest ring containing the bond a–b,
-// or 0 if the bond is in no ring.
+// or 0 if the bond is in no ring (breadth-first search over bit masks,
+// not using the bond itself).
 func (o *outputBuilder) ringSize(m *mol, a, b int) int {
-	for i := 0; i < m.n; i++ {
-		o.dist[i] = -1
-	}
-	o.dist[a] = 0
-	o.queue[0] = uint8(a)
-	h, t := 0, 1
-	for h < t {
-		v := int(o.queue[h])
-		h++
-		for k := 0; k < int(m.deg[v]); k++ {
-			u := int(m.nb[v][k])
-			if v == a && u == b || o.dist[u] >= 0 {
-				continue
+	bb := uint64(1) << uint(b)
+	reach := uint64(1) << uint(a)
+	frontier := reach
+	for d := 1; frontier != 0; d++ {
+		var next uint64
+		for f := frontier; f != 0; f &= f - 1 {
+			x := bits.TrailingZeros64(f)
+			nb := m.adj[x]
+			if x == a {
+				nb &^= bb
 			}
-			o.dist[u] = o.dist[v] + 1
-			if u == b {
-				return int(o.dist[u]) + 1
-			}
-			o.queue[t] = uint8(u)
-			t++
+			next |= nb
 		}
+		next &^= reach
+		if next&bb != 0 {
+			return d + 1
+		}
+		reach |= next
+		frontier = next
 	}
 	return 0
 }
@@ -235,28 +235,20 @@ func (o *outputBuilder) ringSize(m *mol, a, b int) int {
 // pathAvoiding returns the length of the shortest path from a to b that
 // does not pass through x, or 0 if there is none.
 func (o *outputBuilder) pathAvoiding(m *mol, a, b, x int) int {
-	for i := 0; i < m.n; i++ {
-		o.dist[i] = -1
-	}
-	o.dist[a] = 0
-	o.dist[x] = 0
-	o.queue[0] = uint8(a)
-	h, t := 0, 1
-	for h < t {
-		v := int(o.queue[h])
-		h++
-		for k := 0; k < int(m.deg[v]); k++ {
-			u := int(m.nb[v][k])
-			if o.dist[u] >= 0 {
-				continue
-			}
-			o.dist[u] = o.dist[v] + 1
-			if u == b {
-				return int(o.dist[u])
-			}
-			o.queue[t] = uint8(u)
-			t++
+	bb := uint64(1) << uint(b)
+	reach := uint64(1)<<uint(a) | uint64(1)<<uint(x)
+	frontier := uint64(1) << uint(a)
+	for d := 1; frontier != 0; d++ {
+		var next uint64
+		for f := frontier; f != 0; f &= f - 1 {
+			next |= m.adj[bits.TrailingZeros64(f)]
 		}
+		next &^= reach
+		if next&bb != 0 {
+			return d
+		}
+		reach |= next
+		frontier = next
 	}
 	return 0
 }

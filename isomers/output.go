@@ -16,9 +16,6 @@ type outputBuilder struct {
 	kc   canonizer
 	best []byte
 	own  []byte
-	// ring scratch
-	dist  [MaxAtoms]int8
-	queue [MaxAtoms]uint8
 }
 
 // graph builds the molecule graph of m in a reused Graph.

@@ -133,9 +133,18 @@ func (g *Graph) ensureAdj() {
 }
 
 // RebuildAdjacency recomputes the adjacency lists from Atoms and Bonds. Call
-// it after modifying Atoms or Bonds directly.
+// it after modifying Atoms or Bonds directly. It reuses the lists' memory,
+// so a Graph refilled in a loop (the isomer stream) does not allocate;
+// slices returned by Neighbors before the call are invalid after it.
 func (g *Graph) RebuildAdjacency() {
-	g.adj = make([][]Neighbor, len(g.Atoms))
+	if cap(g.adj) >= len(g.Atoms) {
+		g.adj = g.adj[:len(g.Atoms)]
+		for i := range g.adj {
+			g.adj[i] = g.adj[i][:0]
+		}
+	} else {
+		g.adj = make([][]Neighbor, len(g.Atoms))
+	}
 	for i, b := range g.Bonds {
 		g.adj[b.A] = append(g.adj[b.A], Neighbor{Atom: b.B, Bond: i, Order: b.Order})
 		g.adj[b.B] = append(g.adj[b.B], Neighbor{Atom: b.A, Bond: i, Order: b.Order})
