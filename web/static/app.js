@@ -919,7 +919,9 @@ function renderExplain() {
     const obsM = document.createElement("span");
     obsM.textContent = `${multText(a.peak.multiplicity, a.peak.j)} / ${multText(a.predMult, a.envs.length === 1 ? a.envs[0].j : [])}`;
     mc.append(obsM);
-    const why = [a.reason, ...a.envs.flatMap((e) => e.reasons)].filter(Boolean);
+    // The assignment's own reason is the short one; the environments'
+    // reasons go with the increments below.
+    const why = (a.reason ? [a.reason] : a.envs.flatMap((e) => e.reasons)).filter(Boolean);
     if (why.length) {
       const small = document.createElement("span");
       small.className = "why";
@@ -963,6 +965,13 @@ function renderExplain() {
         list.append(li);
       }
       cell.append(list);
+      const envWhy = a.reason ? [...new Set(a.envs.flatMap((e) => e.reasons))] : [];
+      if (envWhy.length) {
+        const w = document.createElement("p");
+        w.className = "why";
+        w.textContent = `Couplings: ${envWhy.join("; ")}.`;
+        cell.append(w);
+      }
       if (a.terms) {
         const sc = document.createElement("p");
         sc.className = "why";
@@ -981,7 +990,13 @@ function renderExplain() {
       `${p.share !== undefined ? ` — costs ${signed(p.share)} nats` : ""}`;
     ux.append(li);
   }
-  if (!c.unexplained.length) ux.append(Object.assign(document.createElement("li"), { className: "none", textContent: "none" }));
+  for (const p of excludedPeaks(c)) {
+    const li = document.createElement("li");
+    li.className = "excluded";
+    li.textContent = `δ ${fmtShift(p)} — not scored (a solvent or water signal; see the notes above)`;
+    ux.append(li);
+  }
+  if (!ux.children.length) ux.append(Object.assign(document.createElement("li"), { className: "none", textContent: "none" }));
   const uo = $("unobserved");
   uo.replaceChildren();
   for (const e of c.unobserved) {
@@ -994,6 +1009,13 @@ function renderExplain() {
   const sum = $("detail-summary");
   sum.textContent = [c.summary, ...c.notes].filter(Boolean).join(" ");
   sum.hidden = !sum.textContent;
+}
+
+// excludedPeaks lists the observed peaks a candidate neither assigns nor
+// counts as unexplained: those the service left out of the scoring.
+function excludedPeaks(c) {
+  const used = new Set([...c.assignments.map((a) => a.peak.index), ...c.unexplained.map((u) => u.index)]);
+  return review.observed.filter((p) => !used.has(p.index) && typeof p.shift === "number" && isFinite(p.shift));
 }
 
 function focusRow(i) {
@@ -1020,9 +1042,12 @@ function renderPlot() {
     else if (!o.h) o.h = a.peak.h;
   }
   const unexplainedIdx = new Set(c.unexplained.map((p) => p.index));
+  const excludedIdx = new Set(excludedPeaks(c).map((p) => p.index));
   const obsList = [];
   for (const [i, p] of byIndex) {
-    obsList[i] = { ...p, h: p.h || p.integral || 1, unexplained: unexplainedIdx.has(i), label: p.multiplicity || "" };
+    const excluded = excludedIdx.has(i);
+    obsList[i] = { ...p, h: p.h || p.integral || 1, unexplained: unexplainedIdx.has(i), excluded,
+      label: excluded ? "not scored" : p.multiplicity || "" };
   }
   for (let i = 0; i < obsList.length; i++) if (!obsList[i]) obsList[i] = { shift: NaN, index: i };
   const overlay = review.compare >= 0 ? plotEnvs(review.candidates[review.compare]) : null;

@@ -125,7 +125,7 @@ export function drawPlot(container, data) {
   const maxH = Math.max(1, ...data.observed.map((p) => p.h || 1));
   data.observed.forEach((p, i) => {
     const top = obsBase - 100 * ((p.h || 1) / maxH);
-    const cls = `obs-peak${i === data.selectedPeak ? " selected" : ""}${p.unexplained ? " unexplained" : ""}`;
+    const cls = `obs-peak${i === data.selectedPeak ? " selected" : ""}${p.unexplained ? " unexplained" : ""}${p.excluded ? " excluded" : ""}`;
     if (p.hi !== undefined && p.lo !== undefined && Math.abs(p.hi - p.lo) > 1e-6) {
       g.append(el("rect", { x: x(p.hi), y: top, width: Math.max(1, x(p.lo) - x(p.hi)), height: obsBase - top, class: `${cls} band` }));
     } else {
