@@ -1,6 +1,7 @@
 package predict
 
 import (
+	"math"
 	"strconv"
 
 	"shiftrank/molecule"
@@ -30,15 +31,24 @@ type shiftResult struct {
 	reasons              []string
 }
 
-// acc accumulates a shift and, when explaining, its breakdown.
+// acc accumulates a shift and, when explaining, its breakdown. The sum is
+// kept in integer micro-ppm so that it does not depend on the order in
+// which increments are added (which follows the atom numbering).
 type acc struct {
-	v       float64
+	u       int64 // sum in 1e-6 ppm
 	terms   []Term
 	explain bool
 }
 
+func micro(v float64) int64 { return int64(math.Round(v * 1e6)) }
+
+func (a *acc) value() float64 { return float64(a.u) / 1e6 }
+
+// raw adds an increment without a breakdown entry.
+func (a *acc) raw(v float64) { a.u += micro(v) }
+
 func (a *acc) add(name string, v float64) {
-	a.v += v
+	a.u += micro(v)
 	if a.explain {
 		a.terms = append(a.terms, Term{Term: name, PPM: round3(v)})
 	}
@@ -47,7 +57,7 @@ func (a *acc) add(name string, v float64) {
 // addSub adds an increment named prefix + the class name (the name is
 // built only when explaining).
 func (a *acc) addSub(prefix string, s sub, v float64) {
-	a.v += v
+	a.u += micro(v)
 	if a.explain {
 		a.terms = append(a.terms, Term{Term: prefix + subName[s], PPM: round3(v)})
 	}

@@ -519,8 +519,17 @@ func containsInt(s []int, x int) bool {
 }
 
 func sortCouplings(c []Coupling) {
+	less := func(a, b *Coupling) bool {
+		if a.J != b.J {
+			return a.J > b.J
+		}
+		if a.Label != b.Label {
+			return a.Label < b.Label
+		}
+		return a.N > b.N
+	}
 	for i := 1; i < len(c); i++ {
-		for j := i; j > 0 && c[j].J > c[j-1].J; j-- {
+		for j := i; j > 0 && less(&c[j], &c[j-1]); j-- {
 			c[j], c[j-1] = c[j-1], c[j]
 		}
 	}

@@ -199,8 +199,8 @@ func checkGraph(g *molecule.Graph) error {
 		if a.Element <= molecule.H || a.Element >= molecule.NumElements {
 			return &GraphError{Atom: i, Msg: fmt.Sprintf("unsupported element %v", a.Element)}
 		}
-		if a.HCount < 0 || a.HCount > 4 {
-			return &GraphError{Atom: i, Msg: fmt.Sprintf("hydrogen count %d out of range 0–4", a.HCount)}
+		if a.HCount < 0 || a.HCount > 8 {
+			return &GraphError{Atom: i, Msg: fmt.Sprintf("hydrogen count %d out of range 0–8", a.HCount)}
 		}
 	}
 	for i, b := range g.Bonds {

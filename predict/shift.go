@@ -40,7 +40,7 @@ func (p *Predictor) shiftOf(m *mol, gr *hgroup) shiftResult {
 		}
 		ac.add("amide rotamer (syn/anti to C=O)", d)
 	}
-	r.shift = ac.v
+	r.shift = ac.value()
 	r.terms = ac.terms
 	if r.half > 0 {
 		r.lo, r.hi = r.shift-r.half, r.shift+r.half
@@ -438,7 +438,7 @@ func (p *Predictor) alkeneH(m *mol, gr *hgroup, q int, r *shiftResult, ac *acc) 
 				if p.opts.Explain {
 					ac.add("Z_cis + Z_trans (mean of both configurations)", (e1+e2)/2)
 				} else {
-					ac.v += (e1 + e2) / 2
+					ac.raw((e1 + e2) / 2)
 				}
 			}
 			if d := e1 - e2; d > 0.02 || d < -0.02 {
@@ -505,26 +505,36 @@ var (
 
 // pmsAlkylRow returns the PMS row for alkyl substituent x (seen from alkene
 // carbon from) when x carries a heteroatom, carbonyl or aryl group.
+// With several such groups on x the row with the largest Z_gem is used
+// (independent of atom order).
 func (m *mol) pmsAlkylRow(from, x int) ([3]float64, bool) {
+	var best [3]float64
+	found := false
 	for _, nb := range m.g.Neighbors(x) {
 		if nb.Atom == from {
 			continue
 		}
 		s := m.classify(x, nb.Atom)
+		var row [3]float64
 		switch {
 		case s >= subOH && s <= subOX:
-			return pmsCH2O, true
+			row = pmsCH2O
 		case s >= subAmine && s <= subNArom:
-			return pmsCH2N, true
+			row = pmsCH2N
 		case s >= subF && s <= subI:
-			return pmsCH2Hal, true
+			row = pmsCH2Hal
 		case s >= subSR && s <= subSOther:
-			return pmsCH2S, true
+			row = pmsCH2S
 		case s >= subCHO && s <= subCN:
-			return pmsCH2CO, true
+			row = pmsCH2CO
 		case s == subAryl || s == subHetAryl:
-			return pmsCH2Ar, true
+			row = pmsCH2Ar
+		default:
+			continue
+		}
+		if !found || row[0] > best[0] {
+			best, found = row, true
 		}
 	}
-	return [3]float64{}, false
+	return best, found
 }

@@ -152,7 +152,7 @@ func (p *Predictor) aromaticH(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 			if p.opts.Explain {
 				ac.add([3]string{"ortho: ", "meta: ", "para: "}[d-1]+subName[s], v)
 			} else {
-				ac.v += v
+				ac.raw(v)
 			}
 		}
 	}

@@ -237,7 +237,7 @@ func (p *Predictor) ringCorrection(h, size int, hetero sub, hasHet bool, r *shif
 	if p.opts.Explain {
 		ac.add("ring ("+itoa(size)+"-membered)", v)
 	} else {
-		ac.v += v
+		ac.raw(v)
 	}
 	r.sigma += 0.05
 }

@@ -1,6 +1,10 @@
 package predict
 
-import "shiftrank/molecule"
+import (
+	"strings"
+
+	"shiftrank/molecule"
+)
 
 // sub classifies a substituent as seen from the atom it is attached to. The
 // classes are those of the increment tables (Pretsch, Bühlmann,
@@ -149,7 +153,8 @@ func (m *mol) classify(from, x int) sub {
 		if m.arom[x] {
 			return subNArom
 		}
-		best := subAmine
+		// Decide by a fixed priority, not by neighbour order.
+		var triple, nitroso, azo, imine, amide, aryl, ns, nn, no bool
 		for _, nb := range g.Neighbors(x) {
 			if nb.Atom == from {
 				continue
@@ -158,28 +163,46 @@ func (m *mol) classify(from, x int) sub {
 			ey := g.Atoms[y].Element
 			switch {
 			case nb.Order == molecule.Triple:
-				return subIsoCN
+				triple = true
 			case nb.Order == molecule.Double && ey == molecule.O:
-				return subNitroso
+				nitroso = true
 			case nb.Order == molecule.Double && ey == molecule.N:
-				return subAzo
+				azo = true
 			case nb.Order == molecule.Double:
-				return subImineN
-			}
-			switch {
+				imine = true
 			case ey == molecule.C && (m.carbonylOf(y) >= 0 || m.thioCarbonylOf(y) >= 0):
-				best = subAmideN
-			case ey == molecule.C && m.arom[y] && best == subAmine:
-				best = subNAryl
-			case (ey == molecule.S || ey == molecule.P && m.multi[y] > 0) && best == subAmine:
-				best = subNS
-			case ey == molecule.N && best == subAmine:
-				best = subNN
-			case ey == molecule.O && best == subAmine:
-				best = subNO
+				amide = true
+			case ey == molecule.C && m.arom[y]:
+				aryl = true
+			case ey == molecule.S || ey == molecule.P && m.multi[y] > 0:
+				ns = true
+			case ey == molecule.N:
+				nn = true
+			case ey == molecule.O:
+				no = true
 			}
 		}
-		return best
+		switch {
+		case triple:
+			return subIsoCN
+		case nitroso:
+			return subNitroso
+		case azo:
+			return subAzo
+		case imine:
+			return subImineN
+		case amide:
+			return subAmideN
+		case aryl:
+			return subNAryl
+		case ns:
+			return subNS
+		case nn:
+			return subNN
+		case no:
+			return subNO
+		}
+		return subAmine
 	case molecule.S:
 		dblO, other := 0, false
 		for _, nb := range g.Neighbors(x) {
@@ -273,24 +296,34 @@ func (m *mol) classifyC(from, x int) sub {
 		}
 		return subAcylOther
 	}
+	var cn, yne, imine, thio, ene bool
 	for _, nb := range g.Neighbors(x) {
 		y := nb.Atom
 		ey := g.Atoms[y].Element
 		switch {
 		case nb.Order == molecule.Triple && ey == molecule.N:
-			return subCN
+			cn = true
 		case nb.Order == molecule.Triple && ey == molecule.C:
-			return subAlkynyl
+			yne = true
 		case nb.Order == molecule.Double && ey == molecule.N:
-			return subImineC
+			imine = true
 		case nb.Order == molecule.Double && ey == molecule.S:
-			return subThioC
+			thio = true
 		case nb.Order == molecule.Double && ey == molecule.C && y != from:
-			if m.carbonylOf(y) >= 0 || m.doubleCount(y) > 1 {
-				return subAlkenyl // ketene or allene: closest class
-			}
-			return subAlkenyl
+			ene = true // also allenes and ketenes: closest class
 		}
+	}
+	switch {
+	case cn:
+		return subCN
+	case yne:
+		return subAlkynyl
+	case imine:
+		return subImineC
+	case thio:
+		return subThioC
+	case ene:
+		return subAlkenyl
 	}
 	return subCOther
 }
@@ -341,6 +374,8 @@ func (m *mol) acylOther(c, from, k int) byte {
 	if g.Atoms[c].HCount > 0 {
 		return 'H'
 	}
+	// Priority N > O > S > halogen > aryl > carbon, independent of order.
+	const prio = "NOSXAC?"
 	r := byte('?')
 	for _, nb := range g.Neighbors(c) {
 		if nb.Atom == from || nb.Atom == k {
@@ -348,19 +383,25 @@ func (m *mol) acylOther(c, from, k int) byte {
 		}
 		y := nb.Atom
 		e := g.Atoms[y].Element
+		var v byte
 		switch {
 		case e == molecule.N:
-			return 'N'
+			v = 'N'
 		case e == molecule.O:
-			r = 'O'
-		case e == molecule.S && r != 'O':
-			r = 'S'
+			v = 'O'
+		case e == molecule.S:
+			v = 'S'
 		case e.IsHalogen():
-			r = 'X'
-		case e == molecule.C && m.arom[y] && r == '?':
-			r = 'A'
-		case e == molecule.C && r == '?':
-			r = 'C'
+			v = 'X'
+		case e == molecule.C && m.arom[y]:
+			v = 'A'
+		case e == molecule.C:
+			v = 'C'
+		default:
+			continue
+		}
+		if strings.IndexByte(prio, v) < strings.IndexByte(prio, r) {
+			r = v
 		}
 	}
 	return r
