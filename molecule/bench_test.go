@@ -105,3 +105,13 @@ func BenchmarkAromaticBonds(b *testing.B) {
 		})
 	}
 }
+
+func BenchmarkFragmentMatches(b *testing.B) {
+	f := MustParseFragment("C(=O)[OH]")
+	for _, m := range benchMolecules {
+		g := MustParseSMILES(m.smiles)
+		b.Run(m.name, func(b *testing.B) {
+			loop(b, func() { _ = f.Matches(g) })
+		})
+	}
+}

@@ -274,3 +274,72 @@ func TestCanonicalizerMethodsAgree(t *testing.T) {
 		}
 	}
 }
+
+// rookGraph returns the k×k rook's graph (cells adjacent when they share a
+// row or column) on atoms of element e with no hydrogens. The 4×4 rook's
+// graph and the Shrikhande graph are both strongly regular with
+// parameters (16,6,2,2) but not isomorphic (standard graph theory).
+func rookGraph(k int, e Element) *Graph {
+	g := NewGraph(k * k)
+	for i := 0; i < k*k; i++ {
+		g.AddAtom(e, 0)
+	}
+	for a := 0; a < k*k; a++ {
+		for b := a + 1; b < k*k; b++ {
+			if a/k == b/k || a%k == b%k {
+				g.MustAddBond(a, b, Single)
+			}
+		}
+	}
+	return g
+}
+
+// shrikhande returns the Shrikhande graph: vertices Z4×Z4, (a,b) adjacent
+// to (a±1,b), (a,b±1), (a+1,b+1), (a−1,b−1) (standard construction).
+func shrikhande(e Element) *Graph {
+	g := NewGraph(16)
+	for i := 0; i < 16; i++ {
+		g.AddAtom(e, 0)
+	}
+	id := func(a, b int) int { return ((a+4)%4)*4 + (b+4)%4 }
+	for a := 0; a < 4; a++ {
+		for b := 0; b < 4; b++ {
+			for _, d := range [][2]int{{1, 0}, {0, 1}, {1, 1}} {
+				g.MustAddBond(id(a, b), id(a+d[0], b+d[1]), Single)
+			}
+		}
+	}
+	return g
+}
+
+func TestCanonicalStronglyRegular(t *testing.T) {
+	// Sulfur with six single bonds (valence 6) carries the degree-6 graphs.
+	rook, shr := rookGraph(4, S), shrikhande(S)
+	paley9 := rookGraph(3, C) // Paley graph of order 9 = 3×3 rook's graph
+	r := rand.New(rand.NewPCG(5, 9))
+	for _, tc := range []struct {
+		name string
+		g    *Graph
+		aut  int
+	}{
+		{"4x4 rook", rook, 1152}, // (S4 × S4) ⋊ 2 (standard graph theory)
+		{"Shrikhande", shr, 192}, // standard graph theory
+		{"Paley 9", paley9, 72},  // (S3 × S3) ⋊ 2
+	} {
+		c := Canonicalize(tc.g)
+		if n := countOrbits(c.Orbits, tc.g, tc.g.Atoms[0].Element); n != 1 {
+			t.Errorf("%s: %d orbits, want 1 (vertex-transitive)", tc.name, n)
+		}
+		if got := groupOrder(tc.g); got != tc.aut {
+			t.Errorf("%s: brute-force automorphism count %d, want %d", tc.name, got, tc.aut)
+		}
+		for k := 0; k < 10; k++ {
+			if Canonicalize(permuted(tc.g, r)).Key != c.Key {
+				t.Fatalf("%s: renumbered copy has another Key", tc.name)
+			}
+		}
+	}
+	if Canonicalize(rook).Key == Canonicalize(shr).Key {
+		t.Errorf("4x4 rook's graph and Shrikhande graph: equal Keys, but they are not isomorphic")
+	}
+}

@@ -3,13 +3,14 @@ package molecule
 // Fragment is a substructure query written in SMILES. Build one with
 // ParseFragment; it is immutable and safe for concurrent use.
 type Fragment struct {
-	smiles string
-	q      *Graph
-	arom   []bool // query atom written lowercase: matches aromatic atoms only
-	hSet   []bool // bracket atom: hydrogen count and charge must match
-	bond   []fragBond
-	order  []int // query atoms in matching order (each after a neighbour)
-	parent []int // for order[k], k > 0: an earlier query atom bonded to it
+	smiles   string
+	q        *Graph
+	atomArom []bool // query atom written lowercase: matches aromatic atoms only
+	hSet     []bool // bracket atom: hydrogen count and charge must match
+	bond     []fragBond
+	order    []int            // query atoms in matching order (each after a neighbour)
+	parent   []int            // for order[k], k > 0: an earlier query atom bonded to it
+	counts   [NumElements]int // query atoms per element, for a quick reject
 }
 
 type fragBond uint8
@@ -41,7 +42,10 @@ func ParseFragment(s string) (*Fragment, error) {
 	if err != nil {
 		return nil, err
 	}
-	f := &Fragment{smiles: s, q: q, arom: p.arom, hSet: p.bracket}
+	f := &Fragment{smiles: s, q: q, atomArom: p.arom, hSet: p.bracket}
+	for _, a := range q.Atoms {
+		f.counts[a.Element]++
+	}
 	for i, b := range q.Bonds {
 		var k fragBond
 		switch p.bondSym[i] {
@@ -127,7 +131,19 @@ func (f *Fragment) each(g *Graph, yield func(m []int) bool) {
 	if n == 0 || n > len(g.Atoms) {
 		return
 	}
-	arom := AromaticBonds(g)
+	var have [NumElements]int
+	for _, a := range g.Atoms {
+		if a.Element < NumElements {
+			have[a.Element]++
+		}
+	}
+	for e, c := range f.counts {
+		if c > have[e] {
+			return
+		}
+	}
+	var perc aromaticity
+	arom := perc.perceive(g)
 	atomArom := make([]bool, len(g.Atoms))
 	for i, a := range arom {
 		if a {
@@ -142,7 +158,7 @@ func (f *Fragment) each(g *Graph, yield func(m []int) bool) {
 	}
 	atomOK := func(qi, t int) bool {
 		qa, ta := f.q.Atoms[qi], g.Atoms[t]
-		if qa.Element != ta.Element || f.arom[qi] != atomArom[t] {
+		if qa.Element != ta.Element || f.atomArom[qi] != atomArom[t] {
 			return false
 		}
 		if f.hSet[qi] && (qa.HCount != ta.HCount || qa.Charge != ta.Charge) {
