@@ -750,7 +750,7 @@ func multiplet(ls []jline, mhz float64, hasW bool) Peak {
 
 // firstOrder recognises n+1-rule patterns and doublets of doublets in a
 // group of lines: spacings equal within 0.5 Hz (or 10 %), intensities
-// within 35 % of the pattern. Anything else is "m".
+// within 30 % of the pattern. Anything else is "m".
 func firstOrder(ls []jline, mhz float64) (string, []float64) {
 	n := len(ls)
 	if n == 1 {
@@ -799,7 +799,7 @@ func intensitiesFit(y, want []float64) bool {
 	}
 	for i := range y {
 		e := want[i] / sw
-		if math.Abs(y[i]/sy-e) > 0.35*e {
+		if math.Abs(y[i]/sy-e) > 0.30*e {
 			return false
 		}
 	}

@@ -1,6 +1,7 @@
 package ranker
 
 import (
+	"math"
 	"os"
 	"path/filepath"
 	"testing"
@@ -51,5 +52,51 @@ func TestParseJCAMPLabels(t *testing.T) {
 	}
 	if len(pl.Peaks) != 2 || pl.Peaks[0].Shift != 2.05 || pl.Peaks[1].Shift != 1.26 {
 		t.Errorf("ParseJCAMP peaks = %v, want 2.05 and 1.26", pl)
+	}
+}
+
+func TestFirstOrderLines(t *testing.T) {
+	// Line patterns of first-order multiplets: the n+1 rule with Pascal's
+	// triangle intensities, and a doublet of doublets of four equal lines
+	// (common practice). J = 7.0 Hz (and 2.0 Hz for dd) at 400 MHz.
+	const mhz = 400.0
+	lines := func(hz, y []float64) []jline {
+		ls := make([]jline, len(hz))
+		for i := range hz {
+			ls[i] = jline{ppm: 2 + hz[i]/mhz, y: y[i]}
+		}
+		return ls
+	}
+	cases := []struct {
+		name string
+		hz   []float64 // line positions, Hz, high to low
+		y    []float64
+		want string
+		j    []float64
+	}{
+		{"singlet", []float64{0}, []float64{1}, "s", nil},
+		{"doublet", []float64{3.5, -3.5}, []float64{1, 1}, "d", []float64{7}},
+		{"doublet with roof effect", []float64{3.5, -3.5}, []float64{1.4, 1}, "d", []float64{7}},
+		{"triplet", []float64{7, 0, -7}, []float64{1, 2, 1}, "t", []float64{7}},
+		{"quartet", []float64{10.5, 3.5, -3.5, -10.5}, []float64{1, 3, 3, 1}, "q", []float64{7}},
+		{"quintet", []float64{14, 7, 0, -7, -14}, []float64{1, 4, 6, 4, 1}, "quint", []float64{7}},
+		{"sextet", []float64{17.5, 10.5, 3.5, -3.5, -10.5, -17.5}, []float64{1, 5, 10, 10, 5, 1}, "sext", []float64{7}},
+		{"septet", []float64{21, 14, 7, 0, -7, -14, -21}, []float64{1, 6, 15, 20, 15, 6, 1}, "sept", []float64{7}},
+		{"noisy triplet", []float64{7.2, 0, -6.9}, []float64{0.9, 2.1, 1.1}, "t", []float64{7.05}},
+		{"doublet of doublets", []float64{4.5, 2.5, -2.5, -4.5}, []float64{1, 1, 1, 1}, "dd", []float64{7, 2}},
+		{"1:1:1 is not a triplet", []float64{7, 0, -7}, []float64{1, 1, 1}, "m", nil},
+		{"uneven spacing", []float64{7, 0, -3}, []float64{1, 2, 1}, "m", nil},
+	}
+	for _, c := range cases {
+		got, j := firstOrder(lines(c.hz, c.y), mhz)
+		if got != c.want || len(j) != len(c.j) {
+			t.Errorf("%s: firstOrder = %q %v, want %q %v", c.name, got, j, c.want, c.j)
+			continue
+		}
+		for k := range j {
+			if math.Abs(j[k]-c.j[k]) > 0.051 {
+				t.Errorf("%s: J = %v, want %v", c.name, j, c.j)
+			}
+		}
 	}
 }

@@ -118,13 +118,6 @@ func (p *journal) peek() (rune, int) {
 	return utf8.DecodeRuneInString(p.in[p.i:])
 }
 
-func (p *journal) peekAt(i int) (rune, int) {
-	if i >= len(p.in) {
-		return 0, 0
-	}
-	return utf8.DecodeRuneInString(p.in[i:])
-}
-
 func (p *journal) skipSpace() {
 	for !p.eof() {
 		r, n := p.peek()
