@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 
+	"shiftrank/molecule"
 	"shiftrank/ranker"
 )
 
@@ -23,14 +24,18 @@ func ExampleRanker_Rank() {
 	}
 	fmt.Println(res.Formula, "all isomers scored:", res.Complete && res.Scored == res.IsomersTotal)
 	best := res.Candidates[0]
-	fmt.Println("first:", best.SMILES)
+	ethylAcetate := molecule.CanonicalSMILES(molecule.MustParseSMILES("CCOC(C)=O"))
+	fmt.Println("first is ethyl acetate:", best.SMILES == ethylAcetate)
+	// Atom numbers index the atoms of best.SMILES in writing order.
+	g := molecule.MustParseSMILES(best.SMILES)
 	for _, a := range best.Assignments {
-		fmt.Printf("δ %.2f %s %dH -> atoms %v (%s)\n", a.ObservedShift, a.ObservedMultiplicity, a.ExpectedH, a.Atoms, a.PredictedMultiplicity)
+		at := g.Atoms[a.Atoms[0]]
+		fmt.Printf("δ %.2f %s %dH -> %s%d, predicted %s\n", a.ObservedShift, a.ObservedMultiplicity, a.ExpectedH, at.Element, at.HCount, a.PredictedMultiplicity)
 	}
 	// Output:
 	// C4H8O2 all isomers scored: true
-	// first: CCOC(C)=O
-	// δ 4.12 q 2H -> atoms [1] (q)
-	// δ 2.05 s 3H -> atoms [4] (s)
-	// δ 1.26 t 3H -> atoms [0] (t)
+	// first is ethyl acetate: true
+	// δ 4.12 q 2H -> C2, predicted q
+	// δ 2.05 s 3H -> C3, predicted s
+	// δ 1.26 t 3H -> C3, predicted t
 }
