@@ -209,7 +209,8 @@ func getJSON(t *testing.T, url string, out any) {
 }
 
 // TestParsers holds the page's formula and peak-list readers to the
-// service's (see parsers_test.go). It needs only the page, not the API.
+// service's, and its plotted line patterns to the n+1 rule (see
+// parsers_test.go). It needs only the page, not the API.
 func TestParsers(t *testing.T) {
 	exe := chromiumPath(t)
 	srv := httptest.NewServer(web.Handler())
@@ -222,4 +223,5 @@ func TestParsers(t *testing.T) {
 	}
 	sub("formulas and peak lists", testClientParsers)
 	sub("table text round trip", testTableTextRandom)
+	sub("first-order multiplets", testMultiplets)
 }

@@ -211,3 +211,59 @@ func shiftOf(s string) (hi, lo float64, err error) {
 	v, err := strconv.ParseFloat(s, 64)
 	return v, v, err
 }
+
+// testMultiplets checks the plot's first-order line patterns (plot.js
+// multipletLines) against the n+1 rule: n equivalent neighbours split a
+// signal into n+1 lines J apart with binomial (Pascal's triangle)
+// intensities; each further coupling splits every line again (common
+// practice).
+func testMultiplets(p *page) {
+	p.open("/")
+	cases := []struct {
+		name  string
+		mult  string
+		j     []float64
+		h     int
+		lines []float64 // offsets from the centre, Hz, in increasing order
+		w     []float64 // relative intensities, same order
+	}{
+		{"singlet", "s", nil, 3, []float64{0}, []float64{1}},
+		{"doublet", "d", []float64{6.9}, 6, []float64{-3.45, 3.45}, []float64{1, 1}},
+		{"triplet", "t", []float64{7.1}, 3, []float64{-7.1, 0, 7.1}, []float64{1, 2, 1}},
+		{"quartet", "q", []float64{7.1}, 2, []float64{-10.65, -3.55, 3.55, 10.65}, []float64{1, 3, 3, 1}},
+		{"septet", "sept", []float64{6.9}, 1, []float64{-20.7, -13.8, -6.9, 0, 6.9, 13.8, 20.7}, []float64{1, 6, 15, 20, 15, 6, 1}},
+		{"doublet of triplets", "dt", []float64{10, 2}, 1, []float64{-7, -5, -3, 3, 5, 7}, []float64{1, 2, 1, 1, 2, 1}},
+		{"doublet of doublets", "dd", []float64{11.2, 4.0}, 1, []float64{-7.6, -3.6, 3.6, 7.6}, []float64{1, 1, 1, 1}},
+	}
+	const mhz, centre = 400.0, 2.0
+	for _, tc := range cases {
+		in, _ := json.Marshal(map[string]any{"shift": centre, "h": tc.h, "multiplicity": tc.mult, "j": tc.j})
+		var got struct {
+			Lines []struct{ PPM, W float64 }
+		}
+		p.eval(fmt.Sprintf(`import("/static/plot.js").then(m => {
+			const r = m.multipletLines(%s, %v);
+			return {Lines: r.lines.map(l => ({PPM: l.ppm, W: l.w})).sort((a, b) => a.PPM - b.PPM)};
+		})`, in, mhz), &got)
+		if len(got.Lines) != len(tc.lines) {
+			p.t.Errorf("%s (%s, J %v): %d lines, want %d (n+1 rule)", tc.name, tc.mult, tc.j, len(got.Lines), len(tc.lines))
+			continue
+		}
+		var sumW, sumWant float64
+		for _, w := range tc.w {
+			sumWant += w
+		}
+		for k, l := range got.Lines {
+			sumW += l.W
+			if off := (l.PPM - centre) * mhz; math.Abs(off-tc.lines[k]) > 1e-6 {
+				p.t.Errorf("%s line %d at %+.3f Hz from the centre, want %+.3f Hz", tc.name, k+1, off, tc.lines[k])
+			}
+			if want := float64(tc.h) * tc.w[k] / sumWant; math.Abs(l.W-want) > 1e-9 {
+				p.t.Errorf("%s line %d intensity %.4f, want %.4f (binomial, total %d H)", tc.name, k+1, l.W, want, tc.h)
+			}
+		}
+		if math.Abs(sumW-float64(tc.h)) > 1e-9 {
+			p.t.Errorf("%s: intensities add up to %.4f, want the %d H of the environment", tc.name, sumW, tc.h)
+		}
+	}
+}
