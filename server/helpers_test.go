@@ -69,10 +69,11 @@ func quietLogger(t testing.TB) *slog.Logger {
 // fakeRanker returns a fixed ranking at once, or, with block set, reports
 // progress until its context is cancelled.
 type fakeRanker struct {
-	block bool
-	mu    sync.Mutex
-	calls int
-	reqs  []ranker.Request
+	block    bool
+	mu       sync.Mutex
+	calls    int
+	returned int
+	reqs     []ranker.Request
 }
 
 func (f *fakeRanker) Rank(ctx context.Context, req ranker.Request, progress func(ranker.Progress)) (*ranker.Result, error) {
@@ -85,6 +86,9 @@ func (f *fakeRanker) Rank(ctx context.Context, req ranker.Request, progress func
 		for {
 			select {
 			case <-ctx.Done():
+				f.mu.Lock()
+				f.returned++
+				f.mu.Unlock()
 				return nil, ctx.Err()
 			case <-time.After(10 * time.Millisecond):
 			}
@@ -105,6 +109,14 @@ func (f *fakeRanker) Rank(ctx context.Context, req ranker.Request, progress func
 		},
 		Warnings: []string{},
 	}, nil
+}
+
+// stopped reports whether a blocking ranking has returned on its
+// context's cancellation.
+func (f *fakeRanker) stopped() bool {
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	return f.returned > 0
 }
 
 func (f *fakeRanker) Calls() int {
