@@ -54,6 +54,17 @@ func AromaticBonds(g *Graph) []bool {
 	return append([]bool(nil), a.perceive(g)...)
 }
 
+// Aromaticity perceives aromatic bonds like AromaticBonds, reusing its
+// memory across calls. The zero value is ready to use; it is not safe for
+// concurrent use.
+type Aromaticity struct {
+	a aromaticity
+}
+
+// Bonds returns AromaticBonds(g) in a slice owned by a, valid until the
+// next call.
+func (a *Aromaticity) Bonds(g *Graph) []bool { return a.a.perceive(g) }
+
 // AromaticAtoms returns, indexed like g.Atoms, whether each atom has at
 // least one aromatic bond (see AromaticBonds).
 func AromaticAtoms(g *Graph) []bool {
