@@ -2,6 +2,7 @@ package isomers
 
 import (
 	"fmt"
+	"math/bits"
 
 	"shiftrank/molecule"
 )
@@ -656,29 +657,28 @@ func leafTuple(m *mol, x int) uint32 {
 	return uint32(m.deg[u])<<18 | uint32(m.col[u])<<10 | uint32(m.bsum[u])<<2 | uint32(m.bo[x][0])
 }
 
-// bfs fills dist with distances from src and returns a farthest vertex.
+// bfs fills dist with distances from src and returns a farthest vertex
+// (level by level over bit masks).
 func (s *searcher) bfs(src int, dist *[MaxAtoms]int8) int {
 	m := &s.m
-	for i := 0; i < m.n; i++ {
-		dist[i] = -1
-	}
-	var q [MaxAtoms]uint8
-	q[0] = uint8(src)
+	reach := uint64(1) << uint(src)
+	frontier := reach
 	dist[src] = 0
-	h, t := 0, 1
 	far := src
-	for h < t {
-		x := int(q[h])
-		h++
-		far = x
-		for k := 0; k < int(m.deg[x]); k++ {
-			u := m.nb[x][k]
-			if dist[u] < 0 {
-				dist[u] = dist[x] + 1
-				q[t] = u
-				t++
-			}
+	for d := int8(1); ; d++ {
+		var next uint64
+		for f := frontier; f != 0; f &= f - 1 {
+			next |= m.adj[bits.TrailingZeros64(f)]
 		}
+		next &^= reach
+		if next == 0 {
+			return far
+		}
+		for f := next; f != 0; f &= f - 1 {
+			dist[bits.TrailingZeros64(f)] = d
+		}
+		far = bits.TrailingZeros64(next)
+		reach |= next
+		frontier = next
 	}
-	return far
 }

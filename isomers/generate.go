@@ -3,6 +3,7 @@ package isomers
 import (
 	"context"
 	"fmt"
+	"math/rand/v2"
 	"runtime"
 	"sync"
 	"sync/atomic"
@@ -44,16 +45,21 @@ type Stats struct {
 	// returned false, or the context ended.
 	Complete bool
 	// Fraction estimates the share of the search space covered, 0..1
-	// (1 when Complete). Each subtree of the search gets an equal share of
-	// its parent's weight, so Emitted/Fraction is a rough estimate of the
-	// total: useful for progress and totals, not exact.
+	// (1 when Complete): the search is split into a few hundred subtrees
+	// of equal weight, and inside a subtree each branch gets an equal share
+	// of its parent's. GenerateConcurrent and Count visit the subtrees in a
+	// fixed pseudo-random order, so Emitted/Fraction estimates the total
+	// without the bias of always starting from the same corner of the
+	// search space (and a Limit takes a spread sample); Generate visits
+	// them in order, so its estimate is rougher. For progress and totals,
+	// not exact.
 	Fraction float64
 }
 
 // frontierTarget is the number of subtrees the search is split into
 // (at least, when the formula allows it). It is fixed so that the order of
 // Generate does not depend on the number of workers.
-const frontierTarget = 384
+const frontierTarget = 1024
 
 // batchSize is the number of structures handed over at once.
 const batchSize = 256
@@ -78,9 +84,6 @@ func frontier(ctx context.Context, p *plan) ([]task, error) {
 			}
 		}
 	}
-	for i := range roots {
-		roots[i].weight = 1 / float64(len(roots))
-	}
 	tasks := roots
 	s := newSearcher(p)
 	s.emit = func(*mol) bool { return true }
@@ -96,10 +99,13 @@ func frontier(ctx context.Context, p *plan) ([]task, error) {
 				path := make([]aug, len(t.path)+1)
 				copy(path, t.path)
 				path[len(t.path)] = k
-				next = append(next, task{assign: t.assign, root: t.root, path: path, weight: t.weight / float64(len(kids))})
+				next = append(next, task{assign: t.assign, root: t.root, path: path})
 			}
 		}
 		tasks = next
+	}
+	for i := range tasks {
+		tasks[i].weight = 1 / float64(len(tasks))
 	}
 	return tasks, nil
 }
@@ -253,6 +259,8 @@ func GenerateConcurrent(ctx context.Context, f molecule.Formula, opts Options, y
 	}
 	workers := make([]*workerState, nw)
 	covered := make([]float64, nw)
+	// a fixed pseudo-random visiting order (see Stats.Fraction)
+	order := rand.New(rand.NewPCG(0x5eed, uint64(len(r.tasks)))).Perm(len(r.tasks))
 	var wg sync.WaitGroup
 	for wi := 0; wi < nw; wi++ {
 		ws := r.newWorker()
@@ -281,7 +289,7 @@ func GenerateConcurrent(ctx context.Context, f molecule.Formula, opts Options, y
 					return
 				}
 				ws.s.covered = 0
-				ws.runTask(&r.tasks[ti])
+				ws.runTask(&r.tasks[order[ti]])
 				covered[id] += ws.s.covered
 			}
 		}()
