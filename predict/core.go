@@ -214,6 +214,9 @@ func (p *Predictor) predict(m *mol, w *work) *Spectrum {
 			if a.Charge != 0 {
 				env.Reasons = append(env.Reasons, "charged atom: predicted as if neutral")
 			}
+			if n := amideN(m, rep.atom); n >= 0 && rep.syn+rep.anti == 0 && m.tertiaryAmide(n) {
+				env.Reasons = append(env.Reasons, "on a tertiary amide N with two different substituents: the two C–N rotamers may each give a signal (doubled peaks, common practice)")
+			}
 		}
 		if a.Charge != 0 {
 			env.Sigma += 0.5
@@ -388,4 +391,10 @@ func (p *Predictor) markAmideSides(m *mol, groups []hgroup) {
 			}
 		}
 	}
+}
+
+// tertiaryAmide reports whether amide nitrogen n carries two heavy
+// substituents besides the acyl carbon.
+func (m *mol) tertiaryAmide(n int) bool {
+	return m.amideCarbon(n) >= 0 && m.g.Degree(n) == 3
 }

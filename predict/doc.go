@@ -47,7 +47,13 @@
 // singlets that neither split nor are split). Coupling constants are
 // estimated by kind (vicinal sp3 ~7 Hz, alkene cis ~10.5 and trans ~17,
 // aromatic ortho ~8, meta ~2, ring vicinal by the Karplus relation with a
-// typical dihedral). Couplings with alike J are merged into one n+1 factor
+// typical dihedral). The constitution fixes no E/Z configuration: an
+// acyclic 1,2-disubstituted alkene gets the mean of the cis and trans
+// couplings (~13.5 Hz, so either observed value lies within ~3 Hz) and a
+// shift averaged over both configurations, with the range in
+// ShiftMin/ShiftMax; a double bond in a ring of up to seven atoms is cis.
+// Ring CH–CH couplings whose cis/trans relation is not fixed are averaged
+// likewise. Couplings with alike J are merged into one n+1 factor
 // (the middle CH2 of a propyl chain is a sextet), unlike ones are kept
 // apart (dd, dt, td, ...). Couplings smaller than the resolution (line
 // width) are dropped, and "m" is reported where strong coupling (Δν/J

@@ -99,9 +99,19 @@ func (m *mol) symmetry(aromBond []bool, canon *molecule.Canonicalizer) {
 		}
 		return
 	}
-	c := canon.Canonicalize(g)
-	copy(m.orbit, c.Orbits)
-	copy(m.label, c.Labels)
+	orb := canon.Orbits(m.orbit[:0], g)
+	copy(m.orbit, orb)
+	// Labels only order atoms of different orbits (vinyl halves, amide
+	// sides); colour ranks do that independently of atom numbering.
+	for i := range m.label {
+		r := 0
+		for j := range cur {
+			if cur[j] < cur[i] || cur[j] == cur[i] && j < i {
+				r++
+			}
+		}
+		m.label[i] = r
+	}
 }
 
 func mix(x uint64) uint64 {
