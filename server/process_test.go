@@ -14,6 +14,7 @@ import (
 	"runtime"
 	"strings"
 	"sync"
+	"syscall"
 	"testing"
 	"time"
 
@@ -248,5 +249,75 @@ func TestKilledWorkerJobFinishedByAnotherProcess(t *testing.T) {
 	}
 	if took := time.Since(killedAt); took > 45*time.Second {
 		t.Errorf("takeover and run took %v", took)
+	}
+}
+
+func TestSIGTERMHandsBackRunningJob(t *testing.T) {
+	if testing.Short() {
+		t.Skip("builds the binary and runs two servers; skipped with -short")
+	}
+	dsn := pgtest.URL(t)
+	bin := buildBinary(t)
+	key := createKey(t, bin, dsn, "sigterm-test")
+	args := []string{"--workers", "1", "--lease", "2s", "--time-budget", "4s", "--grace", "500ms"}
+
+	a := startServe(t, bin, dsn, "serve A", args...)
+	ca := client{t: t, base: a.base, key: key}
+	var j server.JobView
+	ca.do("POST", "/v1/jobs", longJob()).decode(t, &j)
+	for deadline := time.Now().Add(20 * time.Second); ; time.Sleep(50 * time.Millisecond) {
+		ca.do("GET", "/v1/jobs/"+j.ID, nil).decode(t, &j)
+		if j.Status == store.StatusRunning {
+			break
+		}
+		if time.Now().After(deadline) || store.Status(j.Status).Terminal() {
+			t.Fatalf("job did not start running on A: %+v", j)
+		}
+	}
+	start := time.Now()
+	if err := a.cmd.Process.Signal(syscall.SIGTERM); err != nil {
+		t.Fatal(err)
+	}
+	select {
+	case <-a.done:
+	case <-time.After(15 * time.Second):
+		t.Fatalf("serve did not exit within 15 s of SIGTERM:\n%s", a.Log())
+	}
+	if took := time.Since(start); took > 5*time.Second {
+		t.Errorf("shutdown took %v with a 500ms grace", took)
+	}
+	if code := a.cmd.ProcessState.ExitCode(); code != 0 {
+		t.Errorf("serve exited with %d after SIGTERM, want 0:\n%s", code, a.Log())
+	}
+	if !strings.Contains(a.Log(), "handed back") {
+		t.Errorf("A's log does not say the job was handed back:\n%s", a.Log())
+	}
+
+	b := startServe(t, bin, dsn, "serve B", args...)
+	cb := client{t: t, base: b.base, key: key}
+	done := cb.waitJob(j.ID, 60*time.Second)
+	if done.Status != store.StatusSucceeded || done.Attempts != 2 {
+		t.Errorf("job after the hand-back = %+v, want succeeded on the second attempt", done)
+	}
+	st, err := store.Open(context.Background(), dsn)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer st.Close()
+	k, err := st.LookupAPIKey(context.Background(), key)
+	if err != nil {
+		t.Fatal(err)
+	}
+	hist, err := st.History(context.Background(), k.ID, j.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var seq []store.Status
+	for _, h := range hist {
+		seq = append(seq, h.Status)
+	}
+	want := []store.Status{store.StatusQueued, store.StatusRunning, store.StatusQueued, store.StatusRunning, store.StatusSucceeded}
+	if fmt.Sprint(seq) != fmt.Sprint(want) {
+		t.Errorf("history %v, want %v (created, claimed by A, handed back, claimed by B, done)", seq, want)
 	}
 }
