@@ -340,6 +340,14 @@ func Generate(ctx context.Context, f molecule.Formula, opts Options, yield func(
 	for i := range chans {
 		chans[i] = make(chan *result, 4)
 	}
+	// Workers may run at most window subtrees ahead of the consumer, so
+	// the buffered results stay bounded however slow yield is.
+	window := 4*nw + 4
+	tokens := make(chan struct{}, window)
+	for i := 0; i < window; i++ {
+		tokens <- struct{}{}
+	}
+	done := make(chan struct{}) // closed when the consumer stops
 	var wg sync.WaitGroup
 	for wi := 0; wi < nw; wi++ {
 		ws := r.newWorker()
@@ -347,15 +355,16 @@ func Generate(ctx context.Context, f molecule.Formula, opts Options, yield func(
 		go func() {
 			defer wg.Done()
 			for {
+				select {
+				case <-tokens:
+				case <-done:
+					return
+				}
 				ti := r.nextT.Add(1) - 1
 				if ti >= int64(len(r.tasks)) {
 					return
 				}
 				ch := chans[ti]
-				if r.stop.Load() {
-					close(ch)
-					continue
-				}
 				cur := &result{}
 				flush := func() bool {
 					cur.gen = ws.generated
@@ -366,7 +375,7 @@ func Generate(ctx context.Context, f molecule.Formula, opts Options, yield func(
 					ws.s.covered = 0
 					select {
 					case ch <- cur:
-					case <-r.ctx.Done():
+					case <-done:
 						r.stop.Store(true)
 						return false
 					}
@@ -385,10 +394,10 @@ func Generate(ctx context.Context, f molecule.Formula, opts Options, yield func(
 					return !r.stop.Load()
 				}
 				ws.s.covered = 0
-				ws.runTask(&r.tasks[ti])
-				if !r.stop.Load() || cur.count > 0 {
-					flush()
+				if !r.stop.Load() {
+					ws.runTask(&r.tasks[ti])
 				}
+				flush()
 				close(ch)
 			}
 		}()
@@ -399,14 +408,8 @@ func Generate(ctx context.Context, f molecule.Formula, opts Options, yield func(
 	covered := 0.0
 	g := molecule.NewGraph(r.p.n)
 	stopped := false
-	for ti := range chans {
-		if stopped {
-			break
-		}
+	for ti := 0; ti < len(chans) && !stopped; ti++ {
 		for res := range chans[ti] {
-			if stopped {
-				continue
-			}
 			st.Generated += res.gen
 			for i, n := range res.removed {
 				removed[i] += n
@@ -416,28 +419,21 @@ func Generate(ctx context.Context, f molecule.Formula, opts Options, yield func(
 			for i := 0; i < res.count; i++ {
 				off = decode(res.data, off, g)
 				st.Emitted++
-				if !yield(g) {
-					stopped = true
-					break
-				}
-				if r.limit > 0 && st.Emitted >= r.limit {
+				if !yield(g) || (r.limit > 0 && st.Emitted >= r.limit) || ctx.Err() != nil {
 					stopped = true
 					break
 				}
 			}
 			if stopped {
-				r.stop.Store(true)
+				break
 			}
+		}
+		if !stopped {
+			tokens <- struct{}{}
 		}
 	}
 	r.stop.Store(true)
-	// drain so that workers blocked on a full channel can finish
-	go func() {
-		for _, ch := range chans {
-			for range ch {
-			}
-		}
-	}()
+	close(done)
 	wg.Wait()
 	for i, n := range removed {
 		if n > 0 {

@@ -225,3 +225,22 @@ func ExampleGenerate() {
 	// COCC
 	// 3 true <nil>
 }
+
+// TestFractionEstimate: a Limit run of Count covers a share of the search
+// space from which Emitted/Fraction estimates the full count (within a
+// factor of two here; the estimate is for progress and totals).
+func TestFractionEstimate(t *testing.T) {
+	f := molecule.MustParseFormula("C8H14O2")
+	full, err := Count(context.Background(), f, Options{Filter: DefaultFilter()})
+	if err != nil {
+		t.Fatal(err)
+	}
+	part, err := Count(context.Background(), f, Options{Filter: DefaultFilter(), Limit: full.Emitted / 5})
+	if err != nil {
+		t.Fatal(err)
+	}
+	est := float64(part.Emitted) / part.Fraction
+	if part.Complete || est < float64(full.Emitted)/2 || est > float64(full.Emitted)*2 {
+		t.Errorf("C8H14O2: estimate %.0f from %d at fraction %.3f, full count %d", est, part.Emitted, part.Fraction, full.Emitted)
+	}
+}
