@@ -290,10 +290,14 @@ func summarise(cands []Candidate, k int, j *job) string {
 		}
 		return a.peak - b.peak
 	})
-	var why []string
-	for i := 0; i < len(ds) && i < 3 && ds[i].v > 0; i++ {
+	var why, against []string
+	for i := 0; i < len(ds) && len(why) < 3 && ds[i].v > 0; i++ {
 		p := j.peaks[ds[i].peak]
-		why = append(why, fmt.Sprintf("peak %d (δ %.2f) +%.1f", p.Index+1, p.Shift, ds[i].v))
+		why = append(why, fmt.Sprintf("peak %d (δ %.2f) %+.1f", p.Index+1, p.Shift, ds[i].v))
+	}
+	for i := len(ds) - 1; i >= 0 && len(against) < 2 && ds[i].v < 0; i-- {
+		p := j.peaks[ds[i].peak]
+		against = append(against, fmt.Sprintf("peak %d (δ %.2f) %+.1f", p.Index+1, p.Shift, ds[i].v))
 	}
 	unobs := func(x *Candidate) float64 {
 		s := 0.0
@@ -302,17 +306,26 @@ func summarise(cands []Candidate, k int, j *job) string {
 		}
 		return s
 	}
-	if v := unobs(c) - unobs(n); v > 0.05 {
-		why = append(why, fmt.Sprintf("fewer unobserved environments +%.1f", v))
+	switch v := unobs(c) - unobs(n); {
+	case v > 0.05:
+		why = append(why, fmt.Sprintf("unobserved environments %+.1f", v))
+	case v < -0.05:
+		against = append(against, fmt.Sprintf("unobserved environments %+.1f", v))
 	}
 	ratio := math.Exp(diff)
 	rs := fmt.Sprintf("%.3g", ratio)
 	if ratio > 1e6 {
 		rs = "more than a million"
 	}
-	s := fmt.Sprintf("beats #%d (%s) by %.1f nats (likelihood ratio %s)", n.Rank, n.SMILES, diff, rs)
+	s := fmt.Sprintf("beats #%d (%s) by %.2f nats (likelihood ratio %s)", n.Rank, n.SMILES, diff, rs)
 	if len(why) > 0 {
 		s += ": " + strings.Join(why, ", ")
+	}
+	if len(against) > 0 {
+		s += "; in #" + fmt.Sprint(n.Rank) + "'s favour: " + strings.Join(against, ", ")
+	}
+	if diff < 1 {
+		s += "; the spectrum hardly tells them apart"
 	}
 	return s
 }

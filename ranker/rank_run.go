@@ -231,7 +231,9 @@ func (j *job) preparePeaks() error {
 			h = implied[k]
 		}
 		j.peaks[j.scored[k]].ImpliedH = h
-		j.obs[k] = obsPeak{shift: p.Shift, lo: lo, hi: hi, mult: parsePattern(p.Multiplicity), j: p.J, h: h}
+		mult := parsePattern(p.Multiplicity)
+		mult.apparent = p.Apparent
+		j.obs[k] = obsPeak{shift: p.Shift, lo: lo, hi: hi, mult: mult, j: p.J, h: h}
 	}
 	return nil
 }

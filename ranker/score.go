@@ -355,10 +355,11 @@ func (s *scorer) score(envs []predEnv, peaks []obsPeak) (float64, assignment) {
 // pattern is a parsed multiplicity: the line counts of its coupling
 // groups ("dt" = [2 3]), or one of the special kinds.
 type pattern struct {
-	kind   patternKind
-	broad  bool
-	groups [4]uint8 // line counts, first group first; 0 = unused
-	ng     uint8
+	kind     patternKind
+	broad    bool
+	apparent bool     // reported as "app t", "pseudo-d": not necessarily first order
+	groups   [4]uint8 // line counts, first group first; 0 = unused
+	ng       uint8
 }
 
 type patternKind uint8
@@ -441,10 +442,6 @@ func parsePattern(code string) pattern {
 	return p
 }
 
-func (p pattern) equal(q pattern) bool {
-	return p.kind == q.kind && p.ng == q.ng && p.groups == q.groups
-}
-
 // Multiplicity probabilities P(observed | predicted). These are our own
 // judgement of how often a correctly predicted pattern is reported in each
 // way in routine CDCl3 spectra at 300–600 MHz (common practice: small
@@ -453,6 +450,7 @@ func (p pattern) equal(q pattern) bool {
 const (
 	pExact           = 0.70 // reported as predicted
 	pRegrouped       = 0.15 // same number of partners, grouped differently (dd ↔ t)
+	pApparent        = 0.50 // an "apparent" pattern with the predicted number of partners
 	pUnresolvedOne   = 0.10 // one coupling partner fewer than predicted (dt → t)
 	pUnresolvedMore  = 0.03 // two or more partners fewer
 	pExtraOne        = 0.02 // one partner more than predicted
@@ -523,6 +521,10 @@ func multiplicityJudge(obs, pred pattern, exchangeable bool) (float64, string) {
 		return pExact * broad, "as predicted"
 	}
 	no, np := obs.partners(), pred.partners()
+	if obs.apparent && no == np {
+		// An apparent pattern says only how many lines are seen.
+		return pApparent * broad, "compatible: apparent pattern with the predicted number of coupling partners"
+	}
 	switch {
 	case no == np:
 		return pRegrouped * broad, "compatible: same number of coupling partners, grouped differently (similar J)"
