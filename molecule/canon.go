@@ -59,6 +59,7 @@ type Canonicalizer struct {
 	path  []int32
 
 	haveFirst bool
+	forest    bool // no cycles: see firstPathOnly
 	firstPath []int32
 	bestPath  []int32
 	firstLab  []int32
@@ -189,6 +190,20 @@ func (c *Canonicalizer) appendKey(b []byte) []byte {
 
 func (c *Canonicalizer) orbitsInto(out []int) {
 	n := c.n
+	if c.forest {
+		// The cells of the equitable partition are the orbits.
+		lab, cl := c.lvl(0, lvLab), c.lvl(0, lvLen)
+		for s := 0; s < n; s += int(cl[s]) {
+			rep := lab[s]
+			for _, v := range lab[s : s+int(cl[s])] {
+				rep = min(rep, v)
+			}
+			for _, v := range lab[s : s+int(cl[s])] {
+				out[v] = int(rep)
+			}
+		}
+		return
+	}
 	uf := c.tmp[:0]
 	for i := 0; i < n; i++ {
 		uf = append(uf, int32(i))
@@ -326,7 +341,59 @@ func (c *Canonicalizer) search(g *Graph) {
 		c.inQueue[s] = true
 	}
 	c.refine(0)
+	c.forest = c.isForest()
+	if c.forest {
+		c.firstPathOnly()
+		return
+	}
 	c.node(0)
+}
+
+// isForest reports whether the graph has no cycle.
+func (c *Canonicalizer) isForest() bool {
+	n, m := c.n, len(c.bondA)
+	if m >= n {
+		return false
+	}
+	uf := grow32(c.tmp, n)
+	for i := range uf {
+		uf[i] = int32(i)
+	}
+	c.tmp = uf
+	for i := 0; i < m; i++ {
+		a, b := ufFind(uf, c.bondA[i]), ufFind(uf, c.bondB[i])
+		if a == b {
+			return false
+		}
+		ufUnion(uf, a, b)
+	}
+	return true
+}
+
+// firstPathOnly finishes the search for a forest. Colour refinement
+// decides isomorphism of (vertex- and edge-coloured) forests, and the cells
+// of the equitable partition of a forest are its automorphism orbits,
+// also after individualising vertices (the result is again a coloured
+// forest). So every child of every search node is equivalent, all leaves
+// have the same certificate, and the first leaf is canonical.
+func (c *Canonicalizer) firstPathOnly() {
+	n := c.n
+	d := 0
+	for {
+		s, _ := c.targetCell(d)
+		if s < 0 {
+			c.leaf(d)
+			return
+		}
+		w := c.lvl(d, lvLab)[s]
+		c.path[d] = w
+		o := d * lvArrays * n
+		copy(c.lv[o+lvArrays*n:o+lvArrays*n+4*n], c.lv[o:o+4*n])
+		c.ncell[d+1] = c.ncell[d] + 1
+		c.individualize(d+1, w)
+		c.refine(d + 1)
+		d++
+	}
 }
 
 // vertexInvariant returns the cheap invariants of vertex v used for the

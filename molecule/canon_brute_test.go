@@ -221,3 +221,44 @@ func TestCanonicalOrbitsMolecules(t *testing.T) {
 		checkOrbits(t, "symmetric", g)
 	}
 }
+
+// TestCanonicalBruteForceForests covers the forest shortcut (first search
+// path only, orbits from the equitable partition) on symmetric random
+// trees and two-tree forests of one element.
+func TestCanonicalBruteForceForests(t *testing.T) {
+	r := rand.New(rand.NewPCG(13, 17))
+	for round := 0; round < 150; round++ {
+		n := 4 + r.IntN(6)
+		var gs []*Graph
+		var keys []string
+		for k := 0; k < 8; k++ {
+			g := randomGraph(r, n, 0, []Element{C}, 1+r.IntN(2))
+			if k%2 == 1 {
+				// Cut one bond: a forest of two trees.
+				b := g.Bonds[r.IntN(len(g.Bonds))]
+				h := NewGraph(n)
+				h.Atoms = append(h.Atoms, g.Atoms...)
+				for _, x := range g.Bonds {
+					if x != b {
+						h.Bonds = append(h.Bonds, x)
+					}
+				}
+				h.RebuildAdjacency()
+				g = h
+			}
+			checkOrbits(t, "forest", g)
+			gs = append(gs, g)
+			keys = append(keys, Canonicalize(g).Key)
+			if Canonicalize(permuted(g, r)).Key != keys[len(keys)-1] {
+				t.Fatalf("renumbered forest %s: different Key", g.SMILES())
+			}
+		}
+		for i := range gs {
+			for j := i + 1; j < len(gs); j++ {
+				if eq, iso := keys[i] == keys[j], bruteIsomorphic(gs[i], gs[j]); eq != iso {
+					t.Fatalf("%s vs %s: equal Keys %v, isomorphic %v", gs[i].SMILES(), gs[j].SMILES(), eq, iso)
+				}
+			}
+		}
+	}
+}
