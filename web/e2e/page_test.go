@@ -315,6 +315,22 @@ func testBadFormula(p *page) {
 	}
 	p.t.Logf("message next to the formula field: %q", msg)
 	p.shot("bad-formula-1280")
+
+	// A bad multiplicity and a bad fragment: each message next to its field.
+	p.do("bad peak and fragment",
+		chromedp.Evaluate[chromedp.Void](`document.querySelector("#formula").value = "C4H8O2";
+			document.querySelector("#peaks-text").value = "4.12 (qx, J = 7.1 Hz, 2H), 2.05 (s, 3H)";
+			document.querySelector("details.options").open = true;
+			document.querySelector("#require").value = "C(=O";
+			for (const id of ["formula", "peaks-text", "require"]) document.getElementById(id).dispatchEvent(new Event("input", {bubbles: true}));`),
+		chromedp.Click(chromedp.ID("submit")))
+	p.waitFor("peak and fragment messages", `document.querySelector("#peaks-error").textContent.trim() !== "" &&
+		document.querySelector("#require-error").textContent.trim() !== ""`, 20*time.Second)
+	p.t.Logf("message next to the peaks: %q; next to the required fragments: %q", p.text("#peaks-error"), p.text("#require-error"))
+	if got := p.text("#formula-error"); got != "" {
+		p.t.Errorf("formula message %q stays after the formula was corrected", got)
+	}
+	p.shot("bad-peaks-1280")
 }
 
 func testCancel(p *page) {

@@ -202,6 +202,7 @@ function setNote(text, bad = false) {
 
 function syncTextFromRows() {
   const text = formatPeaks(rows);
+  document.querySelector(".peak-table").classList.remove("stale");
   $("peaks-text").value = text;
   const count = rows.filter((r) => r.shift.trim()).length;
   setNote(count ? `${count} peak${count === 1 ? "" : "s"}` : "");
@@ -211,8 +212,9 @@ function syncTextFromRows() {
 
 function syncRowsFromText() {
   const text = $("peaks-text").value;
-  if (!text.trim()) { rows = []; renderRows(); setNote(""); return; }
+  if (!text.trim()) { rows = []; renderRows(); setNote(""); document.querySelector(".peak-table").classList.remove("stale"); return; }
   const r = parsePeaks(text);
+  document.querySelector(".peak-table").classList.toggle("stale", !!r.error);
   if (r.error) {
     setNote(`The table waits until the text reads cleanly: ${r.error} at character ${r.pos + 1}${r.token ? ` (“${r.token.slice(0, 30)}”)` : ""}.`, true);
     return;
@@ -265,6 +267,11 @@ function slotFor(field) {
   return FIELD_SLOTS[base] || null;
 }
 
+function fieldValue(slot) {
+  const inp = $(SLOT_INPUT[slot] || slot);
+  return inp && "value" in inp ? String(inp.value).trim() : "";
+}
+
 function clearFieldError(slot) {
   const p = $(`${slot}-error`);
   if (p) p.textContent = "";
@@ -287,11 +294,16 @@ function showProblem(err) {
   let first = null;
   for (const e of list) {
     const slot = slotFor(e.field || e.pointer || e.name);
-    const msg = e.detail || e.message || "not valid";
+    let msg = e.detail || e.message || "not valid";
+    // "/options/require/1" → "fragment 2: ...", "/peaks/0/j" → "peak 1: ...".
+    const idx = /\/(require|forbid|peaks)\/(\d+)/.exec(String(e.field || ""));
+    if (idx) msg = `${idx[1] === "peaks" ? "peak" : "fragment"} ${Number(idx[2]) + 1}: ${msg}`;
     const pos = typeof e.position === "number" ? e.position : e.pos;
     let text = msg;
-    if (e.token !== undefined && e.token !== "" && !msg.includes(e.token)) text += ` (“${e.token}”)`;
-    if (typeof pos === "number" && pos >= 0 && !/position|character/.test(msg)) text += ` at character ${pos + 1}`;
+    // A token that is the whole field adds nothing to the message.
+    const whole = slot && e.token !== undefined && e.token.trim() === fieldValue(slot);
+    if (e.token && !whole && !msg.includes(e.token)) text += ` (“${e.token}”)`;
+    if (typeof pos === "number" && pos >= 0 && !whole && !/position|character/.test(msg)) text += ` at character ${pos + 1}`;
     if (!slot) { loose.push(e.field ? `${e.field}: ${text}` : text); continue; }
     const p = $(`${slot}-error`);
     p.textContent = p.textContent ? `${p.textContent} ${text}` : text;
