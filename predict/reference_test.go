@@ -78,7 +78,23 @@ func TestHoldoutShifts(t *testing.T) {
 	checkReference(t, "testdata/holdout.tsv")
 }
 
-func checkReference(t *testing.T, file string) {
+// TestValidationShifts reports the error on compounds added after the
+// tables were fixed (testdata/validation.tsv); nothing was tuned on them,
+// so single misses are logged, not failed: the test requires a mean
+// absolute error of at most 0.20 ppm and at least 90 % of the
+// environments within their tolerance.
+func TestValidationShifts(t *testing.T) {
+	checkReferenceMode(t, "testdata/validation.tsv", true)
+}
+
+func checkReference(t *testing.T, file string) { checkReferenceMode(t, file, false) }
+
+func checkReferenceMode(t *testing.T, file string, lenient bool) {
+	report := t.Errorf
+	if lenient {
+		report = t.Logf
+	}
+	misses := 0
 	rows := loadReference(t, file)
 	p := New(Options{})
 	spectra := map[string]*Spectrum{}
@@ -124,17 +140,23 @@ func checkReference(t *testing.T, file string) {
 		sumErr += d
 		n++
 		if d > r.tol {
-			t.Errorf("Predict(%q) %s atoms %v shift = %.2f, want %.2f ± %.2f (source: %s)", r.smiles, r.name, e.Atoms, e.Shift, r.shift, r.tol, r.source)
+			misses++
+			report("Predict(%q) %s atoms %v shift = %.2f, want %.2f ± %.2f (source: %s)", r.smiles, r.name, e.Atoms, e.Shift, r.shift, r.tol, r.source)
 		}
 		if e.H != r.h {
-			t.Errorf("Predict(%q) %s atoms %v H = %d, want %d", r.smiles, r.name, e.Atoms, e.H, r.h)
+			misses++
+			report("Predict(%q) %s atoms %v H = %d, want %d", r.smiles, r.name, e.Atoms, e.H, r.h)
 		}
 		if r.mult != "*" && e.Multiplicity != r.mult {
-			t.Errorf("Predict(%q) %s atoms %v multiplicity = %q (J %v), want %q (source: %s)", r.smiles, r.name, e.Atoms, e.Multiplicity, e.J, r.mult, r.source)
+			misses++
+			report("Predict(%q) %s atoms %v multiplicity = %q (J %v), want %q (source: %s)", r.smiles, r.name, e.Atoms, e.Multiplicity, e.J, r.mult, r.source)
 		}
 	}
 	mae := sumErr / float64(n)
 	t.Logf("%s: %d environments of %d compounds, mean absolute error %.3f ppm", file, n, len(spectra), mae)
+	if lenient && float64(misses) > 0.10*float64(n) {
+		t.Errorf("%s: %d of %d environments miss their tolerance, H count or multiplicity; want at most 10 %%", file, misses, n)
+	}
 	if mae > 0.20 {
 		t.Errorf("mean absolute error %.3f ppm, want ≤ 0.20", mae)
 	}
