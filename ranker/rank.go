@@ -162,18 +162,21 @@ type Result struct {
 	Complete bool `json:"complete"`
 	// PredictFailures counts isomers the predictor could not handle (not
 	// scored).
-	PredictFailures int64          `json:"predict_failures,omitempty"`
-	MHz             float64        `json:"mhz"`
-	Solvent         string         `json:"solvent"`
-	Filter          string         `json:"filter"`
-	Require         []string       `json:"require,omitempty"`
-	Forbid          []string       `json:"forbid,omitempty"`
-	Prior           string         `json:"prior"`
-	Peaks           []ObservedPeak `json:"peaks"`
-	Candidates      []Candidate    `json:"candidates"`
-	Warnings        []string       `json:"warnings"`
-	Caution         string         `json:"caution"`
-	ElapsedSeconds  float64        `json:"elapsed_seconds"`
+	PredictFailures int64 `json:"predict_failures,omitempty"`
+	// UnprovenAssignments counts candidates whose assignment search hit
+	// its node limit (their score is a lower bound of the optimum's).
+	UnprovenAssignments int64          `json:"unproven_assignments,omitempty"`
+	MHz                 float64        `json:"mhz"`
+	Solvent             string         `json:"solvent"`
+	Filter              string         `json:"filter"`
+	Require             []string       `json:"require,omitempty"`
+	Forbid              []string       `json:"forbid,omitempty"`
+	Prior               string         `json:"prior"`
+	Peaks               []ObservedPeak `json:"peaks"`
+	Candidates          []Candidate    `json:"candidates"`
+	Warnings            []string       `json:"warnings"`
+	Caution             string         `json:"caution"`
+	ElapsedSeconds      float64        `json:"elapsed_seconds"`
 
 	logZ float64 // log Σ exp(Score/T) over every scored candidate
 }

@@ -240,16 +240,17 @@ func (j *job) preparePeaks() error {
 
 // worker is the per-goroutine state of a ranking.
 type worker struct {
-	sc      *scorer
-	envs    []predEnv
-	top     *topK[*molecule.Graph]
-	ls      logSum
-	failed  int64
-	lastErr error
-	above   int64 // probe counts
-	ties    int64
-	seen    int64
-	_       [64]byte // keep workers' hot fields on separate cache lines
+	sc       *scorer
+	envs     []predEnv
+	top      *topK[*molecule.Graph]
+	ls       logSum
+	failed   int64
+	unproven int64 // assignments whose search hit the node cap
+	lastErr  error
+	above    int64 // probe counts
+	ties     int64
+	seen     int64
+	_        [64]byte // keep workers' hot fields on separate cache lines
 }
 
 // toEnvs converts a predicted spectrum for the likelihood, reusing buf.
@@ -355,7 +356,10 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 			return true
 		}
 		wk.envs = toEnvs(sp, wk.envs)
-		s, _ := wk.sc.score(wk.envs, j.obs)
+		s, a := wk.sc.score(wk.envs, j.obs)
+		if !a.proven {
+			wk.unproven++
+		}
 		wk.ls.add(s / temp)
 		wk.top.offer(s, g, canon, clone)
 		if pr != nil {
@@ -412,6 +416,14 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 		}
 	}
 	res.PredictFailures = failed
+	var unproven int64
+	for w := range workers {
+		unproven += workers[w].unproven
+	}
+	res.UnprovenAssignments = unproven
+	if unproven > 0 {
+		res.Warnings = append(res.Warnings, fmt.Sprintf("for %d candidates the assignment search hit its node limit: their scores are those of the best assignment found, which may not be optimal (it can only rank them lower than they deserve)", unproven))
+	}
 	if failed > 0 {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("%d isomers could not be predicted and were not scored (last error: %v)", failed, lastErr))
 	}
