@@ -10,6 +10,10 @@ import (
 // service sets its own limit with ParseFormulaLimit.
 const DefaultMaxHeavyAtoms = 40
 
+// maxElementCount bounds the count of one element, so that every parsed
+// formula can be written and read back (counts have at most six digits).
+const maxElementCount = 999999
+
 // Formula is a molecular formula: a count for each element. The zero value
 // is the empty formula. Formula is a comparable value type.
 type Formula struct {
@@ -121,6 +125,9 @@ func ParseFormulaLimit(s string, maxHeavy int) (Formula, error) {
 			}
 		}
 		f.counts[e] += n
+		if f.counts[e] > maxElementCount {
+			return Formula{}, &FormulaError{Input: in, Pos: off + start, Token: s[start:i], Msg: fmt.Sprintf("more than %d atoms of %s", maxElementCount, e)}
+		}
 	}
 	whole := func(msg string) error {
 		return &FormulaError{Input: in, Pos: off, Token: s, Msg: msg}

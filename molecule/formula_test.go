@@ -68,6 +68,7 @@ func TestParseFormulaErrors(t *testing.T) {
 		{"4C", 0, 0, "4"},
 		{"C4-H8", 0, 2, "-"},
 		{"C4H8Zz", 0, 4, "Zz"},
+		{"C999999C", 0, 7, "C"}, // counts add up past six digits (found by fuzzing)
 	}
 	for _, tc := range tests {
 		_, err := ParseFormulaLimit(tc.in, tc.limit)
