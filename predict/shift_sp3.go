@@ -101,6 +101,14 @@ func (p *Predictor) sp3(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 			ac.addSub("α: ", s, alphaInc[s][idx]*d)
 		}
 	}
+	for _, nb := range g.Neighbors(c) {
+		if v := m.esterAlcoholAdjust(nb.Atom); v != 0 && m.classify(c, nb.Atom) == subEster {
+			// Esters of phenols and enols: CH3CO 2.29 in phenyl acetate,
+			// 2.14 in vinyl acetate, vs 2.05 in alkyl acetates (Pretsch,
+			// from memory).
+			ac.add("ester of a phenol/enol", v)
+		}
+	}
 	if conj > 0 {
 		// C=C conjugated with C=O/C≡N: allylic H are further deshielded
 		// (crotonaldehyde CH3 2.03, methyl methacrylate CH3 1.95;
@@ -162,7 +170,9 @@ func (p *Predictor) sp3(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 	if m.ringAtom[c] > 0 && m.ringCarbonylGamma(c) {
 		ac.add("γ: ring C=O", 0.25)
 	}
-	if sz := m.ringAtom[c]; sz > 0 {
+	if sz := m.ringAtom[c]; sz > 0 && !m.ringCarbonylAlpha(c) {
+		// (Next to a ring C=O the open-chain α increment already fits:
+		// cyclohexanone α-H 2.33, γ-butyrolactone α-H 2.48.)
 		p.ringCorrection(h, int(sz), ringHet, hasRingHet, r, ac)
 	}
 	if g.Atoms[c].Element != molecule.C {
@@ -335,4 +345,43 @@ func (m *mol) ringCarbonylGamma(c int) bool {
 		}
 	}
 	return false
+}
+
+// ringCarbonylAlpha reports whether atom c is bonded, by a ring bond, to a
+// ring carbon bearing C=O.
+func (m *mol) ringCarbonylAlpha(c int) bool {
+	for _, nb := range m.g.Neighbors(c) {
+		if m.ringBond[nb.Bond] > 0 && m.carbonylOf(nb.Atom) >= 0 {
+			return true
+		}
+	}
+	return false
+}
+
+// esterAlcoholAdjust: for an ester carbonyl carbon x, the correction for an
+// aryl (+0.22) or vinyl (+0.09) alcohol part; 0 otherwise.
+func (m *mol) esterAlcoholAdjust(x int) float64 {
+	g := m.g
+	if g.Atoms[x].Element != molecule.C || m.carbonylOf(x) < 0 {
+		return 0
+	}
+	for _, nb := range g.Neighbors(x) {
+		o := nb.Atom
+		if nb.Order != molecule.Single || g.Atoms[o].Element != molecule.O {
+			continue
+		}
+		for _, n2 := range g.Neighbors(o) {
+			y := n2.Atom
+			if y == x {
+				continue
+			}
+			switch {
+			case m.arom[y]:
+				return 0.22
+			case g.Atoms[y].Element == molecule.C && m.multi[y] > 0:
+				return 0.09
+			}
+		}
+	}
+	return 0
 }
