@@ -54,6 +54,7 @@ func BenchmarkGenerate(b *testing.B) {
 		b.Run(fs, func(b *testing.B) {
 			var total int64
 			start := time.Now()
+			cpu0, cpuOK := processCPU()
 			for i := 0; i < b.N; i++ {
 				st, err := Generate(context.Background(), f, Options{Filter: DefaultFilter()}, func(g *molecule.Graph) bool { return true })
 				if err != nil {
@@ -62,6 +63,9 @@ func BenchmarkGenerate(b *testing.B) {
 				total += st.Emitted
 			}
 			b.ReportMetric(float64(total)/time.Since(start).Seconds(), "structures/s")
+			if cpu1, _ := processCPU(); cpuOK && cpu1 > cpu0 {
+				b.ReportMetric(float64(total)/(cpu1-cpu0).Seconds(), "structures/cpu-s")
+			}
 		})
 	}
 }

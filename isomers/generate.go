@@ -87,7 +87,8 @@ func frontier(ctx context.Context, p *plan) ([]task, error) {
 	tasks := roots
 	s := newSearcher(p)
 	s.emit = func(*mol) bool { return true }
-	for depth := 1; depth < p.n-1 && len(tasks) < frontierTarget; depth++ {
+	// Leave at least the last two levels to the workers.
+	for depth := 1; depth < p.n-2 && len(tasks) < frontierTarget; depth++ {
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
