@@ -244,3 +244,31 @@ func TestFractionEstimate(t *testing.T) {
 		t.Errorf("C8H14O2: estimate %.0f from %d at fraction %.3f, full count %d", est, part.Emitted, part.Fraction, full.Emitted)
 	}
 }
+
+// TestCanonicalSMILESDistinct: every emitted structure is a different
+// compound for the molecule package too (its canonical SMILES merges
+// Kekulé structures by the same aromaticity model), so the isomers
+// command never prints a line twice.
+func TestCanonicalSMILESDistinct(t *testing.T) {
+	formulas := []string{"C8H10", "C8H8", "C6H6O", "C5H5N", "C4H4N2", "C6H4O2"}
+	if testing.Short() {
+		formulas = formulas[:2]
+	}
+	for _, fs := range formulas {
+		f := molecule.MustParseFormula(fs)
+		seen := map[string]bool{}
+		var c molecule.Canonicalizer
+		_, err := Generate(context.Background(), f, Options{}, func(g *molecule.Graph) bool {
+			s, _ := c.CanonicalSMILES(g)
+			if seen[s] {
+				t.Errorf("%s: %s emitted twice", fs, s)
+			}
+			seen[s] = true
+			return true
+		})
+		if err != nil {
+			t.Fatal(err)
+		}
+		t.Logf("%s: %d distinct", fs, len(seen))
+	}
+}
