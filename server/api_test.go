@@ -328,8 +328,14 @@ func TestCancel(t *testing.T) {
 			time.Sleep(20 * time.Millisecond)
 		}
 		start := time.Now()
-		if r := c.do("POST", "/v1/jobs/"+j.ID+"/cancel", nil); r.status != http.StatusAccepted {
+		r := c.do("POST", "/v1/jobs/"+j.ID+"/cancel", nil)
+		if r.status != http.StatusAccepted {
 			t.Fatalf("cancel = %d %s", r.status, r.body)
+		}
+		var asked server.JobView
+		r.decode(t, &asked)
+		if asked.Status == store.StatusRunning && !asked.CancelRequested {
+			t.Errorf("cancel answer = %+v, want cancel_requested set while running", asked)
 		}
 		done := c.waitJob(j.ID, 5*time.Second)
 		if took := time.Since(start); done.Status != store.StatusCancelled || took > time.Second {

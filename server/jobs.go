@@ -23,17 +23,19 @@ const Caution = ranker.Caution
 // created_at, started_at, finished_at, error and reference are part of the
 // public contract.
 type JobView struct {
-	ID         string          `json:"id"`
-	Status     store.Status    `json:"status"`
-	Progress   ProgressView    `json:"progress"`
-	CreatedAt  *time.Time      `json:"created_at"`
-	StartedAt  *time.Time      `json:"started_at"`
-	FinishedAt *time.Time      `json:"finished_at"`
-	Error      *string         `json:"error"`
-	Reference  string          `json:"reference"`
-	Attempts   int             `json:"attempts"`
-	Request    json.RawMessage `json:"request,omitempty"`
-	Links      JobLinks        `json:"links"`
+	ID         string       `json:"id"`
+	Status     store.Status `json:"status"`
+	Progress   ProgressView `json:"progress"`
+	CreatedAt  *time.Time   `json:"created_at"`
+	StartedAt  *time.Time   `json:"started_at"`
+	FinishedAt *time.Time   `json:"finished_at"`
+	Error      *string      `json:"error"`
+	Reference  string       `json:"reference"`
+	Attempts   int          `json:"attempts"`
+	// CancelRequested is set while a running job is being stopped.
+	CancelRequested bool            `json:"cancel_requested"`
+	Request         json.RawMessage `json:"request,omitempty"`
+	Links           JobLinks        `json:"links"`
 }
 
 // ProgressView is a running job's progress: structures generated, scored,
@@ -68,12 +70,13 @@ func (s *Server) jobView(j store.Job) JobView {
 			Scored:        j.Progress.Scored,
 			TotalEstimate: j.Progress.TotalEstimate,
 		},
-		CreatedAt:  timePtr(j.CreatedAt),
-		StartedAt:  timePtr(j.StartedAt),
-		FinishedAt: timePtr(j.FinishedAt),
-		Reference:  j.Reference,
-		Attempts:   j.Attempts,
-		Request:    j.Request,
+		CreatedAt:       timePtr(j.CreatedAt),
+		StartedAt:       timePtr(j.StartedAt),
+		FinishedAt:      timePtr(j.FinishedAt),
+		Reference:       j.Reference,
+		Attempts:        j.Attempts,
+		CancelRequested: j.CancelRequested,
+		Request:         j.Request,
 		Links: JobLinks{
 			Self:       s.location("/v1/jobs/" + j.ID),
 			Candidates: s.location("/v1/jobs/" + j.ID + "/candidates"),

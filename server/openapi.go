@@ -15,24 +15,23 @@ var openAPI string
 
 // openAPIDoc returns the description with "servers" set to the public base
 // URL when one is configured.
-func (s *Server) openAPIDoc() ([]byte, error) {
-	if s.cfg.BaseURL == "" {
+func openAPIDoc(baseURL string) ([]byte, error) {
+	if baseURL == "" {
 		return []byte(openAPI), nil
 	}
 	var doc map[string]any
 	if err := json.Unmarshal([]byte(openAPI), &doc); err != nil {
 		return nil, fmt.Errorf("decode openapi.json: %w", err)
 	}
-	doc["servers"] = []map[string]string{{"url": s.cfg.BaseURL}}
+	doc["servers"] = []map[string]string{{"url": baseURL}}
 	return json.MarshalIndent(doc, "", "  ")
 }
 
 func (s *Server) handleOpenAPI(w http.ResponseWriter, r *http.Request) {
-	b, err := s.openAPIDoc()
-	if err != nil {
-		s.writeError(w, r, internal(err))
+	if s.openapiErr != nil {
+		s.writeError(w, r, internal(s.openapiErr))
 		return
 	}
 	w.Header().Set("Content-Type", "application/json")
-	_, _ = w.Write(b)
+	_, _ = w.Write(s.openapi)
 }

@@ -140,6 +140,9 @@ type Server struct {
 	cfg    Config
 	router chi.Router
 
+	openapi    []byte // the OpenAPI document as served
+	openapiErr error
+
 	wake chan struct{} // a job was submitted here: idle workers poll at once
 
 	mu       sync.Mutex
@@ -164,6 +167,7 @@ func New(logger *slog.Logger, st JobStore, rk Ranker, cfg Config) *Server {
 		stopping: make(chan struct{}),
 	}
 	s.bgCtx, s.bgCancel = context.WithCancel(context.Background())
+	s.openapi, s.openapiErr = openAPIDoc(s.cfg.BaseURL)
 	s.router = s.routes()
 	return s
 }
