@@ -53,6 +53,7 @@ func ParsePeaks(s string) (PeakList, error) {
 		}
 		return pl, p.errAt(i, s[i:i+1], "", "invalid UTF-8")
 	}
+	p.fold()
 	if err := p.header(&pl); err != nil {
 		return PeakList{}, err
 	}
@@ -99,14 +100,66 @@ func ParsePeaks(s string) (PeakList, error) {
 	return pl, nil
 }
 
-// journal is the state of ParsePeaks: the input and a byte offset.
+// journal is the state of ParsePeaks: the text being read, a byte
+// offset in it, and the original input when the text is a folded copy.
 type journal struct {
-	in string
-	i  int
+	in   string
+	i    int
+	orig string // the input as given
+	offs []int  // offs[k]: offset in orig of byte k of in; nil when in == orig
+}
+
+// fold replaces full-width forms (U+FF01–U+FF5E, as pasted from CJK
+// sources: "（s，3H）") and the ideographic space by their ASCII
+// equivalents, keeping a map back to the original offsets.
+func (p *journal) fold() {
+	p.orig = p.in
+	if !strings.ContainsFunc(p.in, func(r rune) bool { return r >= 0xFF01 && r <= 0xFF5E || r == 0x3000 }) {
+		return
+	}
+	var b strings.Builder
+	offs := make([]int, 0, len(p.in)+1)
+	for i, r := range p.in {
+		switch {
+		case r >= 0xFF01 && r <= 0xFF5E:
+			b.WriteByte(byte(r - 0xFEE0))
+			offs = append(offs, i)
+		case r == 0x3000:
+			b.WriteByte(' ')
+			offs = append(offs, i)
+		default:
+			n := utf8.RuneLen(r)
+			b.WriteRune(r)
+			for k := 0; k < n; k++ {
+				offs = append(offs, i+k)
+			}
+		}
+	}
+	p.in = b.String()
+	p.offs = append(offs, len(p.orig))
+}
+
+// origSpan maps a span of the text being read to the original input.
+func (p *journal) origSpan(from, to int) (int, string) {
+	if p.offs == nil {
+		return from, p.orig[from:to]
+	}
+	return p.offs[from], p.orig[p.offs[from]:p.offs[to]]
 }
 
 func (p *journal) errAt(pos int, tok, field, msg string) error {
-	return &PeakError{Input: p.in, Pos: pos, Token: tok, Field: field, Msg: msg}
+	if p.offs != nil && pos >= 0 && pos <= len(p.in) {
+		if pos+len(tok) <= len(p.in) && p.in[pos:pos+len(tok)] == tok {
+			pos, tok = p.origSpan(pos, pos+len(tok))
+		} else {
+			pos = p.offs[pos]
+		}
+	}
+	in := p.orig
+	if in == "" {
+		in = p.in
+	}
+	return &PeakError{Input: in, Pos: pos, Token: tok, Field: field, Msg: msg}
 }
 
 func (p *journal) eof() bool { return p.i >= len(p.in) }
@@ -587,7 +640,6 @@ func (p *journal) peak() (Peak, error) {
 		p.i = save
 	}
 	pk.setShift(a, b)
-	pk.Pos = start
 	save = p.i
 	p.skipSpace()
 	if hasPrefixFold(p.in[p.i:], "ppm") {
@@ -609,7 +661,7 @@ func (p *journal) peak() (Peak, error) {
 	} else {
 		p.i = save
 	}
-	pk.Text = p.in[start:p.i]
+	pk.Pos, pk.Text = p.origSpan(start, p.i)
 	if field, msg := checkPeak(pk); msg != "" {
 		return pk, p.errAt(start, pk.Text, field, msg)
 	}
@@ -667,6 +719,12 @@ func (p *journal) describe(pk *Peak, from, to int) error {
 		lastJ = false
 		afterLabel := lastLabel
 		lastLabel = false
+		if !afterLabel && !isIntegral(text) && isJList(text) {
+			// Numbers that are neither J nor an integral ("(s, 3)"): most
+			// likely an integral without its H. (After a note they continue
+			// it: "H-2,6".)
+			return p.errAt(it.pos, text, "integral", "expected an integral such as 2H")
+		}
 		if numberAt(text, 0) {
 			_, tok, end, ok := scanNumber(text, 0)
 			switch {

@@ -83,6 +83,9 @@ ok("labels with digits and commas", "δ 7.10 (d, J = 8.5 Hz, 2H, H-2,6), 1.20 (s
    peaks=[P(7.10, m="d", j=[8.5], i=2, label="H-2, 6"), P(1.20, m="s", i=6, label="2 × CH3"), P(6.80, m="d", j=[8.5], label="3-H")])
 ok("J without J =", "δ 7.80 (dd, 8.0, 2.1 Hz, 1H), 1.26 (t, 7.1 Hz, 3H)", peaks=[P(7.80, m="dd", j=[8.0, 2.1], i=1), P(1.26, m="t", j=[7.1], i=3)])
 
+ok("full-width punctuation", "1H NMR（400 MHz，CDCl3）δ 4.12（q，J ＝ 7.1 Hz，2H），2.05（s，3H）", 400, "CDCl3",
+   [P(4.12, m="q", j=[7.1], i=2), P(2.05, m="s", i=3)])
+bad("full-width, error position in the original", "δ 4.12（q，2H），2.05（x，3H）", "x", "multiplicity")
 bad("decimal comma", "δ 4,12 (q, 2H)", "4,1", "shift")
 bad("malformed integral", "δ 4.12 (q, 2.0.4H)", "2.0.4H", "integral")
 bad("unknown multiplicity", "1H NMR (400 MHz, CDCl3) δ 4.12 (x, 2H)", "x", "multiplicity")
