@@ -189,9 +189,12 @@ type PeakFlag struct {
 	Delta  float64       // observed shift minus Signal.Shift, ppm
 	// Exclude is true when the peak is taken to be the solvent signal
 	// itself: a single shift within Signal.Tolerance whose multiplicity
-	// (if given) fits. It is false when the signal merely lies inside a
-	// reported range or a multiplet of the compound, so that the peak's
-	// integral may include it.
+	// (if given) fits; for water further than residualTolerance from the
+	// tabulated shift, only a broad or unreported multiplicity or a peak
+	// without an integral. It is false when the signal merely lies inside
+	// a reported range or a multiplet of the compound, or may be the
+	// compound's own sharp singlet, so that the peak's integral may
+	// include it.
 	Exclude bool
 }
 
@@ -214,7 +217,12 @@ func FlagSolvent(pl PeakList, solvent string) []PeakFlag {
 			f := PeakFlag{Peak: i, Signal: sig, Delta: p.Shift - sig.Shift}
 			switch {
 			case !p.IsRange() && math.Abs(f.Delta) <= sig.Tolerance && fitsSignal(p.Multiplicity, sig):
-				f.Exclude = true
+				// Water wanders, so its window is wide; a sharp singlet
+				// with an integral away from the tabulated shift may be
+				// the compound's (a methoxy group near water in DMSO-d6):
+				// flag it without leaving it out.
+				f.Exclude = sig.Kind != "water" || math.Abs(f.Delta) <= residualTolerance ||
+					p.Integral == 0 || p.Multiplicity != "s"
 			case p.ShiftLo-sig.Tolerance <= sig.Shift && sig.Shift <= p.ShiftHi+sig.Tolerance:
 				// Inside a range, or near a peak of another multiplicity.
 			default:

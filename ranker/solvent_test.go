@@ -115,6 +115,12 @@ func TestFlagSolvent(t *testing.T) {
 	if f := FlagSolvent(pl, "DMSO-d6"); len(f) != 1 || f[0].Peak != 6 {
 		t.Errorf("FlagSolvent(DMSO-d6) = %+v, want only TMS at peak 6", f)
 	}
+	// A methoxy singlet 0.05 ppm from the water signal of DMSO-d6 is
+	// flagged but kept; a broad one there is water.
+	pl3, _ := ParsePeaks("1H NMR (DMSO-d6) δ 3.28 (s, 3H), 3.38 (br s, 2H)")
+	if f := FlagSolvent(pl3, ""); len(f) != 2 || f[0].Exclude || !f[1].Exclude {
+		t.Errorf("FlagSolvent(DMSO-d6 3.28 s 3H, 3.38 br s) = %+v, want the first kept, the second excluded", f)
+	}
 	// A compound's triplet at the water shift is not water.
 	pl2, _ := ParsePeaks("δ 1.56 (t, J = 7 Hz, 3H)")
 	if f := FlagSolvent(pl2, "CDCl3"); len(f) != 1 || f[0].Exclude {
