@@ -477,6 +477,9 @@ func (p *Predictor) couple(m *mol, w *work, groups []hgroup, reps, order []int, 
 		}
 		sortCouplings(e.Couplings)
 	}
+	if p.opts.Explain {
+		sp.spins = p.spinTable(m, groups, envs, broad)
+	}
 	// Atoms of the coupled environments.
 	for id := range envs {
 		for i := range envs[id].Couplings {
@@ -701,4 +704,51 @@ func (p *Predictor) isABPair(envs []Environment, a, b int) bool {
 		return true
 	}
 	return only(a, b) && only(b, a)
+}
+
+// spinTable records the proton–proton couplings between individual H
+// groups (not only between environments), so that Simulate can build the
+// spin Hamiltonian of, for example, an AA'BB' ring system with its distinct
+// ortho and para couplings. Spins of one group share their couplings (a
+// group is one atom's hydrogens).
+type spinTable struct {
+	groups []spinGroup
+	pairs  []spinPair
+}
+
+type spinGroup struct{ env, h int }
+
+type spinPair struct {
+	a, b int // group indices
+	j    float64
+}
+
+func (p *Predictor) spinTable(m *mol, groups []hgroup, envs []Environment, broad []bool) *spinTable {
+	st := &spinTable{groups: make([]spinGroup, len(groups))}
+	var buf []jterm
+	for i := range groups {
+		st.groups[i] = spinGroup{env: groups[i].env, h: groups[i].h}
+	}
+	for i := range groups {
+		A := &groups[i]
+		if envs[A.env].Exchangeable || broad[A.env] {
+			continue
+		}
+		for k := i + 1; k < len(groups); k++ {
+			B := &groups[k]
+			if envs[B.env].Exchangeable || broad[B.env] {
+				continue
+			}
+			buf = p.pairJ(m, A, B, buf[:0])
+			// Mean coupling of one H of A to one H of B.
+			sum := 0.0
+			for _, t := range buf {
+				sum += t.j * float64(t.n)
+			}
+			if sum > 0 {
+				st.pairs = append(st.pairs, spinPair{a: i, b: k, j: sum / float64(B.h)})
+			}
+		}
+	}
+	return st
 }

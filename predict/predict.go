@@ -66,6 +66,9 @@ type Spectrum struct {
 	// Notes are remarks about the whole prediction (for example a spin
 	// system too large for the full simulation).
 	Notes []string
+
+	// spins holds group-level couplings for Simulate (Explain only).
+	spins *spinTable
 }
 
 // HydrogenCount returns the sum of the environments' H counts.

@@ -132,7 +132,13 @@ func Simulate(s *Spectrum, opts SimOptions) Trace {
 			}
 		}
 		if strong && !opts.FirstOrder && spins <= MaxSpinSystem && !hasHetero(envs, mem) {
-			lines, err := exactLines(envs, mem, opts.MHz)
+			var lines []Line
+			var err error
+			if s.spins != nil {
+				lines, err = exactGroupLines(envs, s.spins, mem, opts.MHz)
+			} else {
+				lines, err = exactLines(envs, mem, opts.MHz)
+			}
 			if err == nil {
 				tr.Lines = append(tr.Lines, lines...)
 				continue
@@ -228,6 +234,45 @@ func binom(n, k int) float64 {
 	return r
 }
 
+// exactGroupLines solves the spin system of environments mem from the
+// group-level couplings recorded by Predict.
+func exactGroupLines(envs []Environment, st *spinTable, mem []int, mhz float64) ([]Line, error) {
+	inMem := make(map[int]bool, len(mem))
+	for _, e := range mem {
+		inMem[e] = true
+	}
+	first := make(map[int]int) // group -> first spin
+	var nu []float64
+	for gi, gr := range st.groups {
+		if !inMem[gr.env] {
+			continue
+		}
+		first[gi] = len(nu)
+		for k := 0; k < gr.h; k++ {
+			nu = append(nu, envs[gr.env].Shift*mhz)
+		}
+	}
+	n := len(nu)
+	J := make([][]float64, n)
+	for i := range J {
+		J[i] = make([]float64, n)
+	}
+	for _, pr := range st.pairs {
+		fa, oka := first[pr.a]
+		fb, okb := first[pr.b]
+		if !oka || !okb {
+			continue
+		}
+		for x := 0; x < st.groups[pr.a].h; x++ {
+			for y := 0; y < st.groups[pr.b].h; y++ {
+				J[fa+x][fb+y] = pr.j
+				J[fb+y][fa+x] = pr.j
+			}
+		}
+	}
+	return solveLines(envs, mem, nu, J, mhz)
+}
+
 // exactLines builds one spin per hydrogen of the member environments and
 // solves the spin system. Spins of one environment are treated as
 // magnetically equivalent (same coupling to every spin of another
@@ -272,6 +317,13 @@ func exactLines(envs []Environment, mem []int, mhz float64) ([]Line, error) {
 			}
 		}
 	}
+	return solveLines(envs, mem, nu, J, mhz)
+}
+
+// solveLines diagonalises the spin system and returns its lines, with
+// areas normalised to the number of spins.
+func solveLines(envs []Environment, mem []int, nu []float64, J [][]float64, mhz float64) ([]Line, error) {
+	n := len(nu)
 	tl, err := SpinTransitions(nu, J)
 	if err != nil {
 		return nil, err

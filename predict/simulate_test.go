@@ -171,3 +171,48 @@ func TestSimulateLargeSpinSystem(t *testing.T) {
 		t.Errorf("decane: want a first-order fallback note, got none")
 	}
 }
+
+// TestExactGroupSpinsWeakLimit: the exact solution built from the
+// group-level couplings of a prediction (three ring protons of a
+// 1,2,4-trisubstituted benzene with ortho and meta couplings) reproduces
+// the first-order multiplets when Δν ≫ J (simulated at 5000 MHz); a check
+// of the Hamiltonian against the n+1 rule (common practice).
+func TestExactGroupSpinsWeakLimit(t *testing.T) {
+	p := New(Options{Explain: true, MHz: 5000})
+	sp, err := p.Predict(mustParse(t, "Cc1ccc(Cl)c(Cl)c1"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var ring []int
+	for _, e := range sp.Environments {
+		if e.Kind == "aromatic CH" {
+			ring = append(ring, e.ID)
+		}
+	}
+	if len(ring) != 3 || sp.spins == nil {
+		t.Fatalf("want 3 aromatic environments and a spin table, got %v", ring)
+	}
+	const mhz = 5000
+	exact, err := exactGroupLines(sp.Environments, sp.spins, ring, mhz)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, id := range ring {
+		e := sp.Environments[id]
+		e.Couplings = append([]Coupling(nil), e.Couplings...)
+		for i := range e.Couplings {
+			e.Couplings[i].Resolved = true // compare with every coupling, resolved or not
+		}
+		for _, fl := range firstOrderLines(e, mhz) {
+			got := 0.0
+			for _, l := range exact {
+				if math.Abs(l.PPM-fl.PPM)*mhz < 0.1 {
+					got += l.Intensity
+				}
+			}
+			if math.Abs(got-fl.Intensity) > 0.02 {
+				t.Errorf("env %d line at %.4f ppm: exact intensity %.3f, first order %.3f", id, fl.PPM, got, fl.Intensity)
+			}
+		}
+	}
+}
