@@ -130,12 +130,13 @@ type solver struct {
 	tmpP2  []int
 	xLoad  []int
 	nodes  int
+	limit  int // node budget of the current search
 	rootLB float64
 	// seen maps a search state (depth and per-peak loads, packed) to the
 	// least separable cost it was reached with: the rest of the search
 	// depends only on that state, so reaching it again at no lower cost
 	// cannot lead to a better assignment.
-	seen     map[uint64]float64
+	seen     stateMemo
 	packable bool
 	bits     uint
 }
@@ -204,10 +205,44 @@ func (s *solver) solve(p *assignProblem) assignment {
 	s.phi = growF(s.phi, m*w)
 	s.nodes = 0
 	s.best = math.Inf(1)
+	s.bits = uint(bitsFor(p.maxLoad))
+	s.packable = uint(m)*s.bits+uint(bitsFor(n)) <= 64
 
-	s.tunePrices()
+	// Most candidates are settled by a short search with zero prices (the
+	// greedy assignment as incumbent); only if that runs out of nodes are
+	// the prices tuned and the search run again to the end.
+	clear(s.lambda)
+	for d, i := range s.order {
+		o := s.opts[d]
+		for k := range o {
+			o[k].rc = o[k].cost
+		}
+		slices.SortFunc(o, compareOptions)
+		s.bestP1[i], s.bestP2[i] = o[0].p1, o[0].p2
+	}
+	clear(s.load)
+	s.best = p.evaluateWith(s.bestP1, s.bestP2, s.load)
+	s.limit = quickNodes
+	if !s.runSearch() {
+		s.tunePrices()
+		s.limit = maxNodes
+		s.runSearch()
+	}
+	cost := p.evaluateWith(s.bestP1, s.bestP2, s.load)
+	clear(s.load)
+	return assignment{first: s.bestP1, second: s.bestP2, cost: cost, proven: s.nodes < s.limit}
+}
 
-	// Reduced costs at the chosen prices, options sorted by them.
+// quickNodes is the node budget of the first, price-free search.
+const quickNodes = 64
+
+// runSearch sorts the options by reduced cost at the current prices,
+// tabulates the bound and searches until done or s.limit nodes; it
+// reports whether the search finished.
+func (s *solver) runSearch() bool {
+	p := s.p
+	n, m := p.nEnv, p.nPeak
+	w := p.maxLoad + 1
 	for d := range s.order {
 		o := s.opts[d]
 		h := p.envH[s.order[d]]
@@ -221,22 +256,15 @@ func (s *solver) solve(p *assignProblem) assignment {
 		s.restG[d] = s.restG[d+1] + s.opts[d][0].rc
 	}
 	s.fillPhi()
-
 	clear(s.load)
-	s.bits = uint(bitsFor(p.maxLoad))
-	s.packable = uint(m)*s.bits+uint(bitsFor(n)) <= 64
-	if s.seen == nil {
-		s.seen = make(map[uint64]float64)
-	}
-	clear(s.seen)
+	s.seen.reset()
 	pb := 0.0
 	for j := 0; j < m; j++ {
 		pb += s.phi[j*w]
 	}
+	s.nodes = 0
 	s.search(0, 0, pb)
-	cost := p.evaluateWith(s.bestP1, s.bestP2, s.load)
-	clear(s.load)
-	return assignment{first: s.bestP1, second: s.bestP2, cost: cost, proven: s.nodes < maxNodes}
+	return s.nodes < s.limit
 }
 
 // reduced returns the cost of option o of an environment of h hydrogens
@@ -395,7 +423,7 @@ func compareOptions(a, b option) int {
 // per-peak part of the bound pb).
 func (s *solver) search(d int, cur, pb float64) {
 	s.nodes++
-	if s.nodes >= maxNodes {
+	if s.nodes >= s.limit {
 		return
 	}
 	p := s.p
@@ -416,10 +444,9 @@ func (s *solver) search(d int, cur, pb float64) {
 		for j := 0; j < p.nPeak; j++ {
 			k = k<<s.bits | uint64(s.load[j])
 		}
-		if c, ok := s.seen[k]; ok && c <= cur {
+		if !s.seen.improve(k, cur) {
 			return
 		}
-		s.seen[k] = cur
 	}
 	i := s.order[d]
 	h := p.envH[i]
@@ -466,6 +493,68 @@ func (s *solver) search(d int, cur, pb float64) {
 		default:
 			s.load[o.p1] -= h / 2
 			s.load[o.p2] -= h / 2
+		}
+	}
+}
+
+// stateMemo is an open-addressing hash table from packed search states
+// to the least cost they were reached with. reset is O(1): entries carry
+// the generation they were written in.
+type stateMemo struct {
+	keys []uint64
+	vals []float64
+	gens []uint32
+	gen  uint32
+	n    int
+}
+
+func (t *stateMemo) reset() {
+	t.gen++
+	t.n = 0
+	if t.gen == 0 || len(t.keys) == 0 {
+		t.alloc(1024)
+	}
+}
+
+func (t *stateMemo) alloc(size int) {
+	t.keys = make([]uint64, size)
+	t.vals = make([]float64, size)
+	t.gens = make([]uint32, size)
+	t.gen = 1
+	t.n = 0
+}
+
+// improve records cost for key and reports true if key was new or
+// reached before only at a higher cost.
+func (t *stateMemo) improve(key uint64, cost float64) bool {
+	if 2*(t.n+1) > len(t.keys) {
+		t.grow()
+	}
+	mask := uint64(len(t.keys) - 1)
+	i := (key * 0x9E3779B97F4A7C15) >> 20 & mask
+	for {
+		switch {
+		case t.gens[i] != t.gen:
+			t.keys[i], t.vals[i], t.gens[i] = key, cost, t.gen
+			t.n++
+			return true
+		case t.keys[i] == key:
+			if t.vals[i] <= cost {
+				return false
+			}
+			t.vals[i] = cost
+			return true
+		}
+		i = (i + 1) & mask
+	}
+}
+
+func (t *stateMemo) grow() {
+	keys, vals, gens, gen := t.keys, t.vals, t.gens, t.gen
+	t.alloc(2 * len(keys))
+	for i := range keys {
+		if gens[i] == gen {
+			t.improve(keys[i], vals[i])
 		}
 	}
 }
