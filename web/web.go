@@ -54,6 +54,7 @@ func Handler() http.Handler {
 			h.Set("Cache-Control", "no-cache")
 			h.Set("X-Content-Type-Options", "nosniff")
 			h.Set("Referrer-Policy", "same-origin")
+			h.Set("Content-Security-Policy", contentSecurityPolicy)
 			if r.Method == http.MethodHead {
 				return
 			}
@@ -73,6 +74,14 @@ func Handler() http.Handler {
 		}
 	})
 }
+
+// contentSecurityPolicy keeps the page to its own origin: no inline or
+// third-party scripts. RDKit's WebAssembly glue builds its bindings with
+// new Function, hence 'unsafe-eval'; the drawings and bars carry inline
+// style attributes, hence 'unsafe-inline' for styles only.
+const contentSecurityPolicy = "default-src 'self'; script-src 'self' 'unsafe-eval' 'wasm-unsafe-eval'; " +
+	"style-src 'self' 'unsafe-inline'; img-src 'self' data: blob:; connect-src 'self'; object-src 'none'; " +
+	"base-uri 'none'; form-action 'self'; frame-ancestors 'none'"
 
 // isJobPath reports whether p is /jobs/{id} with a non-empty id made of
 // URL-safe characters and no further segments.

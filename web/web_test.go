@@ -49,6 +49,9 @@ func TestHandlerRoutes(t *testing.T) {
 			if !strings.Contains(string(body), tc.body) {
 				t.Errorf("%s %s: body lacks %q", tc.method, tc.path, tc.body)
 			}
+			if tc.contentType == "text/html" && !strings.Contains(res.Header.Get("Content-Security-Policy"), "default-src 'self'") {
+				t.Errorf("%s %s: no same-origin Content-Security-Policy", tc.method, tc.path)
+			}
 			if tc.method == "HEAD" && len(body) != 0 {
 				t.Errorf("HEAD %s: body of %d bytes, want none", tc.path, len(body))
 			}

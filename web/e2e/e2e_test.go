@@ -20,9 +20,11 @@ import (
 	"os/exec"
 	"path/filepath"
 	"strings"
+	"sync"
 	"testing"
 	"time"
 
+	"github.com/chromedp/cdproto/runtime"
 	"github.com/chromedp/chromedp"
 
 	"shiftrank/web"
@@ -95,12 +97,88 @@ func newBrowser(t *testing.T, exe string) context.Context {
 	return ctx
 }
 
+// scriptErrors collects the page's uncaught exceptions and console.error
+// calls, so a test can fail on them.
+type scriptErrors struct {
+	mu   sync.Mutex
+	list []string
+}
+
+func (s *scriptErrors) add(msg string) {
+	s.mu.Lock()
+	s.list = append(s.list, msg)
+	s.mu.Unlock()
+}
+
+// take returns the errors collected since the last call.
+func (s *scriptErrors) take() []string {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	l := s.list
+	s.list = nil
+	return l
+}
+
+// watchScripts subscribes to the tab's exceptions and console errors.
+func watchScripts(ctx context.Context) *scriptErrors {
+	se := &scriptErrors{}
+	exceptions := chromedp.Events(ctx, runtime.ExceptionThrown)
+	console := chromedp.Events(ctx, runtime.ConsoleAPICalled)
+	go func() {
+		for ev, err := range exceptions {
+			if err != nil {
+				return
+			}
+			d := ev.ExceptionDetails
+			msg := d.Text
+			if d.Exception != nil && d.Exception.Description != "" {
+				msg += " " + d.Exception.Description
+			}
+			se.add(fmt.Sprintf("uncaught exception at %s:%d: %s", d.URL, d.LineNumber+1, msg))
+		}
+	}()
+	go func() {
+		for ev, err := range console {
+			if err != nil {
+				return
+			}
+			if ev.Type != runtime.ConsoleAPICalledTypeError {
+				continue
+			}
+			var parts []string
+			for _, a := range ev.Args {
+				if a.Description != "" {
+					parts = append(parts, a.Description)
+				} else {
+					parts = append(parts, string(a.Value))
+				}
+			}
+			se.add("console.error: " + strings.Join(parts, " "))
+		}
+	}()
+	return se
+}
+
 // page wraps a browser tab with helpers that fail the test on error.
 type page struct {
 	t    *testing.T
 	ctx  context.Context
 	base string
 	art  string
+	errs *scriptErrors
+}
+
+// run runs one scenario as a subtest on the shared tab and fails it for
+// any script error the page raised meanwhile.
+func (p *page) run(name string, f func(p *page)) {
+	p.t.Run(name, func(t *testing.T) {
+		q := &page{t: t, ctx: p.ctx, base: p.base, art: p.art, errs: p.errs}
+		q.errs.take()
+		f(q)
+		for _, e := range q.errs.take() {
+			t.Errorf("page script error: %s", e)
+		}
+	})
 }
 
 func (p *page) do(what string, actions ...chromedp.Action[chromedp.Void]) {
@@ -215,13 +293,9 @@ func TestParsers(t *testing.T) {
 	exe := chromiumPath(t)
 	srv := httptest.NewServer(web.Handler())
 	t.Cleanup(srv.Close)
-	p := &page{t: t, ctx: newBrowser(t, exe), base: srv.URL, art: artifactsDir(t)}
-	sub := func(name string, f func(p *page)) {
-		t.Run(name, func(t *testing.T) {
-			f(&page{t: t, ctx: p.ctx, base: p.base, art: p.art})
-		})
-	}
-	sub("formulas and peak lists", testClientParsers)
-	sub("table text round trip", testTableTextRandom)
-	sub("first-order multiplets", testMultiplets)
+	ctx := newBrowser(t, exe)
+	p := &page{t: t, ctx: ctx, base: srv.URL, art: artifactsDir(t), errs: watchScripts(ctx)}
+	p.run("formulas and peak lists", testClientParsers)
+	p.run("table text round trip", testTableTextRandom)
+	p.run("first-order multiplets", testMultiplets)
 }

@@ -19,26 +19,19 @@ func TestPage(t *testing.T) {
 	h, _ := newAPI(t, false)
 	srv := httptest.NewServer(h)
 	t.Cleanup(srv.Close)
-	p := &page{t: t, ctx: newBrowser(t, exe), base: srv.URL, art: artifactsDir(t)}
-
-	// Scenarios share one browser; each subtest uses the parent's page with
-	// its own *testing.T.
-	sub := func(name string, f func(p *page)) {
-		t.Run(name, func(t *testing.T) {
-			f(&page{t: t, ctx: p.ctx, base: p.base, art: p.art})
-		})
-	}
-	sub("example", testExample)
-	sub("bad formula", testBadFormula)
-	sub("cancel", testCancel)
+	ctx := newBrowser(t, exe)
+	p := &page{t: t, ctx: ctx, base: srv.URL, art: artifactsDir(t), errs: watchScripts(ctx)}
+	// Scenarios share one browser tab.
+	p.run("example", testExample)
+	p.run("bad formula", testBadFormula)
+	p.run("cancel", testCancel)
 
 	// A service that requires API keys.
 	hk, key := newAPI(t, true)
 	srvKey := httptest.NewServer(hk)
 	t.Cleanup(srvKey.Close)
-	t.Run("api key", func(t *testing.T) {
-		testAPIKey(&page{t: t, ctx: p.ctx, base: srvKey.URL, art: p.art}, key)
-	})
+	pk := &page{t: t, ctx: ctx, base: srvKey.URL, art: p.art, errs: p.errs}
+	pk.run("api key", func(p *page) { testAPIKey(p, key) })
 }
 
 func testAPIKey(p *page, key string) {
