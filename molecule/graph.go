@@ -252,20 +252,19 @@ func (g *Graph) Connected() bool {
 }
 
 // CheckValence returns an error naming the first atom whose valence
-// (bond-order sum plus hydrogens, corrected for formal charge) is not one
-// of its element's allowed neutral valences.
+// (bond-order sum plus hydrogens) is not allowed for its element and
+// formal charge: the element's neutral valences for uncharged atoms, those
+// of the isoelectronic neutral atom for charges ±1 (N+ 4, O− 1, C− 3, ...;
+// common practice); other charges are reported as unsupported.
 func (g *Graph) CheckValence() error {
 	for i, a := range g.Atoms {
 		v := g.Valence(i)
-		ok := false
-		for _, allowed := range a.Element.Valences() {
-			if v == allowed {
-				ok = true
-				break
-			}
+		allowed := allowedValences(a.Element, a.Charge)
+		if allowed == nil {
+			return fmt.Errorf("atom %d (%s%s): charge not supported", i, a.Element, chargeSuffix(a.Charge))
 		}
-		if !ok && a.Charge == 0 {
-			return fmt.Errorf("atom %d (%s): valence %d not allowed (allowed %v)", i, a.Element, v, a.Element.Valences())
+		if !valenceAllowed(a.Element, a.Charge, v) {
+			return fmt.Errorf("atom %d (%s%s): valence %d not allowed (allowed %v)", i, a.Element, chargeSuffix(a.Charge), v, allowed)
 		}
 	}
 	return nil

@@ -18,8 +18,9 @@ func Kekulize(g *Graph) error {
 }
 
 // kekuleBudget bounds the backtracking search for a perfect matching. With
-// forced moves first, real aromatic systems need a few steps per atom.
-const kekuleBudget = 1 << 20
+// forced moves first, real aromatic systems need about one step per atom
+// pair.
+const kekuleBudget = 20000
 
 // kekulize implements Kekulize and also returns an atom to blame on error
 // (-1 if none).
@@ -53,6 +54,11 @@ func kekulize(g *Graph) (int, error) {
 	k := kekuleSearch{g: g, need: need, mate: make([]int, n), budget: kekuleBudget}
 	for i := range k.mate {
 		k.mate[i] = -1
+	}
+	// A connected group of atoms needing a double bond with an odd count
+	// has no perfect matching: fail without searching.
+	if bad := k.oddComponent(); bad >= 0 {
+		return bad, errors.New("cannot kekulise the aromatic system (no arrangement of alternating double bonds fits; check [nH] and ring closures)")
 	}
 	if !k.solve() {
 		bad := k.blame()
@@ -134,6 +140,37 @@ func (k *kekuleSearch) solve() bool {
 		}
 	}
 	return false
+}
+
+// oddComponent returns the first atom of a connected set (via aromatic
+// bonds) of atoms needing a double bond with an odd number of atoms, or -1.
+func (k *kekuleSearch) oddComponent() int {
+	n := len(k.need)
+	seen := make([]bool, n)
+	var stack []int
+	for s := 0; s < n; s++ {
+		if !k.need[s] || seen[s] {
+			continue
+		}
+		seen[s] = true
+		stack = append(stack[:0], s)
+		size := 0
+		for len(stack) > 0 {
+			v := stack[len(stack)-1]
+			stack = stack[:len(stack)-1]
+			size++
+			for _, nb := range k.g.Neighbors(v) {
+				if nb.Order == Aromatic && k.need[nb.Atom] && !seen[nb.Atom] {
+					seen[nb.Atom] = true
+					stack = append(stack, nb.Atom)
+				}
+			}
+		}
+		if size%2 == 1 {
+			return k.blame()
+		}
+	}
+	return -1
 }
 
 // blame picks an atom to report: the first atom of an aromatic component

@@ -134,3 +134,19 @@ func TestSMILESRoundTrip(t *testing.T) {
 		}
 	}
 }
+
+func TestCheckValence(t *testing.T) {
+	// Valences: common practice (neutral and isoelectronic charged atoms).
+	for _, tc := range []struct {
+		smiles string
+		ok     bool
+	}{
+		{"CCO", true}, {"[NH4+]", true}, {"C[N+](=O)[O-]", true}, {"CC(=O)[O-]", true},
+		{"[CH2]", false}, {"[S]", false}, {"CS(=O)(=O)C", true}, {"[CH3+]", true}, {"[CH3-]", true},
+	} {
+		err := MustParseSMILES(tc.smiles).CheckValence()
+		if (err == nil) != tc.ok {
+			t.Errorf("CheckValence(%q) = %v, want ok=%v", tc.smiles, err, tc.ok)
+		}
+	}
+}
