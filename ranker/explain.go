@@ -174,6 +174,8 @@ func explainCandidate(sc *scorer, j *job, sp *predict.Spectrum, smi string) Cand
 			as.Terms.Integration = sc.integrationLogP(load, p.h)
 		}
 		as.Terms.Overlap = -float64(len(parts)-1) * sc.overlapCost(p)
+		as.Terms.Integration += 0 // no negative zero in the JSON
+		as.Terms.Overlap += 0
 		as.PredictedMultiplicity = strings.Join(mults, " + ")
 		as.MultiplicityReason = strings.Join(reasons, "; ")
 		as.ScoreShare = as.Terms.Shift + as.Terms.Multiplicity + as.Terms.J + as.Terms.Integration + as.Terms.Overlap
@@ -215,8 +217,13 @@ func multiplicityReason(sp *predict.Spectrum, e *predict.Environment, half bool,
 			who = cp.Nucleus
 		}
 		where := ""
-		if len(cp.Atoms) > 0 {
-			where = " on atom " + joinInts(cp.Atoms)
+		switch {
+		case len(cp.Atoms) == 1:
+			where = fmt.Sprintf(" on atom %d", cp.Atoms[0])
+		case len(cp.Atoms) > 1 && cp.N <= len(cp.Atoms) && cp.N > 0 && cp.N%len(cp.Atoms) != 0:
+			where = " of atoms " + joinInts(cp.Atoms)
+		case len(cp.Atoms) > 1:
+			where = " on atoms " + joinInts(cp.Atoms)
 		}
 		label := ""
 		if cp.Label != "" {
