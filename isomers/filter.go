@@ -22,7 +22,7 @@ type ruleDef struct {
 }
 
 // numRules is the number of rules in ruleTable.
-const numRules = 13
+const numRules = 18
 
 // ruleTable lists the rules in the order they are applied and reported.
 // The reasons are textbook organic chemistry (common practice); the ring
@@ -35,12 +35,17 @@ var ruleTable = [numRules]ruleDef{
 	{Rule{"no-enol", "Keto–enol tautomerism: a hydroxyl on a non-aromatic C=C (enol) or C≡C (ynol) carbon converts to the carbonyl tautomer, which dominates at equilibrium for simple carbonyl compounds. Phenols (aromatic) are kept."}, enol},
 	{Rule{"no-imidic-acid", "Amide–imidic acid tautomerism: HO–C=N converts to the amide H–N–C=O, which dominates at equilibrium. Aromatic hydroxy-heterocycles are kept."}, imidicAcid},
 	{Rule{"no-gem-diol", "Two hydroxyls on one sp3 carbon (gem-diol, carbonyl hydrate) lose water to the carbonyl compound; isolable only for strongly electron-poor carbonyls such as chloral (common practice)."}, gemDiol},
-	{Rule{"no-hemiacetal", "An sp3 carbon bearing both OH and OR (hemiacetal, hemiketal) is in equilibrium with the carbonyl compound and the alcohol and is rarely isolated (cyclic sugar hemiacetals are the notable exception; switch the rule off for carbohydrates)."}, hemiacetal},
+	{Rule{"no-hemiacetal", "An sp3 carbon bearing both OH and OR (hemiacetal, hemiketal), or OH and SR/SH, or SH and OR (hemithioacetals), is in equilibrium with the carbonyl compound and the alcohol or thiol and is rarely isolated (cyclic sugar hemiacetals are the notable exception; switch the rule off for carbohydrates)."}, hemiacetal},
 	{Rule{"no-hemiaminal", "An sp3 carbon bearing both OH and an amine nitrogen (hemiaminal, carbinolamine) eliminates water to the imine or reverts to carbonyl plus amine; N-hydroxymethyl amides, which are stable, are kept."}, hemiaminal},
 	{Rule{"no-hypohalite", "O–halogen bonds (hypohalites, R–O–X) are strong oxidants that decompose readily; they are not isolated as routine unknowns (common practice)."}, hypohalite},
 	{Rule{"no-antiaromatic-ring", "Small rings with 4n π electrons are antiaromatic: oxirenes, thiirenes and 1H-azirines (a C=C or C=N double bond plus a lone-pair heteroatom in a three-membered ring) and cyclobutadienes or azetes (two double bonds in a four-membered ring) are observed only in matrices or with bulky substituents (Breslow 1973, Acc. Chem. Res. 6:393, from memory)."}, antiaromaticRing},
-	{Rule{"no-hypervalent-hydride", "Hydrogen on hypervalent sulfur (S(IV), S(VI)) and on P(V) without a P=X double bond (e.g. SH4, CH3SH3, PH5) tautomerise or eliminate H2; stable P(V)–H compounds (phosphinates, H-phosphonates, secondary phosphine oxides) carry P=O and are kept."}, hypervalentHydride},
+	{Rule{"no-hypervalent-hydride", "Hydrogen on hypervalent sulfur (S(IV), S(VI)) and on P(V) without a P=O or P=S bond (e.g. SH4, CH3SH3, PH5, H2P(=CH2)R) tautomerise or eliminate H2; stable P(V)–H compounds (phosphinates, H-phosphonates, secondary phosphine oxides and sulfides) carry P=O or P=S and are kept."}, hypervalentHydride},
 	{Rule{"no-bare-hypervalent", "Hypervalent sulfur (S(IV), S(VI)) or phosphorus (P(V)) with neither a double bond nor an oxygen or halogen neighbour (e.g. tetramethyl-λ4-sulfane, pentamethylphosphorane) is unstable; real hypervalent compounds (sulfoxides, sulfones, SF4, phosphates, PCl5) have electronegative ligands or multiple bonds."}, bareHypervalent},
+	{Rule{"no-ylide-tautomer", "An OH on P(V) or on hypervalent S that carries a double bond to C or N but none to O or S (HO–PR2=CH2, HO–S(R)=CH2) is the minor prototropic tautomer of the phosphine oxide or sulfoxide (O=PR2–CH3), which dominates (common practice)."}, ylideTautomer},
+	{Rule{"no-sulfur-ylide", "Hypervalent sulfur doubly or triply bonded to carbon (sulfonium and sulfoxonium ylides, sulfines, sulfenes) is a reactive intermediate generated in situ, not an isolated unknown (common practice); phosphorus ylides, which are isolable, are kept."}, sulfurYlide},
+	{Rule{"no-trivalent-p-oh", "P(III)–OH (phosphorous, phosphonous and phosphinous acids and their partial esters) exists almost entirely as the P(V) tautomer with P=O and P–H (H-phosphonates, H-phosphinates, secondary phosphine oxides), which the generator also makes (common practice); trialkyl phosphites without OH are kept."}, trivalentPOH},
+	{Rule{"no-sulfenic-acid", "Sulfenic acids R–S–OH and their O–SH isomers are transient: they condense to thiosulfinates or are oxidised, and are isolable only with bulky protecting groups (common practice)."}, sulfenicAcid},
+	{Rule{"no-hypervalent-hydrate", "An OH on P(V) or hypervalent S with only single bonds (P(OH)5-type ortho acids, R–P(OH)4, R2S(OH)2) loses water to the P=O or S=O compound, as gem-diols do to carbonyls (common practice); phosphoranes and sulfuranes without OH (PCl5, SF4) are kept."}, hypervalentHydrate},
 }
 
 // Rules returns the filter rules in the order they are applied.
@@ -444,9 +449,38 @@ func hemi(m *mol, other func(c, u int) bool) bool {
 }
 
 func hemiacetal(o *outputBuilder, m *mol) bool {
-	return hemi(m, func(c, u int) bool {
-		return m.el[u] == molecule.O && m.deg[u] == 2 && allSingle(m, u)
-	})
+	// OH with OR, SR or SH
+	if hemi(m, func(c, u int) bool {
+		return (m.el[u] == molecule.O && m.deg[u] == 2 && allSingle(m, u)) || isDivalentS(m, u)
+	}) {
+		return true
+	}
+	// SH with OR
+	for c := 0; c < m.n; c++ {
+		if m.el[c] != molecule.C || !allSingle(m, c) {
+			continue
+		}
+		sh, or := false, false
+		for k := 0; k < int(m.deg[c]); k++ {
+			u := int(m.nb[c][k])
+			switch {
+			case isDivalentS(m, u) && m.deg[u] == 1:
+				sh = true
+			case m.el[u] == molecule.O && m.deg[u] == 2 && allSingle(m, u):
+				or = true
+			}
+		}
+		if sh && or {
+			return true
+		}
+	}
+	return false
+}
+
+// isDivalentS reports whether x is S(II) with single bonds (thiol or
+// thioether sulfur).
+func isDivalentS(m *mol, x int) bool {
+	return m.el[x] == molecule.S && m.val[x] == 2 && allSingle(m, x)
 }
 
 func hemiaminal(o *outputBuilder, m *mol) bool {
@@ -547,7 +581,7 @@ func hypervalentHydride(o *outputBuilder, m *mol) bool {
 		switch {
 		case m.el[i] == molecule.S && m.val[i] > 2:
 			return true
-		case m.el[i] == molecule.P && m.val[i] == 5 && allSingle(m, i):
+		case m.el[i] == molecule.P && m.val[i] == 5 && !doubleTo(m, i, molecule.O, molecule.S):
 			return true
 		}
 	}
@@ -570,6 +604,92 @@ func bareHypervalent(o *outputBuilder, m *mol) bool {
 		}
 		if !electroneg {
 			return true
+		}
+	}
+	return false
+}
+
+// doubleTo reports whether atom x has a double bond to an atom of element
+// a or b.
+func doubleTo(m *mol, x int, a, b molecule.Element) bool {
+	for k := 0; k < int(m.deg[x]); k++ {
+		if e := m.el[m.nb[x][k]]; m.bo[x][k] == 2 && (e == a || e == b) {
+			return true
+		}
+	}
+	return false
+}
+
+func hypervalentSP(m *mol, x int) bool {
+	return (m.el[x] == molecule.S && m.val[x] > 2) || (m.el[x] == molecule.P && m.val[x] == 5)
+}
+
+func ylideTautomer(o *outputBuilder, m *mol) bool {
+	for x := 0; x < m.n; x++ {
+		if !hypervalentSP(m, x) || doubleTo(m, x, molecule.O, molecule.S) || !doubleTo(m, x, molecule.C, molecule.N) {
+			continue
+		}
+		for k := 0; k < int(m.deg[x]); k++ {
+			if isOH(m, int(m.nb[x][k])) {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+func sulfurYlide(o *outputBuilder, m *mol) bool {
+	for x := 0; x < m.n; x++ {
+		if m.el[x] != molecule.S || m.val[x] <= 2 {
+			continue
+		}
+		for k := 0; k < int(m.deg[x]); k++ {
+			if m.bo[x][k] >= 2 && m.el[m.nb[x][k]] == molecule.C {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+func hypervalentHydrate(o *outputBuilder, m *mol) bool {
+	for x := 0; x < m.n; x++ {
+		if !hypervalentSP(m, x) || !allSingle(m, x) {
+			continue
+		}
+		for k := 0; k < int(m.deg[x]); k++ {
+			if isOH(m, int(m.nb[x][k])) {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+func trivalentPOH(o *outputBuilder, m *mol) bool {
+	for x := 0; x < m.n; x++ {
+		if m.el[x] != molecule.P || m.val[x] != 3 {
+			continue
+		}
+		for k := 0; k < int(m.deg[x]); k++ {
+			if isOH(m, int(m.nb[x][k])) {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+func sulfenicAcid(o *outputBuilder, m *mol) bool {
+	for x := 0; x < m.n; x++ {
+		if !isDivalentS(m, x) {
+			continue
+		}
+		for k := 0; k < int(m.deg[x]); k++ {
+			u := int(m.nb[x][k])
+			if m.el[u] == molecule.O && (m.free(x) > 0 || m.free(u) > 0) {
+				return true
+			}
 		}
 	}
 	return false

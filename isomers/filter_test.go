@@ -15,7 +15,12 @@ import (
 // acetamide, acetaldoxime, 2-hydroxypyridine, ethylene glycol,
 // 2-methoxyethanol, ethanolamine, N-(hydroxymethyl)acetamide,
 // 2-chloroethanol, cyclopropene, cyclopropenone, 2H-azirines, biphenylene,
-// DMSO, phosphorous acid, SF4, PCl5, dimethyl sulfone).
+// DMSO, phosphorous acid, SF4, PCl5, dimethyl sulfone, trimethylphosphine
+// oxide, methanesulfinic acid, methylphosphonic acid,
+// methylenetriphenylphosphorane (the Wittig reagent), carbon disulfide,
+// trimethyl phosphite, dimethylphosphine oxide and sulfide, methyl
+// methanesulfenate, 2-mercaptoethanol, 1,1-ethanedithiol, phosphoric
+// acid, pentamethoxyphosphorane, methanesulfonic acid).
 var filterCases = []struct {
 	rule   string
 	remove []string
@@ -28,11 +33,16 @@ var filterCases = []struct {
 	{"no-enol", []string{"C=CO", "CC(O)=CC", "C#CO"}, []string{"Oc1ccccc1", "CC(C)=O", "C=CCO", "C=COC"}},
 	{"no-imidic-acid", []string{"CC(O)=N", "OC=NC"}, []string{"CC(N)=O", "CC=NO", "Oc1ccccn1"}},
 	{"no-gem-diol", []string{"CC(O)O", "OC(O)(C)C"}, []string{"OCCO", "OC(=O)CO"}},
-	{"no-hemiacetal", []string{"CC(O)OC", "OC1CCCO1"}, []string{"COCCO", "CC(=O)O", "COC(C)OC"}},
+	{"no-hemiacetal", []string{"CC(O)OC", "OC1CCCO1", "CC(O)S", "CC(O)SC", "CC(S)OC"}, []string{"COCCO", "CC(=O)O", "COC(C)OC", "OCCS", "CC(S)S"}},
 	{"no-hemiaminal", []string{"CC(O)N", "OCN(C)C"}, []string{"NCCO", "OCNC(C)=O", "CC(N)=O"}},
 	{"no-hypohalite", []string{"COCl", "CCOBr"}, []string{"ClCCO", "CC(=O)Cl"}},
 	{"no-antiaromatic-ring", []string{"C1=CO1", "C1=CS1", "C1=CN1", "C1=CC=C1", "CC1=NC=C1"}, []string{"C1=CC1", "O=C1C=C1", "C1=NC1", "c1ccc2c(c1)-c1ccccc1-2", "C1=CCC1"}},
-	{"no-hypervalent-hydride", []string{"C[SH3]", "[PH5]", "C[SH](=O)(=O)"}, []string{"CS(C)=O", "O[PH](O)=O", "CS", "CP"}},
+	{"no-hypervalent-hydride", []string{"C[SH3]", "[PH5]", "C[SH](=O)(=O)", "C=[PH2]C"}, []string{"CS(C)=O", "O[PH](O)=O", "C[PH](C)=O", "C[PH](C)=S", "CS", "CP"}},
+	{"no-ylide-tautomer", []string{"C=P(C)(C)O", "C=S(C)O", "C=P(O)(O)O"}, []string{"CP(C)(C)=O", "CS(=O)O", "CP(=O)(O)O", "C=P(c1ccccc1)(c1ccccc1)c1ccccc1"}},
+	{"no-sulfur-ylide", []string{"C=S(C)C", "C=S=O", "C=S(=O)=O", "C#S(C)(O)O"}, []string{"CS(C)=O", "CS(C)(=O)=O", "C=P(c1ccccc1)(c1ccccc1)c1ccccc1", "S=C=S"}},
+	{"no-trivalent-p-oh", []string{"OP(O)O", "CP(C)O", "COP(O)OC"}, []string{"COP(OC)OC", "O[PH](O)=O", "C[PH](C)=O", "CP(C)C"}},
+	{"no-sulfenic-acid", []string{"CSO", "COS", "CCSO"}, []string{"CSOC", "CS(=O)O", "CSC", "COC"}},
+	{"no-hypervalent-hydrate", []string{"OP(O)(O)(O)O", "CP(O)(O)(O)O", "CS(C)(O)O", "OS1(O)CC1"}, []string{"OP(O)(O)=O", "ClP(Cl)(Cl)(Cl)Cl", "COP(OC)(OC)(OC)OC", "CS(=O)(=O)O", "FS(F)(F)F"}},
 	{"no-bare-hypervalent", []string{"C[S](C)(C)C", "C[P](C)(C)(C)C"}, []string{"FS(F)(F)F", "ClP(Cl)(Cl)(Cl)Cl", "CS(C)(=O)=O", "CS(C)=O", "COP(=O)(OC)OC"}},
 }
 
