@@ -128,3 +128,49 @@ func TestScoreEthylAcetatePattern(t *testing.T) {
 		t.Errorf("score(right) = %.2f, score(wrong) = %.2f: want right ahead by more than 3 nats", sRight, sWrong)
 	}
 }
+
+func TestScorePenalties(t *testing.T) {
+	sc := newScorer(DefaultModel())
+	oh := predEnv{h: 1, exchangeable: true}
+	ch := predEnv{h: 1}
+	if !(sc.unobservedLogP(&oh) > sc.unobservedLogP(&ch)+2) {
+		t.Errorf("unobserved OH %.2f not much cheaper than unobserved CH %.2f (exchangeable H often missing in CDCl3; common practice)",
+			sc.unobservedLogP(&oh), sc.unobservedLogP(&ch))
+	}
+	if !(sc.integrationLogP(2, 2.04) > sc.integrationLogP(3, 2.04)) {
+		t.Error("integration: 2 H on a 2.04 H peak should beat 3 H")
+	}
+	if sc.unexplainedLogP(3) >= sc.unexplainedLogP(0.2) {
+		t.Error("an unexplained 3 H peak should cost more than a 0.2 H one")
+	}
+}
+
+// TestScoreDiastereotopicSplit: a CH2 next to a stereocentre whose two H
+// appear as two 1 H peaks (common practice for diastereotopic protons)
+// is explained by splitting it, not by leaving a peak unexplained.
+func TestScoreDiastereotopicSplit(t *testing.T) {
+	peaks := []obsPeak{
+		{shift: 3.65, lo: 3.65, hi: 3.65, mult: parsePattern("dd"), h: 1},
+		{shift: 3.45, lo: 3.45, hi: 3.45, mult: parsePattern("dd"), h: 1},
+		{shift: 1.15, lo: 1.15, hi: 1.15, mult: parsePattern("d"), h: 3},
+	}
+	envs := []predEnv{
+		{h: 2, shift: 3.55, lo: 3.55, hi: 3.55, sigma: 0.15, mult: parsePattern("m"), diastereotopic: true},
+		{h: 3, shift: 1.15, lo: 1.15, hi: 1.15, sigma: 0.1, mult: parsePattern("d")},
+	}
+	sc := newScorer(DefaultModel())
+	_, a := sc.score(envs, peaks)
+	if a.first[0] != 0 || a.second[0] != 1 {
+		t.Errorf("CH2 on peaks %d,%d, want split over 0,1", a.first[0], a.second[0])
+	}
+	envs[0].diastereotopic = false
+	s2, a2 := sc.score(envs, peaks)
+	if a2.second[0] != -1 {
+		t.Errorf("a CH2 not flagged diastereotopic was split (%d,%d)", a2.first[0], a2.second[0])
+	}
+	envs[0].diastereotopic = true
+	s1, _ := sc.score(envs, peaks)
+	if !(s1 > s2) {
+		t.Errorf("split score %.2f not above unsplit %.2f", s1, s2)
+	}
+}
