@@ -1,13 +1,20 @@
 package e2e
 
 import (
+	"bytes"
+	"encoding/csv"
+	"encoding/json"
 	"fmt"
 	"net/http/httptest"
+	"os"
+	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
 
+	"github.com/chromedp/cdproto/browser"
 	"github.com/chromedp/chromedp"
 )
 
@@ -227,6 +234,45 @@ func testExample(p *page) {
 	}
 	p.shot("results-1280")
 
+	// Copy a SMILES.
+	p.do("copy SMILES", chromedp.Click(chromedp.CSS("#candidate-list .candidate .copy")))
+	p.waitFor("copy confirmed", `document.querySelector("#candidate-list .candidate .copy").textContent === "Copied"`, 5*time.Second)
+
+	// Download the ranking as CSV and JSON and compare both with the API.
+	dl := p.t.TempDir()
+	if _, err := chromedp.CallBrowser(p.ctx, browser.SetDownloadBehavior, browser.SetDownloadBehaviorParams{
+		Behavior: browser.SetDownloadBehaviorBehaviorAllow, DownloadPath: dl}); err != nil {
+		p.t.Fatalf("allow downloads: %v", err)
+	}
+	p.do("download CSV and JSON", chromedp.Click(chromedp.ID("dl-csv")), chromedp.Click(chromedp.ID("dl-json")))
+	csvPath := filepath.Join(dl, "shiftrank-"+id+".csv")
+	jsonPath := filepath.Join(dl, "shiftrank-"+id+".json")
+	csvData, jsonData := waitFile(p.t, csvPath), waitFile(p.t, jsonPath)
+	recs, err := csv.NewReader(bytes.NewReader(csvData)).ReadAll()
+	if err != nil {
+		p.t.Fatalf("downloaded CSV: %v", err)
+	}
+	if len(recs) != len(api.Candidates)+1 || recs[0][0] != "rank" || recs[0][1] != "smiles" || recs[0][2] != "probability" {
+		p.t.Fatalf("downloaded CSV has %d rows (header %v), want a header and %d candidates", len(recs), recs[0], len(api.Candidates))
+	}
+	for i, c := range api.Candidates {
+		r := recs[i+1]
+		prob, _ := strconv.ParseFloat(r[2], 64)
+		if r[0] != strconv.Itoa(c.Rank) || r[1] != c.SMILES || prob != c.Probability {
+			p.t.Errorf("CSV row %d = %v, API rank %d %s probability %v", i+1, r[:3], c.Rank, c.SMILES, c.Probability)
+		}
+	}
+	var saved struct {
+		JobID      string            `json:"job_id"`
+		Candidates []json.RawMessage `json:"candidates"`
+	}
+	if err := json.Unmarshal(jsonData, &saved); err != nil {
+		p.t.Fatalf("downloaded JSON: %v", err)
+	}
+	if saved.JobID != id || len(saved.Candidates) != len(api.Candidates) {
+		p.t.Errorf("downloaded JSON names job %q with %d candidates, want %q with %d", saved.JobID, len(saved.Candidates), id, len(api.Candidates))
+	}
+
 	// The deep link survives a reload.
 	p.do("reload job page", chromedp.Reload())
 	p.waitFor("job done after reload", `document.querySelector("#job-status").dataset.status === "succeeded" &&
@@ -262,6 +308,22 @@ func signed(v float64) string {
 		return fmt.Sprintf("+%.2f", v)
 	}
 	return fmt.Sprintf("−%.2f", -v)
+}
+
+// waitFile waits for a download to appear and returns its content.
+func waitFile(t *testing.T, path string) []byte {
+	t.Helper()
+	deadline := time.Now().Add(15 * time.Second)
+	for {
+		b, err := os.ReadFile(path)
+		if err == nil && len(b) > 0 {
+			return b
+		}
+		if time.Now().After(deadline) {
+			t.Fatalf("download %s did not arrive: %v", path, err)
+		}
+		time.Sleep(100 * time.Millisecond)
+	}
 }
 
 func testBadFormula(p *page) {
