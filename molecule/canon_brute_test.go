@@ -2,6 +2,7 @@ package molecule
 
 import (
 	"math/rand/v2"
+	"slices"
 	"testing"
 )
 
@@ -259,6 +260,39 @@ func TestCanonicalBruteForceForests(t *testing.T) {
 					t.Fatalf("%s vs %s: equal Keys %v, isomorphic %v", gs[i].SMILES(), gs[j].SMILES(), eq, iso)
 				}
 			}
+		}
+	}
+}
+
+// TestCanonicalizerReuse runs one Canonicalizer over graphs of varying
+// size and symmetry and compares with fresh ones (no state may leak from
+// one call to the next).
+func TestCanonicalizerReuse(t *testing.T) {
+	r := rand.New(rand.NewPCG(99, 1))
+	var c Canonicalizer
+	for i := 0; i < 400; i++ {
+		var g *Graph
+		switch i % 4 {
+		case 0:
+			g = randomGraph(r, 1+r.IntN(12), r.IntN(5), []Element{C, N, O}, 2)
+		case 1:
+			g = randomCubic(r, 4+2*r.IntN(4))
+		case 2:
+			g = randomMolecule(r, r.IntN(6))
+		default:
+			g = randomGraph(r, 1+r.IntN(20), 0, []Element{C}, 1)
+		}
+		if g == nil {
+			continue
+		}
+		want := Canonicalize(g)
+		got := c.Canonicalize(g)
+		if got.Key != want.Key || !slices.Equal(got.Labels, want.Labels) || !slices.Equal(got.Orbits, want.Orbits) {
+			t.Fatalf("reused Canonicalizer differs on %s", g.SMILES())
+		}
+		s1, _ := c.CanonicalSMILES(g)
+		if s1 != CanonicalSMILES(g) {
+			t.Fatalf("reused Canonicalizer: CanonicalSMILES differs on %s", g.SMILES())
 		}
 	}
 }
