@@ -136,21 +136,44 @@ func (p *Predictor) aromaticH(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 			if unusual[s] {
 				r.sigma += 0.2
 			}
+			fused := m.arom[y] && m.ringBond[nb.Bond] > 0
+			name := subName[s]
 			var v float64
 			if d <= 3 {
 				v = benzeneInc[s][d-1]
-				if s == subAlkyl {
+				switch {
+				case s == subAlkyl:
 					v = alkylBenzeneInc[min(g.Atoms[y].HCount, 3)][d-1]
+				case fused && m.piExcessive5(y):
+					// Fused pyrrole, furan or thiophene ring (indole,
+					// benzofuran): its carbon acts like a vinyl group, its
+					// heteroatom like an N-pyrrolyl group (our fit to
+					// indole and benzofuran benzo-ring H, Pretsch, from
+					// memory).
+					if g.Atoms[y].Element == molecule.C {
+						v, name = benzeneInc[subAlkenyl][d-1], "fused five-membered ring C"
+					} else {
+						v, name = benzeneInc[subNArom][d-1], "fused five-membered ring heteroatom"
+					}
 				}
 				if size == 5 {
-					// Substituent effects on five-membered heteroaromatics
-					// are larger than on benzene (2-methylfuran, furfural;
-					// our fit: ×1.5).
-					v *= 1.5
+					if fused {
+						// Benzo fusion on a five-membered ring: indole H3
+						// 6.56 and benzofuran H2 7.62 against pyrrole and
+						// furan (Pretsch, from memory): ~0.6 × the aryl
+						// increments.
+						v = 0.6 * benzeneInc[subAryl][d-1]
+						name = "fused aromatic ring"
+					} else {
+						// Substituent effects on five-membered
+						// heteroaromatics are larger than on benzene
+						// (2-methylfuran, furfural; our fit: ×1.5).
+						v *= 1.5
+					}
 				}
 			}
 			if p.opts.Explain {
-				ac.add([3]string{"ortho: ", "meta: ", "para: "}[d-1]+subName[s], v)
+				ac.add([3]string{"ortho: ", "meta: ", "para: "}[d-1]+name, v)
 			} else {
 				ac.raw(v)
 			}
@@ -208,4 +231,20 @@ func (m *mol) ringCode(x int, ring []int) byte {
 		return 'S'
 	}
 	return 'X'
+}
+
+// piExcessive5 reports whether aromatic atom y lies in a five-membered
+// aromatic ring with a pyrrole-type N, O or S (a π-excessive ring).
+func (m *mol) piExcessive5(y int) bool {
+	ring := m.aromRing(y)
+	if len(ring) != 5 {
+		return false
+	}
+	for _, x := range ring {
+		switch m.ringCode(x, ring) {
+		case 'N', 'O', 'S':
+			return true
+		}
+	}
+	return false
 }

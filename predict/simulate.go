@@ -55,8 +55,14 @@ type Trace struct {
 // each other form spin systems; a spin system with a pair of coupled
 // environments closer than Δν/J = 10 is strongly coupled and is computed
 // exactly from the spin Hamiltonian (shifts and J) when it has at most
-// MaxSpinSystem spins, first order otherwise (with a note). Exchangeable
-// hydrogens are broad singlets. The total line area equals the H count.
+// MaxSpinSystem spins, first order otherwise (with a note). For a Spectrum
+// predicted with Options.Explain the Hamiltonian uses the couplings between
+// individual atoms' hydrogens (so an AA'BB' ring keeps its distinct ortho
+// and para couplings); otherwise, and for a Spectrum built by hand, the
+// spins of one environment share the mean of its couplings. Strongly
+// coupled systems with resolved 19F/31P couplings are drawn first order.
+// Exchangeable hydrogens are broad singlets. The total line area equals the
+// H count.
 func Simulate(s *Spectrum, opts SimOptions) Trace {
 	if !(opts.MHz > 0) {
 		opts.MHz = DefaultMHz
