@@ -482,7 +482,7 @@ func (r *Ranker) totals(res *Result, st isomers.Stats, timedOut bool, j *job) {
 		}
 		res.Warnings = append(res.Warnings, fmt.Sprintf(
 			"incomplete search: %s stopped the generator after %d isomers (%d scored%s); about %d isomers exist. "+
-				"The true structure may be among those not scored: add required or forbidden fragments (--require/--forbid) to narrow the search, or raise the budget.",
+				"Probabilities are relative to the scored isomers only, and the true structure may be among those not scored: add required or forbidden fragments (require / forbid) to narrow the search, or raise the budget.",
 			why, res.Generated, res.Scored, frac, res.IsomersTotal))
 	}
 	switch {
