@@ -32,6 +32,7 @@ func TestPage(t *testing.T) {
 	p.run("example", testExample)
 	p.run("bad formula", testBadFormula)
 	p.run("cancel", testCancel)
+	p.run("more candidates than one API page", testManyCandidates)
 
 	// A service that requires API keys.
 	hk, key := newAPI(t, true)
@@ -308,6 +309,33 @@ func signed(v float64) string {
 		return fmt.Sprintf("+%.2f", v)
 	}
 	return fmt.Sprintf("−%.2f", -v)
+}
+
+// testManyCandidates keeps more candidates than the API sends in one page
+// (100) and checks that the page lists them all.
+func testManyCandidates(p *page) {
+	p.open("/")
+	p.do("fill a ranking with 120 candidates",
+		chromedp.SendKeys(chromedp.ID("formula"), "C7H8"),
+		chromedp.SendKeys(chromedp.ID("peaks-text"), "7.30–7.10 (m, 5H), 2.35 (s, 3H)"),
+		chromedp.Evaluate[chromedp.Void](`document.querySelector("details.options").open = true;
+			document.querySelector("#top-k").value = "120"`),
+		chromedp.Click(chromedp.ID("submit")))
+	id := jobIDFromURL(p)
+	p.waitFor("job done", `document.querySelector("#job-status").dataset.status === "succeeded" &&
+		document.querySelectorAll("#candidate-list .candidate").length > 0`, 90*time.Second)
+	var api struct {
+		Total int `json:"total"`
+	}
+	getJSON(p.t, p.base+"/v1/jobs/"+id+"/candidates?limit=1", &api)
+	if api.Total <= 100 {
+		p.t.Fatalf("the service kept %d candidates; this check needs more than one page of 100", api.Total)
+	}
+	var listed int
+	p.eval(`document.querySelectorAll("#candidate-list .candidate").length`, &listed)
+	if listed != api.Total {
+		p.t.Errorf("page lists %d candidates, the service kept %d", listed, api.Total)
+	}
 }
 
 // waitFile waits for a download to appear and returns its content.

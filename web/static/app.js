@@ -692,10 +692,17 @@ function observedFromRequest(id, job) {
 }
 
 async function showResults(id, job) {
-  const topK = Number(job.request?.options?.top_k) || 100;
   let data;
   try {
-    data = await api("GET", `/v1/jobs/${id}/candidates?limit=${Math.max(topK, 10)}`);
+    // The service pages the candidates (at most 100 a page); take them all.
+    data = await api("GET", `/v1/jobs/${id}/candidates?limit=100`);
+    const all = [...(data.candidates || [])];
+    while (typeof data.total === "number" && all.length < data.total) {
+      const next = await api("GET", `/v1/jobs/${id}/candidates?limit=100&offset=${all.length}`);
+      if (!next.candidates || next.candidates.length === 0) break;
+      all.push(...next.candidates);
+    }
+    data = { ...data, candidates: all, offset: 0, limit: all.length };
   } catch (err) {
     $("job-error").textContent = `Could not load the candidates: ${err.message}`;
     return;
