@@ -55,6 +55,9 @@ func runRank(ctx context.Context, args []string, e env) error {
 	if *peaks == "" {
 		return badInputf("rank: --peaks is required")
 	}
+	if *top < 1 || *top > ranker.MaxTopK {
+		return badInputf("rank: --top %d: want 1–%d", *top, ranker.MaxTopK)
+	}
 	pl, err := readPeakList(*peaks, e.stdin)
 	if err != nil {
 		return err

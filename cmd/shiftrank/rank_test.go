@@ -88,6 +88,7 @@ func TestRankCommandBadInput(t *testing.T) {
 		{"bad fragment", []string{"--formula", "C4H8O2", "--peaks", "4.12 (q, 2H)", "--require", "C(=O"}, "require[0]"},
 		{"missing formula", []string{"--peaks", "4.12 (q, 2H)"}, "--formula"},
 		{"missing file", []string{"--formula", "C4H8O2", "--peaks", "@/nonexistent/peaks.txt"}, "peaks"},
+		{"top zero", []string{"--formula", "C4H8O2", "--peaks", "1.0 (s, 8H)", "--top", "0"}, "--top"},
 		{"unknown flag", []string{"--formula", "C4H8O2", "--peaks", "1.0 (s, 8H)", "--bogus"}, "bogus"},
 	}
 	for _, tc := range tests {
