@@ -1,7 +1,10 @@
 package molecule
 
 import (
+	"math/rand/v2"
+	"os/exec"
 	"slices"
+	"strings"
 	"testing"
 )
 
@@ -55,5 +58,81 @@ func TestRings(t *testing.T) {
 	link := g.BondBetween(3, 6)
 	if ri.BondInRing[link] || ri.BondRingSize[link] != 0 {
 		t.Errorf("Rings(biphenyl): linking bond in ring")
+	}
+}
+
+// TestRingsAgainstRDKit compares SSSR ring sizes and the smallest ring
+// size of every atom with RDKit's ring perception (sizes, not ring atoms:
+// smallest sets are not unique) on the cross-check list
+// and random substituted ring systems.
+func TestRingsAgainstRDKit(t *testing.T) {
+	requireRDKit(t)
+	r := rand.New(rand.NewPCG(31, 7))
+	var smiles []string
+	for _, s := range rdkitCrossCheckSMILES {
+		smiles = append(smiles, MustParseSMILES(s).SMILES())
+	}
+	for _, s := range []string{"C12C3C4C1C5C2C3C45", "C1C2CC3CC1CC(C2)C3", "C12C3C1C4C2C34", "C1CC2CCC1C2", "C1CC11CC1"} {
+		smiles = append(smiles, s)
+	}
+	for i := 0; i < 200; i++ {
+		smiles = append(smiles, randomMolecule(r, r.IntN(6)).SMILES())
+	}
+	cmd := exec.Command(rdkitPython, "testdata/rdkit_rings.py")
+	cmd.Stdin = strings.NewReader(strings.Join(smiles, "\n") + "\n")
+	out, err := cmd.Output()
+	if err != nil {
+		t.Fatalf("run RDKit: %v", err)
+	}
+	lines := strings.Split(strings.TrimRight(string(out), "\n"), "\n")
+	if len(lines) != len(smiles) {
+		t.Fatalf("RDKit printed %d lines, want %d", len(lines), len(smiles))
+	}
+	join := func(x []int) string {
+		var b strings.Builder
+		for i, v := range x {
+			if i > 0 {
+				b.WriteByte(',')
+			}
+			b.WriteString(itoa(v))
+		}
+		return b.String()
+	}
+	for i, s := range smiles {
+		// Atom k of the parsed graph is the k-th atom of the string, as in RDKit.
+		g := MustParseSMILES(s)
+		ri := Rings(g)
+		var sizes []int
+		for _, ring := range ri.SSSR {
+			sizes = append(sizes, len(ring))
+		}
+		slices.Sort(sizes)
+		want := strings.Split(lines[i], "\t")
+		if len(want) != 2 {
+			t.Errorf("RDKit cannot read %q", s)
+			continue
+		}
+		// RDKit returns a symmetrised ring set (cubane: 6 rings), so our
+		// sizes must be contained in RDKit's, and their number must be the
+		// cyclomatic number (bonds − atoms + 1, graph theory).
+		if len(sizes) != len(g.Bonds)-len(g.Atoms)+1 {
+			t.Errorf("Rings(%q): %d SSSR rings, want the cyclomatic number %d", s, len(sizes), len(g.Bonds)-len(g.Atoms)+1)
+		}
+		rd := map[string]int{}
+		if want[0] != "" {
+			for _, x := range strings.Split(want[0], ",") {
+				rd[x]++
+			}
+		}
+		for _, x := range sizes {
+			if rd[itoa(x)] == 0 {
+				t.Errorf("Rings(%q) SSSR sizes %s not within RDKit's %s", s, join(sizes), want[0])
+				break
+			}
+			rd[itoa(x)]--
+		}
+		if got := join(ri.AtomRingSize); got != want[1] {
+			t.Errorf("Rings(%q) AtomRingSize %s, RDKit %s", s, got, want[1])
+		}
 	}
 }
