@@ -64,6 +64,9 @@ func ParseJCAMP(b []byte) (PeakList, error) {
 		// the file byte by byte rather than reject it.
 		in = latin1ToUTF8(b)
 	}
+	if strings.HasPrefix(in, "\ufeff") {
+		in = "   " + in[3:] // a byte-order mark, blanked to keep the offsets
+	}
 	jc := &jcamp{in: in}
 	root, err := jc.blocks()
 	if err != nil {

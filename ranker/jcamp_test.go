@@ -100,3 +100,27 @@ func TestFirstOrderLines(t *testing.T) {
 		}
 	}
 }
+
+func TestParseJCAMPLineEndings(t *testing.T) {
+	b, err := os.ReadFile(filepath.Join("testdata", "peaks", "butanone-assignments.jdx"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var crlf []byte
+	for _, c := range b {
+		if c == '\n' {
+			crlf = append(crlf, '\r')
+		}
+		crlf = append(crlf, c)
+	}
+	for name, in := range map[string][]byte{"CRLF": crlf, "byte-order mark": append([]byte("\ufeff"), b...)} {
+		pl, err := ParseJCAMP(in)
+		if err != nil {
+			t.Errorf("%s: ParseJCAMP: %v", name, err)
+			continue
+		}
+		if len(pl.Peaks) != 3 || pl.Peaks[0].Label != "CH2" || pl.Solvent != "DMSO-d6" {
+			t.Errorf("%s: ParseJCAMP = %v", name, pl)
+		}
+	}
+}

@@ -174,7 +174,7 @@ func (p *journal) peek() (rune, int) {
 func (p *journal) skipSpace() {
 	for !p.eof() {
 		r, n := p.peek()
-		if !unicode.IsSpace(r) && r != '\u200b' {
+		if !unicode.IsSpace(r) && r != '\u200b' && r != '\ufeff' { // zero-width space, byte-order mark
 			return
 		}
 		p.i += n

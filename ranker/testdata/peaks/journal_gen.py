@@ -86,6 +86,7 @@ ok("J without J =", "δ 7.80 (dd, 8.0, 2.1 Hz, 1H), 1.26 (t, 7.1 Hz, 3H)", peaks
 ok("full-width punctuation", "1H NMR（400 MHz，CDCl3）δ 4.12（q，J ＝ 7.1 Hz，2H），2.05（s，3H）", 400, "CDCl3",
    [P(4.12, m="q", j=[7.1], i=2), P(2.05, m="s", i=3)])
 bad("full-width, error position in the original", "δ 4.12（q，2H），2.05（x，3H）", "x", "multiplicity")
+ok("byte-order mark", "\ufeff1H NMR δ 2.05 (s, 3H)", peaks=[P(2.05, m="s", i=3)])
 bad("decimal comma", "δ 4,12 (q, 2H)", "4,1", "shift")
 bad("malformed integral", "δ 4.12 (q, 2.0.4H)", "2.0.4H", "integral")
 bad("unknown multiplicity", "1H NMR (400 MHz, CDCl3) δ 4.12 (x, 2H)", "x", "multiplicity")
