@@ -53,8 +53,16 @@ async function api(method, path, body, { retryAuth = true, idempotencyKey = "" }
   return data;
 }
 
+let keyPrompt = null; // the open key dialog's promise: concurrent 401s share it
+
 // askForKey opens the key dialog; resolves true when a key was entered.
 function askForKey(message) {
+  if (keyPrompt) return keyPrompt;
+  keyPrompt = openKeyDialog(message).finally(() => { keyPrompt = null; });
+  return keyPrompt;
+}
+
+function openKeyDialog(message) {
   const dlg = $("key-dialog");
   $("key-message").textContent = message ||
     "This service asks for an API key. Ask whoever runs it for one, then paste it here.";
