@@ -208,6 +208,11 @@ func dashRune(r rune) bool { return minusRune(r) || r == '—' || r == '~' }
 
 func digitRune(r rune) bool { return r >= '0' && r <= '9' }
 
+// deltaRune reports the Greek small delta and its mathematical forms.
+func deltaRune(r rune) bool {
+	return r == 'δ' || r == '𝛿' || r == '𝜹' || r == '𝛅' || r == 'ẟ'
+}
+
 // atNumber reports whether a number starts at the cursor.
 func (p *journal) atNumber() bool { return numberAt(p.in, p.i) }
 
@@ -360,6 +365,8 @@ func (p *journal) atNextSection() bool {
 var headerWords = map[string]bool{
 	"nmr": true, "ppm": true, "in": true, "at": true, "h": true, "spectrum": true,
 	"proton": true, "data": true, "delta": true, "(ppm)": true, "1h-nmr": true,
+	// Text copied from a PDF often has δ turned into "d" by a symbol font.
+	"d": true, "dh": true,
 }
 
 // header reads an optional header up to the first peak, filling MHz and
@@ -390,8 +397,8 @@ func (p *journal) header(pl *PeakList) error {
 				return err
 			}
 			p.i, seen = end+1, true
-		case r == 'δ' || hasPrefixFold(p.in[p.i:], "delta"):
-			if r == 'δ' {
+		case deltaRune(r) || hasPrefixFold(p.in[p.i:], "delta"):
+			if deltaRune(r) {
 				p.i += n
 			} else {
 				p.i += len("delta")
@@ -446,7 +453,7 @@ func headerWord(s string, i int) string {
 	for j < len(s) {
 		r, n := utf8.DecodeRuneInString(s[j:])
 		if !(unicode.IsLetter(r) || unicode.IsDigit(r) || r == '-' || r == '[' || r == ']' ||
-			r == '\'' || r == '′' || (r >= '₀' && r <= '₉')) || r == 'δ' {
+			r == '\'' || r == '′' || (r >= '₀' && r <= '₉')) || deltaRune(r) {
 			break
 		}
 		j += n
@@ -847,10 +854,15 @@ func jLabelled(s string) (string, bool) {
 		}
 		i += n
 	}
-	if i >= len(s) || s[i] != 'J' {
+	var rest string
+	switch {
+	case strings.HasPrefix(s[i:], "J"):
+		rest = s[i+1:]
+	case strings.HasPrefix(s[i:], "𝐽"), strings.HasPrefix(s[i:], "𝑱"): // mathematical italic J
+		rest = s[i+len("𝐽"):]
+	default:
 		return "", false
 	}
-	rest := s[i+1:]
 	if k := strings.IndexAny(rest, "=≈:~"); k >= 0 {
 		_, n := utf8.DecodeRuneInString(rest[k:])
 		return strings.TrimLeftFunc(rest[k+n:], unicode.IsSpace), true
