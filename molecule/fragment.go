@@ -5,8 +5,8 @@ package molecule
 type Fragment struct {
 	smiles   string
 	q        *Graph
-	atomArom []bool // query atom written lowercase: matches aromatic atoms only
-	hSet     []bool // bracket atom: hydrogen count and charge must match
+	atomArom []bool  // query atom written lowercase: matches aromatic atoms only
+	written  []uint8 // bracket atom: hydrogen count / charge must match (writtenH, writtenCharge)
 	bond     []fragBond
 	order    []int            // query atoms in matching order (each after a neighbour)
 	parent   []int            // for order[k], k > 0: an earlier query atom bonded to it
@@ -26,9 +26,10 @@ const (
 // ParseFragment reads a substructure query written in SMILES, with the
 // meaning SMARTS gives to the same symbols: an uppercase atom (C, O,
 // [NH2]) matches a non-aromatic atom of that element, a lowercase atom
-// (c, n, [nH]) an aromatic one; organic-subset atoms match any hydrogen
-// count and charge, bracket atoms require their hydrogen count and charge
-// ([OH], [CH3], [O-]). A bond written without a symbol matches a single or
+// (c, n, [nH]) an aromatic one; a bracket atom requires the hydrogen count
+// and the charge it writes ([OH], [CH3], [CH0], [O-], [N+]) and leaves
+// unwritten ones free, organic-subset atoms match any hydrogen count and
+// charge. A bond written without a symbol matches a single or
 // an aromatic bond (an aromatic one between two lowercase atoms); '-' a
 // single non-aromatic bond, '=' a double and '#' a triple bond outside
 // aromatic rings, ':' an aromatic bond. Aromaticity of the target is
@@ -42,7 +43,7 @@ func ParseFragment(s string) (*Fragment, error) {
 	if err != nil {
 		return nil, err
 	}
-	f := &Fragment{smiles: s, q: q, atomArom: p.arom, hSet: p.bracket}
+	f := &Fragment{smiles: s, q: q, atomArom: p.arom, written: p.written}
 	for _, a := range q.Atoms {
 		f.counts[a.Element]++
 	}
@@ -161,7 +162,7 @@ func (f *Fragment) each(g *Graph, yield func(m []int) bool) {
 		if qa.Element != ta.Element || f.atomArom[qi] != atomArom[t] {
 			return false
 		}
-		if f.hSet[qi] && (qa.HCount != ta.HCount || qa.Charge != ta.Charge) {
+		if w := f.written[qi]; w&writtenH != 0 && qa.HCount != ta.HCount || w&writtenCharge != 0 && qa.Charge != ta.Charge {
 			return false
 		}
 		return g.Degree(t) >= f.q.Degree(qi)

@@ -1,6 +1,11 @@
 package molecule
 
-import "testing"
+import (
+	"math/rand/v2"
+	"os/exec"
+	"strings"
+	"testing"
+)
 
 func TestFragmentMatches(t *testing.T) {
 	// Expected answers: common practice (functional groups present in
@@ -51,5 +56,71 @@ func TestFragmentMatches(t *testing.T) {
 	}
 	if _, err := ParseFragment("C.C"); err == nil {
 		t.Errorf("ParseFragment(C.C): no error")
+	}
+}
+
+// fragmentQueries are written so that they mean the same as SMILES
+// queries here and as SMARTS in RDKit.
+var fragmentQueries = []string{
+	"C=O", "[OH]", "[CH3]", "[CH2]", "c1ccccc1", "c1ccncc1", "C=C", "C#N", "CO", "cO", "c-c",
+	"[nH]", "C(=O)O", "C(=O)[OH]", "OO", "S(=O)=O", "Cl", "cCl", "CCC", "C1CC1", "c1ccoc1",
+	"[N]", "[C]=[C]", "cc", "cn", "C(C)(C)C", "C=CC=O", "NC=O", "[CH0]", "c[CH3]",
+}
+
+// TestFragmentAgainstRDKit compares Matches with RDKit's substructure
+// search (query read as SMARTS) on random substituted ring systems. Targets
+// whose aromatic atoms differ between the two aromaticity models (RDKit
+// also aromatises rings with an exocyclic C=O, such as 2-pyridone) are
+// skipped.
+func TestFragmentAgainstRDKit(t *testing.T) {
+	requireRDKit(t)
+	r := rand.New(rand.NewPCG(77, 3))
+	var targets []*Graph
+	var in strings.Builder
+	for i := 0; i < 60; i++ {
+		g := MustParseSMILES(randomMolecule(r, r.IntN(6)).SMILES())
+		targets = append(targets, g)
+		for _, q := range fragmentQueries {
+			in.WriteString(q + "\t" + g.SMILES() + "\n")
+		}
+	}
+	cmd := exec.Command(rdkitPython, "testdata/rdkit_match.py")
+	cmd.Stdin = strings.NewReader(in.String())
+	out, err := cmd.Output()
+	if err != nil {
+		t.Fatalf("run RDKit: %v", err)
+	}
+	lines := strings.Split(strings.TrimRight(string(out), "\n"), "\n")
+	if len(lines) != len(targets)*len(fragmentQueries) {
+		t.Fatalf("RDKit printed %d lines, want %d", len(lines), len(targets)*len(fragmentQueries))
+	}
+	compared, skipped := 0, 0
+	for i, g := range targets {
+		ours := ""
+		for _, a := range AromaticAtoms(g) {
+			if a {
+				ours += "1"
+			} else {
+				ours += "0"
+			}
+		}
+		for j, q := range fragmentQueries {
+			f := strings.Split(lines[i*len(fragmentQueries)+j], "\t")
+			if len(f) != 2 {
+				t.Fatalf("RDKit cannot read %q or %q", q, g.SMILES())
+			}
+			if f[1] != ours {
+				skipped++
+				continue
+			}
+			compared++
+			if got, want := MustParseFragment(q).Matches(g), f[0] == "1"; got != want {
+				t.Errorf("ParseFragment(%q).Matches(%q) = %v, RDKit %v", q, g.SMILES(), got, want)
+			}
+		}
+	}
+	t.Logf("%d query/target pairs compared, %d skipped", compared, skipped)
+	if compared < len(targets)*len(fragmentQueries)/2 {
+		t.Errorf("only %d comparisons (%d skipped for aromaticity differences)", compared, skipped)
 	}
 }

@@ -76,8 +76,9 @@ type smilesParser struct {
 	s        string
 	i        int
 	g        *Graph
-	arom     []bool // atom written lowercase
-	bracket  []bool // atom written in brackets (H count given)
+	arom     []bool  // atom written lowercase
+	bracket  []bool  // atom written in brackets (H count given)
+	written  []uint8 // bracket atom: writtenH, writtenCharge bits
 	atomPos  []int
 	atomLen  []int
 	bondPos  []int
@@ -289,11 +290,18 @@ func (p *smilesParser) ringBond(atom, num int, sym byte, symAt, at, n int) error
 
 func isSingleSym(c byte) bool { return c == '-' || c == '/' || c == '\\' }
 
-func (p *smilesParser) newAtom(e Element, h, charge int, arom, bracket bool, pos, n int) int {
+// Bits of smilesParser.written.
+const (
+	writtenH      = 1 << iota // bracket atom gave a hydrogen count
+	writtenCharge             // bracket atom gave a charge
+)
+
+func (p *smilesParser) newAtom(e Element, h, charge int, arom, bracket bool, written uint8, pos, n int) int {
 	a := p.g.AddAtom(e, h)
 	p.g.Atoms[a].Charge = charge
 	p.arom = append(p.arom, arom)
 	p.bracket = append(p.bracket, bracket)
+	p.written = append(p.written, written)
 	p.atomPos = append(p.atomPos, pos)
 	p.atomLen = append(p.atomLen, n)
 	return a
@@ -351,7 +359,7 @@ func (p *smilesParser) organicAtom() (int, error) {
 		return 0, p.errAt(start, j-start, "element not in the organic subset (write other supported elements in brackets, such as [SiH4]; supported: B C N O F Si P S Cl Br I)")
 	}
 	p.i += n
-	return p.newAtom(e, -1, 0, arom, false, start, n), nil
+	return p.newAtom(e, -1, 0, arom, false, 0, start, n), nil
 }
 
 // bracketAtom reads [isotope? symbol chirality? hcount? charge? class?].
@@ -389,7 +397,7 @@ func (p *smilesParser) bracketAtom() (int, error) {
 			return 0, p.errAt(open, tok, "explicit hydrogen atoms must be written [H] (no charge or hydrogen count; write [CH4] style counts instead)")
 		}
 		p.i = end + 1
-		return p.newAtom(H, 0, 0, false, true, open, tok), nil
+		return p.newAtom(H, 0, 0, false, true, 0, open, tok), nil
 	case c >= 'A' && c <= 'Z':
 		j := p.i + 1
 		if j < end && s[j] >= 'a' && s[j] <= 'z' {
@@ -433,9 +441,11 @@ func (p *smilesParser) bracketAtom() (int, error) {
 		}
 	}
 	h := 0
+	var written uint8
 	if p.i < end && s[p.i] == 'H' {
 		p.i++
 		h = 1
+		written |= writtenH
 		if p.i < end && isDigit(s[p.i]) {
 			h = int(s[p.i] - '0')
 			p.i++
@@ -466,6 +476,7 @@ func (p *smilesParser) bracketAtom() (int, error) {
 			}
 		}
 		charge = sign * mag
+		written |= writtenCharge
 		if mag > 1 {
 			return 0, p.errAt(open, tok, "charges beyond ±1 are not supported")
 		}
@@ -487,7 +498,7 @@ func (p *smilesParser) bracketAtom() (int, error) {
 	if charge != 0 && allowedValences(e, charge) == nil {
 		return 0, p.errAt(open, tok, fmt.Sprintf("charge %+d is not supported on %s", charge, e))
 	}
-	return p.newAtom(e, h, charge, arom, true, open, tok), nil
+	return p.newAtom(e, h, charge, arom, true, written, open, tok), nil
 }
 
 // allowedValences returns the valences (bond-order sum plus hydrogens)
@@ -599,6 +610,7 @@ func (p *smilesParser) foldHydrogens() error {
 	h := NewGraph(k)
 	extra := make([]int, k)
 	var arom, bracket []bool
+	var written []uint8
 	var pos, ln []int
 	for i, a := range g.Atoms {
 		if newIdx[i] < 0 {
@@ -609,6 +621,7 @@ func (p *smilesParser) foldHydrogens() error {
 		h.Atoms[newIdx[i]].Charge = a.Charge
 		arom = append(arom, p.arom[i])
 		bracket = append(bracket, p.bracket[i])
+		written = append(written, p.written[i])
 		pos = append(pos, p.atomPos[i])
 		ln = append(ln, p.atomLen[i])
 	}
@@ -621,11 +634,12 @@ func (p *smilesParser) foldHydrogens() error {
 		syms = append(syms, p.bondSym[bi])
 	}
 	for i := range extra {
-		if bracket[i] {
+		if bracket[i] && extra[i] > 0 {
 			h.Atoms[i].HCount += extra[i]
+			written[i] |= writtenH
 		}
 	}
-	p.g, p.arom, p.bracket, p.atomPos, p.atomLen, p.bondSym, p.extraH = h, arom, bracket, pos, ln, syms, extra
+	p.g, p.arom, p.bracket, p.written, p.atomPos, p.atomLen, p.bondSym, p.extraH = h, arom, bracket, written, pos, ln, syms, extra
 	return nil
 }
 
