@@ -54,6 +54,13 @@ func ParsePeaks(s string) (PeakList, error) {
 		return pl, p.errAt(i, s[i:i+1], "", "invalid UTF-8")
 	}
 	p.fold()
+	p.skipSpace()
+	switch {
+	case strings.HasPrefix(p.in[p.i:], "##"):
+		return pl, p.errAt(p.i, p.word(), "", "this is a JCAMP-DX file, not journal text")
+	case strings.HasPrefix(p.in[p.i:], "[") || strings.HasPrefix(p.in[p.i:], "{"):
+		return pl, p.errAt(p.i, p.in[p.i:p.i+1], "", "this is JSON, not journal text")
+	}
 	if err := p.header(&pl); err != nil {
 		return PeakList{}, err
 	}

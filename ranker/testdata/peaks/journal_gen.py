@@ -91,6 +91,8 @@ ok("delta lost to a symbol font", "1H NMR (400 MHz, CDCl3) d 4.12 (q, J = 7.1 Hz
    [P(4.12, m="q", j=[7.1], i=2), P(2.05, m="s", i=3)])
 ok("delta lost, no header", "d 2.05 (s, 3H)", peaks=[P(2.05, m="s", i=3)])
 ok("mathematical delta and J", "𝛿 4.12 (q, 𝐽 = 7.1 Hz, 2H)", peaks=[P(4.12, m="q", j=[7.1], i=2)])
+bad("JCAMP-DX given as journal text", "\n##TITLE= x", "##TITLE=", "")
+bad("JSON given as journal text", " [{\"shift\": 1}]", "[", "")
 bad("decimal comma", "δ 4,12 (q, 2H)", "4,1", "shift")
 bad("malformed integral", "δ 4.12 (q, 2.0.4H)", "2.0.4H", "integral")
 bad("unknown multiplicity", "1H NMR (400 MHz, CDCl3) δ 4.12 (x, 2H)", "x", "multiplicity")
