@@ -544,7 +544,8 @@ const (
 	// pattern beyond recognition and the signal is reported as "m" (our
 	// judgement; first-order analysis is safe above ~10, Friebolin ch. 4).
 	strongNameRatio = 6.0
-	// mergeTolHz: couplings closer than this merge into one n+1 factor.
+	// mergeTolHz: couplings closer than this (or than the line width, if
+	// larger) merge into one n+1 factor.
 	mergeTolHz = 1.5
 )
 
@@ -585,8 +586,9 @@ func (p *Predictor) name(envs []Environment, id int) {
 			}
 		}
 		merged := false
+		tol := max(mergeTolHz, p.opts.LineWidthHz)
 		for k := 0; k < nc; k++ {
-			if math.Abs(cls[k].j-j) <= mergeTolHz {
+			if math.Abs(cls[k].j-j) <= tol {
 				cls[k].j = (cls[k].j*float64(cls[k].n) + j*float64(c.N)) / float64(cls[k].n+c.N)
 				cls[k].n += c.N
 				merged = true

@@ -213,3 +213,31 @@ func TestMultiplicities(t *testing.T) {
 		t.Errorf("DMF: want two different N-CH3 environments, got %+v / %+v", a, b)
 	}
 }
+
+// TestFieldDependence: the same coupling pattern is first order at high
+// field and a second-order multiplet at low field, where Δν/J is small
+// (common practice; Friebolin ch. 4). The C3 methylene of 1-chlorobutane
+// (δ ~1.46, next to the C2 methylene at ~1.76) is a sextet at 400 MHz and
+// "m" at 60 MHz.
+func TestFieldDependence(t *testing.T) {
+	for _, tc := range []struct {
+		mhz  float64
+		want string
+	}{{400, "sext"}, {600, "sext"}, {60, "m"}} {
+		sp := predictSMILES(t, New(Options{MHz: tc.mhz}), "CCCCCl")
+		if es := envOn(sp, 1); len(es) != 1 || es[0].Multiplicity != tc.want {
+			t.Errorf("1-chlorobutane C3 H2 at %g MHz: %+v, want %q", tc.mhz, es, tc.want)
+		}
+	}
+	// A wide line hides small couplings: propanal's CHO (J ~1.6 Hz to the
+	// CH2) is a triplet at 1 Hz line width and a singlet at 3 Hz.
+	for _, tc := range []struct {
+		lw   float64
+		want string
+	}{{1, "t"}, {3, "s"}} {
+		sp := predictSMILES(t, New(Options{LineWidthHz: tc.lw}), "CCC=O")
+		if es := envOn(sp, 2); len(es) != 1 || es[0].Multiplicity != tc.want {
+			t.Errorf("propanal CHO at line width %g Hz: %+v, want %q", tc.lw, es, tc.want)
+		}
+	}
+}
