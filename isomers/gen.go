@@ -122,11 +122,13 @@ type level struct {
 	part                    partition
 	vec                     [MaxAtoms]uint8
 	orbitQ                  [][MaxAtoms]uint8
-	// leaves of the parent, their (colour, bond-order sum) keys, and
-	// leafPrefix[i] = number of leaves with index < i
-	leaves     []uint8
-	leafKey    [MaxAtoms]uint16
-	leafPrefix [MaxAtoms + 1]uint8
+	// the parent's non-cut vertices, their (colour, bond-order sum) keys,
+	// ncDeg[i] = degree of i if it is not a cut vertex (else 99), and
+	// ncSuffix[i] = min ncDeg[j] over j >= i
+	nc       []uint8
+	ncKey    [MaxAtoms]uint16
+	ncDeg    [MaxAtoms]uint8
+	ncSuffix [MaxAtoms + 1]uint8
 }
 
 // searcher runs the depth-first canonical augmentation from a given node.
@@ -252,15 +254,27 @@ func (s *searcher) children(kids []aug) []aug {
 	if 2*R > F+s.vrem || F == 0 {
 		return kids
 	}
-	lv.leaves = lv.leaves[:0]
+	if s.m.isTree() {
+		// in a tree the non-cut vertices are the leaves
+		for i := 0; i < k; i++ {
+			s.cut[i] = s.m.deg[i] > 1
+		}
+	} else {
+		s.m.articulation(&s.cut, &s.cutw)
+	}
+	lv.nc = lv.nc[:0]
 	for i := 0; i < k; i++ {
-		lv.leafPrefix[i] = uint8(len(lv.leaves))
-		if s.m.deg[i] == 1 {
-			lv.leaves = append(lv.leaves, uint8(i))
-			lv.leafKey[i] = uint16(s.m.col[i])<<8 | uint16(s.m.bsum[i])
+		lv.ncDeg[i] = 99
+		if !s.cut[i] {
+			lv.nc = append(lv.nc, uint8(i))
+			lv.ncDeg[i] = s.m.deg[i]
+			lv.ncKey[i] = uint16(s.m.col[i])<<8 | uint16(s.m.bsum[i])
 		}
 	}
-	lv.leafPrefix[k] = uint8(len(lv.leaves))
+	lv.ncSuffix[k] = 99
+	for i := k - 1; i >= 0; i-- {
+		lv.ncSuffix[i] = min(lv.ncDeg[i], lv.ncSuffix[i+1])
+	}
 	// automorphisms of the parent
 	cz := &s.cz
 	cz.vertexKeys()
@@ -309,7 +323,7 @@ func (s *searcher) children(kids []aug) []aug {
 			continue
 		}
 		a.c = uint8(ci)
-		kids = s.enumerate(kids, lv, &a, 0, 0, smin, smax, 0, final)
+		kids = s.enumerate(kids, lv, &a, 0, 0, smin, smax, 99, final)
 		if s.stopped {
 			return kids
 		}
@@ -332,15 +346,17 @@ func (s *searcher) parentGroup(lv *level) {
 // sum bonds so far, and tests every complete choice whose sum lies in
 // [smin, smax].
 //
-// missed counts the parent's leaves (degree-1 atoms) below from that were
-// not chosen. A new atom with two or more bonds has a smaller canonical
-// key than any leaf left untouched (the key starts with 8 − degree), and
-// leaves are never cut vertices, so such children are rejected by accept;
-// they are pruned here before they are built.
-func (s *searcher) enumerate(kids []aug, lv *level, a *aug, from, sum, smin, smax, missed int, final bool) []aug {
+// skipMin is the smallest degree of a parent vertex below from that is
+// not a cut vertex and was not chosen. Such a vertex keeps its degree,
+// bond-order sum and non-cut status in the child (the child minus it is
+// the parent minus it plus the new atom, bonded elsewhere), so if its
+// degree is below the new atom's its canonical key is larger (the key
+// starts with 8 − degree) and accept would reject the child: those
+// branches are cut here before anything is built.
+func (s *searcher) enumerate(kids []aug, lv *level, a *aug, from, sum, smin, smax, skipMin int, final bool) []aug {
 	k := s.m.n
-	if sum >= smin && (a.na < 2 || missed+int(lv.leafPrefix[k]-lv.leafPrefix[from]) == 0) {
-		kids = s.try(kids, lv, a, final)
+	if sum >= smin && min(skipMin, int(lv.ncSuffix[from])) >= int(a.na) {
+		kids = s.try(kids, lv, a, sum, final)
 		if s.stopped {
 			return kids
 		}
@@ -349,43 +365,49 @@ func (s *searcher) enumerate(kids []aug, lv *level, a *aug, from, sum, smin, sma
 		return kids
 	}
 	for i := from; i < k; i++ {
-		f := s.m.free(i)
-		if f == 0 || s.m.deg[i] == maxDeg {
-			continue
-		}
-		miss := missed + int(lv.leafPrefix[i]-lv.leafPrefix[from])
-		if a.na >= 1 && miss > 0 {
+		if skipMin < int(a.na)+1 {
 			break
 		}
-		top := min(3, f, smax-sum)
-		for o := 1; o <= top; o++ {
-			a.att[a.na] = uint8(i)
-			a.ord[a.na] = uint8(o)
-			a.na++
-			kids = s.enumerate(kids, lv, a, i+1, sum+o, smin, smax, miss, final)
-			a.na--
-			if s.stopped {
-				return kids
+		f := s.m.free(i)
+		if f > 0 && s.m.deg[i] < maxDeg {
+			top := min(3, f, smax-sum)
+			for o := 1; o <= top; o++ {
+				a.att[a.na] = uint8(i)
+				a.ord[a.na] = uint8(o)
+				a.na++
+				kids = s.enumerate(kids, lv, a, i+1, sum+o, smin, smax, skipMin, final)
+				a.na--
+				if s.stopped {
+					return kids
+				}
 			}
 		}
+		skipMin = min(skipMin, int(lv.ncDeg[i]))
 	}
 	return kids
 }
 
 // try tests one augmentation.
-func (s *searcher) try(kids []aug, lv *level, a *aug, final bool) []aug {
+func (s *searcher) try(kids []aug, lv *level, a *aug, sum int, final bool) []aug {
 	if a.na == 0 {
 		return kids
 	}
-	if a.na == 1 {
-		// A new leaf loses to an untouched leaf with a larger (colour,
-		// bond-order sum) key part.
-		u := a.att[0]
-		mine := uint16(a.c)<<8 | uint16(a.ord[0])
-		for _, x := range lv.leaves {
-			if x != u && lv.leafKey[x] > mine {
-				return kids
+	// An untouched non-cut vertex of the new atom's degree with a larger
+	// (colour, bond-order sum) part also has a larger key (see enumerate).
+	mine := uint16(a.c)<<8 | uint16(sum)
+	for _, x := range lv.nc {
+		if lv.ncDeg[x] != a.na || lv.ncKey[x] <= mine {
+			continue
+		}
+		touched := false
+		for j := 0; j < int(a.na); j++ {
+			if a.att[j] == x {
+				touched = true
+				break
 			}
+		}
+		if !touched {
+			return kids
 		}
 	}
 	if !lv.trivial && !s.augCanonical(lv, a) {
