@@ -164,6 +164,8 @@ func TestCanonicalSymmetricGraphs(t *testing.T) {
 		{"neopentane", MustParseSMILES("CC(C)(C)C"), 2, 24, "central C and four CH3 (common practice)"},
 		{"cyclohexane", MustParseSMILES("C1CCCCC1"), 1, 12, "common practice"},
 		{"p-xylene", MustParseSMILES("Cc1ccc(C)cc1"), 3, 4, "CH3, ipso, CH (common practice)"},
+		{"fullerene C60", MustParseSMILES("c12c3c4c5c1c1c6c7c2c2c8c3c3c9c4c4c%10c5c5c1c1c6c6c%11c7c2c2c7c8c3c3c8c9c4c4c9c%10c5c5c1c1c6c6c%11c2c2c7c3c3c8c4c4c9c5c1c1c6c2c3c41"), 1, 0, "Ih, all carbons equivalent (common practice)"},
+		{"coronene", MustParseSMILES("c1cc2ccc3ccc4ccc5ccc6ccc1c7c2c3c4c5c67"), 3, 0, "CH, outer and inner ring-fusion C (common practice)"},
 	}
 	r := rand.New(rand.NewPCG(1, 2))
 	for _, tc := range tests {

@@ -31,6 +31,7 @@ type FormulaError struct {
 	Msg   string
 }
 
+// Error formats the error with the input, message, position and token.
 func (e *FormulaError) Error() string {
 	return fmt.Sprintf("formula %q: %s at position %d (%q)", e.Input, e.Msg, e.Pos, e.Token)
 }

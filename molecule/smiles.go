@@ -14,6 +14,7 @@ type SMILESError struct {
 	Msg   string
 }
 
+// Error formats the error with the input, message, position and token.
 func (e *SMILESError) Error() string {
 	return fmt.Sprintf("SMILES %q: %s at position %d (%q)", e.Input, e.Msg, e.Pos, e.Token)
 }
