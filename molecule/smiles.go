@@ -120,6 +120,9 @@ func (p *smilesParser) parseGraph() (*Graph, error) {
 			if bondSym != 0 {
 				return nil, p.errAt(bondAt, 1, "bond symbol before '('")
 			}
+			if justOpened {
+				return nil, p.errAt(start, 1, "a branch must start with a bond or an atom")
+			}
 			stack = append(stack, prev)
 			stackPos = append(stackPos, start)
 			p.i++

@@ -93,6 +93,11 @@ func TestParseSMILESErrors(t *testing.T) {
 		{"C[H]C", 1, "[H]"},
 		{"[H+]C", 0, "[H+]"},
 		{"[H]=C", 0, "[H]"},
+		{"C((C))", 2, "("},
+		{"C(", 1, "("},
+		{"(C)", 0, "("},
+		{"C)C", 1, ")"},
+		{"C(=)C", 2, "="},
 	}
 	for _, tc := range tests {
 		_, err := ParseSMILES(tc.smiles)
