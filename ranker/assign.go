@@ -224,10 +224,13 @@ func (s *solver) solve(p *assignProblem) assignment {
 	s.best = p.evaluateWith(s.bestP1, s.bestP2, s.load)
 	s.limit = quickNodes
 	if !s.runSearch() {
-		s.tunePrices()
 		s.limit = maxNodes
-		s.runSearch()
+		s.nodes = 0
+		if !s.tunePrices() {
+			s.runSearch()
+		}
 	}
+	clear(s.load)
 	cost := p.evaluateWith(s.bestP1, s.bestP2, s.load)
 	clear(s.load)
 	return assignment{first: s.bestP1, second: s.bestP2, cost: cost, proven: s.nodes < s.limit}
@@ -281,8 +284,9 @@ func (s *solver) reduced(o option, h int) float64 {
 
 // tunePrices runs subgradient ascent on the Lagrangian dual, keeps the
 // prices with the highest bound in s.lambda, and records the best complete
-// assignment met on the way as the incumbent.
-func (s *solver) tunePrices() {
+// assignment met on the way as the incumbent. It reports whether the bound
+// met the incumbent, which is then optimal without a search.
+func (s *solver) tunePrices() bool {
 	p := s.p
 	m := p.nPeak
 	w := p.maxLoad + 1
@@ -341,6 +345,12 @@ func (s *solver) tunePrices() {
 			copy(s.bestP1, s.tmpP1)
 			copy(s.bestP2, s.tmpP2)
 		}
+		if bestLB >= s.best-1e-9 {
+			// The dual bound meets a complete assignment: it is optimal.
+			copy(s.lambda, keep)
+			s.rootLB = bestLB
+			return true
+		}
 		// Recount the environments' loads (evaluateWith reset them).
 		clear(s.load)
 		for i := range s.tmpP1 {
@@ -381,6 +391,7 @@ func (s *solver) tunePrices() {
 	}
 	copy(s.lambda, keep)
 	s.rootLB = bestLB
+	return false
 }
 
 func abs(x int) int {
