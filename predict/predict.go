@@ -30,8 +30,10 @@ const (
 	DefaultLineWidthHz = 1.0
 )
 
-// Predictor predicts 1H spectra. It holds only immutable configuration and
-// is safe for concurrent use by multiple goroutines.
+// Predictor predicts 1H spectra. It holds immutable configuration and a
+// pool of scratch space, and is safe for concurrent use by multiple
+// goroutines. Predicting a molecule of about eight heavy atoms with Explain
+// off takes a few microseconds (BenchmarkPredict).
 type Predictor struct {
 	opts Options
 	// work reuses scratch space across calls (a molecule.Canonicalizer
