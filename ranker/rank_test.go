@@ -280,3 +280,37 @@ func TestResultJSONFieldNames(t *testing.T) {
 		}
 	}
 }
+
+func TestRankFragmentConstraints(t *testing.T) {
+	pl := mustPeaks(t, ethylAcetate)
+	all, err := New(Options{}).Rank(context.Background(), Request{Formula: "C4H8O2", Peaks: pl, TopK: 3}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Esters only: an O–C(=O) fragment (a substructure query).
+	res, err := New(Options{}).Rank(context.Background(), Request{Formula: "C4H8O2", Peaks: pl, TopK: 50, Require: []string{"OC=O"}, Forbid: []string{"[OH]"}}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !(res.Scored > 0 && res.Scored < all.Scored) {
+		t.Fatalf("scored %d with constraints, %d without", res.Scored, all.Scored)
+	}
+	if !strings.Contains(res.Prior, "fragment constraints") {
+		t.Errorf("prior %q does not mention the constraints", res.Prior)
+	}
+	req := molecule.MustParseFragment("OC=O")
+	oh := molecule.MustParseFragment("[OH]")
+	for _, c := range res.Candidates {
+		g := molecule.MustParseSMILES(c.SMILES)
+		if !req.Matches(g) || oh.Matches(g) {
+			t.Errorf("%s violates the constraints", c.SMILES)
+		}
+	}
+	if res.Candidates[0].SMILES != canonical(t, "CCOC(C)=O") {
+		t.Errorf("first %s, want ethyl acetate", res.Candidates[0].SMILES)
+	}
+	// Probabilities renormalise over the smaller set.
+	if !(res.Candidates[0].Probability >= all.Candidates[0].Probability) {
+		t.Errorf("constrained probability %.6f below unconstrained %.6f", res.Candidates[0].Probability, all.Candidates[0].Probability)
+	}
+}
