@@ -145,7 +145,7 @@ func TestAlcoholsEthersAmines(t *testing.T) {
 		}
 		f := molecule.MustParseFormula(fmt.Sprintf("C%dH%dO", n, 2*n+2))
 		var alcohols, total int64
-		_, err := Generate(context.Background(), f, Options{}, func(g *molecule.Graph) bool {
+		_, err := Generate(context.Background(), f, Options{Filter: NoFilter()}, func(g *molecule.Graph) bool {
 			total++
 			for _, a := range g.Atoms {
 				if a.Element == molecule.O && a.HCount == 1 {
@@ -161,7 +161,7 @@ func TestAlcoholsEthersAmines(t *testing.T) {
 			t.Errorf("%s: %d alcohols of %d, want %d of %d (Pólya count; OEIS A000598)", f, alcohols, total, r[n], r[n]+ethers)
 		}
 		fa := molecule.MustParseFormula(fmt.Sprintf("C%dH%dN", n, 2*n+3))
-		st, err := Count(context.Background(), fa, Options{})
+		st, err := Count(context.Background(), fa, Options{Filter: NoFilter()})
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -12,7 +12,7 @@ import (
 func eachMol(t *testing.T, formula string, fn func(m *mol)) {
 	t.Helper()
 	f := molecule.MustParseFormula(formula)
-	_, err := Generate(context.Background(), f, Options{allKekule: true}, func(g *molecule.Graph) bool {
+	_, err := Generate(context.Background(), f, Options{Filter: NoFilter(), allKekule: true}, func(g *molecule.Graph) bool {
 		var m mol
 		if !fromGraph(g, &m) {
 			t.Fatalf("fromGraph failed on a generated structure")

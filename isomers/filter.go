@@ -57,17 +57,24 @@ func Rules() []Rule {
 	return out
 }
 
-// Filter is a set of enabled plausibility rules. The zero value enables
-// none (everything is allowed). Filter is a comparable value.
+// Filter is a set of enabled plausibility rules. The zero value is the
+// "plausible" filter (every rule enabled, like DefaultFilter); NoFilter
+// switches all of them off. Filter is a comparable value.
 type Filter struct {
-	on uint32
+	off uint32 // disabled rules, so that the zero value enables all
 }
 
-// DefaultFilter returns the "plausible" filter: every rule enabled.
-func DefaultFilter() Filter { return Filter{on: 1<<numRules - 1} }
+const allRules = 1<<numRules - 1
+
+// on returns the set of enabled rules.
+func (f Filter) on() uint32 { return allRules &^ f.off }
+
+// DefaultFilter returns the "plausible" filter: every rule enabled. It
+// equals the zero Filter.
+func DefaultFilter() Filter { return Filter{} }
 
 // NoFilter returns the "none" filter: no rule enabled.
-func NoFilter() Filter { return Filter{} }
+func NoFilter() Filter { return Filter{off: allRules} }
 
 // FilterError reports an unknown rule or a malformed filter expression.
 type FilterError struct {
@@ -121,9 +128,9 @@ func ParseFilter(s string) (Filter, error) {
 			return Filter{}, &FilterError{Input: s, Pos: off, Token: it, Msg: "unknown rule (see Rules)"}
 		}
 		if enable {
-			f.on |= 1 << idx
+			f.off &^= 1 << idx
 		} else {
-			f.on &^= 1 << idx
+			f.off |= 1 << idx
 		}
 	}
 	return f, nil
@@ -142,7 +149,7 @@ func ruleIndex(name string) int {
 func (f Filter) Enabled() []string {
 	var out []string
 	for i := range ruleTable {
-		if f.on&(1<<i) != 0 {
+		if f.on()&(1<<i) != 0 {
 			out = append(out, ruleTable[i].Name)
 		}
 	}
@@ -162,7 +169,7 @@ func (f Filter) String() string {
 	if len(f.Enabled())*2 >= numRules {
 		b.WriteString("plausible")
 		for i := range ruleTable {
-			if f.on&(1<<i) == 0 {
+			if f.on()&(1<<i) == 0 {
 				b.WriteString(",-")
 				b.WriteString(ruleTable[i].Name)
 			}
@@ -182,7 +189,7 @@ func (f Filter) String() string {
 // (charges, aromatic bond orders, more than MaxAtoms atoms, valences
 // outside the element's list) are allowed unchecked with rule "".
 func (f Filter) Allows(g *molecule.Graph) (ok bool, rule string) {
-	if f.on == 0 {
+	if f.on() == 0 {
 		return true, ""
 	}
 	var m mol
@@ -198,12 +205,12 @@ func (f Filter) Allows(g *molecule.Graph) (ok bool, rule string) {
 
 // check returns the index of the first enabled rule m breaks, or -1.
 func (f Filter) check(o *outputBuilder, m *mol) int {
-	if f.on == 0 {
+	if f.on() == 0 {
 		return -1
 	}
 	o.aromDone = false
 	for i := range ruleTable {
-		if f.on&(1<<i) != 0 && ruleTable[i].violates(o, m) {
+		if f.on()&(1<<i) != 0 && ruleTable[i].violates(o, m) {
 			return i
 		}
 	}

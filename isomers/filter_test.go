@@ -138,8 +138,8 @@ func TestParseFilter(t *testing.T) {
 			t.Errorf("ParseFilter(%q).String() = %q does not parse back (%v)", c.in, f.String(), err)
 		}
 	}
-	if (Filter{}) != NoFilter() {
-		t.Error("zero Filter must equal NoFilter()")
+	if (Filter{}) != DefaultFilter() || (Options{}).Filter != DefaultFilter() {
+		t.Error("zero Filter must equal DefaultFilter()")
 	}
 }
 

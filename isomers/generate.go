@@ -11,12 +11,12 @@ import (
 	"shiftrank/molecule"
 )
 
-// Options controls a generation run. The zero value generates without any
-// plausibility filtering; callers that rank candidates should set
-// Filter: DefaultFilter().
+// Options controls a generation run. The zero value applies the
+// plausibility filter, uses every core and has no limit.
 type Options struct {
 	// Filter is the set of plausibility rules applied to each structure.
-	// The zero Filter allows everything (same as NoFilter()).
+	// The zero Filter is DefaultFilter (all rules on); set NoFilter() for
+	// the complete set of constitutional isomers.
 	Filter Filter
 	// Limit stops the run after this many emitted structures (0 = no
 	// limit).

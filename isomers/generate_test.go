@@ -197,7 +197,7 @@ func TestSmallFormulas(t *testing.T) {
 		{"CH2O", []string{"C=O"}},
 	}
 	for _, c := range cases {
-		got, _ := collect(t, molecule.MustParseFormula(c.formula), Options{})
+		got, _ := collect(t, molecule.MustParseFormula(c.formula), Options{Filter: NoFilter()})
 		sort.Strings(got)
 		if fmt.Sprint(got) != fmt.Sprint(c.want) {
 			t.Errorf("%s: got %v, want %v (common practice)", c.formula, got, c.want)
@@ -206,7 +206,7 @@ func TestSmallFormulas(t *testing.T) {
 	// ParseFormula rejects H4S (negative DBE at the lowest valences), but
 	// the generator takes the formula value: S(IV) with four H.
 	h4s := molecule.NewFormula(map[molecule.Element]int{molecule.S: 1, molecule.H: 4})
-	got, _ := collect(t, h4s, Options{})
+	got, _ := collect(t, h4s, Options{Filter: NoFilter()})
 	if fmt.Sprint(got) != "[[SH4]]" {
 		t.Errorf("H4S: got %v, want [[SH4]]", got)
 	}
@@ -258,7 +258,7 @@ func TestCanonicalSMILESDistinct(t *testing.T) {
 		f := molecule.MustParseFormula(fs)
 		seen := map[string]bool{}
 		var c molecule.Canonicalizer
-		_, err := Generate(context.Background(), f, Options{}, func(g *molecule.Graph) bool {
+		_, err := Generate(context.Background(), f, Options{Filter: NoFilter()}, func(g *molecule.Graph) bool {
 			s, _ := c.CanonicalSMILES(g)
 			if seen[s] {
 				t.Errorf("%s: %s emitted twice", fs, s)

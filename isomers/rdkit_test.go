@@ -254,7 +254,7 @@ func TestOracleMultigraphs(t *testing.T) {
 			want[e.key] = e.smiles
 		}
 		got := map[string]string{}
-		st, err := Generate(context.Background(), f, Options{allKekule: true}, func(g *molecule.Graph) bool {
+		st, err := Generate(context.Background(), f, Options{Filter: NoFilter(), allKekule: true}, func(g *molecule.Graph) bool {
 			k := graphKey(g)
 			if prev, dup := got[k]; dup {
 				t.Errorf("%s: duplicate multigraph %s and %s", fs, prev, testSMILES(g))
