@@ -182,7 +182,7 @@ func TestRankDeterministic(t *testing.T) {
 }
 
 func TestRankBudgetIsNotSilent(t *testing.T) {
-	req := Request{Formula: "C6H12O2", Peaks: mustPeaks(t, "4.12 (q, 2H), 2.28 (t, 2H), 1.64 (m, 2H), 1.25 (t, 3H), 0.94 (t, 3H)"),
+	req := Request{Formula: "C8H16O2", Peaks: mustPeaks(t, "4.12 (q, 2H), 2.28 (t, 2H), 1.64 (m, 2H), 1.30 (m, 4H), 1.25 (t, 3H), 0.94 (t, 3H)"),
 		MaxCandidates: 500, TopK: 3}
 	res, err := New(Options{}).Rank(context.Background(), req, nil)
 	if err != nil {
