@@ -314,3 +314,21 @@ func randomGraph(data []byte, elems []molecule.Element) *molecule.Graph {
 	}
 	return g
 }
+
+// TestExplainDoesNotChangeNumbers: Explain only adds text; shifts,
+// multiplicities and couplings are the same with it off (the ranker scores
+// with it off and shows the explained prediction).
+func TestExplainDoesNotChangeNumbers(t *testing.T) {
+	quiet, loud := New(Options{}), New(Options{Explain: true})
+	for _, s := range battery {
+		g := mustParse(t, s)
+		a, err1 := quiet.Predict(g)
+		b, err2 := loud.Predict(g)
+		if err1 != nil || err2 != nil {
+			t.Fatal(err1, err2)
+		}
+		if sa, sb := signature(a), signature(b); !slices.Equal(sa, sb) {
+			t.Errorf("%s: Explain changes the prediction: %v vs %v", s, sa, sb)
+		}
+	}
+}
