@@ -78,6 +78,8 @@ type RequestError struct {
 	Err   error // the underlying parse error, if any
 }
 
+// Error names the field, the message and, when known, the token and its
+// position.
 func (e *RequestError) Error() string {
 	if e.Token != "" {
 		return fmt.Sprintf("%s: %s at position %d (%q)", e.Field, e.Msg, e.Pos, e.Token)
@@ -85,6 +87,7 @@ func (e *RequestError) Error() string {
 	return fmt.Sprintf("%s: %s", e.Field, e.Msg)
 }
 
+// Unwrap returns the underlying parse error, if any.
 func (e *RequestError) Unwrap() error { return e.Err }
 
 // Options configures a Ranker. The zero value means the defaults.
