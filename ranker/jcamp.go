@@ -41,10 +41,10 @@ import (
 //     the point's X is ##FIRSTX + (point−1)·##DELTAX when both are given,
 //     otherwise 0 Hz.
 //   - Y is a peak height: the standard has no integral column, so
-//     Integral is left 0 (not given) except for (XYW..XYW) tables, where
-//     it is the sum of Y·W over the signal's lines (the area of Lorentzian
-//     lines up to a constant factor). ScaleIntegrals only needs relative
-//     areas.
+//     Integral is left 0 (not given) except where a W (width) column is
+//     given, where it is Y·W summed over the signal's lines (the area of
+//     Lorentzian lines up to a constant factor). ScaleIntegrals only needs
+//     relative areas.
 //   - ##.SOLVENT NAME= gives PeakList.Solvent (CanonicalSolvent; ""
 //     when not recognised).
 //
@@ -527,6 +527,15 @@ func (jc *jcamp) assignments(r ldr, ax axis) ([]Peak, error) {
 		pk, err := jc.entry(r, vars, fields, ax, base+k, rest[k:end+1])
 		if err != nil {
 			return nil, err
+		}
+		if w := strings.IndexByte(vars, 'W'); w >= 0 {
+			// Height times width: the area of a Lorentzian line up to a
+			// constant factor.
+			y, okY := jnum(fields[1].text)
+			wd, okW := jnum(fields[w].text)
+			if okY && okW && y > 0 && wd > 0 {
+				pk.Integral = y * wd
+			}
 		}
 		peaks = append(peaks, pk)
 		k = end + 1

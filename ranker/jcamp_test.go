@@ -124,3 +124,29 @@ func TestParseJCAMPLineEndings(t *testing.T) {
 		}
 	}
 }
+
+func TestParseJCAMPAssignmentsWithWidth(t *testing.T) {
+	// Invented demo record: X in Hz at 400 MHz from TMS at 0 Hz, areas
+	// from height × width (3 : 2 : 3).
+	in := "##TITLE= SR-DEMO-0013 invented demo\n##JCAMP-DX= 5.01\n##DATA TYPE= NMR PEAK ASSIGNMENTS\n" +
+		"##.OBSERVE FREQUENCY= 400\n##.OBSERVE NUCLEUS= ^1H\n##XUNITS= HZ\n" +
+		"##.SHIFT REFERENCE= (INTERNAL, TMS, 1, 0.00)\n##PEAK ASSIGNMENTS= (XYMWA)\n" +
+		"(1464.0, 30, s, 1.0, <OCH3>)\n(924.0, 10, t, 2.0,\n <CH2>)\n(376.0, 15, t, 2.0, <CH3>)\n##END=\n"
+	pl, err := ParseJCAMP([]byte(in))
+	if err != nil {
+		t.Fatalf("ParseJCAMP: %v", err)
+	}
+	want := []struct {
+		shift, integral float64
+		mult, label     string
+	}{{3.66, 30, "s", "OCH3"}, {2.31, 20, "t", "CH2"}, {0.94, 30, "t", "CH3"}}
+	if len(pl.Peaks) != len(want) {
+		t.Fatalf("ParseJCAMP = %v, want %d peaks", pl, len(want))
+	}
+	for i, w := range want {
+		p := pl.Peaks[i]
+		if math.Abs(p.Shift-w.shift) > 1e-9 || math.Abs(p.Integral-w.integral) > 1e-9 || p.Multiplicity != w.mult || p.Label != w.label {
+			t.Errorf("peak %d = %v (integral %g), want %.2f %s %s integral %g", i, p, p.Integral, w.shift, w.mult, w.label, w.integral)
+		}
+	}
+}

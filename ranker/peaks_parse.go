@@ -27,7 +27,10 @@ import (
 // and free assignment notes ("OCH2", "H-3", "2 × CH3", "H-2,6") kept as
 // Label. Peaks are separated by commas, semicolons or line breaks; a final
 // "." or ";" is allowed, and a following section for another nucleus or
-// technique ("13C NMR ...", "HRMS ...") ends the list.
+// technique ("13C NMR ...", "HRMS ...") ends the list. White space may
+// include line breaks and non-breaking or thin spaces; full-width
+// punctuation ("（s，3H）") and δ written as "d" (PDF symbol fonts) are
+// accepted. Positions always refer to the input as given.
 //
 // Errors are *PeakError naming the token and its byte position: malformed
 // numbers, a decimal comma ("4,12"), a shift outside MinShift..MaxShift,
@@ -35,7 +38,7 @@ import (
 // number where an integral belongs, J on a singlet, a J outside 0 to MaxJ
 // Hz, unbalanced parentheses, no peaks at all, or input longer than
 // MaxPeakInput bytes or with more than MaxPeaks peaks or MaxJValues J
-// values on one peak.
+// values on one peak; JSON or JCAMP-DX input gets an error saying so.
 func ParsePeaks(s string) (PeakList, error) {
 	var pl PeakList
 	p := &journal{in: s}
