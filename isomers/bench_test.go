@@ -77,7 +77,7 @@ func BenchmarkAgainstRDKit(b *testing.B) {
 	if err := exec.Command(rdkitPython, "-c", "import rdkit").Run(); err != nil {
 		b.Skip("RDKit not available; install python3-rdkit to run this benchmark")
 	}
-	for _, fs := range []string{"C7H8", "C6H12O2", "C8H18O", "C6H7NO"} {
+	for _, fs := range []string{"C7H8", "C6H12O2", "C8H18O", "C5H5NO"} {
 		f := molecule.MustParseFormula(fs)
 		b.Run(fs, func(b *testing.B) {
 			var smiles bytes.Buffer
