@@ -128,8 +128,23 @@ type BenchReport struct {
 	// MeanTrueProbability is the mean probability given to the true
 	// structure.
 	MeanTrueProbability float64 `json:"mean_true_probability"`
-	Seconds             float64 `json:"seconds"`
+	// Calibration groups the compounds by the probability of their first
+	// candidate: in a calibrated model each bin's top-1 rate is close to
+	// its mean probability.
+	Calibration []CalibrationBin `json:"calibration"`
+	Seconds     float64          `json:"seconds"`
 }
+
+// CalibrationBin is one probability range of BenchReport.Calibration.
+type CalibrationBin struct {
+	Lo, Hi          float64 // probability range of the first candidate, [Lo, Hi)
+	N               int     // compounds in the bin
+	MeanProbability float64 // mean probability of their first candidate
+	Top1            float64 // fraction whose first candidate is the true structure
+}
+
+// calibrationEdges are the bin edges of BenchReport.Calibration.
+var calibrationEdges = [...]float64{0, 0.5, 0.8, 0.95, 0.99, 1.0000001}
 
 // Bench ranks every compound of set and reports how often the true
 // structure comes first, in the top three, its mean reciprocal rank and
@@ -178,6 +193,23 @@ func (r *Ranker) Bench(ctx context.Context, set *ReferenceSet, opts BenchOptions
 		rep.MRR /= n
 		rep.MeanTopProbability /= n
 		rep.MeanTrueProbability /= n
+	}
+	for b := 0; b+1 < len(calibrationEdges); b++ {
+		bin := CalibrationBin{Lo: calibrationEdges[b], Hi: min(calibrationEdges[b+1], 1)}
+		for _, c := range rep.Cases {
+			if c.TopProbability >= calibrationEdges[b] && c.TopProbability < calibrationEdges[b+1] {
+				bin.N++
+				bin.MeanProbability += c.TopProbability
+				if c.Rank == 1 {
+					bin.Top1++
+				}
+			}
+		}
+		if bin.N > 0 {
+			bin.MeanProbability /= float64(bin.N)
+			bin.Top1 /= float64(bin.N)
+		}
+		rep.Calibration = append(rep.Calibration, bin)
 	}
 	rep.Seconds = time.Since(start).Seconds()
 	return rep, nil

@@ -106,6 +106,13 @@ func writeBench(w io.Writer, rep *ranker.BenchReport) {
 		rep.N, 100*rep.Top1, 100*rep.Top3, rep.MRR)
 	fmt.Fprintf(w, "calibration: mean probability of the top candidate %.3f vs observed top-1 rate %.3f; mean probability of the true structure %.3f\n",
 		rep.MeanTopProbability, rep.Top1, rep.MeanTrueProbability)
+	fmt.Fprintln(w, "  p(top) range   compounds  mean p(top)  top-1 rate")
+	for _, b := range rep.Calibration {
+		if b.N == 0 {
+			continue
+		}
+		fmt.Fprintf(w, "  %.2f–%.2f     %9d  %11.3f  %10.3f\n", b.Lo, b.Hi, b.N, b.MeanProbability, b.Top1)
+	}
 	fmt.Fprintf(w, "%.1f s\n", rep.Seconds)
 	fmt.Fprintf(w, "\nCaution: %s\n", ranker.Caution)
 }
