@@ -27,6 +27,35 @@ var randomScaffolds = []string{
 // and fills hydrogens at the lowest allowed valence.
 func randomMolecule(r *rand.Rand, k int) *Graph {
 	g := MustParseSMILES(randomScaffolds[r.IntN(len(randomScaffolds))])
+	return decorate(r, g, k)
+}
+
+// randomHeteroMolecule is randomMolecule on a scaffold in which random
+// aromatic CH atoms were replaced by n, o, s or [nH] (azines, azoles,
+// oxazoles, thiazoles, ...); scaffolds that cannot be kekulised are
+// redrawn.
+func randomHeteroMolecule(r *rand.Rand, k int) *Graph {
+	for {
+		var b strings.Builder
+		for _, ch := range randomScaffolds[r.IntN(len(randomScaffolds))] {
+			switch x := r.IntN(16); {
+			case ch != 'c' || x >= 6:
+				b.WriteRune(ch)
+			case x < 4:
+				b.WriteByte('n')
+			case x == 4:
+				b.WriteString([]string{"o", "s", "[nH]"}[r.IntN(3)])
+			default:
+				b.WriteRune(ch)
+			}
+		}
+		if g, err := ParseSMILES(b.String()); err == nil {
+			return decorate(r, g, k)
+		}
+	}
+}
+
+func decorate(r *rand.Rand, g *Graph, k int) *Graph {
 	elems := []Element{C, C, C, C, N, O, S, F, Cl}
 	used := func(v int) int { return g.BondOrderSum(v) }
 	for i := 0; i < k; i++ {
@@ -86,8 +115,11 @@ func TestCanonicalSMILESRandomAgainstRDKit(t *testing.T) {
 	r := rand.New(rand.NewPCG(21, 8))
 	var in bytes.Buffer
 	var ours, keks []string
-	for i := 0; i < 500; i++ {
+	for i := 0; i < 600; i++ {
 		g := randomMolecule(r, r.IntN(7))
+		if i%2 == 1 {
+			g = randomHeteroMolecule(r, r.IntN(5))
+		}
 		if err := g.CheckValence(); err != nil {
 			continue
 		}
