@@ -22,7 +22,7 @@ type ruleDef struct {
 }
 
 // numRules is the number of rules in ruleTable.
-const numRules = 18
+const numRules = 19
 
 // ruleTable lists the rules in the order they are applied and reported.
 // The reasons are textbook organic chemistry (common practice); the ring
@@ -46,6 +46,7 @@ var ruleTable = [numRules]ruleDef{
 	{Rule{"no-trivalent-p-oh", "P(III)–OH (phosphorous, phosphonous and phosphinous acids and their partial esters) exists almost entirely as the P(V) tautomer with P=O and P–H (H-phosphonates, H-phosphinates, secondary phosphine oxides), which the generator also makes (common practice); trialkyl phosphites without OH are kept."}, trivalentPOH},
 	{Rule{"no-sulfenic-acid", "Sulfenic acids R–S–OH and their O–SH isomers are transient: they condense to thiosulfinates or are oxidised, and are isolable only with bulky protecting groups (common practice)."}, sulfenicAcid},
 	{Rule{"no-hypervalent-hydrate", "An OH on P(V) or hypervalent S with only single bonds (P(OH)5-type ortho acids, R–P(OH)4, R2S(OH)2) loses water to the P=O or S=O compound, as gem-diols do to carbonyls (common practice); phosphoranes and sulfuranes without OH (PCl5, SF4) are kept."}, hypervalentHydrate},
+	{Rule{"no-small-aromatic-ring", "A three- or four-membered ring all of whose bonds belong to an aromatic π system (a bicyclic aromatic perimeter closed across by a short bond, e.g. azabicyclo[2.1.0]pentadienes) holds a local cyclobutadiene or cyclopropenyl-anion unit under extreme angle strain and is not isolable (common practice); rings fused to an aromatic ring through one bond (cyclopropabenzene, biphenylene) are kept."}, smallAromaticRing},
 }
 
 // Rules returns the filter rules in the order they are applied.
@@ -696,6 +697,50 @@ func sulfenicAcid(o *outputBuilder, m *mol) bool {
 			u := int(m.nb[x][k])
 			if m.el[u] == molecule.O && (m.free(x) > 0 || m.free(u) > 0) {
 				return true
+			}
+		}
+	}
+	return false
+}
+
+// aromaticPair reports whether the bond a–b is aromatic.
+func (o *outputBuilder) aromaticPair(m *mol, a, b int) bool {
+	for k := 0; k < int(m.deg[a]); k++ {
+		if int(m.nb[a][k]) == b {
+			return o.aromatic(m, a, k)
+		}
+	}
+	return false
+}
+
+func smallAromaticRing(o *outputBuilder, m *mol) bool {
+	// only rings with a double bond can be aromatic, so look for those
+	// first and perceive aromaticity only then
+	for a := 0; a < m.n; a++ {
+		for k := 0; k < int(m.deg[a]); k++ {
+			b := int(m.nb[a][k])
+			if m.bo[a][k] != 2 {
+				continue
+			}
+			for j := 0; j < int(m.deg[b]); j++ {
+				c := int(m.nb[b][j])
+				if c == a {
+					continue
+				}
+				// three-membered ring a=b–c–a
+				if m.order(c, a) > 0 && o.aromaticPair(m, a, b) && o.aromaticPair(m, b, c) && o.aromaticPair(m, c, a) {
+					return true
+				}
+				// four-membered ring a=b–c–d–a
+				for i := 0; i < int(m.deg[c]); i++ {
+					d := int(m.nb[c][i])
+					if d == b || d == a || m.order(d, a) == 0 {
+						continue
+					}
+					if o.aromaticPair(m, a, b) && o.aromaticPair(m, b, c) && o.aromaticPair(m, c, d) && o.aromaticPair(m, d, a) {
+						return true
+					}
+				}
 			}
 		}
 	}

@@ -20,7 +20,7 @@ import (
 // methylenetriphenylphosphorane (the Wittig reagent), carbon disulfide,
 // trimethyl phosphite, dimethylphosphine oxide and sulfide, methyl
 // methanesulfenate, 2-mercaptoethanol, 1,1-ethanedithiol, phosphoric
-// acid, pentamethoxyphosphorane, methanesulfonic acid).
+// acid, pentamethoxyphosphorane, methanesulfonic acid, cyclopropabenzene).
 var filterCases = []struct {
 	rule   string
 	remove []string
@@ -43,6 +43,7 @@ var filterCases = []struct {
 	{"no-trivalent-p-oh", []string{"OP(O)O", "CP(C)O", "COP(O)OC"}, []string{"COP(OC)OC", "O[PH](O)=O", "C[PH](C)=O", "CP(C)C"}},
 	{"no-sulfenic-acid", []string{"CSO", "COS", "CCSO"}, []string{"CSOC", "CS(=O)O", "CSC", "COC"}},
 	{"no-hypervalent-hydrate", []string{"OP(O)(O)(O)O", "CP(O)(O)(O)O", "CS(C)(O)O", "OS1(O)CC1"}, []string{"OP(O)(O)=O", "ClP(Cl)(Cl)(Cl)Cl", "COP(OC)(OC)(OC)OC", "CS(=O)(=O)O", "FS(F)(F)F"}},
+	{"no-small-aromatic-ring", []string{"Cn1c2ccc21", "Cc1cc2[nH]c12", "Cc1c2ccn12"}, []string{"c1ccc2c(c1)C2", "c1ccc2c(c1)-c1ccccc1-2", "c1ccccc1", "c1ccc2Cn12", "c1[nH]cc2Cc12", "C1=CC1"}},
 	{"no-bare-hypervalent", []string{"C[S](C)(C)C", "C[P](C)(C)(C)C"}, []string{"FS(F)(F)F", "ClP(Cl)(Cl)(Cl)Cl", "CS(C)(=O)=O", "CS(C)=O", "COP(=O)(OC)OC"}},
 }
 
