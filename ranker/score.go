@@ -446,7 +446,10 @@ func parsePattern(code string) pattern {
 // judgement of how often a correctly predicted pattern is reported in each
 // way in routine CDCl3 spectra at 300–600 MHz (common practice: small
 // couplings go unresolved and overlapping lines are reported as "m"); they
-// are relative weights, not fitted frequencies.
+// are relative weights, not fitted frequencies. A peak reported as "m"
+// carries the same weight whatever coupled pattern was predicted (first
+// order or strongly coupled): "m" says only that the lines were not
+// resolved, so it must not favour candidates whose prediction is vaguer.
 const (
 	pExact           = 0.70 // reported as predicted
 	pRegrouped       = 0.15 // same number of partners, grouped differently (dd ↔ t)
@@ -456,9 +459,9 @@ const (
 	pExtraOne        = 0.02 // one partner more than predicted
 	pExtraMore       = 0.004
 	pSplitSinglet    = 0.005 // predicted singlet reported split
-	pObservedM       = 0.20  // any predicted splitting reported as m
+	pObservedM       = 0.40  // any predicted splitting reported as m
 	pSingletAsM      = 0.03  // predicted singlet reported as m (overlap)
-	pPredMObservedM  = 0.60  // predicted m (strongly coupled) reported as m
+	pPredMObservedM  = 0.40  // predicted m (strongly coupled) reported as m
 	pPredMObservedS  = 0.03  // predicted m reported as s
 	pPredMOther      = 0.12  // predicted m reported with a first-order pattern
 	pBroadFactor     = 0.7   // a "br" prefix on a non-exchangeable signal

@@ -174,3 +174,19 @@ func TestScoreDiastereotopicSplit(t *testing.T) {
 		t.Errorf("split score %.2f not above unsplit %.2f", s1, s2)
 	}
 }
+
+// TestMultiplicityMIsNeutral: an observed "m" must not prefer a candidate
+// whose predicted pattern is vaguer ("m") over one with a precise coupled
+// pattern ("dd"): both were not resolved in the observation.
+func TestMultiplicityMIsNeutral(t *testing.T) {
+	m := parsePattern("m")
+	a, _ := multiplicityJudge(m, parsePattern("dd"), false)
+	b, _ := multiplicityJudge(m, parsePattern("m"), false)
+	if a != b {
+		t.Errorf("P(m | dd) = %.3f, P(m | m) = %.3f: want equal", a, b)
+	}
+	s, _ := multiplicityJudge(m, parsePattern("s"), false)
+	if !(s < a) {
+		t.Errorf("P(m | s) = %.3f not below P(m | dd) = %.3f", s, a)
+	}
+}
