@@ -230,6 +230,12 @@ func (r *Ranker) benchOne(ctx context.Context, ref Reference, opts BenchOptions)
 	if err != nil {
 		return c, err
 	}
+	return r.benchJob(ctx, j, ref)
+}
+
+// benchJob is benchOne for a prepared job.
+func (r *Ranker) benchJob(ctx context.Context, j *job, ref Reference) (BenchCase, error) {
+	c := BenchCase{Reference: ref}
 	g, err := molecule.ParseSMILES(ref.SMILES)
 	if err != nil {
 		return c, fmt.Errorf("true structure: %w", err)
