@@ -92,3 +92,24 @@ func countTrue(b []bool) int {
 	}
 	return n
 }
+
+// TestAromaticOrderInput: a graph that still carries Aromatic bond orders
+// (not kekulised) is perceived like its Kekulé structure.
+func TestAromaticOrderInput(t *testing.T) {
+	for _, s := range []string{"c1ccccc1", "Cc1ccncc1", "c1cc[nH]c1", "c1ccc2ccccc2c1", "c1ccoc1"} {
+		kek := MustParseSMILES(s)
+		g := kek.Clone()
+		arom := AromaticBonds(kek)
+		for i, a := range arom {
+			if a {
+				g.SetBondOrder(i, Aromatic)
+			}
+		}
+		if !slices.Equal(AromaticBonds(g), arom) {
+			t.Errorf("%s with Aromatic orders: AromaticBonds %v, want %v", s, AromaticBonds(g), arom)
+		}
+		if Canonicalize(g).Key != Canonicalize(kek).Key || CanonicalSMILES(g) != CanonicalSMILES(kek) {
+			t.Errorf("%s with Aromatic orders: canonical form differs from the Kekulé one", s)
+		}
+	}
+}
