@@ -45,6 +45,7 @@ type Canonicalizer struct {
 	adjStart []int32
 	adjNbr   []int32
 	adjOrd   []uint8
+	adjW     []uint64 // per adjacency entry: 1 << (16*(order-1)), the count increment
 	bondA    []int32
 	bondB    []int32
 	bondOrd  []uint8
@@ -76,6 +77,7 @@ type Canonicalizer struct {
 	cellMark []bool   // per cell start
 	cnt      []uint64 // per vertex: neighbours in the splitter, by order
 	touched  []int32
+	members  []int32
 	tcells   []int32
 	tmp      []int32
 	keyed    []vertexKey
@@ -270,6 +272,7 @@ func (c *Canonicalizer) load(g *Graph) {
 	c.adjStart = c.adjStart[:0]
 	c.adjNbr = c.adjNbr[:0]
 	c.adjOrd = c.adjOrd[:0]
+	c.adjW = c.adjW[:0]
 	for v := 0; v < n; v++ {
 		c.adjStart = append(c.adjStart, int32(len(c.adjNbr)))
 		for _, nb := range g.Neighbors(v) {
@@ -279,6 +282,7 @@ func (c *Canonicalizer) load(g *Graph) {
 			}
 			c.adjNbr = append(c.adjNbr, int32(nb.Atom))
 			c.adjOrd = append(c.adjOrd, o)
+			c.adjW = append(c.adjW, 1<<(16*(uint(o)-1)))
 		}
 	}
 	c.adjStart = append(c.adjStart, int32(len(c.adjNbr)))
@@ -425,15 +429,24 @@ func (c *Canonicalizer) packedPartition(lab, inv, cs, cl []int32) bool {
 	n := c.n
 	c.packed = c.packed[:0]
 	for v := 0; v < n; v++ {
-		k := c.vertexInvariant(v)
-		k[3] += 8
-		var key uint64
-		for _, f := range k {
-			if f < 0 || f > 15 {
-				return false
+		lo, hi := c.adjStart[v], c.adjStart[v+1]
+		var nd, nt, na uint64
+		for _, o := range c.adjOrd[lo:hi] {
+			switch o {
+			case uint8(Double):
+				nd++
+			case uint8(Triple):
+				nt++
+			case uint8(Aromatic):
+				na++
 			}
-			key = key<<4 | uint64(f)
 		}
+		deg, el, h, q := uint64(hi-lo), uint64(c.elem[v]), uint64(c.hc[v]), uint64(c.chg[v]+8)
+		if deg|el|h|q|nd|nt|na > 15 { // also catches negative h and q
+			return false
+		}
+		// Same field order as vertexInvariant.
+		key := deg<<24 | el<<20 | h<<16 | q<<12 | nd<<8 | nt<<4 | na
 		c.packed = append(c.packed, key<<32|uint64(v))
 	}
 	slices.Sort(c.packed)
@@ -493,72 +506,103 @@ func (c *Canonicalizer) keyedPartition(lab, inv, cs, cl []int32) {
 // queued except the (first) largest, as in Hopcroft's algorithm.
 func (c *Canonicalizer) refine(d int) {
 	lab, inv, cs, cl := c.lvl(d, lvLab), c.lvl(d, lvInv), c.lvl(d, lvCell), c.lvl(d, lvLen)
-	cnt := c.cnt
+	cnt, adjStart, adjNbr, adjW := c.cnt, c.adjStart, c.adjNbr, c.adjW
+	inQueue, cellMark := c.inQueue, c.cellMark
+	n := int32(c.n)
+	ncell := int32(c.ncell[d])
+	touched, tc := c.touched[:0], c.tcells[:0]
 	for head := 0; head < len(c.queue); head++ {
 		w := c.queue[head]
-		c.inQueue[w] = false
-		if c.ncell[d] == c.n {
+		inQueue[w] = false
+		if ncell == n {
 			// Discrete: nothing left to split.
 			for _, q := range c.queue[head+1:] {
-				c.inQueue[q] = false
+				inQueue[q] = false
 			}
 			break
 		}
-		touched := c.touched[:0]
+		touched = touched[:0]
 		for p := w; p < w+cl[w]; p++ {
 			v := lab[p]
-			for a := c.adjStart[v]; a < c.adjStart[v+1]; a++ {
-				u := c.adjNbr[a]
+			for a := adjStart[v]; a < adjStart[v+1]; a++ {
+				u := adjNbr[a]
 				if cnt[u] == 0 {
 					touched = append(touched, u)
 				}
-				cnt[u] += 1 << (16 * (uint(c.adjOrd[a]) - 1))
+				cnt[u] += adjW[a]
 			}
 		}
-		tc := c.tcells[:0]
+		tc = tc[:0]
 		for _, u := range touched {
 			s := cs[inv[u]]
-			if !c.cellMark[s] && cl[s] > 1 {
-				c.cellMark[s] = true
+			if !cellMark[s] && cl[s] > 1 {
+				cellMark[s] = true
 				tc = append(tc, s)
 			}
 		}
-		slices.Sort(tc)
+		if len(tc) > 1 {
+			slices.Sort(tc)
+		}
 		for _, s := range tc {
-			c.cellMark[s] = false
-			c.ncell[d] += c.splitByCount(lab, inv, cs, cl, s)
+			cellMark[s] = false
+			members := c.members[:0]
+			for _, u := range touched {
+				if cs[inv[u]] == s {
+					members = append(members, u)
+				}
+			}
+			c.members = members
+			ncell += int32(c.splitByCount(lab, inv, cs, cl, s, members))
 		}
 		for _, u := range touched {
 			cnt[u] = 0
 		}
-		c.touched, c.tcells = touched, tc
 	}
+	c.touched, c.tcells = touched, tc
+	c.ncell[d] = int(ncell)
 	c.queue = c.queue[:0]
 }
 
 // splitByCount splits cell s by c.cnt, queues the new parts and returns
-// the number of cells added.
-func (c *Canonicalizer) splitByCount(lab, inv, cs, cl []int32, s int32) int {
+// the number of cells added. members are the vertices of the cell with a
+// non-zero count; the others (count 0) stay in front unsorted, as in
+// nauty, so a splitter touching few vertices of a big cell costs little.
+func (c *Canonicalizer) splitByCount(lab, inv, cs, cl []int32, s int32, members []int32) int {
 	e := s + cl[s]
-	cell := lab[s:e]
 	cnt := c.cnt
-	// insertion sort by count: cells are small
-	same := true
-	for i := 1; i < len(cell); i++ {
-		x := cell[i]
-		kx := cnt[x]
-		if kx != cnt[cell[0]] {
-			same = false
+	k := int32(len(members))
+	if k == e-s {
+		same := true
+		for _, u := range members[1:] {
+			if cnt[u] != cnt[members[0]] {
+				same = false
+				break
+			}
 		}
+		if same {
+			return 0
+		}
+	}
+	// Move the counted vertices to the tail of the cell.
+	t := e - 1
+	for _, u := range members {
+		p := inv[u]
+		x := lab[t]
+		lab[p], lab[t] = x, u
+		inv[x], inv[u] = p, t
+		t--
+	}
+	// insertion sort of the tail by count: cells are small
+	tail := lab[e-k : e]
+	for i := 1; i < len(tail); i++ {
+		x := tail[i]
+		kx := cnt[x]
 		j := i - 1
-		for j >= 0 && cnt[cell[j]] > kx {
-			cell[j+1] = cell[j]
+		for j >= 0 && cnt[tail[j]] > kx {
+			tail[j+1] = tail[j]
 			j--
 		}
-		cell[j+1] = x
-	}
-	if same {
-		return 0
+		tail[j+1] = x
 	}
 	wasQueued := c.inQueue[s]
 	// Find the first largest part when the cell was not queued.
