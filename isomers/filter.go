@@ -22,7 +22,7 @@ type ruleDef struct {
 }
 
 // numRules is the number of rules in ruleTable.
-const numRules = 19
+const numRules = 20
 
 // ruleTable lists the rules in the order they are applied and reported.
 // The reasons are textbook organic chemistry (common practice); the ring
@@ -47,6 +47,7 @@ var ruleTable = [numRules]ruleDef{
 	{Rule{"no-sulfenic-acid", "Sulfenic acids R–S–OH and their O–SH isomers are transient: they condense to thiosulfinates or are oxidised, and are isolable only with bulky protecting groups (common practice)."}, sulfenicAcid},
 	{Rule{"no-hypervalent-hydrate", "An OH on P(V) or hypervalent S with only single bonds (P(OH)5-type ortho acids, R–P(OH)4, R2S(OH)2) loses water to the P=O or S=O compound, as gem-diols do to carbonyls (common practice); phosphoranes and sulfuranes without OH (PCl5, SF4) are kept."}, hypervalentHydrate},
 	{Rule{"no-small-aromatic-ring", "A three- or four-membered ring all of whose bonds belong to an aromatic π system (a bicyclic aromatic perimeter closed across by a short bond, e.g. azabicyclo[2.1.0]pentadienes) holds a local cyclobutadiene or cyclopropenyl-anion unit under extreme angle strain and is not isolable (common practice); rings fused to an aromatic ring through one bond (cyclopropabenzene, biphenylene) are kept."}, smallAromaticRing},
+	{Rule{"no-fused-cyclopropene", "A cyclopropene whose alkene carbon also belongs to another ring (fused across the double bond, bicyclo[n.1.0]alk-1(n+2)-enes, or at one alkene carbon, bicyclo[n.1.0]alk-1-enes) adds the strain of the fusion to the cyclopropene's wide exocyclic angle; such alkenes are transient intermediates trapped only in situ (common practice). Aromatic fusions (cyclopropabenzene), ordinary and spiro-fused cyclopropenes are kept."}, fusedCyclopropene},
 }
 
 // Rules returns the filter rules in the order they are applied.
@@ -743,6 +744,67 @@ func smallAromaticRing(o *outputBuilder, m *mol) bool {
 				}
 			}
 		}
+	}
+	return false
+}
+
+func fusedCyclopropene(o *outputBuilder, m *mol) bool {
+	for a := 0; a < m.n; a++ {
+		for k := 0; k < int(m.deg[a]); k++ {
+			b := int(m.nb[a][k])
+			if b < a || m.bo[a][k] != 2 || (m.deg[a] < 3 && m.deg[b] < 3) {
+				continue
+			}
+			for j := 0; j < int(m.deg[a]); j++ {
+				x := int(m.nb[a][j])
+				if x == b || m.order(b, x) == 0 {
+					continue
+				}
+				// a=b lies in the three-membered ring a–b–x; is the third
+				// bond of a or b a ring bond too?
+				if (o.thirdRingBond(m, a, b, x) || o.thirdRingBond(m, b, a, x)) && !o.aromatic(m, a, k) {
+					return true
+				}
+			}
+		}
+	}
+	return false
+}
+
+// thirdRingBond reports whether atom c (of the ring c–d–x) has a bond
+// other than to d and x that lies in a ring.
+func (o *outputBuilder) thirdRingBond(m *mol, c, d, x int) bool {
+	for k := 0; k < int(m.deg[c]); k++ {
+		y := int(m.nb[c][k])
+		if y != d && y != x && o.ringSize(m, c, y) > 0 {
+			return true
+		}
+	}
+	return false
+}
+
+// ringAvoiding reports whether a and b are joined by a path that uses
+// neither the bond a–b nor the atom x.
+func (o *outputBuilder) ringAvoiding(m *mol, a, b, x int) bool {
+	bb := uint64(1) << uint(b)
+	reach := uint64(1)<<uint(a) | uint64(1)<<uint(x)
+	frontier := uint64(1) << uint(a)
+	for frontier != 0 {
+		var next uint64
+		for f := frontier; f != 0; f &= f - 1 {
+			y := bits.TrailingZeros64(f)
+			nb := m.adj[y]
+			if y == a {
+				nb &^= bb
+			}
+			next |= nb
+		}
+		next &^= reach
+		if next&bb != 0 {
+			return true
+		}
+		reach |= next
+		frontier = next
 	}
 	return false
 }

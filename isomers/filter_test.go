@@ -20,7 +20,9 @@ import (
 // methylenetriphenylphosphorane (the Wittig reagent), carbon disulfide,
 // trimethyl phosphite, dimethylphosphine oxide and sulfide, methyl
 // methanesulfenate, 2-mercaptoethanol, 1,1-ethanedithiol, phosphoric
-// acid, pentamethoxyphosphorane, methanesulfonic acid, cyclopropabenzene).
+// acid, pentamethoxyphosphorane, methanesulfonic acid, cyclopropabenzene,
+// cyclopropene, 1-methylcyclopropene, norcarane, methylenecyclopropane,
+// triafulvene, spiro[2.2]pent-1-ene).
 var filterCases = []struct {
 	rule   string
 	remove []string
@@ -44,6 +46,7 @@ var filterCases = []struct {
 	{"no-sulfenic-acid", []string{"CSO", "COS", "CCSO"}, []string{"CSOC", "CS(=O)O", "CSC", "COC"}},
 	{"no-hypervalent-hydrate", []string{"OP(O)(O)(O)O", "CP(O)(O)(O)O", "CS(C)(O)O", "OS1(O)CC1"}, []string{"OP(O)(O)=O", "ClP(Cl)(Cl)(Cl)Cl", "COP(OC)(OC)(OC)OC", "CS(=O)(=O)O", "FS(F)(F)F"}},
 	{"no-small-aromatic-ring", []string{"Cn1c2ccc21", "Cc1cc2[nH]c12", "Cc1c2ccn12"}, []string{"c1ccc2c(c1)C2", "c1ccc2c(c1)-c1ccccc1-2", "c1ccccc1", "c1ccc2Cn12", "c1[nH]cc2Cc12", "C1=CC1"}},
+	{"no-fused-cyclopropene", []string{"C1CCC2=C(C1)C2", "C1C2=C1C2", "C1CC2=C1C2", "C1=C2CC=CC12", "C1CC2C=C2C1"}, []string{"C1=CC1", "CC1=CC1", "c1ccc2c(c1)C2", "C1CC2CC2C1", "C=C1CC1", "C=C1C=C1", "C1=CC11CC1"}},
 	{"no-bare-hypervalent", []string{"C[S](C)(C)C", "C[P](C)(C)(C)C"}, []string{"FS(F)(F)F", "ClP(Cl)(Cl)(Cl)Cl", "CS(C)(=O)=O", "CS(C)=O", "COP(=O)(OC)OC"}},
 }
 
