@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 	"sync"
 	"sync/atomic"
@@ -178,6 +179,7 @@ func (j *job) preparePeaks() error {
 	// compound's (tert-butyl chloride's 9 H singlet at 1.62 ppm sits on
 	// the water signal of CDCl3).
 	allH, _, scaleErr := ScaleIntegrals(pl, j.formula.HydrogenCount())
+	var exclWarn []string
 	for _, fl := range FlagSolvent(pl, j.solvent) {
 		k := fl.Peak
 		if k < 0 || k >= len(j.peaks) {
@@ -197,19 +199,26 @@ func (j *job) preparePeaks() error {
 		default:
 			j.peaks[k].Excluded = true
 			excluded[k] = true
-			j.warnings = append(j.warnings, fmt.Sprintf("peak %d (δ %.2f) matches the %s signal of %s in %s and is not scored (keep solvent peaks to score it)",
+			exclWarn = append(exclWarn, fmt.Sprintf("peak %d (δ %.2f) matches the %s signal of %s in %s and is not scored (keep solvent peaks to score it)",
 				k+1, pl.Peaks[k].Shift, fl.Signal.Kind, fl.Signal.Name, j.solvent))
 		}
 	}
+	if !slices.Contains(excluded, false) {
+		// Nothing would be left: the compound's own signals sit on the
+		// solvent or water shifts (a lone singlet at 1.56 in CDCl3).
+		clear(excluded)
+		for k := range j.peaks {
+			j.peaks[k].Excluded = false
+		}
+		exclWarn = []string{"every peak matches a solvent or water signal; all are scored as signals of the compound"}
+	}
+	j.warnings = append(j.warnings, exclWarn...)
 	kept := PeakList{MHz: pl.MHz, Solvent: pl.Solvent}
 	for i, p := range pl.Peaks {
 		if !excluded[i] {
 			kept.Peaks = append(kept.Peaks, p)
 			j.scored = append(j.scored, i)
 		}
-	}
-	if len(kept.Peaks) == 0 {
-		return &RequestError{Field: "peaks", Msg: "every peak is a solvent or water signal: nothing to score"}
 	}
 	implied, warns, err := ScaleIntegrals(kept, j.formula.HydrogenCount())
 	if err != nil {
