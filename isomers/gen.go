@@ -13,11 +13,15 @@ import (
 // vertices is accepted as the child of its k-vertex parent only when the
 // added vertex lies in the automorphism orbit of the canonical deletion
 // vertex m(C): among the vertices whose removal leaves the graph connected,
-// those in the last cell of the canonical-key-ordered equitable partition,
-// and among them the one with the largest canonical label. The parent
-// offers each augmentation only once per orbit of its own automorphism
-// group. Every structure then has exactly one accepted path from a single
-// atom, so no two emitted structures are isomorphic.
+// those in the last cell of the equitable partition refined from an
+// invariant vertex key (degree first, so leaves come last; for trees also
+// the eccentricity), and among them the one with the largest canonical
+// label. In trees the cells are the orbits, so no search is needed. The
+// parent offers each augmentation only once per orbit of its own
+// automorphism group. Every structure then has exactly one accepted path
+// from a single atom, so no two emitted structures are isomorphic. Cheap
+// necessary conditions of the acceptance test are applied while the
+// augmentations are enumerated, before any child is built.
 
 const maxColours = 16
 
@@ -120,7 +124,6 @@ type level struct {
 	orbit                   [MaxAtoms]uint8
 	trivial, tree, haveGens bool
 	part                    partition
-	vec                     [MaxAtoms]uint8
 	orbitQ                  [][MaxAtoms]uint8
 	// the parent's non-cut vertices, their (colour, bond-order sum) keys,
 	// ncDeg[i] = degree of i if it is not a cut vertex (else 99), and
@@ -231,7 +234,6 @@ func (s *searcher) expand(weight float64) {
 		s.pushAtom(a.c, a.att[:a.na], a.ord[:a.na])
 		s.expand(w)
 		s.popAtom()
-		lv = &s.levels[s.m.n] // levels is not reallocated, but keep it explicit
 	}
 }
 
