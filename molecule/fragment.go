@@ -34,7 +34,9 @@ const (
 // single non-aromatic bond, '=' a double and '#' a triple bond outside
 // aromatic rings, ':' an aromatic bond. Aromaticity of the target is
 // perceived with AromaticBonds, so the query c1ccccc1 finds a benzene ring
-// in any Kekulé structure, and C=C does not match inside it.
+// in any Kekulé structure, and C=C does not match inside it. Rings of the
+// query that are themselves aromatic by that rule count as written in
+// lowercase: C1=CC=CC=C1 is the same query as c1ccccc1 (unlike SMARTS).
 //
 // Errors are *SMILESError as for ParseSMILES; valences are not checked.
 func ParseFragment(s string) (*Fragment, error) {
@@ -65,6 +67,19 @@ func ParseFragment(s string) (*Fragment, error) {
 			}
 		}
 		f.bond = append(f.bond, k)
+	}
+	// Rings written in Kekulé form that are aromatic by Hückel's rule
+	// become aromatic query atoms and bonds, so C1=CC=CC=C1 means the same
+	// as c1ccccc1 (the query read as a molecule, when it is one, with the
+	// atom and bond numbering of the query).
+	if mol, err := ParseSMILES(s); err == nil && len(mol.Bonds) == len(q.Bonds) {
+		for i, ar := range AromaticBonds(mol) {
+			if ar {
+				b := q.Bonds[i]
+				f.bond[i] = fragAromatic
+				f.atomArom[b.A], f.atomArom[b.B] = true, true
+			}
+		}
 	}
 	// Breadth-first matching order from atom 0 (the query is connected:
 	// ParseSMILES rejects '.').

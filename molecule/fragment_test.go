@@ -124,3 +124,22 @@ func TestFragmentAgainstRDKit(t *testing.T) {
 		t.Errorf("only %d comparisons (%d skipped for aromaticity differences)", compared, skipped)
 	}
 }
+
+func TestFragmentKekuleQuery(t *testing.T) {
+	// Kekulé-written aromatic queries match aromatic rings in any Kekulé
+	// structure; non-aromatic Kekulé rings stay as written.
+	for _, tc := range []struct {
+		frag, target string
+		want         bool
+	}{
+		{"C1=CC=CC=C1", "Cc1ccccc1", true},
+		{"C1=CC=CC=C1", "C1=CC=CC=C1C", true},
+		{"CC1=CC=CC=C1", "CC1=CC=CC=C1", true},
+		{"C1=CC=CC=CC=C1", "C1=CC=CC=CC=C1", true},
+		{"C1=CC=CC=C1", "C1=CCC=CC1", false},
+	} {
+		if got := MustParseFragment(tc.frag).Matches(MustParseSMILES(tc.target)); got != tc.want {
+			t.Errorf("ParseFragment(%q).Matches(%q) = %v, want %v", tc.frag, tc.target, got, tc.want)
+		}
+	}
+}

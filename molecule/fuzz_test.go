@@ -64,3 +64,36 @@ func FuzzParseSMILES(f *testing.F) {
 		}
 	})
 }
+
+func FuzzParseFragment(f *testing.F) {
+	for _, s := range fragmentQueries {
+		f.Add(s)
+	}
+	for _, s := range []string{"C1=CC=CC=C1", "[OH]C", "c1cc[nH]c1", "C(", "[CH0]", "S(=O)(=O)"} {
+		f.Add(s)
+	}
+	targets := []*Graph{MustParseSMILES("CC(=O)Oc1ccccc1C(=O)O"), MustParseSMILES("c1ccc2[nH]ccc2c1"), MustParseSMILES("CS(=O)(=O)N")}
+	f.Fuzz(func(t *testing.T, s string) {
+		q, err := ParseFragment(s)
+		if err != nil {
+			if _, ok := err.(*SMILESError); !ok {
+				t.Fatalf("ParseFragment(%q) error %T, want *SMILESError", s, err)
+			}
+			return
+		}
+		for _, g := range targets {
+			q.Matches(g)
+		}
+		// A molecule contains itself, unless lowercase query atoms are not
+		// aromatic in the molecule (cc reads as C=C).
+		if g, err := ParseSMILES(s); err == nil && !q.Matches(g) {
+			arom := AromaticAtoms(g)
+			for i, a := range q.atomArom {
+				if a && !arom[i] {
+					return
+				}
+			}
+			t.Fatalf("ParseFragment(%q) does not match ParseSMILES(%q)", s, s)
+		}
+	})
+}
