@@ -10,7 +10,8 @@ package molecule
 //     (benzene, pyridine, pyridinium, pyrylium);
 //     - 2 for an atom with only single bonds and a lone pair in the ring:
 //     neutral N or P with three bonds including H (pyrrole NH), neutral O
-//     and S with two (furan, thiophene), C− (cyclopentadienide);
+//     and S with two (furan, thiophene), C− (cyclopentadienide), N− and
+//     P− with two (pyrrolide);
 //     - 0 for C+ with only single bonds (tropylium);
 //     - none otherwise: sp3 atoms, triple bonds, two double bonds, and C
 //     with an exocyclic double bond. The last rule means that 2-pyridone,
@@ -283,7 +284,8 @@ func (a *aromaticity) piCount(g *Graph, v int) int8 {
 				}
 			}
 		case -1:
-			if at.Element == C {
+			switch at.Element {
+			case C, N, P:
 				return 2
 			}
 		case 1:

@@ -31,6 +31,7 @@ func TestAromaticBonds(t *testing.T) {
 		{"C1=CC2=CC=CC2=C1", 0, "pentalene, 8 π"},
 		{"[CH-]1C=CC=C1", 5, "cyclopentadienide, 6 π"},
 		{"[CH+]1C=CC=CC=C1", 7, "tropylium, 6 π"},
+		{"C1=C[N-]C=C1", 5, "pyrrolide, 6 π"},
 		{"C1=CC=[N+](C)C=C1", 6, "N-methylpyridinium"},
 		{"C1=CC=C(C=C1)C1=CC=CC=C1", 12, "biphenyl: two rings, linking bond not aromatic"},
 		{"C1CCCCC1", 0, "cyclohexane"},

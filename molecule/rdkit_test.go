@@ -43,7 +43,7 @@ var rdkitCrossCheckSMILES = []string{
 	"O=[N+]([O-])c1ccccc1", "[NH4+]", "C[N+](C)(C)C", "CC(=O)[O-]", "[SiH4]", "C[Si](C)(C)C",
 	"B(O)(O)c1ccccc1", "OB(O)O", "C1COCCN1", "C1CSCCS1",
 	"O=c1cccc[nH]1", "c1ccc2c(c1)-c1ccccc1-2", "C1=CC2=C1C=CC=C2", "C=C1C=CC=C1",
-	"C1=CC2=CC=CC2=C1", "[cH+]1cccccc1", "[cH-]1cccc1", "c1cc[n+](C)cc1", "[o+]1ccccc1",
+	"C1=CC2=CC=CC2=C1", "[cH+]1cccccc1", "[cH-]1cccc1", "c1cc[n+](C)cc1", "[o+]1ccccc1", "c1cc[n-]c1",
 	"c1ccc2c(c1)c1ccccc1c1ccccc21", "c1cc2cccc3c4cccc5cccc(c(c1)c23)c54", "Cn1ccnc1",
 	"c1ccc2nonc2c1", "c1nnn[nH]1", "s1cccc1-c1cccs1", "C1=CC=CC=CC=CC=C1",
 	"C#Cc1ccccc1", "N#Cc1ccccc1C#N", "CC(=O)c1ccc(O)cc1", "O=C(O)c1ccccc1O",
