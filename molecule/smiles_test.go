@@ -155,3 +155,24 @@ func TestCheckValence(t *testing.T) {
 		}
 	}
 }
+
+func TestCanonicalSMILESOrder(t *testing.T) {
+	for _, s := range rdkitCrossCheckSMILES {
+		g := MustParseSMILES(s)
+		cs, order := CanonicalSMILESOrder(g)
+		h := MustParseSMILES(cs)
+		if len(order) != len(g.Atoms) || len(h.Atoms) != len(g.Atoms) {
+			t.Fatalf("%s: order has %d atoms, want %d", s, len(order), len(g.Atoms))
+		}
+		for k, i := range order {
+			if h.Atoms[k] != g.Atoms[i] {
+				t.Errorf("%s: atom %d of %q is %v, atom %d of the input %v", s, k, cs, h.Atoms[k], i, g.Atoms[i])
+			}
+		}
+		for _, b := range h.Bonds {
+			if g.BondBetween(order[b.A], order[b.B]) < 0 {
+				t.Errorf("%s: bond %d-%d of %q has no counterpart", s, b.A, b.B, cs)
+			}
+		}
+	}
+}
