@@ -104,3 +104,29 @@ func ExampleFlagSolvent() {
 	// peak 1 at 3.34: water H2O (exclude true)
 	// peak 2 at 2.50: residual DMSO-d5 (exclude true)
 }
+
+func ExampleNormalizeMultiplicity() {
+	for _, s := range []string{"brs", "doublet of triplets", "app. t", "p", "hept", "ABq"} {
+		code, apparent, ok := ranker.NormalizeMultiplicity(s)
+		fmt.Printf("%q -> %q apparent=%v ok=%v\n", s, code, apparent, ok)
+	}
+	// Output:
+	// "brs" -> "br s" apparent=false ok=true
+	// "doublet of triplets" -> "dt" apparent=false ok=true
+	// "app. t" -> "t" apparent=true ok=true
+	// "p" -> "quint" apparent=false ok=true
+	// "hept" -> "sept" apparent=false ok=true
+	// "ABq" -> "m" apparent=false ok=true
+}
+
+func ExampleCanonicalSolvent() {
+	for _, s := range []string{"chloroform-d", "[D6]DMSO", "methanol-d4", "CCl4"} {
+		c, ok := ranker.CanonicalSolvent(s)
+		fmt.Printf("%s -> %q %v\n", s, c, ok)
+	}
+	// Output:
+	// chloroform-d -> "CDCl3" true
+	// [D6]DMSO -> "DMSO-d6" true
+	// methanol-d4 -> "CD3OD" true
+	// CCl4 -> "" false
+}
