@@ -19,6 +19,82 @@ type ruleDef struct {
 	Rule
 	// violates reports whether m breaks the rule.
 	violates func(o *outputBuilder, m *mol) bool
+	// need lists features (feature bits) every structure breaking the
+	// rule has; the rule is skipped when one is absent.
+	need feature
+}
+
+// feature is a set of cheap structural facts computed once per structure.
+type feature uint16
+
+const (
+	fRing   feature = 1 << iota // at least one ring
+	fRing2                      // at least two rings
+	fDouble                     // a double bond
+	fTriple                     // a triple bond
+	fAllene                     // a carbon with two double bonds
+	fOH                         // a hydroxyl
+	fOHSH                       // a hydroxyl or a thiol
+	fO                          // an oxygen
+	fO2                         // two oxygens
+	fN                          // a nitrogen
+	fHal                        // a halogen
+	fHyper                      // hypervalent S or P
+	fP3                         // P(III)
+	fS2                         // S(II)
+)
+
+// features computes the feature set of m.
+func features(m *mol) feature {
+	var f feature
+	if m.edges >= m.n {
+		f |= fRing
+	}
+	if m.edges >= m.n+1 {
+		f |= fRing2
+	}
+	nO := 0
+	for i := 0; i < m.n; i++ {
+		nd := 0
+		for k := 0; k < int(m.deg[i]); k++ {
+			switch m.bo[i][k] {
+			case 2:
+				f |= fDouble
+				nd++
+			case 3:
+				f |= fTriple
+			}
+		}
+		switch e := m.el[i]; {
+		case e == molecule.C && nd == 2:
+			f |= fAllene
+		case e == molecule.O:
+			f |= fO
+			nO++
+			if m.free(i) > 0 {
+				f |= fOH | fOHSH
+			}
+		case e == molecule.N:
+			f |= fN
+		case e.IsHalogen():
+			f |= fHal
+		case e == molecule.S && m.val[i] == 2:
+			f |= fS2
+			if m.free(i) > 0 {
+				f |= fOHSH
+			}
+		case e == molecule.S:
+			f |= fHyper
+		case e == molecule.P && m.val[i] == 5:
+			f |= fHyper
+		case e == molecule.P:
+			f |= fP3
+		}
+	}
+	if nO >= 2 {
+		f |= fO2
+	}
+	return f
 }
 
 // numRules is the number of rules in ruleTable.
@@ -28,26 +104,26 @@ const numRules = 20
 // The reasons are textbook organic chemistry (common practice); the ring
 // size limits cite the literature named in each reason.
 var ruleTable = [numRules]ruleDef{
-	{Rule{"no-small-ring-triple", "A triple bond needs a linear (180°) arrangement at both carbons; a ring smaller than 8 atoms cannot close without prohibitive strain (cyclooctyne is the smallest isolable cycloalkyne; common practice)."}, smallRingTriple},
-	{Rule{"no-small-ring-allene", "The central carbon of an allene (C=C=C) or other cumulene is linear; in rings smaller than 8 atoms such compounds are at best transient intermediates (common practice)."}, smallRingAllene},
-	{Rule{"no-bredt-violation", "Bredt's rule: a double bond at the bridgehead of a small bridged bicyclic system cannot have the p orbitals aligned; bridgehead alkenes are isolable only when the bridges total at least 7 atoms (Fawcett's S ≥ 7: Fawcett 1950, Chem. Rev. 47:219, from memory)."}, bredtViolation},
-	{Rule{"no-peroxide", "O–O single bonds (peroxides, hydroperoxides) are weak and thermally or explosively unstable; they are rare as unknowns and are almost never the answer to a routine identification (common practice)."}, peroxide},
-	{Rule{"no-enol", "Keto–enol tautomerism: a hydroxyl on a non-aromatic C=C (enol) or C≡C (ynol) carbon converts to the carbonyl tautomer, which dominates at equilibrium for simple carbonyl compounds. Phenols (aromatic) are kept."}, enol},
-	{Rule{"no-imidic-acid", "Amide–imidic acid tautomerism: HO–C=N converts to the amide H–N–C=O, which dominates at equilibrium. Aromatic hydroxy-heterocycles are kept."}, imidicAcid},
-	{Rule{"no-gem-diol", "Two hydroxyls on one sp3 carbon (gem-diol, carbonyl hydrate) lose water to the carbonyl compound; isolable only for strongly electron-poor carbonyls such as chloral (common practice)."}, gemDiol},
-	{Rule{"no-hemiacetal", "An sp3 carbon bearing both OH and OR (hemiacetal, hemiketal), or OH and SR/SH, or SH and OR (hemithioacetals), is in equilibrium with the carbonyl compound and the alcohol or thiol and is rarely isolated (cyclic sugar hemiacetals are the notable exception; switch the rule off for carbohydrates)."}, hemiacetal},
-	{Rule{"no-hemiaminal", "An sp3 carbon bearing both OH and an amine nitrogen (hemiaminal, carbinolamine) eliminates water to the imine or reverts to carbonyl plus amine; N-hydroxymethyl amides, which are stable, are kept."}, hemiaminal},
-	{Rule{"no-hypohalite", "O–halogen bonds (hypohalites, R–O–X) are strong oxidants that decompose readily; they are not isolated as routine unknowns (common practice)."}, hypohalite},
-	{Rule{"no-antiaromatic-ring", "Small rings with 4n π electrons are antiaromatic: oxirenes, thiirenes and 1H-azirines (a C=C or C=N double bond plus a lone-pair heteroatom in a three-membered ring) and cyclobutadienes or azetes (two double bonds in a four-membered ring) are observed only in matrices or with bulky substituents (Breslow 1973, Acc. Chem. Res. 6:393, from memory)."}, antiaromaticRing},
-	{Rule{"no-hypervalent-hydride", "Hydrogen on hypervalent sulfur (S(IV), S(VI)) and on P(V) without a P=O or P=S bond (e.g. SH4, CH3SH3, PH5, H2P(=CH2)R) tautomerise or eliminate H2; stable P(V)–H compounds (phosphinates, H-phosphonates, secondary phosphine oxides and sulfides) carry P=O or P=S and are kept."}, hypervalentHydride},
-	{Rule{"no-bare-hypervalent", "Hypervalent sulfur (S(IV), S(VI)) or phosphorus (P(V)) with neither a double bond nor an oxygen or halogen neighbour (e.g. tetramethyl-λ4-sulfane, pentamethylphosphorane) is unstable; real hypervalent compounds (sulfoxides, sulfones, SF4, phosphates, PCl5) have electronegative ligands or multiple bonds."}, bareHypervalent},
-	{Rule{"no-ylide-tautomer", "An OH on P(V) or on hypervalent S that carries a double bond to C or N but none to O or S (HO–PR2=CH2, HO–S(R)=CH2) is the minor prototropic tautomer of the phosphine oxide or sulfoxide (O=PR2–CH3), which dominates (common practice)."}, ylideTautomer},
-	{Rule{"no-sulfur-ylide", "Hypervalent sulfur doubly or triply bonded to carbon (sulfonium and sulfoxonium ylides, sulfines, sulfenes) is a reactive intermediate generated in situ, not an isolated unknown (common practice); phosphorus ylides, which are isolable, are kept."}, sulfurYlide},
-	{Rule{"no-trivalent-p-oh", "P(III)–OH (phosphorous, phosphonous and phosphinous acids and their partial esters) exists almost entirely as the P(V) tautomer with P=O and P–H (H-phosphonates, H-phosphinates, secondary phosphine oxides), which the generator also makes (common practice); trialkyl phosphites without OH are kept."}, trivalentPOH},
-	{Rule{"no-sulfenic-acid", "Sulfenic acids R–S–OH and their O–SH isomers are transient: they condense to thiosulfinates or are oxidised, and are isolable only with bulky protecting groups (common practice)."}, sulfenicAcid},
-	{Rule{"no-hypervalent-hydrate", "An OH on P(V) or hypervalent S with only single bonds (P(OH)5-type ortho acids, R–P(OH)4, R2S(OH)2) loses water to the P=O or S=O compound, as gem-diols do to carbonyls (common practice); phosphoranes and sulfuranes without OH (PCl5, SF4) are kept."}, hypervalentHydrate},
-	{Rule{"no-small-aromatic-ring", "A three- or four-membered ring all of whose bonds belong to an aromatic π system (a bicyclic aromatic perimeter closed across by a short bond, e.g. azabicyclo[2.1.0]pentadienes) holds a local cyclobutadiene or cyclopropenyl-anion unit under extreme angle strain and is not isolable (common practice); rings fused to an aromatic ring through one bond (cyclopropabenzene, biphenylene) are kept."}, smallAromaticRing},
-	{Rule{"no-fused-cyclopropene", "A cyclopropene whose alkene carbon also belongs to another ring (fused across the double bond, bicyclo[n.1.0]alk-1(n+2)-enes, or at one alkene carbon, bicyclo[n.1.0]alk-1-enes) adds the strain of the fusion to the cyclopropene's wide exocyclic angle; such alkenes are transient intermediates trapped only in situ (common practice). Aromatic fusions (cyclopropabenzene), ordinary and spiro-fused cyclopropenes are kept."}, fusedCyclopropene},
+	{Rule{"no-small-ring-triple", "A triple bond needs a linear (180°) arrangement at both carbons; a ring smaller than 8 atoms cannot close without prohibitive strain (cyclooctyne is the smallest isolable cycloalkyne; common practice)."}, smallRingTriple, fTriple | fRing},
+	{Rule{"no-small-ring-allene", "The central carbon of an allene (C=C=C) or other cumulene is linear; in rings smaller than 8 atoms such compounds are at best transient intermediates (common practice)."}, smallRingAllene, fAllene | fRing},
+	{Rule{"no-bredt-violation", "Bredt's rule: a double bond at the bridgehead of a small bridged bicyclic system cannot have the p orbitals aligned; bridgehead alkenes are isolable only when the bridges total at least 7 atoms (Fawcett's S ≥ 7: Fawcett 1950, Chem. Rev. 47:219, from memory)."}, bredtViolation, fDouble | fRing2},
+	{Rule{"no-peroxide", "O–O single bonds (peroxides, hydroperoxides) are weak and thermally or explosively unstable; they are rare as unknowns and are almost never the answer to a routine identification (common practice)."}, peroxide, fO2},
+	{Rule{"no-enol", "Keto–enol tautomerism: a hydroxyl on a non-aromatic C=C (enol) or C≡C (ynol) carbon converts to the carbonyl tautomer, which dominates at equilibrium for simple carbonyl compounds. Phenols (aromatic) are kept."}, enol, fOH},
+	{Rule{"no-imidic-acid", "Amide–imidic acid tautomerism: HO–C=N converts to the amide H–N–C=O, which dominates at equilibrium. Aromatic hydroxy-heterocycles are kept."}, imidicAcid, fOH | fDouble | fN},
+	{Rule{"no-gem-diol", "Two hydroxyls on one sp3 carbon (gem-diol, carbonyl hydrate) lose water to the carbonyl compound; isolable only for strongly electron-poor carbonyls such as chloral (common practice)."}, gemDiol, fO2 | fOH},
+	{Rule{"no-hemiacetal", "An sp3 carbon bearing both OH and OR (hemiacetal, hemiketal), or OH and SR/SH, or SH and OR (hemithioacetals), is in equilibrium with the carbonyl compound and the alcohol or thiol and is rarely isolated (cyclic sugar hemiacetals are the notable exception; switch the rule off for carbohydrates)."}, hemiacetal, fOHSH},
+	{Rule{"no-hemiaminal", "An sp3 carbon bearing both OH and an amine nitrogen (hemiaminal, carbinolamine) eliminates water to the imine or reverts to carbonyl plus amine; N-hydroxymethyl amides, which are stable, are kept."}, hemiaminal, fOH | fN},
+	{Rule{"no-hypohalite", "O–halogen bonds (hypohalites, R–O–X) are strong oxidants that decompose readily; they are not isolated as routine unknowns (common practice)."}, hypohalite, fO | fHal},
+	{Rule{"no-antiaromatic-ring", "Small rings with 4n π electrons are antiaromatic: oxirenes, thiirenes and 1H-azirines (a C=C or C=N double bond plus a lone-pair heteroatom in a three-membered ring) and cyclobutadienes or azetes (two double bonds in a four-membered ring) are observed only in matrices or with bulky substituents (Breslow 1973, Acc. Chem. Res. 6:393, from memory)."}, antiaromaticRing, fDouble | fRing},
+	{Rule{"no-hypervalent-hydride", "Hydrogen on hypervalent sulfur (S(IV), S(VI)) and on P(V) without a P=O or P=S bond (e.g. SH4, CH3SH3, PH5, H2P(=CH2)R) tautomerise or eliminate H2; stable P(V)–H compounds (phosphinates, H-phosphonates, secondary phosphine oxides and sulfides) carry P=O or P=S and are kept."}, hypervalentHydride, fHyper},
+	{Rule{"no-bare-hypervalent", "Hypervalent sulfur (S(IV), S(VI)) or phosphorus (P(V)) with neither a double bond nor an oxygen or halogen neighbour (e.g. tetramethyl-λ4-sulfane, pentamethylphosphorane) is unstable; real hypervalent compounds (sulfoxides, sulfones, SF4, phosphates, PCl5) have electronegative ligands or multiple bonds."}, bareHypervalent, fHyper},
+	{Rule{"no-ylide-tautomer", "An OH on P(V) or on hypervalent S that carries a double bond to C or N but none to O or S (HO–PR2=CH2, HO–S(R)=CH2) is the minor prototropic tautomer of the phosphine oxide or sulfoxide (O=PR2–CH3), which dominates (common practice)."}, ylideTautomer, fHyper | fOH},
+	{Rule{"no-sulfur-ylide", "Hypervalent sulfur doubly or triply bonded to carbon (sulfonium and sulfoxonium ylides, sulfines, sulfenes) is a reactive intermediate generated in situ, not an isolated unknown (common practice); phosphorus ylides, which are isolable, are kept."}, sulfurYlide, fHyper},
+	{Rule{"no-trivalent-p-oh", "P(III)–OH (phosphorous, phosphonous and phosphinous acids and their partial esters) exists almost entirely as the P(V) tautomer with P=O and P–H (H-phosphonates, H-phosphinates, secondary phosphine oxides), which the generator also makes (common practice); trialkyl phosphites without OH are kept."}, trivalentPOH, fP3 | fOH},
+	{Rule{"no-sulfenic-acid", "Sulfenic acids R–S–OH and their O–SH isomers are transient: they condense to thiosulfinates or are oxidised, and are isolable only with bulky protecting groups (common practice)."}, sulfenicAcid, fS2 | fO},
+	{Rule{"no-hypervalent-hydrate", "An OH on P(V) or hypervalent S with only single bonds (P(OH)5-type ortho acids, R–P(OH)4, R2S(OH)2) loses water to the P=O or S=O compound, as gem-diols do to carbonyls (common practice); phosphoranes and sulfuranes without OH (PCl5, SF4) are kept."}, hypervalentHydrate, fHyper | fOH},
+	{Rule{"no-small-aromatic-ring", "A three- or four-membered ring all of whose bonds belong to an aromatic π system (a bicyclic aromatic perimeter closed across by a short bond, e.g. azabicyclo[2.1.0]pentadienes) holds a local cyclobutadiene or cyclopropenyl-anion unit under extreme angle strain and is not isolable (common practice); rings fused to an aromatic ring through one bond (cyclopropabenzene, biphenylene) are kept."}, smallAromaticRing, fDouble | fRing},
+	{Rule{"no-fused-cyclopropene", "A cyclopropene whose alkene carbon also belongs to another ring (fused across the double bond, bicyclo[n.1.0]alk-1(n+2)-enes, or at one alkene carbon, bicyclo[n.1.0]alk-1-enes) adds the strain of the fusion to the cyclopropene's wide exocyclic angle; such alkenes are transient intermediates trapped only in situ (common practice). Aromatic fusions (cyclopropabenzene), ordinary and spiro-fused cyclopropenes are kept."}, fusedCyclopropene, fDouble | fRing},
 }
 
 // Rules returns the filter rules in the order they are applied.
@@ -211,8 +287,11 @@ func (f Filter) check(o *outputBuilder, m *mol) int {
 		return -1
 	}
 	o.aromDone = false
+	have := features(m)
+	on := f.on()
 	for i := range ruleTable {
-		if f.on()&(1<<i) != 0 && ruleTable[i].violates(o, m) {
+		r := &ruleTable[i]
+		if on&(1<<i) != 0 && have&r.need == r.need && r.violates(o, m) {
 			return i
 		}
 	}

@@ -169,3 +169,23 @@ func FuzzParseFilter(f *testing.F) {
 		}
 	})
 }
+
+// TestFilterGates: skipping rules whose required features are absent
+// (ruleDef.need) never changes the verdict.
+func TestFilterGates(t *testing.T) {
+	for _, fs := range []string{"C6H6O", "C3H9O4P", "C4H7NO", "C3H5ClO", "C2H6O2S", "C4H4S", "C5H5N", "C4H8O3", "C3H4BrF"} {
+		eachMol(t, fs, func(m *mol) {
+			var gated, plain outputBuilder
+			want := -1
+			for i := range ruleTable {
+				if ruleTable[i].violates(&plain, m) {
+					want = i
+					break
+				}
+			}
+			if got := DefaultFilter().check(&gated, m); got != want {
+				t.Fatalf("%s: gated filter says rule %d, ungated %d", fs, got, want)
+			}
+		})
+	}
+}
