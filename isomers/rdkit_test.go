@@ -243,7 +243,10 @@ var rdkitBattery = []string{
 // Kekulé structure kept) with the oracle's, by the oracle's brute-force
 // canonical form. No aromaticity model is involved on either side.
 func TestOracleMultigraphs(t *testing.T) {
-	formulas := []string{"C4H10O", "C2H6S", "CH5P", "C3H7NO", "C2H6OS", "CH4O3S", "H3O4P", "C4H6O", "C4H4O", "C4H5N", "C6H6", "C3H2ClF", "C2H8Si", "C3H9B", "C5H5N", "C4H4N2"}
+	formulas := []string{"C4H10O", "C2H6S", "CH5P", "C3H7NO", "C2H6OS", "CH4O3S", "H3O4P", "C4H6O", "C4H4O", "C4H5N", "C6H6", "C3H2ClF", "C2H8Si", "C3H9B", "C5H5N", "C4H4N2",
+		"C2H5O2P", "C2H3NS", "C3H2N2", "C2H6S2",
+		// seven heavy atoms, still quick for the brute-force oracle
+		"C7H8", "C6H6O", "C4H4O3", "C5H12O2"}
 	if testing.Short() {
 		formulas = formulas[:5]
 	}
