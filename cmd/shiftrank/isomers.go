@@ -163,6 +163,9 @@ func reportFilter(w io.Writer, f molecule.Formula, filter isomers.Filter, st iso
 	for _, name := range names {
 		fmt.Fprintf(w, "  removed %8d  %s\n", st.Removed[name], name)
 	}
+	if st.Complete && st.Generated == 0 {
+		fmt.Fprintln(w, "  no neutral structure fits this formula with the valences C 4, N 3, O 2, S 2/4/6, P 3/5, Si 4, B 3, halogens 1; charged or radical species (CO, nitro groups, N-oxides) are outside the generator's model")
+	}
 }
 
 // progressLine rewrites one status line on a terminal, at most a few
