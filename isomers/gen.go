@@ -603,22 +603,23 @@ func (s *searcher) acceptTree() bool {
 	n := m.n
 	v := n - 1
 	cv := coarseKey(m, v)
-	for x := 0; x < n-1; x++ {
-		// only leaves can have a larger coarse key than the leaf v
-		if coarseKey(m, x) > cv {
-			return false
-		}
-	}
 	cz := &s.cz
-	// A leaf's neighbour hash is a function of its one neighbour; compare
+	// Only leaves can have a coarse key as large as the leaf v's. A
+	// leaf's neighbour hash is a function of its one neighbour; compare
 	// the packed (degree, colour, bond-order sum, bond order) tuple of that
 	// neighbour instead, which orders the same way for the tie test below
 	// (equal tuples give equal hashes).
-	u := int(m.nb[v][0])
+	u := m.nb[v][0]
 	tv := leafTuple(m, v)
 	tie := false
 	for x := 0; x < n-1; x++ {
-		if m.deg[x] != 1 || coarseKey(m, x) != cv {
+		if m.deg[x] != 1 {
+			continue
+		}
+		if c := coarseKey(m, x); c != cv {
+			if c > cv {
+				return false
+			}
 			continue
 		}
 		tx := leafTuple(m, x)
@@ -627,7 +628,7 @@ func (s *searcher) acceptTree() bool {
 		}
 		// leaves on v's own neighbour with v's bond order are v's images
 		// under a transposition, hence in v's orbit
-		if tx == tv && int(m.nb[x][0]) != u {
+		if tx == tv && m.nb[x][0] != u {
 			tie = true
 		}
 	}
@@ -642,7 +643,7 @@ func (s *searcher) acceptTree() bool {
 	ev := ecc(v)
 	tie = false
 	for x := 0; x < n-1; x++ {
-		if m.deg[x] != 1 || coarseKey(m, x) != cv || leafTuple(m, x) != tv || int(m.nb[x][0]) == u {
+		if m.deg[x] != 1 || coarseKey(m, x) != cv || leafTuple(m, x) != tv || m.nb[x][0] == u {
 			continue
 		}
 		if ex := ecc(x); ex > ev {
