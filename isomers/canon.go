@@ -42,6 +42,7 @@ type canonizer struct {
 	haveFirst bool
 	gens      [][MaxAtoms]uint8
 	leaves    int
+	parts     [MaxAtoms + 1]partition // search partitions by depth
 }
 
 // vertexKeys fills c.key with an isomorphism-invariant key per vertex. The
@@ -400,10 +401,12 @@ func (c *canonizer) dfs(p *partition, depth int) int {
 				continue
 			}
 		}
-		child := *p
-		c.individualize(&child, v)
+		// one partition per depth, reused (a local copy would escape)
+		child := &c.parts[depth+1]
+		*child = *p
+		c.individualize(child, v)
 		c.path[depth] = v
-		r := c.dfs(&child, depth+1)
+		r := c.dfs(child, depth+1)
 		explored[ne] = v
 		ne++
 		if r < depth {

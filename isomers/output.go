@@ -13,7 +13,7 @@ type outputBuilder struct {
 	arom     [MaxAtoms][maxDeg]bool
 	// Kekulé comparison scratch
 	km   mol
-	kc   canonizer
+	kc   *canonizer // allocated on first use
 	best []byte
 	own  []byte
 }
@@ -255,6 +255,9 @@ func setOrder(m *mol, a, b int, o uint8) {
 
 // certOf returns the canonical certificate of m (colours as in m.col).
 func (o *outputBuilder) certOf(m *mol, buf []byte) []byte {
+	if o.kc == nil {
+		o.kc = new(canonizer)
+	}
 	o.kc.m = m
 	o.kc.vertexKeys()
 	var p partition
