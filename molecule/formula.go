@@ -63,7 +63,8 @@ func ParseFormula(s string) (Formula, error) {
 // It returns a *FormulaError naming the token and its position for an
 // unknown symbol ("Xy", "co"), a count of zero, a stray character, an
 // empty formula, a formula without heavy atoms, an odd electron count
-// (no neutral closed-shell structure), a negative DBE, or more than
+// (no neutral closed-shell structure), a DBE that stays negative even with
+// the hypervalent states of S and P (see MaxDBE), or more than
 // maxHeavy heavy (non-hydrogen) atoms. maxHeavy <= 0 means no limit.
 func ParseFormulaLimit(s string, maxHeavy int) (Formula, error) {
 	in := s
@@ -143,8 +144,8 @@ func ParseFormulaLimit(s string, maxHeavy int) (Formula, error) {
 	if !f.EvenElectron() {
 		return Formula{}, whole("odd number of electrons: no neutral closed-shell structure exists (check the hydrogen count)")
 	}
-	if f.DBE() < 0 {
-		return Formula{}, whole(fmt.Sprintf("negative ring-plus-double-bond equivalents (DBE %d): too many hydrogens or halogens for the skeleton", f.DBE()))
+	if f.MaxDBE() < 0 {
+		return Formula{}, whole(fmt.Sprintf("negative ring-plus-double-bond equivalents (DBE %d even with hypervalent S and P): too many hydrogens or halogens for the skeleton", f.DBE()))
 	}
 	return f, nil
 }
@@ -199,6 +200,21 @@ func (f Formula) DBE() int {
 	twice := 2
 	for e := H; e < NumElements; e++ {
 		twice += f.counts[e] * (e.MinValence() - 2)
+	}
+	if twice < 0 {
+		return -((-twice + 1) / 2)
+	}
+	return twice / 2
+}
+
+// MaxDBE is DBE computed with the highest valence of each element (S 6,
+// P 5). It differs from DBE only for formulas with S or P; a formula such as
+// SF6 or PCl5 has a negative DBE but a non-negative MaxDBE, and exists only
+// with hypervalent S or P.
+func (f Formula) MaxDBE() int {
+	twice := 2
+	for e := H; e < NumElements; e++ {
+		twice += f.counts[e] * (e.MaxValence() - 2)
 	}
 	if twice < 0 {
 		return -((-twice + 1) / 2)

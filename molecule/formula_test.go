@@ -49,6 +49,29 @@ func TestParseFormula(t *testing.T) {
 	}
 }
 
+// Formulas that exist only with hypervalent S or P have a negative DBE at
+// the lowest valences but must parse: SF6 and PCl5 are real compounds
+// (common practice).
+func TestParseFormulaHypervalent(t *testing.T) {
+	for _, tc := range []struct {
+		in          string
+		dbe, maxDBE int
+	}{
+		{"SF6", -2, 0},
+		{"PCl5", -1, 0},
+		{"CH3SO2Cl", 0, 2},
+	} {
+		f, err := ParseFormula(tc.in)
+		if err != nil {
+			t.Errorf("ParseFormula(%q) = %v, want success", tc.in, err)
+			continue
+		}
+		if f.DBE() != tc.dbe || f.MaxDBE() != tc.maxDBE {
+			t.Errorf("ParseFormula(%q): DBE %d, MaxDBE %d; want %d, %d", tc.in, f.DBE(), f.MaxDBE(), tc.dbe, tc.maxDBE)
+		}
+	}
+}
+
 func TestParseFormulaErrors(t *testing.T) {
 	tests := []struct {
 		in    string
@@ -61,6 +84,7 @@ func TestParseFormulaErrors(t *testing.T) {
 		{"C0H4", 0, 0, "C0"},
 		{"C4H9O", 0, 0, "C4H9O"},    // odd electron count
 		{"C2H8", 0, 0, "C2H8"},      // DBE −1
+		{"SH8", 0, 0, "SH8"},        // DBE −2 even for S(VI)
 		{"C41H84", 40, 0, "C41H84"}, // heavy-atom limit
 		{"C5H12", 4, 0, "C5H12"},
 		{"", 0, 0, ""},
