@@ -7,8 +7,11 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"io"
+	"log/slog"
+	"math/rand/v2"
 	"net/http"
 	"time"
 
@@ -54,57 +57,250 @@ func (s *Server) callbackSecret(ctx context.Context, owner string) ([]byte, erro
 	return k.Secret, nil
 }
 
-// deliver POSTs the job summary to its callback URL, retrying with
-// exponential back-off (CallbackBackoff doubled each time) up to
-// CallbackAttempts deliveries. A 2xx answer ends it; so does a 4xx other
-// than 408 and 429, since the receiver refused the content. Every attempt
-// is recorded in the store.
+// Callback delivery limits.
+const (
+	// maxCallbackDelay caps one back-off delay between deliveries.
+	maxCallbackDelay = 10 * time.Minute
+	// claimSlack is added to a callback claim beyond the wait and the
+	// delivery it covers, for the store writes around them.
+	claimSlack = 5 * time.Second
+	// maxResumed bounds the callbacks one process resumes at once.
+	maxResumed = 8
+	// sweepBatch is how many unsettled callbacks one sweep reads.
+	sweepBatch = 50
+)
+
+// backoff returns the delay after delivery attempt n (n >= 1):
+// CallbackBackoff doubled n-1 times, at most maxCallbackDelay.
+func (s *Server) backoff(n int) time.Duration {
+	d := s.cfg.CallbackBackoff
+	for i := 1; i < n && d < maxCallbackDelay; i++ {
+		d *= 2
+	}
+	return min(d, maxCallbackDelay)
+}
+
+// RetryWindow is the longest the deliveries of one callback take in the
+// process that starts them: every attempt running into CallbackTimeout,
+// plus every back-off delay. A callback still unsettled this long after
+// its job finished has lost the process delivering it; sweeps (every
+// CallbackSweep) resume it.
+func (s *Server) RetryWindow() time.Duration {
+	w := time.Duration(s.cfg.CallbackAttempts) * s.cfg.CallbackTimeout
+	for n := 1; n < s.cfg.CallbackAttempts; n++ {
+		w += s.backoff(n)
+	}
+	return w
+}
+
+// beginDelivery marks job id's callback as being sent by this process; it
+// reports false if it already is.
+func (s *Server) beginDelivery(id string) bool {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if s.delivering[id] {
+		return false
+	}
+	s.delivering[id] = true
+	return true
+}
+
+func (s *Server) endDelivery(id string) {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	delete(s.delivering, id)
+}
+
+// callbackSettled reports whether a recorded delivery ended the callback:
+// a 2xx answer, or a 4xx other than 408 and 429 (the receiver refused the
+// content; sending it again would not help).
+func callbackSettled(code int, transportErr bool) bool {
+	if transportErr {
+		return false
+	}
+	return (code >= 200 && code < 300) ||
+		(code >= 400 && code < 500 && code != http.StatusRequestTimeout && code != http.StatusTooManyRequests)
+}
+
+// deliver POSTs the finished job's summary to its callback URL until the
+// callback is settled: a 2xx answer, a final 4xx (see callbackSettled), or
+// CallbackAttempts deliveries, between which it waits with exponential
+// back-off (see backoff). Then it calls MarkCallbackDone. Every attempt is
+// recorded in the store, and deliver continues from the recorded ones, so
+// a callback that a stopped process left half done is resumed where it
+// stopped (a sweep calls deliver for it). Before each attempt it claims the
+// callback in the store for the wait and the attempt, so that of several
+// processes resuming one callback only one sends it. Delivery is at least
+// once: a process that dies between sending and recording sends that
+// attempt again when resumed.
 func (s *Server) deliver(ctx context.Context, job store.Job) {
+	if !s.beginDelivery(job.ID) {
+		return
+	}
+	defer s.endDelivery(job.ID)
 	log := s.log.With("job", job.ID, "callback", job.CallbackURL)
+
+	past, err := s.st.Deliveries(ctx, job.ID)
+	if err != nil {
+		log.Error("callback: read past deliveries", "err", err)
+		return
+	}
+	attempt, last := 1, time.Time{}
+	for _, d := range past {
+		if callbackSettled(d.StatusCode, d.Error != "") {
+			s.settleCallback(ctx, log, job.ID, "callback already settled", "attempt", d.Attempt, "status", d.StatusCode)
+			return
+		}
+		attempt, last = max(attempt, d.Attempt+1), d.At
+	}
+	if attempt > s.cfg.CallbackAttempts {
+		s.settleCallback(ctx, log, job.ID, "callback given up", "attempts", attempt-1)
+		return
+	}
+
 	secret, err := s.callbackSecret(ctx, job.Owner)
-	if err != nil || len(secret) == 0 {
-		log.Error("callback not sent: no signing secret", "err", err)
+	switch {
+	case errors.Is(err, store.ErrNotFound):
+		s.settleCallback(ctx, log, job.ID, "callback not sent: the job's API key no longer exists")
+		return
+	case err != nil:
+		log.Error("callback: signing secret", "err", err)
+		return
+	case len(secret) == 0:
+		// Another process may have the anonymous secret; leave it to that one.
+		log.Warn("callback not sent: this process has no secret for anonymous callbacks (SHIFTRANK_CALLBACK_SECRET)")
 		return
 	}
 	view := s.jobView(job)
 	view.Request = nil
-	delay := s.cfg.CallbackBackoff
-	for attempt := 1; attempt <= s.cfg.CallbackAttempts; attempt++ {
-		code, err := s.post(ctx, job.CallbackURL, secret, CallbackPayload{
+
+	for ; attempt <= s.cfg.CallbackAttempts; attempt++ {
+		var wait time.Duration
+		if attempt > 1 && !last.IsZero() {
+			wait = max(0, time.Until(last.Add(s.backoff(attempt-1))))
+		}
+		ok, err := s.st.ClaimCallback(ctx, job.ID, s.cfg.WorkerID, wait+s.cfg.CallbackTimeout+claimSlack)
+		if err != nil {
+			if ctx.Err() == nil {
+				log.Error("callback: claim", "err", err)
+			}
+			return // a later sweep resumes it
+		}
+		if !ok {
+			log.Info("callback left to another process (or already settled)", "attempt", attempt)
+			return
+		}
+		if wait > 0 {
+			t := time.NewTimer(wait)
+			select {
+			case <-ctx.Done():
+				t.Stop()
+				s.pauseCallback(ctx, log, job.ID, attempt)
+				return
+			case <-t.C:
+			}
+		}
+		actx, cancel := context.WithTimeout(ctx, s.cfg.CallbackTimeout)
+		code, err := s.post(actx, job.CallbackURL, secret, CallbackPayload{
 			Event: "job.finished", Attempt: attempt, SentAt: time.Now().UTC(), Job: view,
 		})
-		d := store.Delivery{JobID: job.ID, Attempt: attempt, URL: job.CallbackURL, StatusCode: code, At: time.Now().UTC()}
+		cancel()
+		if ctx.Err() != nil {
+			s.pauseCallback(ctx, log, job.ID, attempt)
+			return
+		}
+		last = time.Now().UTC()
+		d := store.Delivery{JobID: job.ID, Attempt: attempt, URL: job.CallbackURL, StatusCode: code, At: last}
 		if err != nil {
 			d.Error = err.Error()
 		}
-		rctx, cancel := context.WithTimeout(context.WithoutCancel(ctx), 5*time.Second)
+		rctx, rcancel := context.WithTimeout(context.WithoutCancel(ctx), 5*time.Second)
 		if rerr := s.st.RecordDelivery(rctx, d); rerr != nil {
 			log.Error("record callback delivery", "err", rerr)
 		}
-		cancel()
-		if err == nil && code >= 200 && code < 300 {
-			log.Info("callback delivered", "attempt", attempt, "status", code)
+		rcancel()
+		switch {
+		case err == nil && code >= 200 && code < 300:
+			s.settleCallback(ctx, log, job.ID, "callback delivered", "attempt", attempt, "status", code)
 			return
-		}
-		if err == nil && code >= 400 && code < 500 && code != http.StatusRequestTimeout && code != http.StatusTooManyRequests {
-			log.Warn("callback refused; not retried", "attempt", attempt, "status", code)
+		case callbackSettled(code, err != nil):
+			s.settleCallback(ctx, log, job.ID, "callback refused; not retried", "attempt", attempt, "status", code)
 			return
 		}
 		log.Warn("callback failed", "attempt", attempt, "status", code, "err", err)
-		if attempt == s.cfg.CallbackAttempts {
-			break
-		}
-		t := time.NewTimer(delay)
+	}
+	s.settleCallback(ctx, log, job.ID, "callback given up", "attempts", s.cfg.CallbackAttempts)
+}
+
+// pauseCallback gives up this process's claim on job id's callback at
+// shutdown, so that another process's sweep may resume it without waiting
+// for the claim to run out.
+func (s *Server) pauseCallback(ctx context.Context, log *slog.Logger, id string, next int) {
+	rctx, cancel := context.WithTimeout(context.WithoutCancel(ctx), 2*time.Second)
+	defer cancel()
+	if _, err := s.st.ClaimCallback(rctx, id, s.cfg.WorkerID, 0); err != nil {
+		log.Warn("give up callback claim", "err", err)
+	}
+	log.Warn("callback paused at shutdown; another process will resume it", "next_attempt", next)
+}
+
+// settleCallback marks job id's callback done and logs msg with args.
+func (s *Server) settleCallback(ctx context.Context, log *slog.Logger, id, msg string, args ...any) {
+	mctx, cancel := context.WithTimeout(context.WithoutCancel(ctx), 5*time.Second)
+	defer cancel()
+	if err := s.st.MarkCallbackDone(mctx, id); err != nil {
+		log.Error("mark callback done", "err", err)
+	}
+	log.Info(msg, args...)
+}
+
+// sweepLoop resumes, every CallbackSweep, the callbacks that other (stopped
+// or dead) processes left unsettled, until Shutdown.
+func (s *Server) sweepLoop(ctx context.Context) {
+	if s.cfg.CallbackSweep < 0 {
+		return
+	}
+	for {
+		s.sweepCallbacks(ctx)
+		// Jitter keeps the sweeps of many processes apart.
+		t := time.NewTimer(s.cfg.CallbackSweep*3/4 + rand.N(s.cfg.CallbackSweep/2+1))
 		select {
-		case <-ctx.Done():
+		case <-s.stopping:
 			t.Stop()
-			log.Warn("callback abandoned at shutdown", "attempts", attempt)
 			return
 		case <-t.C:
 		}
-		delay *= 2
 	}
-	log.Error("callback given up", "attempts", s.cfg.CallbackAttempts)
+}
+
+// sweepCallbacks starts the delivery of callbacks unsettled RetryWindow
+// after their job finished, at most maxResumed at a time.
+func (s *Server) sweepCallbacks(ctx context.Context) {
+	jobs, err := s.st.PendingCallbacks(ctx, s.RetryWindow(), sweepBatch)
+	if err != nil {
+		if ctx.Err() == nil {
+			s.log.Error("callback sweep", "err", err)
+		}
+		return
+	}
+	for _, j := range jobs {
+		select {
+		case <-s.stopping:
+			return
+		case s.resumeSlots <- struct{}{}:
+		default:
+			return // all slots busy: the next sweep continues
+		}
+		s.log.Info("resuming an unsettled callback", "job", j.ID, "finished_at", j.FinishedAt)
+		// The sweep runs in the worker group, so this Add precedes
+		// Shutdown's wait on s.bg (see finish).
+		s.bg.Add(1)
+		go func() {
+			defer s.bg.Done()
+			defer func() { <-s.resumeSlots }()
+			s.deliver(s.bgCtx, j)
+		}()
+	}
 }
 
 func (s *Server) post(ctx context.Context, url string, secret []byte, p CallbackPayload) (int, error) {

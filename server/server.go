@@ -60,10 +60,18 @@ type Config struct {
 	// (default 100 ms and 2 s).
 	IdleMin, IdleMax time.Duration
 	// CallbackAttempts bounds callback deliveries per job (default 6);
-	// CallbackBackoff is the first retry delay, doubled each time (default 1 s).
+	// CallbackBackoff is the first retry delay, doubled each time up to
+	// maxCallbackDelay (default 1 s). CallbackTimeout bounds one delivery
+	// (default 10 s).
 	CallbackAttempts int
 	CallbackBackoff  time.Duration
-	// CallbackClient sends callbacks (default: a client with a 10 s timeout).
+	CallbackTimeout  time.Duration
+	// CallbackSweep is how often this process looks for callbacks that a
+	// stopped or dead process left unsettled, and resumes them (default
+	// 30 s; negative: never). See Server.RetryWindow.
+	CallbackSweep time.Duration
+	// CallbackClient sends callbacks (default: a client that follows no
+	// redirects).
 	CallbackClient *http.Client
 	// WorkerID names this process's workers in leases and status history
 	// (default host-pid-random).
@@ -114,9 +122,15 @@ func (c Config) withDefaults() Config {
 	if c.CallbackBackoff == 0 {
 		c.CallbackBackoff = time.Second
 	}
+	if c.CallbackTimeout == 0 {
+		c.CallbackTimeout = 10 * time.Second
+	}
+	if c.CallbackSweep == 0 {
+		c.CallbackSweep = 30 * time.Second
+	}
 	if c.CallbackClient == nil {
 		c.CallbackClient = &http.Client{
-			Timeout: 10 * time.Second,
+			Timeout: c.CallbackTimeout,
 			// A redirect is answered as a failed delivery, not followed:
 			// the signed body goes only where the client asked.
 			CheckRedirect: func(*http.Request, []*http.Request) error { return http.ErrUseLastResponse },
@@ -153,18 +167,25 @@ type Server struct {
 	bg       sync.WaitGroup // callback deliveries
 	bgCtx    context.Context
 	bgCancel context.CancelFunc
+	// delivering holds the jobs whose callback this process is sending, so
+	// that a sweep does not start a second delivery beside the first.
+	delivering map[string]bool
+	// resumeSlots bounds the callbacks resumed by sweeps at once.
+	resumeSlots chan struct{}
 }
 
 // New returns a server using st for jobs and rk for rankings. It does not
 // start workers; call Start.
 func New(logger *slog.Logger, st JobStore, rk Ranker, cfg Config) *Server {
 	s := &Server{
-		log:      logger,
-		st:       st,
-		rk:       rk,
-		cfg:      cfg.withDefaults(),
-		wake:     make(chan struct{}, 1),
-		stopping: make(chan struct{}),
+		log:         logger,
+		st:          st,
+		rk:          rk,
+		cfg:         cfg.withDefaults(),
+		wake:        make(chan struct{}, 1),
+		stopping:    make(chan struct{}),
+		delivering:  make(map[string]bool),
+		resumeSlots: make(chan struct{}, maxResumed),
 	}
 	s.bgCtx, s.bgCancel = context.WithCancel(context.Background())
 	s.openapi, s.openapiErr = openAPIDoc(s.cfg.BaseURL)

@@ -28,6 +28,10 @@ type JobStore interface {
 	LookupAPIKey(ctx context.Context, key string) (store.APIKey, error)
 	GetAPIKey(ctx context.Context, id string) (store.APIKey, error)
 	RecordDelivery(ctx context.Context, d store.Delivery) error
+	Deliveries(ctx context.Context, jobID string) ([]store.Delivery, error)
+	ClaimCallback(ctx context.Context, id, workerID string, lease time.Duration) (bool, error)
+	MarkCallbackDone(ctx context.Context, id string) error
+	PendingCallbacks(ctx context.Context, olderThan time.Duration, limit int) ([]store.Job, error)
 
 	Ping(ctx context.Context) error
 }

@@ -23,7 +23,8 @@ var (
 )
 
 // Start starts Config.Workers workers, each claiming jobs from the store
-// until Shutdown. Calling it again does nothing.
+// until Shutdown, and the callback sweep (see Config.CallbackSweep), which
+// runs even in a process without workers. Calling it again does nothing.
 func (s *Server) Start() {
 	s.mu.Lock()
 	defer s.mu.Unlock()
@@ -33,6 +34,11 @@ func (s *Server) Start() {
 	s.started = true
 	runCtx, hardStop := context.WithCancelCause(context.Background())
 	s.hardStop = hardStop
+	s.workers.Add(1)
+	go func() {
+		defer s.workers.Done()
+		s.sweepLoop(runCtx)
+	}()
 	for i := 0; i < s.cfg.Workers; i++ {
 		s.workers.Add(1)
 		go func() {
@@ -46,7 +52,9 @@ func (s *Server) Start() {
 // Shutdown stops the pool: workers claim no more jobs, running jobs may
 // finish until ctx is done, and those still running then are handed back
 // to the queue (ReleaseJob) for another worker. Pending callback
-// deliveries get the same grace. It returns once every worker has stopped.
+// deliveries get the same grace; those still waiting then stay unsettled in
+// the store, and the sweep of another process resumes them. It returns once
+// every worker and delivery has stopped.
 func (s *Server) Shutdown(ctx context.Context) error {
 	s.mu.Lock()
 	select {

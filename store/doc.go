@@ -46,7 +46,9 @@
 // summary to its callback URL. When the delivery worker is done with a job
 // (delivered, refused, or given up) it calls MarkCallbackDone;
 // PendingCallbacks lists finished jobs whose callback is not settled, so a
-// restarted service can resume them (at-least-once delivery).
+// restarted service can resume them (at-least-once delivery). Before sending,
+// a delivery worker takes the callback with ClaimCallback, a short lease like
+// a job's: of several processes resuming one callback, one sends it.
 //
 // # Ownership
 //

@@ -37,6 +37,10 @@ type memJob struct {
 	history    []StatusChange
 	result     *Result
 	deliveries []Delivery
+
+	// The callback claim (ClaimCallback): holder and end.
+	cbOwner string
+	cbUntil time.Time
 }
 
 type idemKey struct{ owner, key string }
@@ -599,24 +603,55 @@ func (m *Memory) MarkCallbackDone(ctx context.Context, id string) error {
 	return nil
 }
 
+// ClaimCallback takes job id's callback for workerID until lease from now,
+// so that one process at a time delivers it. It reports true when the
+// caller holds the claim: the job is finished, has a callback URL, its
+// callback is not settled (MarkCallbackDone), and no other worker holds an
+// unexpired claim. The holder renews by claiming again, and gives
+// the claim up by claiming with a zero lease. It reports false,
+// changing nothing, when another worker holds the claim or there is nothing
+// to deliver. ErrNotFound for an unknown job. It takes no owner: it is for
+// the delivery worker.
+func (m *Memory) ClaimCallback(ctx context.Context, id, workerID string, lease time.Duration) (bool, error) {
+	if err := ctx.Err(); err != nil {
+		return false, fmt.Errorf("claim callback: %w", err)
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	mj, ok := m.jobs[id]
+	if !ok {
+		return false, fmt.Errorf("claim callback: job %s: %w", id, ErrNotFound)
+	}
+	t := now()
+	j := mj.job
+	if j.CallbackURL == "" || j.CallbackDone || j.FinishedAt.IsZero() ||
+		(mj.cbOwner != workerID && mj.cbUntil.After(t)) {
+		return false, nil
+	}
+	mj.cbOwner, mj.cbUntil = workerID, t.Add(lease)
+	return true, nil
+}
+
 // PendingCallbacks returns up to limit finished jobs (any terminal status)
 // that have a callback URL whose callback is not yet settled
-// (MarkCallbackDone) and that finished more than olderThan ago, oldest first:
-// the callbacks a restarted service should resume. Callbacks are at least
-// once: two processes sweeping at once may both deliver one. limit <= 0
-// means DefaultListLimit; it is capped at MaxListLimit.
+// (MarkCallbackDone), is not claimed under an unexpired ClaimCallback, and
+// that finished more than olderThan ago, oldest first: the callbacks a
+// restarted service should resume. A sweeper must still ClaimCallback each
+// one before sending it. limit <= 0 means DefaultListLimit; it is capped at
+// MaxListLimit.
 func (m *Memory) PendingCallbacks(ctx context.Context, olderThan time.Duration, limit int) ([]Job, error) {
 	if err := ctx.Err(); err != nil {
 		return nil, fmt.Errorf("pending callbacks: %w", err)
 	}
 	limit = clampLimit(limit)
-	cutoff := now().Add(-olderThan)
+	t := now()
+	cutoff := t.Add(-olderThan)
 	m.mu.Lock()
 	defer m.mu.Unlock()
 	var jobs []Job
 	for _, mj := range m.jobs {
 		j := mj.job
-		if j.CallbackURL != "" && !j.CallbackDone && !j.FinishedAt.IsZero() && j.FinishedAt.Before(cutoff) {
+		if j.CallbackURL != "" && !j.CallbackDone && !j.FinishedAt.IsZero() && j.FinishedAt.Before(cutoff) && !mj.cbUntil.After(t) {
 			jobs = append(jobs, j)
 		}
 	}

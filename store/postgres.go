@@ -773,17 +773,50 @@ func (p *Postgres) MarkCallbackDone(ctx context.Context, id string) error {
 	return nil
 }
 
+// ClaimCallback takes job id's callback for workerID until lease from now
+// (database clock), so that one process at a time delivers it. It reports
+// true when the caller holds the claim: the job is finished, has a callback
+// URL, its callback is not settled (MarkCallbackDone), and no other worker
+// holds an unexpired claim. The holder renews by claiming again, and gives
+// the claim up by claiming with a zero lease. It reports
+// false, changing nothing, when another worker holds the claim or there is
+// nothing to deliver. ErrNotFound for an unknown job. The update takes the
+// job's row lock, so of two processes claiming at once exactly one wins. It
+// takes no owner: it is for the delivery worker.
+func (p *Postgres) ClaimCallback(ctx context.Context, id, workerID string, lease time.Duration) (bool, error) {
+	tag, err := p.pool.Exec(ctx, `UPDATE jobs
+		SET callback_claim_owner = $2, callback_claim_until = clock_timestamp() + $3 * interval '1 microsecond'
+		WHERE id = $1 AND callback_url <> '' AND NOT callback_done AND finished_at IS NOT NULL
+			AND (callback_claim_until IS NULL OR callback_claim_until <= clock_timestamp() OR callback_claim_owner = $2)`,
+		id, workerID, micros(lease))
+	if err != nil {
+		return false, fmt.Errorf("claim callback: job %s: %w", id, err)
+	}
+	if tag.RowsAffected() == 1 {
+		return true, nil
+	}
+	var exists bool
+	if err := p.pool.QueryRow(ctx, `SELECT EXISTS (SELECT 1 FROM jobs WHERE id = $1)`, id).Scan(&exists); err != nil {
+		return false, fmt.Errorf("claim callback: job %s: %w", id, err)
+	}
+	if !exists {
+		return false, fmt.Errorf("claim callback: job %s: %w", id, ErrNotFound)
+	}
+	return false, nil
+}
+
 // PendingCallbacks returns up to limit finished jobs (any terminal status)
 // that have a callback URL whose callback is not yet settled
-// (MarkCallbackDone) and that finished more than olderThan ago (database
-// clock), oldest first: the callbacks a restarted service should resume.
-// Callbacks are at least once: two processes sweeping at once may both
-// deliver one. limit <= 0 means DefaultListLimit; it is capped at
-// MaxListLimit.
+// (MarkCallbackDone), is not claimed under an unexpired ClaimCallback, and
+// that finished more than olderThan ago (database clock), oldest first: the
+// callbacks a restarted service should resume. A sweeper must still
+// ClaimCallback each one before sending it. limit <= 0 means
+// DefaultListLimit; it is capped at MaxListLimit.
 func (p *Postgres) PendingCallbacks(ctx context.Context, olderThan time.Duration, limit int) ([]Job, error) {
 	rows, err := p.pool.Query(ctx, `SELECT `+jobColumns+` FROM jobs
 		WHERE callback_url <> '' AND NOT callback_done AND finished_at IS NOT NULL
 			AND finished_at < clock_timestamp() - $1 * interval '1 microsecond'
+			AND (callback_claim_until IS NULL OR callback_claim_until <= clock_timestamp())
 		ORDER BY finished_at, id LIMIT $2`, micros(olderThan), clampLimit(limit))
 	if err != nil {
 		return nil, fmt.Errorf("pending callbacks: %w", err)

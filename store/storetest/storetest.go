@@ -16,6 +16,7 @@ import (
 	"reflect"
 	"strings"
 	"sync"
+	"sync/atomic"
 	"testing"
 	"time"
 
@@ -47,6 +48,7 @@ type Store interface {
 	Deliveries(ctx context.Context, jobID string) ([]store.Delivery, error)
 	MarkCallbackDone(ctx context.Context, id string) error
 	PendingCallbacks(ctx context.Context, olderThan time.Duration, limit int) ([]store.Job, error)
+	ClaimCallback(ctx context.Context, id, workerID string, lease time.Duration) (bool, error)
 
 	Ping(ctx context.Context) error
 	Close()
@@ -84,6 +86,8 @@ func Run(t *testing.T, newStore func(t *testing.T) Store) {
 		{"MaxAttempts", testMaxAttempts},
 		{"Deliveries", testDeliveries},
 		{"PendingCallbacks", testPendingCallbacks},
+		{"ClaimCallback", testClaimCallback},
+		{"ClaimCallbackConcurrent", testClaimCallbackConcurrent},
 		{"Ping", testPing},
 	}
 	for _, tc := range tests {
@@ -889,6 +893,101 @@ func testPendingCallbacks(t *testing.T, s Store) {
 		t.Errorf("PendingCallbacks after MarkCallbackDone = %v, %v; want %v", ids(pending), err, want)
 	}
 	wantErr(t, "MarkCallbackDone of an unknown job", s.MarkCallbackDone(ctx, "nosuchjob"), store.ErrNotFound)
+}
+
+// finishedWithCallback creates a job with a callback URL and runs it to
+// success.
+func finishedWithCallback(t *testing.T, s Store, n int) store.Job {
+	t.Helper()
+	j := mustCreate(t, s, newJob("k1", n))
+	if c := mustClaim(t, s, "w1", time.Minute); c.ID != j.ID {
+		t.Fatalf("claimed %s, want %s", c.ID, j.ID)
+	}
+	if err := s.FinishJob(context.Background(), j.ID, "w1", store.StatusSucceeded, "", &store.Result{Body: json.RawMessage(`{}`)}); err != nil {
+		t.Fatal(err)
+	}
+	return j
+}
+
+func testClaimCallback(t *testing.T, s Store) {
+	ctx := context.Background()
+	j := finishedWithCallback(t, s, 1)
+	queued := mustCreate(t, s, newJob("k1", 2))
+	if ok, err := s.ClaimCallback(ctx, queued.ID, "p1", time.Minute); ok || err != nil {
+		t.Errorf("ClaimCallback of a queued job = %v, %v; want false, nil", ok, err)
+	}
+	claim := func(worker string, lease time.Duration) bool {
+		t.Helper()
+		ok, err := s.ClaimCallback(ctx, j.ID, worker, lease)
+		if err != nil {
+			t.Fatalf("ClaimCallback(%s): %v", worker, err)
+		}
+		return ok
+	}
+	if !claim("p1", 300*time.Millisecond) {
+		t.Fatal("first ClaimCallback = false, want true")
+	}
+	if claim("p2", time.Minute) {
+		t.Error("ClaimCallback by p2 while p1 holds an unexpired claim = true, want false")
+	}
+	if !claim("p1", 300*time.Millisecond) {
+		t.Error("renewing ClaimCallback by the holder = false, want true")
+	}
+	if pending, err := s.PendingCallbacks(ctx, 0, 0); err != nil || len(pending) != 0 {
+		t.Errorf("PendingCallbacks while claimed = %d jobs, %v; want none", len(pending), err)
+	}
+	time.Sleep(400 * time.Millisecond)
+	if pending, err := s.PendingCallbacks(ctx, 0, 0); err != nil || len(pending) != 1 {
+		t.Errorf("PendingCallbacks after the claim expired = %d jobs, %v; want 1", len(pending), err)
+	}
+	if !claim("p2", time.Minute) {
+		t.Error("ClaimCallback by p2 after p1's claim expired = false, want true")
+	}
+	if claim("p1", time.Minute) {
+		t.Error("ClaimCallback by p1 after p2 took over = true, want false")
+	}
+	if !claim("p2", 0) {
+		t.Error("ClaimCallback by the holder with a zero lease (giving it up) = false, want true")
+	}
+	if !claim("p1", time.Minute) {
+		t.Error("ClaimCallback by p1 after p2 gave the claim up = false, want true")
+	}
+	if err := s.MarkCallbackDone(ctx, j.ID); err != nil {
+		t.Fatal(err)
+	}
+	if claim("p2", time.Minute) {
+		t.Error("ClaimCallback of a settled callback = true, want false")
+	}
+	_, err := s.ClaimCallback(ctx, "nosuchjob", "p1", time.Minute)
+	wantErr(t, "ClaimCallback of an unknown job", err, store.ErrNotFound)
+}
+
+// testClaimCallbackConcurrent: of many processes claiming one callback at
+// once, exactly one gets it.
+func testClaimCallbackConcurrent(t *testing.T, s Store) {
+	j := finishedWithCallback(t, s, 1)
+	const n = 8
+	var (
+		wg   sync.WaitGroup
+		wins atomic.Int32
+	)
+	for i := range n {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			ok, err := s.ClaimCallback(context.Background(), j.ID, fmt.Sprintf("p%d", i), time.Minute)
+			if err != nil {
+				t.Errorf("ClaimCallback p%d: %v", i, err)
+			}
+			if ok {
+				wins.Add(1)
+			}
+		}()
+	}
+	wg.Wait()
+	if got := wins.Load(); got != 1 {
+		t.Errorf("%d of %d concurrent ClaimCallback calls won, want exactly 1", got, n)
+	}
 }
 
 func testPing(t *testing.T, s Store) {
