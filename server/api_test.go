@@ -76,6 +76,13 @@ func TestSubmitPollCandidates(t *testing.T) {
 		if !strings.Contains(cl.Caution, "hypothesis") {
 			t.Errorf("caution = %q", cl.Caution)
 		}
+		var members map[string]json.RawMessage
+		r.decode(t, &members)
+		for _, k := range []string{"job_id", "isomers_total", "candidates", "peaks", "warnings", "complete", "scored", "formula", "dbe"} {
+			if _, ok := members[k]; !ok {
+				t.Errorf("candidates JSON lacks %q: %s", k, r.body)
+			}
+		}
 
 		r = c.do("GET", "/v1/jobs/"+j.ID+"/candidates/3", nil)
 		var cand map[string]any

@@ -252,30 +252,48 @@ func (s *Server) handleCancel(w http.ResponseWriter, r *http.Request) {
 }
 
 // resultBody is the part of the stored ranker.Result JSON the API reads;
-// candidates are passed on byte for byte.
+// observed peaks and candidates are passed on byte for byte.
 type resultBody struct {
-	Formula      string            `json:"formula"`
-	IsomersTotal int64             `json:"isomers_total"`
-	Scored       int64             `json:"scored"`
-	Complete     bool              `json:"complete"`
-	Warnings     []string          `json:"warnings"`
-	Candidates   []json.RawMessage `json:"candidates"`
+	Formula          string            `json:"formula"`
+	DBE              int               `json:"dbe"`
+	IsomersTotal     int64             `json:"isomers_total"`
+	IsomersEstimated bool              `json:"isomers_estimated"`
+	Generated        int64             `json:"generated"`
+	Scored           int64             `json:"scored"`
+	Complete         bool              `json:"complete"`
+	MHz              float64           `json:"mhz"`
+	Solvent          string            `json:"solvent"`
+	Peaks            []json.RawMessage `json:"peaks"`
+	Warnings         []string          `json:"warnings"`
+	Candidates       []json.RawMessage `json:"candidates"`
 }
 
-// CandidateList is the response of GET /v1/jobs/{id}/candidates. Each
-// candidate is exactly as in the ranker's JSON output.
+// CandidateList is the response of GET /v1/jobs/{id}/candidates: the
+// ranking's summary, the observed peaks as the ranker read them, and one
+// page of candidates. Peaks and candidates are exactly as in the ranker's
+// JSON output (`rank --json`): each peak has index, shift (ppm), optional
+// shift_lo/shift_hi, multiplicity, j (Hz), integral, implied_h (the
+// integral scaled to the formula's H count), solvent (the residual signal
+// it matches) and excluded (left out of the scoring). The names job_id,
+// isomers_total and candidates are part of the public contract.
 type CandidateList struct {
-	JobID        string            `json:"job_id"`
-	Formula      string            `json:"formula,omitempty"`
-	IsomersTotal int64             `json:"isomers_total"`
-	Scored       int64             `json:"scored"`
-	Complete     bool              `json:"complete"`
-	Warnings     []string          `json:"warnings"`
-	Total        int               `json:"total"`
-	Offset       int               `json:"offset"`
-	Limit        int               `json:"limit"`
-	Candidates   []json.RawMessage `json:"candidates"`
-	Caution      string            `json:"caution"`
+	JobID            string            `json:"job_id"`
+	Formula          string            `json:"formula"`
+	DBE              int               `json:"dbe"`
+	IsomersTotal     int64             `json:"isomers_total"`
+	IsomersEstimated bool              `json:"isomers_estimated"`
+	Generated        int64             `json:"generated"`
+	Scored           int64             `json:"scored"`
+	Complete         bool              `json:"complete"`
+	MHz              float64           `json:"mhz,omitempty"`
+	Solvent          string            `json:"solvent,omitempty"`
+	Peaks            []json.RawMessage `json:"peaks"`
+	Warnings         []string          `json:"warnings"`
+	Total            int               `json:"total"`
+	Offset           int               `json:"offset"`
+	Limit            int               `json:"limit"`
+	Candidates       []json.RawMessage `json:"candidates"`
+	Caution          string            `json:"caution"`
 }
 
 func (s *Server) loadResult(r *http.Request, id string) (resultBody, error) {
@@ -300,6 +318,9 @@ func (s *Server) loadResult(r *http.Request, id string) (resultBody, error) {
 	}
 	if body.Warnings == nil {
 		body.Warnings = []string{}
+	}
+	if body.Peaks == nil {
+		body.Peaks = []json.RawMessage{}
 	}
 	if body.IsomersTotal == 0 {
 		body.IsomersTotal = res.IsomersTotal
@@ -327,17 +348,23 @@ func (s *Server) handleCandidates(w http.ResponseWriter, r *http.Request) {
 	}
 	page := body.Candidates[min(offset, len(body.Candidates)):min(offset+limit, len(body.Candidates))]
 	s.writeJSON(w, http.StatusOK, CandidateList{
-		JobID:        id,
-		Formula:      body.Formula,
-		IsomersTotal: body.IsomersTotal,
-		Scored:       body.Scored,
-		Complete:     body.Complete,
-		Warnings:     body.Warnings,
-		Total:        len(body.Candidates),
-		Offset:       offset,
-		Limit:        limit,
-		Candidates:   page,
-		Caution:      Caution,
+		JobID:            id,
+		Formula:          body.Formula,
+		DBE:              body.DBE,
+		IsomersTotal:     body.IsomersTotal,
+		IsomersEstimated: body.IsomersEstimated,
+		Generated:        body.Generated,
+		Scored:           body.Scored,
+		Complete:         body.Complete,
+		MHz:              body.MHz,
+		Solvent:          body.Solvent,
+		Peaks:            body.Peaks,
+		Warnings:         body.Warnings,
+		Total:            len(body.Candidates),
+		Offset:           offset,
+		Limit:            limit,
+		Candidates:       page,
+		Caution:          Caution,
 	})
 }
 

@@ -3,12 +3,14 @@ package server_test
 import (
 	"encoding/json"
 	"net/http"
+	"reflect"
 	"slices"
 	"strings"
 	"testing"
 
 	"github.com/go-chi/chi/v5"
 
+	"shiftrank/ranker"
 	"shiftrank/server"
 	"shiftrank/store"
 )
@@ -75,5 +77,57 @@ func TestOpenAPICoversEveryRoute(t *testing.T) {
 	}
 	if _, ok := doc.Hooks["jobFinished"]; !ok {
 		t.Error("the callback is not described under webhooks")
+	}
+}
+
+// TestOpenAPISchemasMatchTypes checks that the schemas of the response types
+// name exactly the JSON members the Go types write.
+func TestOpenAPISchemasMatchTypes(t *testing.T) {
+	var doc struct {
+		Components struct {
+			Schemas map[string]struct {
+				Properties map[string]json.RawMessage `json:"properties"`
+				Required   []string                   `json:"required"`
+			} `json:"schemas"`
+		} `json:"components"`
+	}
+	rec := httptestRecorder(server.New(quietLogger(t), store.NewMemory(), &fakeRanker{}, server.Config{}), "GET", "/v1/openapi.json")
+	if err := json.Unmarshal(rec.Body.Bytes(), &doc); err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		schema string
+		typ    any
+	}{
+		{"CandidateList", server.CandidateList{}},
+		{"ObservedPeak", ranker.ObservedPeak{}},
+	} {
+		sc, ok := doc.Components.Schemas[tc.schema]
+		if !ok {
+			t.Errorf("schema %s missing", tc.schema)
+			continue
+		}
+		members := map[string]bool{}
+		rt := reflect.TypeOf(tc.typ)
+		for i := range rt.NumField() {
+			name, _, _ := strings.Cut(rt.Field(i).Tag.Get("json"), ",")
+			if name == "" || name == "-" {
+				continue
+			}
+			members[name] = true
+			if _, ok := sc.Properties[name]; !ok {
+				t.Errorf("schema %s lacks %q, which %s writes", tc.schema, name, rt.Name())
+			}
+		}
+		for name := range sc.Properties {
+			if !members[name] {
+				t.Errorf("schema %s describes %q, which %s does not write", tc.schema, name, rt.Name())
+			}
+		}
+		for _, name := range sc.Required {
+			if !members[name] {
+				t.Errorf("schema %s requires %q, which %s does not write", tc.schema, name, rt.Name())
+			}
+		}
 	}
 }

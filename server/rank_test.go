@@ -2,6 +2,7 @@ package server_test
 
 import (
 	"encoding/json"
+	"math"
 	"net/http"
 	"testing"
 	"time"
@@ -53,6 +54,60 @@ func TestRealRankingEthanol(t *testing.T) {
 		if top := cl.Candidates[0]; canonical(t, top.SMILES) != ethanol || top.Rank != 1 || top.Probability <= cl.Candidates[1].Probability || len(top.Assignments) == 0 {
 			t.Errorf("rank 1 = %+v, want ethanol with the higher probability and assignments", top)
 		}
+		// The ranking's summary and the peaks as the ranker read them.
+		// C2H6O: DBE = C - H/2 + 1 = 0 (common practice); the integrals
+		// 2 + 1 + 3 already sum to the formula's 6 H, so implied_h equals them.
+		var sum struct {
+			Formula  string   `json:"formula"`
+			DBE      *int     `json:"dbe"`
+			Scored   int64    `json:"scored"`
+			Warnings []string `json:"warnings"`
+			Peaks    []struct {
+				Index        int     `json:"index"`
+				Shift        float64 `json:"shift"`
+				Multiplicity string  `json:"multiplicity"`
+				ImpliedH     float64 `json:"implied_h"`
+				Excluded     bool    `json:"excluded"`
+			} `json:"peaks"`
+		}
+		c.do("GET", "/v1/jobs/"+j.ID+"/candidates?limit=1", nil).decode(t, &sum)
+		if sum.Formula != "C2H6O" || sum.DBE == nil || *sum.DBE != 0 || sum.Scored != 2 || sum.Warnings == nil {
+			t.Errorf("summary: formula %q, dbe %v, scored %d, warnings %v; want C2H6O, 0, 2, a list", sum.Formula, sum.DBE, sum.Scored, sum.Warnings)
+		}
+		wantPeaks := []struct {
+			shift, h float64
+			mult     string
+		}{{3.69, 2, "q"}, {1.22, 3, "t"}, {2.6, 1, "br s"}}
+		if len(sum.Peaks) != len(wantPeaks) {
+			t.Fatalf("peaks = %+v, want %d", sum.Peaks, len(wantPeaks))
+		}
+		for i, w := range wantPeaks {
+			p := sum.Peaks[i]
+			if p.Index != i || math.Abs(p.Shift-w.shift) > 1e-9 || math.Abs(p.ImpliedH-w.h) > 1e-6 || p.Multiplicity != w.mult || p.Excluded {
+				t.Errorf("peak %d = %+v, want δ %.2f %s %gH, scored", i, p, w.shift, w.mult, w.h)
+			}
+		}
+
+		// A residual CHCl3 peak at 7.26 ppm in CDCl3 (Gottlieb et al. 1997)
+		// is flagged and left out of the scoring.
+		r = c.do("POST", "/v1/jobs", map[string]any{"formula": "C2H6O", "peaks": ethanolPeaks + ", 7.26 (s)", "solvent": "CDCl3"})
+		var js server.JobView
+		r.decode(t, &js)
+		if done := c.waitJob(js.ID, 60*time.Second); done.Status != store.StatusSucceeded {
+			t.Fatalf("job with a solvent peak = %+v", done)
+		}
+		var solv struct {
+			Peaks []struct {
+				Shift    float64 `json:"shift"`
+				Solvent  string  `json:"solvent"`
+				Excluded bool    `json:"excluded"`
+			} `json:"peaks"`
+		}
+		c.do("GET", "/v1/jobs/"+js.ID+"/candidates?limit=1", nil).decode(t, &solv)
+		if len(solv.Peaks) != 4 || !solv.Peaks[3].Excluded || solv.Peaks[3].Solvent == "" || solv.Peaks[0].Excluded {
+			t.Errorf("peaks with a 7.26 ppm CHCl3 signal = %+v, want the fourth excluded as solvent, the others scored", solv.Peaks)
+		}
+
 		var one struct {
 			Rank   int    `json:"rank"`
 			SMILES string `json:"smiles"`

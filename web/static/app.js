@@ -1020,7 +1020,7 @@ function renderExplain() {
   for (const p of excludedPeaks(c)) {
     const li = document.createElement("li");
     li.className = "excluded";
-    li.textContent = `δ ${fmtShift(p)} — not scored (a solvent or water signal; see the notes above)`;
+    li.textContent = `δ ${fmtShift(p)} — not scored (${p.solvent ? `the ${p.solvent} signal` : "a solvent or water signal"}; see the notes above)`;
     ux.append(li);
   }
   if (!ux.children.length) ux.append(Object.assign(document.createElement("li"), { className: "none", textContent: "none" }));
@@ -1038,11 +1038,12 @@ function renderExplain() {
   sum.hidden = !sum.textContent;
 }
 
-// excludedPeaks lists the observed peaks a candidate neither assigns nor
-// counts as unexplained: those the service left out of the scoring.
+// excludedPeaks lists the observed peaks the service left out of the
+// scoring: those the result's peak list marks excluded, or, without that
+// list, those a candidate neither assigns nor counts as unexplained.
 function excludedPeaks(c) {
   const used = new Set([...c.assignments.map((a) => a.peak.index), ...c.unexplained.map((u) => u.index)]);
-  return review.observed.filter((p) => !used.has(p.index) && typeof p.shift === "number" && isFinite(p.shift));
+  return review.observed.filter((p) => (p.excluded || !used.has(p.index)) && typeof p.shift === "number" && isFinite(p.shift));
 }
 
 function focusRow(i) {
