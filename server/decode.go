@@ -8,6 +8,7 @@ import (
 	"io"
 	"mime"
 	"net/http"
+	"reflect"
 	"strings"
 )
 
@@ -42,6 +43,14 @@ func unmarshalStrict(data []byte, v any) error {
 	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()
 	if err := dec.Decode(v); err != nil {
+		// encoding/json names only the first unknown or mistyped member, and
+		// an unknown one without its path: list them all, with their paths.
+		var syn *json.SyntaxError
+		if !errors.As(err, &syn) {
+			if fields := memberErrors(data, reflect.TypeOf(v), ""); len(fields) > 0 {
+				return invalidFields(fields)
+			}
+		}
 		return jsonError(err)
 	}
 	var extra json.RawMessage
@@ -109,4 +118,112 @@ func pointerFromPath(path string) string {
 
 func escapePointer(s string) string {
 	return strings.NewReplacer("~", "~0", "/", "~1").Replace(s)
+}
+
+var rawMessageType = reflect.TypeFor[json.RawMessage]()
+
+// memberErrors walks the JSON value data against the Go type t and returns
+// one FieldError per unknown object member and per member whose JSON type
+// does not fit, in document order, with JSON Pointers below ptr. Members of
+// type json.RawMessage are left to their own validation. It returns nil for
+// data that is not well-formed JSON.
+func memberErrors(data []byte, t reflect.Type, ptr string) []FieldError {
+	for t != nil && t.Kind() == reflect.Pointer {
+		t = t.Elem()
+	}
+	if t == nil || t == rawMessageType {
+		return nil
+	}
+	data = bytes.TrimSpace(data)
+	if (t.Kind() == reflect.Slice || t.Kind() == reflect.Array) && len(data) > 0 && data[0] == '[' {
+		var elems []json.RawMessage
+		if err := json.Unmarshal(data, &elems); err != nil {
+			return nil
+		}
+		var fields []FieldError
+		for i, e := range elems {
+			fields = append(fields, memberErrors(e, t.Elem(), fmt.Sprintf("%s/%d", ptr, i))...)
+		}
+		return fields
+	}
+	if t.Kind() != reflect.Struct || len(data) == 0 || data[0] != '{' {
+		if err := json.Unmarshal(data, reflect.New(t).Interface()); err != nil {
+			var typ *json.UnmarshalTypeError
+			if errors.As(err, &typ) {
+				return []FieldError{{Field: ptr, Detail: fmt.Sprintf("must be %s, not JSON %s", jsonKind(t.Kind().String()), jsonValueKind(data))}}
+			}
+		}
+		return nil
+	}
+	dec := json.NewDecoder(bytes.NewReader(data))
+	if _, err := dec.Token(); err != nil { // the opening brace
+		return nil
+	}
+	var fields []FieldError
+	for dec.More() {
+		tok, err := dec.Token()
+		if err != nil {
+			return fields
+		}
+		name, _ := tok.(string)
+		var raw json.RawMessage
+		if err := dec.Decode(&raw); err != nil {
+			return fields
+		}
+		member := ptr + "/" + escapePointer(name)
+		ft, ok := fieldType(t, name)
+		if !ok {
+			fields = append(fields, FieldError{Field: member, Detail: "unknown field"})
+			continue
+		}
+		fields = append(fields, memberErrors(raw, ft, member)...)
+	}
+	return fields
+}
+
+// fieldType finds the struct field of t that encoding/json fills from the
+// object member name: by its json tag or Go name, exact match first, then
+// without regard to case.
+func fieldType(t reflect.Type, name string) (reflect.Type, bool) {
+	var fold reflect.Type
+	for i := range t.NumField() {
+		f := t.Field(i)
+		if !f.IsExported() {
+			continue
+		}
+		tag, _, _ := strings.Cut(f.Tag.Get("json"), ",")
+		if tag == "-" {
+			continue
+		}
+		if tag == "" {
+			tag = f.Name
+		}
+		if tag == name {
+			return f.Type, true
+		}
+		if fold == nil && strings.EqualFold(tag, name) {
+			fold = f.Type
+		}
+	}
+	return fold, fold != nil
+}
+
+// jsonValueKind names the JSON type of a well-formed value.
+func jsonValueKind(data []byte) string {
+	if len(data) == 0 {
+		return "nothing"
+	}
+	switch data[0] {
+	case '{':
+		return "object"
+	case '[':
+		return "array"
+	case '"':
+		return "string"
+	case 't', 'f':
+		return "bool"
+	case 'n':
+		return "null"
+	}
+	return "number"
 }
