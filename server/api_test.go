@@ -628,4 +628,7 @@ func TestShutdownHandsBackRunningJobs(t *testing.T) {
 	if j.Status != store.StatusQueued {
 		t.Errorf("after shutdown the running job is %s, want queued (handed back)", j.Status)
 	}
+	if r := c.do("GET", "/readyz", nil); r.status != http.StatusServiceUnavailable {
+		t.Errorf("readyz after Shutdown = %d, want 503 (drain)", r.status)
+	}
 }

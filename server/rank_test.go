@@ -127,3 +127,33 @@ func canonical(t *testing.T, smi string) string {
 	}
 	return molecule.CanonicalSMILES(g)
 }
+
+// TestRealRankingCancelledWithinASecond cancels a long real ranking (the
+// isomers of C12H24O2 run to millions) once it is under way: the job must be
+// cancelled, its generator stopped, within a second, as the service promises.
+func TestRealRankingCancelledWithinASecond(t *testing.T) {
+	_, hs := startServer(t, store.NewMemory(), ranker.New(ranker.Options{Workers: 1}),
+		server.Config{AllowAnonymous: true, Workers: 1, TimeBudget: 5 * time.Minute})
+	c := client{t: t, base: hs.URL}
+	var j server.JobView
+	c.do("POST", "/v1/jobs", map[string]any{"formula": "C12H24O2",
+		"peaks": "4.05 (t, 2H), 2.29 (t, 2H), 1.62 (m, 4H), 1.30 (m, 10H), 0.90 (t, 6H)"}).decode(t, &j)
+	for deadline := time.Now().Add(30 * time.Second); ; time.Sleep(20 * time.Millisecond) {
+		var cur server.JobView
+		c.do("GET", "/v1/jobs/"+j.ID, nil).decode(t, &cur)
+		if cur.Status == store.StatusRunning && cur.Progress.Generated > 0 {
+			break
+		}
+		if cur.Status.Terminal() || time.Now().After(deadline) {
+			t.Fatalf("job never ran with progress: %+v", cur)
+		}
+	}
+	start := time.Now()
+	if r := c.do("POST", "/v1/jobs/"+j.ID+"/cancel", nil); r.status != http.StatusAccepted {
+		t.Fatalf("cancel = %d %s", r.status, r.body)
+	}
+	done := c.waitJob(j.ID, 10*time.Second)
+	if took := time.Since(start); done.Status != store.StatusCancelled || took > time.Second {
+		t.Errorf("after cancel: %s after %v, want cancelled within 1 s", done.Status, took)
+	}
+}

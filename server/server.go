@@ -255,6 +255,13 @@ func (s *Server) handleHealthz(w http.ResponseWriter, r *http.Request) {
 }
 
 func (s *Server) handleReadyz(w http.ResponseWriter, r *http.Request) {
+	select {
+	case <-s.stopping:
+		// A load balancer sends new work elsewhere while this one drains.
+		s.writeError(w, r, errorf(CodeUnavailable, "the server is shutting down"))
+		return
+	default:
+	}
 	ctx, cancel := context.WithTimeout(r.Context(), 2*time.Second)
 	defer cancel()
 	if err := s.st.Ping(ctx); err != nil {

@@ -118,3 +118,48 @@ func TestOpenAPIServersFollowBaseURL(t *testing.T) {
 		t.Errorf("servers = %+v, want the base URL", doc.Servers)
 	}
 }
+
+// progressCountingStore counts progress writes.
+type progressCountingStore struct {
+	*store.Memory
+	writes atomic.Int32
+}
+
+func (s *progressCountingStore) UpdateProgress(ctx context.Context, id, workerID string, p store.Progress) error {
+	s.writes.Add(1)
+	return s.Memory.UpdateProgress(ctx, id, workerID, p)
+}
+
+// TestProgressWritesThrottled: the ranker reports progress every 10 ms, but
+// the store sees at most one write per ProgressEvery.
+func TestProgressWritesThrottled(t *testing.T) {
+	st := &progressCountingStore{Memory: store.NewMemory()}
+	rk := &fakeRanker{block: true}
+	cfg := fastConfig(server.Config{AllowAnonymous: true, Workers: 1})
+	cfg.ProgressEvery = 250 * time.Millisecond
+	srv := server.New(quietLogger(t), st, rk, cfg)
+	srv.Start()
+	hs := httptest.NewServer(srv)
+	defer hs.Close()
+	c := client{t: t, base: hs.URL}
+	var j server.JobView
+	c.do("POST", "/v1/jobs", ethanolJob()).decode(t, &j)
+	for deadline := time.Now().Add(5 * time.Second); rk.Calls() == 0; time.Sleep(5 * time.Millisecond) {
+		if time.Now().After(deadline) {
+			t.Fatal("job never started")
+		}
+	}
+	const run = 1500 * time.Millisecond
+	time.Sleep(run)
+	n := st.writes.Load()
+	c.do("GET", "/v1/jobs/"+j.ID, nil).decode(t, &j)
+	ctx, cancel := context.WithTimeout(context.Background(), 100*time.Millisecond)
+	defer cancel()
+	_ = srv.Shutdown(ctx) // hands the job back
+	if most := int32(run/cfg.ProgressEvery) + 1; n < 2 || n > most {
+		t.Errorf("%d progress writes in %v with ProgressEvery %v (ranker reporting every 10 ms); want 2..%d", n, run, cfg.ProgressEvery, most)
+	}
+	if j.Progress.Generated == 0 {
+		t.Errorf("progress %+v never reached the store", j.Progress)
+	}
+}

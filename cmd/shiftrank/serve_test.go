@@ -171,3 +171,59 @@ func TestAPIKeyCommands(t *testing.T) {
 		}
 	}
 }
+
+// startServeCmd runs serve with args and vars until the test ends and
+// returns its address.
+func startServeCmd(t *testing.T, args []string, vars map[string]string) string {
+	t.Helper()
+	var out, errb syncBuffer
+	ctx, cancel := context.WithCancel(context.Background())
+	done := make(chan error, 1)
+	go func() { done <- runServe(ctx, args, testEnv(vars, &out, &errb)) }()
+	t.Cleanup(func() {
+		cancel()
+		select {
+		case <-done:
+		case <-time.After(10 * time.Second):
+			t.Error("serve did not stop within 10 s of cancel")
+		}
+	})
+	re := regexp.MustCompile(`msg=listening addr=(127\.0\.0\.1:\d+)`)
+	for deadline := time.Now().Add(20 * time.Second); ; time.Sleep(20 * time.Millisecond) {
+		if m := re.FindStringSubmatch(errb.String()); m != nil {
+			return m[1]
+		}
+		select {
+		case err := <-done:
+			t.Fatalf("serve stopped: %v\n%s", err, errb.String())
+		default:
+		}
+		if time.Now().After(deadline) {
+			t.Fatalf("serve did not report its address:\n%s", errb.String())
+		}
+	}
+}
+
+// TestServeAnonymousRules: with a database, even on loopback, a request
+// without a key gets 401 unless --allow-anonymous is given (issue 5: anonymous
+// access only for the embedded store on loopback, or when asked for).
+func TestServeAnonymousRules(t *testing.T) {
+	dsn := pgtest.URL(t)
+	for _, tc := range []struct {
+		args []string
+		want int
+	}{
+		{[]string{"--addr", "127.0.0.1:0", "--workers", "-1"}, http.StatusUnauthorized},
+		{[]string{"--addr", "127.0.0.1:0", "--workers", "-1", "--allow-anonymous"}, http.StatusOK},
+	} {
+		addr := startServeCmd(t, tc.args, map[string]string{"DATABASE_URL": dsn})
+		resp, err := http.Get("http://" + addr + "/v1/jobs")
+		if err != nil {
+			t.Fatal(err)
+		}
+		resp.Body.Close()
+		if resp.StatusCode != tc.want {
+			t.Errorf("serve %q with DATABASE_URL: GET /v1/jobs without a key = %d, want %d", tc.args, resp.StatusCode, tc.want)
+		}
+	}
+}
