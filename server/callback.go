@@ -61,9 +61,6 @@ func (s *Server) callbackSecret(ctx context.Context, owner string) ([]byte, erro
 const (
 	// maxCallbackDelay caps one back-off delay between deliveries.
 	maxCallbackDelay = 10 * time.Minute
-	// claimSlack is added to a callback claim beyond the wait and the
-	// delivery it covers, for the store writes around them.
-	claimSlack = 5 * time.Second
 	// maxResumed bounds the callbacks one process resumes at once.
 	maxResumed = 8
 	// sweepBatch is how many unsettled callbacks one sweep reads.
@@ -179,7 +176,9 @@ func (s *Server) deliver(ctx context.Context, job store.Job) {
 		if attempt > 1 && !last.IsZero() {
 			wait = max(0, time.Until(last.Add(s.backoff(attempt-1))))
 		}
-		ok, err := s.st.ClaimCallback(ctx, job.ID, s.cfg.WorkerID, wait+s.cfg.CallbackTimeout+claimSlack)
+		// The claim covers the wait, the attempt, and as long again for the
+		// store writes around it.
+		ok, err := s.st.ClaimCallback(ctx, job.ID, s.cfg.WorkerID, wait+2*s.cfg.CallbackTimeout)
 		if err != nil {
 			if ctx.Err() == nil {
 				log.Error("callback: claim", "err", err)

@@ -8,6 +8,7 @@ import (
 	"io"
 	"net"
 	"net/http"
+	"net/http/httptest"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -319,5 +320,88 @@ func TestSIGTERMHandsBackRunningJob(t *testing.T) {
 	want := []store.Status{store.StatusQueued, store.StatusRunning, store.StatusQueued, store.StatusRunning, store.StatusSucceeded}
 	if fmt.Sprint(seq) != fmt.Sprint(want) {
 		t.Errorf("history %v, want %v (created, claimed by A, handed back, claimed by B, done)", seq, want)
+	}
+}
+
+// TestKilledProcessCallbackDeliveredByAnother: a job finishes while its
+// callback receiver is down, and the process that ran it is killed
+// (SIGKILL) between delivery attempts. Another process on the same
+// database resumes the callback: the receiver gets it once, validly
+// signed, as the next attempt, and every attempt is recorded.
+func TestKilledProcessCallbackDeliveredByAnother(t *testing.T) {
+	if testing.Short() {
+		t.Skip("builds the binary and runs two servers; skipped with -short")
+	}
+	dsn := pgtest.URL(t)
+	bin := buildBinary(t)
+	key := createKey(t, bin, dsn, "callback-kill-test")
+	st, err := store.Open(context.Background(), dsn)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer st.Close()
+	ctx := context.Background()
+	k, err := st.LookupAPIKey(ctx, key)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rc := &switchReceiver{secret: k.Secret}
+	recv := httptest.NewServer(rc)
+	defer recv.Close()
+
+	// Retry window: 4 × 500 ms timeouts + 300 + 600 + 1200 ms of back-off.
+	args := []string{"--workers", "1", "--callback-attempts", "4", "--callback-backoff", "300ms",
+		"--callback-timeout", "500ms", "--callback-sweep", "200ms"}
+	a := startServe(t, bin, dsn, "serve A", args...)
+	job := ethanolJob()
+	job["callback_url"] = recv.URL + "/eln/hook"
+	var j server.JobView
+	if r := (client{t: t, base: a.base, key: key}).do("POST", "/v1/jobs", job); r.status != http.StatusAccepted {
+		t.Fatalf("submit = %d %s", r.status, r.body)
+	} else {
+		r.decode(t, &j)
+	}
+	for deadline := time.Now().Add(30 * time.Second); ; time.Sleep(10 * time.Millisecond) {
+		if ds, _ := st.Deliveries(ctx, j.ID); len(ds) > 0 {
+			break
+		}
+		if time.Now().After(deadline) {
+			t.Fatalf("no delivery attempt by A within 30 s:\n%s", a.Log())
+		}
+	}
+	a.kill(t)
+	ds, err := st.Deliveries(ctx, j.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tried := len(ds)
+	if tried >= 4 {
+		t.Fatalf("A made all %d attempts before it was killed", tried)
+	}
+
+	rc.up.Store(true)
+	startServe(t, bin, dsn, "serve B", args...)
+	for deadline := time.Now().Add(30 * time.Second); ; time.Sleep(20 * time.Millisecond) {
+		if _, _, got := rc.counts(); len(got) > 0 {
+			break
+		}
+		if time.Now().After(deadline) {
+			t.Fatal("B did not deliver the callback within 30 s")
+		}
+	}
+	time.Sleep(500 * time.Millisecond) // more sweeps: none may send it again
+	_, bad, got := rc.counts()
+	if bad != 0 || len(got) != 1 {
+		t.Fatalf("receiver got %d good and %d badly signed callbacks; want exactly 1 good one", len(got), bad)
+	}
+	if p := got[0]; p.Attempt != tried+1 || p.Job.ID != j.ID || p.Job.Status != store.StatusSucceeded {
+		t.Errorf("resumed payload = %+v, want attempt %d for succeeded job %s", p, tried+1, j.ID)
+	}
+	ds, err = st.Deliveries(ctx, j.ID)
+	if err != nil || len(ds) != tried+1 || ds[tried].StatusCode != http.StatusNoContent {
+		t.Errorf("deliveries = %+v, %v; want A's %d and B's one answered 204", ds, err, tried)
+	}
+	if got, err := st.GetJob(ctx, k.ID, j.ID); err != nil || !got.CallbackDone {
+		t.Errorf("callback done = %v, %v after delivery; want true", got.CallbackDone, err)
 	}
 }

@@ -43,6 +43,10 @@ func runServe(ctx context.Context, args []string, e env) error {
 	anon := fs.Bool("allow-anonymous", false, "accept requests without an API key (they share one anonymous owner)")
 	lease := fs.Duration("lease", 30*time.Second, "how long a claimed job stays with its worker without renewal; a dead worker's job is taken up again after this")
 	grace := fs.Duration("grace", 30*time.Second, "on shutdown, how long running jobs may finish before they are handed back to the queue")
+	cbAttempts := fs.Int("callback-attempts", 6, "most deliveries of one job's callback")
+	cbBackoff := fs.Duration("callback-backoff", time.Second, "delay before the second callback delivery, doubled before each further one")
+	cbTimeout := fs.Duration("callback-timeout", 10*time.Second, "time allowed for one callback delivery")
+	cbSweep := fs.Duration("callback-sweep", 30*time.Second, "how often to resume callbacks that a stopped or dead process left undelivered")
 	fs.Usage = func() {
 		fmt.Fprintln(e.stderr, "usage: shiftrank serve [flags]")
 		fmt.Fprintln(e.stderr)
@@ -81,6 +85,10 @@ func runServe(ctx context.Context, args []string, e env) error {
 		return badInputf("serve: --max-body must be at least 1024 bytes")
 	case *lease < time.Second:
 		return badInputf("serve: --lease must be at least 1s")
+	case *cbAttempts < 1:
+		return badInputf("serve: --callback-attempts must be at least 1")
+	case *cbBackoff <= 0 || *cbTimeout <= 0 || *cbSweep <= 0:
+		return badInputf("serve: --callback-backoff, --callback-timeout and --callback-sweep must be positive")
 	}
 	if *baseURL != "" && !strings.HasPrefix(*baseURL, "http://") && !strings.HasPrefix(*baseURL, "https://") {
 		return badInputf("serve: --base-url %q must start with http:// or https://", *baseURL)
@@ -133,16 +141,20 @@ func runServe(ctx context.Context, args []string, e env) error {
 	}
 	rk := ranker.New(ranker.Options{Workers: max(1, runtime.GOMAXPROCS(0)/max(nw, 1))})
 	srv := server.New(log, st, rk, server.Config{
-		Workers:         *workers,
-		MaxHeavyAtoms:   *maxHeavy,
-		MaxCandidates:   *maxCand,
-		TimeBudget:      *budget,
-		MaxBodyBytes:    *maxBody,
-		BaseURL:         public,
-		AllowAnonymous:  allowAnon,
-		AnonymousSecret: anonSecret,
-		Lease:           *lease,
-		Web:             web.Handler(),
+		Workers:          *workers,
+		MaxHeavyAtoms:    *maxHeavy,
+		MaxCandidates:    *maxCand,
+		TimeBudget:       *budget,
+		MaxBodyBytes:     *maxBody,
+		BaseURL:          public,
+		AllowAnonymous:   allowAnon,
+		AnonymousSecret:  anonSecret,
+		Lease:            *lease,
+		CallbackAttempts: *cbAttempts,
+		CallbackBackoff:  *cbBackoff,
+		CallbackTimeout:  *cbTimeout,
+		CallbackSweep:    *cbSweep,
+		Web:              web.Handler(),
 	})
 	srv.Start()
 	hs := &http.Server{
