@@ -10,6 +10,13 @@
 // shared part, and a job whose worker dies is taken up again once its lease
 // expires.
 //
+// When a job with a callback URL ends, its signed summary is POSTed there,
+// retried with bounded exponential back-off; every attempt is recorded in
+// the store. The deliveries are durable: each server periodically sweeps
+// the store for callbacks left unsettled longer than its retry window (their
+// process stopped or died) and resumes them from the recorded attempts,
+// claiming each under a short lease so that one process sends it.
+//
 // Errors are RFC 9457 problem details (application/problem+json) with an
 // "errors" list naming each bad field. Requests carry an API key as
 // "Authorization: Bearer KEY"; each key sees only its own jobs. Anonymous
