@@ -1,9 +1,11 @@
 package server_test
 
 import (
+	"io"
 	"net/http"
 	"strings"
 	"testing"
+	"time"
 
 	"shiftrank/server"
 	"shiftrank/store"
@@ -94,5 +96,46 @@ func TestPredict(t *testing.T) {
 		if r.status != http.StatusBadRequest || len(p.Errors) == 0 || p.Errors[0].Field != tc.field {
 			t.Errorf("predict %s = %d %s, want 400 naming %s", tc.body, r.status, r.body, tc.field)
 		}
+	}
+}
+
+// TestSyncRequestsBounded: with MaxSyncRequests 1, a second synchronous
+// request while one runs gets 503 with Retry-After; after it, one is served.
+func TestSyncRequestsBounded(t *testing.T) {
+	_, hs := startServer(t, store.NewMemory(), &fakeRanker{}, server.Config{AllowAnonymous: true, Workers: -1, MaxSyncRequests: 1})
+	// The first request holds its slot while the server waits for its body.
+	pr, pw := io.Pipe()
+	first := make(chan int, 1)
+	go func() {
+		resp, err := http.Post(hs.URL+"/v1/isomers:count", "application/json", pr)
+		if err != nil {
+			first <- 0
+			return
+		}
+		resp.Body.Close()
+		first <- resp.StatusCode
+	}()
+	c := client{t: t, base: hs.URL}
+	var busy reply
+	for deadline := time.Now().Add(5 * time.Second); ; time.Sleep(10 * time.Millisecond) {
+		busy = c.do("POST", "/v1/predict", map[string]any{"smiles": "CCO"})
+		if busy.status == http.StatusServiceUnavailable {
+			break
+		}
+		if time.Now().After(deadline) {
+			t.Fatalf("second synchronous request = %d %s, want 503 while the first runs", busy.status, busy.body)
+		}
+	}
+	if busy.header.Get("Retry-After") == "" {
+		t.Error("503 without Retry-After")
+	}
+	problemOf(t, busy)
+	_, _ = pw.Write([]byte(`{"formula":"C4H10"}`))
+	pw.Close()
+	if code := <-first; code != http.StatusOK {
+		t.Errorf("first request = %d, want 200", code)
+	}
+	if r := c.do("POST", "/v1/predict", map[string]any{"smiles": "CCO"}); r.status != http.StatusOK {
+		t.Errorf("request after the first ended = %d %s, want 200", r.status, r.body)
 	}
 }

@@ -121,3 +121,20 @@ func (s *Server) authenticate(next http.Handler) http.Handler {
 		next.ServeHTTP(w, r.WithContext(context.WithValue(r.Context(), ownerKey, c)))
 	})
 }
+
+// limitSync admits a synchronous computation only while fewer than
+// Config.MaxSyncRequests run; others get 503 with Retry-After at once
+// rather than queueing behind them.
+func (s *Server) limitSync(next http.Handler) http.Handler {
+	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
+		select {
+		case s.syncSlots <- struct{}{}:
+		default:
+			w.Header().Set("Retry-After", "1")
+			s.writeError(w, r, errorf(CodeUnavailable, "the server is busy with other synchronous requests; retry in a moment, or submit a job"))
+			return
+		}
+		defer func() { <-s.syncSlots }()
+		next.ServeHTTP(w, r)
+	})
+}

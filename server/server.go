@@ -37,6 +37,11 @@ type Config struct {
 	// MaxCountLimit bounds the structures POST /v1/isomers:count enumerates
 	// (default 1,000,000).
 	MaxCountLimit int64
+	// MaxSyncRequests bounds the synchronous computations (POST /v1/predict
+	// and /v1/isomers:count) run at once (default runtime.NumCPU()); a
+	// request beyond it gets 503 with Retry-After, so that they cannot crowd
+	// out the job workers.
+	MaxSyncRequests int
 	// BaseURL is the public base URL (scheme and host, optional path
 	// prefix, no trailing slash) used for Location headers and in callback
 	// payloads. "" means relative Locations.
@@ -99,6 +104,9 @@ func (c Config) withDefaults() Config {
 	}
 	if c.MaxCountLimit == 0 {
 		c.MaxCountLimit = 1_000_000
+	}
+	if c.MaxSyncRequests <= 0 {
+		c.MaxSyncRequests = runtime.NumCPU()
 	}
 	c.BaseURL = strings.TrimRight(c.BaseURL, "/")
 	if c.Lease == 0 {
@@ -172,6 +180,8 @@ type Server struct {
 	delivering map[string]bool
 	// resumeSlots bounds the callbacks resumed by sweeps at once.
 	resumeSlots chan struct{}
+	// syncSlots bounds the synchronous computations run at once.
+	syncSlots chan struct{}
 }
 
 // New returns a server using st for jobs and rk for rankings. It does not
@@ -187,6 +197,7 @@ func New(logger *slog.Logger, st JobStore, rk Ranker, cfg Config) *Server {
 		delivering:  make(map[string]bool),
 		resumeSlots: make(chan struct{}, maxResumed),
 	}
+	s.syncSlots = make(chan struct{}, s.cfg.MaxSyncRequests)
 	s.bgCtx, s.bgCancel = context.WithCancel(context.Background())
 	s.openapi, s.openapiErr = openAPIDoc(s.cfg.BaseURL)
 	s.router = s.routes()
@@ -218,8 +229,8 @@ func (s *Server) routes() chi.Router {
 			r.Get("/jobs/{id}/candidates", s.handleCandidates)
 			r.Get("/jobs/{id}/candidates/{rank}", s.handleCandidate)
 			r.Post("/jobs/{id}/cancel", s.handleCancel)
-			r.Post("/predict", s.handlePredict)
-			r.Post("/isomers:count", s.handleCount)
+			r.With(s.limitSync).Post("/predict", s.handlePredict)
+			r.With(s.limitSync).Post("/isomers:count", s.handleCount)
 		})
 	})
 	web := s.cfg.Web

@@ -39,6 +39,7 @@ func runServe(ctx context.Context, args []string, e env) error {
 	maxCand := fs.Int64("max-candidates", 2_000_000, "most isomers scored per job")
 	budget := fs.Duration("time-budget", 60*time.Second, "ranking time per job; the best candidates so far are kept when it runs out")
 	maxBody := fs.Int64("max-body", 1<<20, "largest request body accepted, bytes")
+	maxSync := fs.Int("max-sync-requests", 0, "synchronous predict and isomer-count requests run at once; more get 503 (0 = number of cores)")
 	baseURL := fs.String("base-url", "", "public base URL for Location headers and callbacks, e.g. https://nmr.example.org (default http://ADDR)")
 	anon := fs.Bool("allow-anonymous", false, "accept requests without an API key (they share one anonymous owner)")
 	lease := fs.Duration("lease", 30*time.Second, "how long a claimed job stays with its worker without renewal; a dead worker's job is taken up again after this")
@@ -85,6 +86,8 @@ func runServe(ctx context.Context, args []string, e env) error {
 		return badInputf("serve: --max-body must be at least 1024 bytes")
 	case *lease < time.Second:
 		return badInputf("serve: --lease must be at least 1s")
+	case *maxSync < 0:
+		return badInputf("serve: --max-sync-requests must not be negative")
 	case *cbAttempts < 1:
 		return badInputf("serve: --callback-attempts must be at least 1")
 	case *cbBackoff <= 0 || *cbTimeout <= 0 || *cbSweep <= 0:
@@ -146,6 +149,7 @@ func runServe(ctx context.Context, args []string, e env) error {
 		MaxCandidates:    *maxCand,
 		TimeBudget:       *budget,
 		MaxBodyBytes:     *maxBody,
+		MaxSyncRequests:  *maxSync,
 		BaseURL:          public,
 		AllowAnonymous:   allowAnon,
 		AnonymousSecret:  anonSecret,
