@@ -190,9 +190,15 @@ func (s *Server) deliver(ctx context.Context, job store.Job) {
 			return
 		}
 		if wait > 0 {
+			// A delivery waiting out its back-off does not hold up Shutdown:
+			// its state is in the store, and a sweep resumes it.
 			t := time.NewTimer(wait)
 			select {
 			case <-ctx.Done():
+				t.Stop()
+				s.pauseCallback(ctx, log, job.ID, attempt)
+				return
+			case <-s.stopping:
 				t.Stop()
 				s.pauseCallback(ctx, log, job.ID, attempt)
 				return

@@ -51,10 +51,10 @@ func (s *Server) Start() {
 
 // Shutdown stops the pool: workers claim no more jobs, running jobs may
 // finish until ctx is done, and those still running then are handed back
-// to the queue (ReleaseJob) for another worker. Pending callback
-// deliveries get the same grace; those still waiting then stay unsettled in
-// the store, and the sweep of another process resumes them. It returns once
-// every worker and delivery has stopped.
+// to the queue (ReleaseJob) for another worker. A callback delivery under
+// way gets the same grace; one waiting out its back-off stops at once. Both
+// stay unsettled in the store, and the sweep of another process resumes
+// them. It returns once every worker and delivery has stopped.
 func (s *Server) Shutdown(ctx context.Context) error {
 	s.mu.Lock()
 	select {
