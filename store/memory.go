@@ -604,14 +604,13 @@ func (m *Memory) MarkCallbackDone(ctx context.Context, id string) error {
 }
 
 // ClaimCallback takes job id's callback for workerID until lease from now,
-// so that one process at a time delivers it. It reports true when the
-// caller holds the claim: the job is finished, has a callback URL, its
-// callback is not settled (MarkCallbackDone), and no other worker holds an
-// unexpired claim. The holder renews by claiming again, and gives
-// the claim up by claiming with a zero lease. It reports false,
-// changing nothing, when another worker holds the claim or there is nothing
-// to deliver. ErrNotFound for an unknown job. It takes no owner: it is for
-// the delivery worker.
+// so that one process at a time delivers it. It reports true when the caller
+// holds the claim: the job is finished, has a callback URL, its callback is
+// not settled (MarkCallbackDone), and no other worker holds an unexpired
+// claim. The holder renews by claiming again, and gives the claim up by
+// claiming with a zero lease. It reports false, changing nothing, when
+// another worker holds the claim or there is nothing to deliver. ErrNotFound
+// for an unknown job. It takes no owner: it is for the delivery worker.
 func (m *Memory) ClaimCallback(ctx context.Context, id, workerID string, lease time.Duration) (bool, error) {
 	if err := ctx.Err(); err != nil {
 		return false, fmt.Errorf("claim callback: %w", err)

@@ -778,11 +778,11 @@ func (p *Postgres) MarkCallbackDone(ctx context.Context, id string) error {
 // true when the caller holds the claim: the job is finished, has a callback
 // URL, its callback is not settled (MarkCallbackDone), and no other worker
 // holds an unexpired claim. The holder renews by claiming again, and gives
-// the claim up by claiming with a zero lease. It reports
-// false, changing nothing, when another worker holds the claim or there is
-// nothing to deliver. ErrNotFound for an unknown job. The update takes the
-// job's row lock, so of two processes claiming at once exactly one wins. It
-// takes no owner: it is for the delivery worker.
+// the claim up by claiming with a zero lease. It reports false, changing
+// nothing, when another worker holds the claim or there is nothing to
+// deliver. ErrNotFound for an unknown job. The update takes the job's row
+// lock, so of two processes claiming at once exactly one wins. It takes no
+// owner: it is for the delivery worker.
 func (p *Postgres) ClaimCallback(ctx context.Context, id, workerID string, lease time.Duration) (bool, error) {
 	tag, err := p.pool.Exec(ctx, `UPDATE jobs
 		SET callback_claim_owner = $2, callback_claim_until = clock_timestamp() + $3 * interval '1 microsecond'
