@@ -289,6 +289,11 @@ func (s *Server) sweepCallbacks(ctx context.Context) {
 		return
 	}
 	for _, j := range jobs {
+		if j.Owner == "" && len(s.cfg.AnonymousSecret) == 0 {
+			// An anonymous callback this process cannot sign: the process
+			// that accepted the job had the secret, and so may another.
+			continue
+		}
 		select {
 		case <-s.stopping:
 			return
