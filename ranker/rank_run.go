@@ -325,7 +325,29 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 
 	var wg sync.WaitGroup
 	stopProgress := make(chan struct{})
+	var totalEstimate atomic.Int64
 	if progress != nil {
+		// The isomer count runs far faster than scoring, so a short count
+		// on one core gives the progress reports their total: exact when it
+		// finishes, else extrapolated from the share of the search space it
+		// covered.
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			cctx, ccancel := context.WithTimeout(gctx, estimateBudget)
+			defer ccancel()
+			st, err := isomers.Count(cctx, j.formula, isomers.Options{Filter: j.filter, Workers: 1})
+			if err != nil && cctx.Err() == nil {
+				return
+			}
+			total := st.Emitted
+			if !st.Complete && st.Fraction > 0 {
+				total = int64(float64(st.Emitted) / st.Fraction)
+			}
+			if total > 0 && (st.Complete || st.Fraction > 0) {
+				totalEstimate.Store(total)
+			}
+		}()
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
@@ -336,7 +358,7 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 				case <-stopProgress:
 					return
 				case <-t.C:
-					progress(Progress{Generated: generated.Load(), Scored: scored.Load()})
+					progress(Progress{Generated: generated.Load(), Scored: scored.Load(), TotalEstimate: totalEstimate.Load()})
 				}
 			}
 		}()
@@ -458,6 +480,10 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 }
 
 var errBudget = errors.New("time budget exhausted")
+
+// estimateBudget bounds the isomer count that gives progress reports their
+// estimated total.
+const estimateBudget = 2 * time.Second
 
 func orDefault(s, d string) string {
 	if s == "" {

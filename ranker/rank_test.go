@@ -314,3 +314,32 @@ func TestRankFragmentConstraints(t *testing.T) {
 		t.Errorf("constrained probability %.6f below unconstrained %.6f", res.Candidates[0].Probability, all.Candidates[0].Probability)
 	}
 }
+
+// TestRankProgressEstimatesTotal checks that progress reports carry an
+// estimate of the total while the ranking runs, not only at the end. The
+// expected value is the ranking's own final isomer count (a consistency
+// check; the count itself is checked against published values in isomers).
+func TestRankProgressEstimatesTotal(t *testing.T) {
+	req := Request{Formula: "C9H18O2", Peaks: mustPeaks(t, "4.05 (t, J = 6.7 Hz, 2H), 2.29 (t, J = 7.5 Hz, 2H), 1.62 (m, 4H), 1.30 (m, 4H), 0.90 (t, J = 7.0 Hz, 6H)"), TopK: 1}
+	var mu atomic.Int64
+	var early atomic.Int64 // a TotalEstimate seen before scoring ended
+	res, err := New(Options{ProgressInterval: 5 * time.Millisecond}).Rank(context.Background(), req, func(p Progress) {
+		mu.Add(1)
+		if p.TotalEstimate > 0 && p.Scored > 0 && p.Scored < p.TotalEstimate {
+			early.Store(p.TotalEstimate)
+		}
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !res.Complete {
+		t.Fatalf("C9H18O2 ranking incomplete: %v", res.Warnings)
+	}
+	got := early.Load()
+	if got == 0 {
+		t.Fatalf("no progress report (of %d) carried a total estimate while scoring ran", mu.Load())
+	}
+	if got != res.IsomersTotal {
+		t.Errorf("progress TotalEstimate = %d while running, final isomers_total = %d", got, res.IsomersTotal)
+	}
+}
