@@ -326,6 +326,10 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 	var wg sync.WaitGroup
 	stopProgress := make(chan struct{})
 	var totalEstimate atomic.Int64
+	// The count stops when the ranking's own generation ends, so a quick
+	// ranking never waits for it.
+	cctx, ccancel := context.WithTimeout(gctx, estimateBudget)
+	defer ccancel()
 	if progress != nil {
 		// The isomer count runs far faster than scoring, so a short count
 		// on one core gives the progress reports their total: exact when it
@@ -334,8 +338,6 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			cctx, ccancel := context.WithTimeout(gctx, estimateBudget)
-			defer ccancel()
 			st, err := isomers.Count(cctx, j.formula, isomers.Options{Filter: j.filter, Workers: 1})
 			if err != nil && cctx.Err() == nil {
 				return
@@ -409,6 +411,7 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 		return true
 	}
 	stats, gerr := isomers.GenerateConcurrent(gctx, j.formula, isomers.Options{Filter: j.filter, Limit: j.maxCand, Workers: r.workers}, yield)
+	ccancel()
 	close(stopProgress)
 	wg.Wait()
 	if ctx.Err() != nil {
