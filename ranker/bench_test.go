@@ -144,3 +144,43 @@ func BenchmarkRank(b *testing.B) {
 		})
 	}
 }
+
+// TestValidationAccuracy ranks the independent validation set
+// (testdata/validation.json: handbook CDCl3 spectra of compounds that are
+// in neither the accuracy set nor the predictor's tables, added after the
+// increments and the likelihood were fixed; sources in the file). It guards
+// the product's top-1 target on data the model was never tuned on; the
+// top-3 figure is logged, not asserted (it was 92.9 % when the set was
+// added: cyclohexanol and 1,1-diethoxyethane are missed because their
+// diastereotopic CH2 groups, which have no stereocentre, are predicted as
+// one signal).
+func TestValidationAccuracy(t *testing.T) {
+	if testing.Short() {
+		t.Skip("validation benchmark over testdata/validation.json skipped in -short mode; run go test -run TestValidationAccuracy ./ranker")
+	}
+	b, err := os.ReadFile("../testdata/validation.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	set, err := ParseReferenceSet(b)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rep, err := New(Options{}).Bench(context.Background(), set, BenchOptions{TopK: 3, TimeBudget: 60 * time.Second}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range rep.Cases {
+		if c.Error != "" {
+			t.Errorf("%s: %s", c.Name, c.Error)
+		}
+		if c.Rank != 1 {
+			t.Logf("miss: %s (%s) true %s at rank %d, first %s (p %.3f)", c.Name, c.Formula, c.SMILES, c.Rank, c.TopSMILES, c.TopProbability)
+		}
+	}
+	t.Logf("%d compounds: top-1 %.1f %%, top-3 %.1f %%, MRR %.3f; mean top probability %.3f vs top-1 rate %.3f (%.1f s)",
+		rep.N, 100*rep.Top1, 100*rep.Top3, rep.MRR, rep.MeanTopProbability, rep.Top1, rep.Seconds)
+	if rep.Top1 < targetTop1 {
+		t.Errorf("validation top-1 %.1f %% below the %.0f %% target", 100*rep.Top1, 100*targetTop1)
+	}
+}
