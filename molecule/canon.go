@@ -566,7 +566,8 @@ func (c *Canonicalizer) refine(d int) {
 // splitByCount splits cell s by c.cnt, queues the new parts and returns
 // the number of cells added. members are the vertices of the cell with a
 // non-zero count; the others (count 0) stay in front unsorted, as in
-// nauty, so a splitter touching few vertices of a big cell costs little.
+// McKay's partition refinement (McKay, Congr. Numer. 30 (1981) 45–87), so a
+// splitter touching few vertices of a big cell costs little.
 func (c *Canonicalizer) splitByCount(lab, inv, cs, cl []int32, s int32, members []int32) int {
 	e := s + cl[s]
 	cnt := c.cnt
