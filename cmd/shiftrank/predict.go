@@ -15,9 +15,6 @@ import (
 	"shiftrank/predict"
 )
 
-// predictCaution is printed with every prediction shown to a user.
-const predictCaution = "Predicted values are estimates from additive increment tables; confirm structures against an authentic sample or further spectra. Not for forensic, clinical or safety decisions on its own."
-
 // runPredict predicts the 1H spectrum of one SMILES:
 //
 //	shiftrank predict SMILES [--mhz 400] [--linewidth 1.0] [--json]
@@ -74,7 +71,7 @@ func runPredict(ctx context.Context, args []string, e env) error {
 	if err != nil {
 		return badInput(fmt.Errorf("predict %q: %w", smi, err))
 	}
-	out := makePredictOutput(smi, g, *mhz, sp)
+	out := predict.NewReport(smi, g, *mhz, sp)
 	if *asJSON {
 		enc := json.NewEncoder(e.stdout)
 		enc.SetIndent("", "  ")
@@ -83,92 +80,7 @@ func runPredict(ctx context.Context, args []string, e env) error {
 	return writePredictTable(e.stdout, out)
 }
 
-type predictOutput struct {
-	SMILES          string           `json:"smiles"`
-	CanonicalSMILES string           `json:"canonical_smiles"`
-	Formula         string           `json:"formula"`
-	MHz             float64          `json:"mhz"`
-	Environments    []predictEnvJSON `json:"environments"`
-	Notes           []string         `json:"notes,omitempty"`
-	Caution         string           `json:"caution"`
-}
-
-type predictEnvJSON struct {
-	ID             int               `json:"id"`
-	Atoms          []int             `json:"atoms"`
-	H              int               `json:"h"`
-	Kind           string            `json:"kind"`
-	Shift          float64           `json:"shift"`
-	Sigma          float64           `json:"sigma"`
-	ShiftMin       float64           `json:"shift_min"`
-	ShiftMax       float64           `json:"shift_max"`
-	Multiplicity   string            `json:"multiplicity"`
-	J              []float64         `json:"j"`
-	Exchangeable   bool              `json:"exchangeable"`
-	Diastereotopic bool              `json:"diastereotopic"`
-	Neighbours     []int             `json:"neighbours"`
-	Couplings      []predictCoupling `json:"couplings"`
-	Breakdown      []predict.Term    `json:"breakdown"`
-	Reasons        []string          `json:"reasons"`
-}
-
-type predictCoupling struct {
-	Env      int     `json:"env"`
-	N        int     `json:"n"`
-	J        float64 `json:"j"`
-	Label    string  `json:"label"`
-	Nucleus  string  `json:"nucleus,omitempty"`
-	Resolved bool    `json:"resolved"`
-	Atoms    []int   `json:"atoms"`
-}
-
-func makePredictOutput(smi string, g *molecule.Graph, mhz float64, sp *predict.Spectrum) predictOutput {
-	out := predictOutput{
-		SMILES:          smi,
-		CanonicalSMILES: molecule.CanonicalSMILES(g),
-		Formula:         g.Formula().String(),
-		MHz:             mhz,
-		Environments:    make([]predictEnvJSON, 0, len(sp.Environments)),
-		Notes:           sp.Notes,
-		Caution:         predictCaution,
-	}
-	for _, en := range sp.Environments {
-		j := predictEnvJSON{
-			ID: en.ID, Atoms: en.Atoms, H: en.H, Kind: en.Kind, Shift: en.Shift, Sigma: en.Sigma,
-			ShiftMin: en.ShiftMin, ShiftMax: en.ShiftMax, Multiplicity: en.Multiplicity, J: en.J,
-			Exchangeable: en.Exchangeable, Diastereotopic: en.Diastereotopic,
-			Neighbours: []int{}, Couplings: []predictCoupling{}, Breakdown: en.Breakdown, Reasons: en.Reasons,
-		}
-		if j.J == nil {
-			j.J = []float64{}
-		}
-		if j.Breakdown == nil {
-			j.Breakdown = []predict.Term{}
-		}
-		if j.Reasons == nil {
-			j.Reasons = []string{}
-		}
-		for _, c := range en.Couplings {
-			j.Couplings = append(j.Couplings, predictCoupling{Env: c.Env, N: c.N, J: c.J, Label: c.Label, Nucleus: c.Nucleus, Resolved: c.Resolved, Atoms: c.Atoms})
-			if c.Resolved && c.Env >= 0 && !containsInt(j.Neighbours, c.Env) {
-				j.Neighbours = append(j.Neighbours, c.Env)
-			}
-		}
-		out.Environments = append(out.Environments, j)
-	}
-	return out
-}
-
-func containsInt(s []int, x int) bool {
-	for _, y := range s {
-		if y == x {
-			return true
-		}
-	}
-	return false
-}
-
-func writePredictTable(w io.Writer, out predictOutput) error {
+func writePredictTable(w io.Writer, out predict.Report) error {
 	bw := bufio.NewWriter(w)
 	fmt.Fprintf(bw, "%s  (%s, canonical %s)  predicted 1H NMR at %g MHz\n\n", out.SMILES, out.Formula, out.CanonicalSMILES, out.MHz)
 	if len(out.Environments) == 0 {
