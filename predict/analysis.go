@@ -15,6 +15,9 @@ type mol struct {
 	orbit    []int   // automorphism orbit representative (molecule.Canonicalize)
 	label    []int   // canonical label
 	stereo   bool    // the molecule has a stereocentre
+	// prochiral: some atom could become a stereocentre when one H of a
+	// CH2 elsewhere is replaced (see prochiralAt)
+	prochiral bool
 	// scratch for breadth-first searches
 	dist  []int16
 	queue []int
@@ -33,6 +36,7 @@ type work struct {
 	groups []hgroup
 	jbuf   []jterm
 	rings  []int
+	marked []int // orbits of a marked copy (markedStereocentres)
 }
 
 func growInt16(s []int16, n int) []int16 {
@@ -121,6 +125,14 @@ func (w *work) analyse(g *molecule.Graph) *mol {
 		}
 	}
 	m.stereo = m.hasStereocentre()
+	if !m.stereo {
+		for d := range g.Atoms {
+			if m.prochiralAt(d) {
+				m.prochiral = true
+				break
+			}
+		}
+	}
 	return m
 }
 
@@ -251,45 +263,110 @@ func (m *mol) hybrid(x int) int {
 // sulfoxide S with two different substituents, or a P with three or four
 // different substituents.
 func (m *mol) hasStereocentre() bool {
-	g := m.g
-	for i, a := range g.Atoms {
-		nbs := g.Neighbors(i)
-		switch a.Element {
-		case molecule.C, molecule.Si:
-			if a.HCount > 1 || len(nbs)+a.HCount != 4 || m.multi[i] > 0 {
-				continue
-			}
-		case molecule.S:
-			if a.HCount > 0 || len(nbs) != 3 || m.doubleCount(i) != 1 {
-				continue
-			}
-		case molecule.P:
-			if a.HCount > 1 || len(nbs)+a.HCount < 3 {
-				continue
-			}
-		default:
-			continue
-		}
-		if m.distinctNeighbours(i) {
+	for i := range m.g.Atoms {
+		if m.stereoShape(i) && m.distinctNeighbours(i, m.orbit) {
 			return true
 		}
 	}
 	return false
 }
 
+// stereoShape reports whether atom i has the shape of a stereocentre (see
+// hasStereocentre), whatever its substituents.
+func (m *mol) stereoShape(i int) bool {
+	a := m.g.Atoms[i]
+	nbs := m.g.Neighbors(i)
+	switch a.Element {
+	case molecule.C, molecule.Si:
+		return a.HCount <= 1 && len(nbs)+a.HCount == 4 && m.multi[i] == 0
+	case molecule.S:
+		return a.HCount == 0 && len(nbs) == 3 && m.doubleCount(i) == 1
+	case molecule.P:
+		return a.HCount <= 1 && len(nbs)+a.HCount >= 3
+	}
+	return false
+}
+
 // distinctNeighbours reports whether the neighbours of atom i lie in
-// pairwise different orbits (also distinguishing the bond order, so the
-// two O of a sulfoxide-like centre count as different).
-func (m *mol) distinctNeighbours(i int) bool {
+// pairwise different orbits of orbit (also distinguishing the bond order,
+// so the two O of a sulfoxide-like centre count as different).
+func (m *mol) distinctNeighbours(i int, orbit []int) bool {
 	nbs := m.g.Neighbors(i)
 	for x := 0; x < len(nbs); x++ {
 		for y := x + 1; y < len(nbs); y++ {
-			if m.orbit[nbs[x].Atom] == m.orbit[nbs[y].Atom] && nbs[x].Order == nbs[y].Order {
+			if orbit[nbs[x].Atom] == orbit[nbs[y].Atom] && nbs[x].Order == nbs[y].Order {
 				return false
 			}
 		}
 	}
 	return true
+}
+
+// prochiralAt reports whether atom d has the shape of a stereocentre and
+// exactly one pair of equivalent neighbours, both with further bonds, so
+// that marking an atom inside one of the two branches can make d a
+// stereocentre (the acetal C of 1,1-diethoxyethane; not the CH of an
+// isopropyl group, whose equivalent branches are bare CH3).
+func (m *mol) prochiralAt(d int) bool {
+	if !m.stereoShape(d) {
+		return false
+	}
+	g := m.g
+	nbs := g.Neighbors(d)
+	pairs := 0
+	for x := 0; x < len(nbs); x++ {
+		for y := x + 1; y < len(nbs); y++ {
+			if m.orbit[nbs[x].Atom] == m.orbit[nbs[y].Atom] && nbs[x].Order == nbs[y].Order {
+				if pairs++; pairs > 1 || g.Degree(nbs[x].Atom) < 2 {
+					return false
+				}
+			}
+		}
+	}
+	return pairs == 1
+}
+
+// markedStereocentres reports whether the two H of the sp3 CH2 carbon c
+// are diastereotopic by the substitution test (common practice: replacing
+// one or the other geminal H by a test group gives diastereomers),
+// decided on the constitution of a molecule that has no stereocentre:
+// with one H of c replaced by a unique marker, c must become a
+// stereocentre (its two heavy neighbours differ) and so must some other
+// atom (a prochiral centre whose two equivalent branches the marker tells
+// apart). Two stereocentres make the two marked molecules diastereomers.
+// Marking c is the same as fixing c, so the marked molecule is the graph
+// plus one atom of an element the molecule lacks, bonded to c.
+func (m *mol) markedStereocentres(c int) bool {
+	g := m.g
+	nbs := g.Neighbors(c)
+	if !m.prochiral || len(nbs) != 2 || m.orbit[nbs[0].Atom] == m.orbit[nbs[1].Atom] {
+		return false
+	}
+	var present [molecule.NumElements]bool
+	for _, a := range g.Atoms {
+		present[a.Element] = true
+	}
+	mark := molecule.NoElement
+	for e := molecule.B; e < molecule.NumElements; e++ {
+		if !present[e] {
+			mark = e
+			break
+		}
+	}
+	if mark == molecule.NoElement {
+		return false
+	}
+	mg := g.Clone()
+	mg.Atoms[c].HCount--
+	mg.MustAddBond(c, mg.AddAtom(mark, 0), molecule.Single)
+	orbit := m.w.canon.Orbits(m.w.marked[:0], mg)
+	m.w.marked = orbit
+	for d := range g.Atoms {
+		if d != c && m.prochiralAt(d) && m.distinctNeighbours(d, orbit) {
+			return true
+		}
+	}
+	return false
 }
 
 // ringFacesDiffer reports whether the ring system of atom c contains an sp3

@@ -186,12 +186,16 @@ func (p *Predictor) predict(m *mol, w *work) *Spectrum {
 		rep := &groups[reps[order[id]]]
 		a := g.Atoms[rep.atom]
 		if a.Element == molecule.C && a.HCount == 2 && rep.split == 0 && m.multi[rep.atom] == 0 && !m.arom[rep.atom] {
-			if m.stereo || (m.ringAtom[rep.atom] > 0 && m.ringFacesDiffer(rep.atom)) {
+			ringFaces := !m.stereo && m.ringAtom[rep.atom] > 0 && m.ringFacesDiffer(rep.atom)
+			if m.stereo || ringFaces || m.markedStereocentres(rep.atom) {
 				env.Diastereotopic = true
 				if p.opts.Explain {
 					why := "a stereocentre in the molecule"
-					if !m.stereo {
+					switch {
+					case ringFaces:
 						why = "the two faces of its ring differ"
+					case !m.stereo:
+						why = "replacing either H makes two stereocentres"
 					}
 					env.Reasons = append(env.Reasons, "diastereotopic CH2 ("+why+"): the two H may give separate signals")
 				}

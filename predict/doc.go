@@ -17,8 +17,10 @@
 //     when the other alkene carbon carries two different substituents (one
 //     hydrogen is cis, the other trans, to a given group).
 //
-// CH2 groups in a molecule with a stereocentre, or in a ring whose faces
-// differ, are flagged Diastereotopic but kept as one environment.
+// CH2 groups in a molecule with a stereocentre, in a ring whose faces
+// differ, or next to a prochiral centre that replacing one of their H
+// would make a second stereocentre (the OCH2 of an acetal CH(OEt)2), are
+// flagged Diastereotopic but kept as one environment.
 //
 // # Shifts
 //

@@ -241,3 +241,46 @@ func TestFieldDependence(t *testing.T) {
 		}
 	}
 }
+
+// TestDiastereotopic checks the CH2 flag against the substitution test
+// (common practice: two geminal H are diastereotopic when replacing one or
+// the other by a test group gives diastereomers) on handbook cases.
+func TestDiastereotopic(t *testing.T) {
+	p := New(Options{})
+	for _, tc := range []struct {
+		name   string
+		smiles string
+		atom   int
+		want   bool
+		source string
+	}{
+		{"cyclohexanol C2 H2", "OC1CCCCC1", 2, true, "Silverstein, Webster, Kiemle, Spectrometric Identification of Organic Compounds: 1.88 and ~1.2 (m, 2H each) for C2/C6; from memory"},
+		{"1,1-diethoxyethane OCH2", "CC(OCC)OCC", 3, true, "Pretsch, Bühlmann, Badertscher, Structure Determination of Organic Compounds: 3.63 and 3.48 (dq, J 9.4, 7.1 Hz); from memory"},
+		{"2-butanol C3 H2", "CCC(C)O", 1, true, "stereocentre next to the CH2; common practice"},
+		{"3-pentanol C2 H2", "CCC(O)CC", 1, true, "prochiral carbinol C; common practice, from memory"},
+		{"diethyl sulfoxide SCH2", "CCS(=O)CC", 1, true, "prochiral sulfoxide S; common practice, from memory"},
+		{"methylcyclohexane C2 H2", "CC1CCCCC1", 2, true, "ring faces differ (cis/trans to CH3); common practice"},
+		{"ethanol CH2", "CCO", 1, false, "enantiotopic (mirror plane); common practice"},
+		{"diethyl ether CH2", "CCOCC", 1, false, "enantiotopic; common practice"},
+		{"ethyl acetate OCH2", "CC(=O)OCC", 4, false, "enantiotopic; common practice"},
+		{"cyclohexane CH2", "C1CCCCC1", 0, false, "homotopic on the time average; common practice"},
+		{"propylbenzene C1' H2", "CCCc1ccccc1", 2, false, "enantiotopic; common practice"},
+		{"propylbenzene C2' H2", "CCCc1ccccc1", 1, false, "enantiotopic; common practice"},
+		{"1,3-dioxolane OCH2O", "C1OCCO1", 0, false, "no stereogenic element; common practice"},
+		{"1,3-dioxolane OCH2CH2O", "C1OCCO1", 2, false, "no stereogenic element; common practice"},
+		{"THF C2 H2", "C1CCOC1", 0, false, "no stereogenic element; common practice"},
+		{"THF C3 H2", "C1CCOC1", 1, false, "no stereogenic element; common practice"},
+		{"1,4-dioxane CH2", "C1COCCO1", 0, false, "no stereogenic element; common practice"},
+		{"isobutyl CH2 (isobutanol)", "CC(C)CO", 3, false, "the CH of the isopropyl group is not prochiral towards it; common practice"},
+	} {
+		sp := predictSMILES(t, p, tc.smiles)
+		es := envOn(sp, tc.atom)
+		if len(es) != 1 {
+			t.Errorf("%s (%s): %d environments on atom %d, want 1", tc.name, tc.smiles, len(es), tc.atom)
+			continue
+		}
+		if es[0].Diastereotopic != tc.want {
+			t.Errorf("Predict(%q) atom %d Diastereotopic = %v, want %v (source: %s)", tc.smiles, tc.atom, es[0].Diastereotopic, tc.want, tc.source)
+		}
+	}
+}

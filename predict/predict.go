@@ -122,8 +122,9 @@ type Environment struct {
 	// fast enough to appear as broad singlets over a wide shift range.
 	Exchangeable bool
 	// Diastereotopic is set for a CH2 whose two hydrogens are not
-	// interchangeable by symmetry (a stereocentre in the molecule, or a
-	// ring whose faces differ); they may appear as two signals.
+	// interchangeable by symmetry (a stereocentre in the molecule, a
+	// ring whose faces differ, or a prochiral centre that replacing either
+	// H turns into a second stereocentre); they may appear as two signals.
 	Diastereotopic bool
 	// Breakdown is the shift's derivation: base value and increments in
 	// ppm that sum to Shift (Options.Explain only).
