@@ -205,7 +205,11 @@ func multiplicityReason(sp *predict.Spectrum, e *predict.Environment, half bool,
 		fmt.Fprintf(&b, "env %d: ", e.ID)
 	}
 	if half {
-		b.WriteString("one H of a diastereotopic CH2; ")
+		if e.H > 2 {
+			b.WriteString("one H of each diastereotopic CH2; ")
+		} else {
+			b.WriteString("one H of a diastereotopic CH2; ")
+		}
 	}
 	var parts []string
 	for _, cp := range e.Couplings {

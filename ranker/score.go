@@ -316,7 +316,9 @@ func (s *scorer) build(envs []predEnv, peaks []obsPeak) {
 	for i := range envs {
 		e := &envs[i]
 		p.envH[i] = e.h
-		p.split[i] = e.diastereotopic && e.h == 2
+		// A diastereotopic environment is one or more equivalent CH2
+		// groups; its halves are the H on one face and on the other.
+		p.split[i] = e.diastereotopic && e.h%2 == 0
 		p.unobs[i] = -s.unobservedLogP(e)
 		for j := range peaks {
 			t := s.pairTerms(e, &peaks[j])
