@@ -3,7 +3,6 @@ package main
 import (
 	"bufio"
 	"context"
-	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -36,21 +35,9 @@ func runIsomers(ctx context.Context, args []string, e env) error {
 		fmt.Fprintln(e.stderr, "       shiftrank isomers --rules")
 		fs.PrintDefaults()
 	}
-	// Allow flags after the formula: parse, take one positional, parse the rest.
-	var positional []string
-	rest := args
-	for {
-		if err := fs.Parse(rest); err != nil {
-			if errors.Is(err, flag.ErrHelp) {
-				return nil
-			}
-			return badInput(err)
-		}
-		if fs.NArg() == 0 {
-			break
-		}
-		positional = append(positional, fs.Arg(0))
-		rest = fs.Args()[1:]
+	positional, help, err := parseInterspersed(fs, args)
+	if help || err != nil {
+		return err
 	}
 	if *listRules {
 		w := bufio.NewWriter(e.stdout)

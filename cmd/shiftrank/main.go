@@ -16,6 +16,7 @@ package main
 import (
 	"context"
 	"errors"
+	"flag"
 	"fmt"
 	"io"
 	"os"
@@ -71,6 +72,26 @@ func badInput(err error) error {
 // badInputf formats a bad-input error (exit status 2).
 func badInputf(format string, args ...any) error {
 	return usageError{fmt.Errorf(format, args...)}
+}
+
+// parseInterspersed parses args with fs while allowing flags after the
+// positional arguments ("isomers C4H8O2 --count"), and returns the
+// positional arguments in order. help is true when -h or --help was given
+// (fs has printed its usage); a flag error is bad input.
+func parseInterspersed(fs *flag.FlagSet, args []string) (positional []string, help bool, err error) {
+	for {
+		if err := fs.Parse(args); err != nil {
+			if errors.Is(err, flag.ErrHelp) {
+				return nil, true, nil
+			}
+			return nil, false, badInput(err)
+		}
+		if fs.NArg() == 0 {
+			return positional, false, nil
+		}
+		positional = append(positional, fs.Arg(0))
+		args = fs.Args()[1:]
+	}
 }
 
 func main() {

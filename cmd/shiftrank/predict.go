@@ -4,7 +4,6 @@ import (
 	"bufio"
 	"context"
 	"encoding/json"
-	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -33,20 +32,9 @@ func runPredict(ctx context.Context, args []string, e env) error {
 		fmt.Fprintln(e.stderr, "usage: shiftrank predict SMILES [--mhz 400] [--linewidth 1.0] [--json]")
 		fs.PrintDefaults()
 	}
-	var positional []string
-	rest := args
-	for {
-		if err := fs.Parse(rest); err != nil {
-			if errors.Is(err, flag.ErrHelp) {
-				return nil
-			}
-			return badInput(err)
-		}
-		if fs.NArg() == 0 {
-			break
-		}
-		positional = append(positional, fs.Arg(0))
-		rest = fs.Args()[1:]
+	positional, help, err := parseInterspersed(fs, args)
+	if help || err != nil {
+		return err
 	}
 	if len(positional) != 1 {
 		fs.Usage()
