@@ -9,6 +9,7 @@ import (
 	"testing"
 	"time"
 
+	"shiftrank/internal/rdkittest"
 	"shiftrank/molecule"
 )
 
@@ -74,9 +75,7 @@ func BenchmarkGenerate(b *testing.B) {
 // a formula with RDKit merely parsing and canonicalising the same set
 // (timed inside Python, excluding start-up), and prints the ratio.
 func BenchmarkAgainstRDKit(b *testing.B) {
-	if err := exec.Command(rdkitPython, "-c", "import rdkit").Run(); err != nil {
-		b.Skip("RDKit not available; install python3-rdkit to run this benchmark")
-	}
+	rdkittest.Require(b)
 	for _, fs := range []string{"C7H8", "C6H12O2", "C8H18O", "C5H5NO"} {
 		f := molecule.MustParseFormula(fs)
 		b.Run(fs, func(b *testing.B) {
@@ -101,7 +100,7 @@ func BenchmarkAgainstRDKit(b *testing.B) {
 			}
 			gen := time.Since(start).Seconds() / float64(b.N)
 			b.StopTimer()
-			cmd := exec.Command(rdkitPython, "testdata/rdkit_time.py")
+			cmd := exec.Command(rdkittest.Python, "testdata/rdkit_time.py")
 			cmd.Stdin = bytes.NewReader(smiles.Bytes())
 			out, err := cmd.Output()
 			if err != nil {

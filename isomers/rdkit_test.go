@@ -5,32 +5,15 @@ import (
 	"bytes"
 	"context"
 	"fmt"
-	"os"
 	"os/exec"
 	"sort"
 	"strconv"
 	"strings"
 	"testing"
 
+	"shiftrank/internal/rdkittest"
 	"shiftrank/molecule"
 )
-
-// rdkitPython is the interpreter with RDKit (Debian python3-rdkit); the
-// python3 on PATH may lack it.
-const rdkitPython = "/usr/bin/python3"
-
-// requireRDKit skips the test, or fails it when CI=true, if RDKit cannot
-// be imported.
-func requireRDKit(t *testing.T) {
-	t.Helper()
-	if err := exec.Command(rdkitPython, "-c", "import rdkit").Run(); err != nil {
-		msg := "RDKit not available (" + err.Error() + "); install python3-rdkit (apt-get install -y python3-rdkit) to run this cross-check"
-		if os.Getenv("CI") == "true" {
-			t.Fatal(msg)
-		}
-		t.Skip(msg)
-	}
-}
 
 type rdkitResult struct {
 	canon, formula, err string
@@ -44,7 +27,7 @@ func rdkitCanon(t *testing.T, smiles []string) []rdkitResult {
 	for i, s := range smiles {
 		fmt.Fprintf(&in, "%d\t%s\n", i, s)
 	}
-	cmd := exec.Command(rdkitPython, "testdata/rdkit_canon.py")
+	cmd := exec.Command(rdkittest.Python, "testdata/rdkit_canon.py")
 	cmd.Stdin = &in
 	var stderr bytes.Buffer
 	cmd.Stderr = &stderr
@@ -285,7 +268,7 @@ func TestOracleMultigraphs(t *testing.T) {
 }
 
 func TestRDKitCrossCheck(t *testing.T) {
-	requireRDKit(t)
+	rdkittest.Require(t)
 	if testing.Short() {
 		t.Skip("RDKit battery skipped in -short mode")
 	}

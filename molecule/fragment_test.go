@@ -5,6 +5,8 @@ import (
 	"os/exec"
 	"strings"
 	"testing"
+
+	"shiftrank/internal/rdkittest"
 )
 
 func TestFragmentMatches(t *testing.T) {
@@ -73,7 +75,7 @@ var fragmentQueries = []string{
 // also aromatises rings with an exocyclic C=O, such as 2-pyridone) are
 // skipped.
 func TestFragmentAgainstRDKit(t *testing.T) {
-	requireRDKit(t)
+	rdkittest.Require(t)
 	r := rand.New(rand.NewPCG(77, 3))
 	var targets []*Graph
 	var in strings.Builder
@@ -84,7 +86,7 @@ func TestFragmentAgainstRDKit(t *testing.T) {
 			in.WriteString(q + "\t" + g.SMILES() + "\n")
 		}
 	}
-	cmd := exec.Command(rdkitPython, "testdata/rdkit_match.py")
+	cmd := exec.Command(rdkittest.Python, "testdata/rdkit_match.py")
 	cmd.Stdin = strings.NewReader(in.String())
 	out, err := cmd.Output()
 	if err != nil {

@@ -7,6 +7,8 @@ import (
 	"os/exec"
 	"strings"
 	"testing"
+
+	"shiftrank/internal/rdkittest"
 )
 
 // randomScaffolds are ring systems that random substituents are hung on:
@@ -111,7 +113,7 @@ func kekuleVariant(g *Graph, r *rand.Rand) *Graph {
 // CanonicalSMILES, and (3) two molecules get equal CanonicalSMILES exactly
 // when RDKit's canonical SMILES are equal.
 func TestCanonicalSMILESRandomAgainstRDKit(t *testing.T) {
-	requireRDKit(t)
+	rdkittest.Require(t)
 	r := rand.New(rand.NewPCG(21, 8))
 	var in bytes.Buffer
 	var ours, keks []string
@@ -135,7 +137,7 @@ func TestCanonicalSMILESRandomAgainstRDKit(t *testing.T) {
 		keks = append(keks, g.SMILES())
 		in.WriteString(g.SMILES() + "\t" + cs + "\n")
 	}
-	cmd := exec.Command(rdkitPython, "testdata/rdkit_canon.py")
+	cmd := exec.Command(rdkittest.Python, "testdata/rdkit_canon.py")
 	cmd.Stdin = &in
 	out, err := cmd.Output()
 	if err != nil {

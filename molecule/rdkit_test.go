@@ -3,28 +3,12 @@ package molecule
 import (
 	"bufio"
 	"bytes"
-	"os"
 	"os/exec"
 	"strings"
 	"testing"
+
+	"shiftrank/internal/rdkittest"
 )
-
-// rdkitPython is the interpreter that has RDKit (Debian python3-rdkit);
-// the python3 on PATH may lack it.
-const rdkitPython = "/usr/bin/python3"
-
-// requireRDKit skips the test (or fails it when CI=true) if RDKit is not
-// importable.
-func requireRDKit(t *testing.T) {
-	t.Helper()
-	if err := exec.Command(rdkitPython, "-c", "import rdkit").Run(); err != nil {
-		msg := "RDKit not available (" + err.Error() + "); install python3-rdkit (apt-get install -y python3-rdkit) to run this cross-check"
-		if os.Getenv("CI") == "true" {
-			t.Fatal(msg)
-		}
-		t.Skip(msg)
-	}
-}
 
 // rdkitCrossCheckSMILES: varied compounds (aromatics, heteroaromatics,
 // hypervalent S and P, rings, triple bonds, halogens). The expected values
@@ -52,7 +36,7 @@ var rdkitCrossCheckSMILES = []string{
 }
 
 func TestCanonicalSMILESAgainstRDKit(t *testing.T) {
-	requireRDKit(t)
+	rdkittest.Require(t)
 	var in bytes.Buffer
 	var ours []string
 	for _, s := range rdkitCrossCheckSMILES {
@@ -64,7 +48,7 @@ func TestCanonicalSMILESAgainstRDKit(t *testing.T) {
 		ours = append(ours, cs)
 		in.WriteString(s + "\t" + cs + "\n")
 	}
-	cmd := exec.Command(rdkitPython, "testdata/rdkit_canon.py")
+	cmd := exec.Command(rdkittest.Python, "testdata/rdkit_canon.py")
 	cmd.Stdin = &in
 	out, err := cmd.Output()
 	if err != nil {

@@ -6,6 +6,8 @@ import (
 	"slices"
 	"strings"
 	"testing"
+
+	"shiftrank/internal/rdkittest"
 )
 
 func TestRings(t *testing.T) {
@@ -66,7 +68,7 @@ func TestRings(t *testing.T) {
 // smallest sets are not unique) on the cross-check list
 // and random substituted ring systems.
 func TestRingsAgainstRDKit(t *testing.T) {
-	requireRDKit(t)
+	rdkittest.Require(t)
 	r := rand.New(rand.NewPCG(31, 7))
 	var smiles []string
 	for _, s := range rdkitCrossCheckSMILES {
@@ -78,7 +80,7 @@ func TestRingsAgainstRDKit(t *testing.T) {
 	for i := 0; i < 200; i++ {
 		smiles = append(smiles, randomMolecule(r, r.IntN(6)).SMILES())
 	}
-	cmd := exec.Command(rdkitPython, "testdata/rdkit_rings.py")
+	cmd := exec.Command(rdkittest.Python, "testdata/rdkit_rings.py")
 	cmd.Stdin = strings.NewReader(strings.Join(smiles, "\n") + "\n")
 	out, err := cmd.Output()
 	if err != nil {
