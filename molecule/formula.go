@@ -196,25 +196,20 @@ func (f Formula) EvenElectron() bool {
 // for CcHhNnOoXx this is c − h/2 − x/2 + n/2 + 1). Hypervalent S and P add
 // further equivalents in a given structure; the value here is the minimum.
 // For an odd-electron formula the result is rounded down.
-func (f Formula) DBE() int {
-	twice := 2
-	for e := H; e < NumElements; e++ {
-		twice += f.counts[e] * (e.MinValence() - 2)
-	}
-	if twice < 0 {
-		return -((-twice + 1) / 2)
-	}
-	return twice / 2
-}
+func (f Formula) DBE() int { return f.dbe(Element.MinValence) }
 
 // MaxDBE is DBE computed with the highest valence of each element (S 6,
 // P 5). It differs from DBE only for formulas with S or P; a formula such as
 // SF6 or PCl5 has a negative DBE but a non-negative MaxDBE, and exists only
 // with hypervalent S or P.
-func (f Formula) MaxDBE() int {
+func (f Formula) MaxDBE() int { return f.dbe(Element.MaxValence) }
+
+// dbe is 1 + Σ n_i (v_i − 2) / 2 with the valence v_i given by valence,
+// rounded down.
+func (f Formula) dbe(valence func(Element) int) int {
 	twice := 2
 	for e := H; e < NumElements; e++ {
-		twice += f.counts[e] * (e.MaxValence() - 2)
+		twice += f.counts[e] * (valence(e) - 2)
 	}
 	if twice < 0 {
 		return -((-twice + 1) / 2)
