@@ -240,7 +240,7 @@ func TestPostgresWorkerProcessKilled(t *testing.T) {
 		t.Fatal(err)
 	}
 
-	cmd := exec.Command(os.Args[0], "-test.run=^TestHelperClaimingProcess$")
+	cmd := exec.Command(os.Args[0], "-test.run=^$") // TestMain makes it claimAndWait
 	cmd.Env = append(os.Environ(), "STORE_HELPER_URL="+url)
 	out, err := cmd.StdoutPipe()
 	if err != nil {
@@ -291,21 +291,29 @@ func TestPostgresWorkerProcessKilled(t *testing.T) {
 	}
 }
 
-// TestHelperClaimingProcess is the child of TestPostgresWorkerProcessKilled:
-// it claims one job with a 1 s lease, reports it, and waits to be killed.
-func TestHelperClaimingProcess(t *testing.T) {
-	url := os.Getenv("STORE_HELPER_URL")
-	if url == "" {
-		t.Skip("helper process for TestPostgresWorkerProcessKilled")
+// TestMain runs the child process of TestPostgresWorkerProcessKilled when
+// the test binary is started with STORE_HELPER_URL, and the tests otherwise.
+func TestMain(m *testing.M) {
+	if url := os.Getenv("STORE_HELPER_URL"); url != "" {
+		claimAndWait(url)
 	}
+	os.Exit(m.Run())
+}
+
+// claimAndWait is the worker process that TestPostgresWorkerProcessKilled
+// kills: it claims one job with a 1 s lease, reports it on stdout, and
+// waits to be killed. It never returns.
+func claimAndWait(url string) {
 	ctx := context.Background()
 	p, err := store.Open(ctx, url)
 	if err != nil {
-		t.Fatal(err)
+		fmt.Fprintln(os.Stderr, "child:", err)
+		os.Exit(1)
 	}
 	j, err := p.ClaimJob(ctx, fmt.Sprintf("child-%d", os.Getpid()), time.Second)
 	if err != nil {
-		t.Fatal(err)
+		fmt.Fprintln(os.Stderr, "child:", err)
+		os.Exit(1)
 	}
 	fmt.Printf("claimed %s\n", j.ID)
 	time.Sleep(time.Minute) // killed long before this ends
