@@ -342,12 +342,11 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 			if err != nil && cctx.Err() == nil {
 				return
 			}
-			total := st.Emitted
-			if !st.Complete && st.Fraction > 0 {
-				total = int64(float64(st.Emitted) / st.Fraction)
-			}
-			if total > 0 && (st.Complete || st.Fraction > 0) {
-				totalEstimate.Store(total)
+			switch {
+			case st.Complete:
+				totalEstimate.Store(st.Emitted)
+			case st.Fraction > 0:
+				totalEstimate.Store(extrapolate(st.Emitted, st.Fraction))
 			}
 		}()
 		wg.Add(1)
@@ -484,6 +483,16 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 
 var errBudget = errors.New("time budget exhausted")
 
+// extrapolate estimates how many isomers exist when n were generated from
+// the given fraction (isomers.Stats.Fraction) of the search space; it is n
+// when the fraction is unknown, and never below n.
+func extrapolate(n int64, fraction float64) int64 {
+	if fraction <= 0 || fraction > 1 {
+		return n
+	}
+	return max(n, int64(math.Round(float64(n)/fraction)))
+}
+
 // estimateBudget bounds the isomer count that gives progress reports their
 // estimated total.
 const estimateBudget = 2 * time.Second
@@ -502,14 +511,7 @@ func (r *Ranker) totals(res *Result, st isomers.Stats, timedOut bool, j *job) {
 		res.IsomersTotal = st.Emitted
 	} else {
 		res.IsomersEstimated = true
-		est := res.Generated
-		if st.Fraction > 0 && st.Fraction <= 1 {
-			est = int64(math.Round(float64(res.Generated) / st.Fraction))
-		}
-		if est < res.Generated {
-			est = res.Generated
-		}
-		res.IsomersTotal = est
+		res.IsomersTotal = extrapolate(res.Generated, st.Fraction)
 		why := fmt.Sprintf("the candidate limit (%d)", j.maxCand)
 		if timedOut {
 			why = fmt.Sprintf("the time budget (%s)", j.budget)
