@@ -71,21 +71,21 @@ func features(m *mol) feature {
 		case e == molecule.O:
 			f |= fO
 			nO++
-			if m.free(i) > 0 {
+			if m.hcount(i) > 0 {
 				f |= fOH | fOHSH
 			}
 		case e == molecule.N:
 			f |= fN
 		case e.IsHalogen():
 			f |= fHal
-		case e == molecule.S && m.val[i] == 2:
+		case e == molecule.S && m.valence(i) == 2:
 			f |= fS2
-			if m.free(i) > 0 {
+			if m.hcount(i) > 0 {
 				f |= fOHSH
 			}
 		case e == molecule.S:
 			f |= fHyper
-		case e == molecule.P && m.val[i] == 5:
+		case e == molecule.P && m.valence(i) == 5:
 			f |= fHyper
 		case e == molecule.P:
 			f |= fP3
@@ -358,7 +358,7 @@ func (o *outputBuilder) atomRing(m *mol, a int) int {
 }
 
 func isOH(m *mol, x int) bool {
-	return m.el[x] == molecule.O && m.deg[x] == 1 && m.bo[x][0] == 1 && m.free(x) == 1
+	return m.el[x] == molecule.O && m.deg[x] == 1 && m.bo[x][0] == 1 && m.hcount(x) == 1
 }
 
 func allSingle(m *mol, x int) bool {
@@ -568,7 +568,7 @@ func hemiacetal(o *outputBuilder, m *mol) bool {
 // isDivalentS reports whether x is S(II) with single bonds (thiol or
 // thioether sulfur).
 func isDivalentS(m *mol, x int) bool {
-	return m.el[x] == molecule.S && m.val[x] == 2 && allSingle(m, x)
+	return m.el[x] == molecule.S && m.valence(x) == 2 && allSingle(m, x)
 }
 
 func hemiaminal(o *outputBuilder, m *mol) bool {
@@ -611,7 +611,7 @@ func hypohalite(o *outputBuilder, m *mol) bool {
 func lonePairDonor(m *mol, x int) bool {
 	switch m.el[x] {
 	case molecule.O, molecule.S:
-		return m.val[x] == 2 && allSingle(m, x)
+		return m.valence(x) == 2 && allSingle(m, x)
 	case molecule.N:
 		return allSingle(m, x)
 	}
@@ -663,13 +663,13 @@ func antiaromaticRing(o *outputBuilder, m *mol) bool {
 
 func hypervalentHydride(o *outputBuilder, m *mol) bool {
 	for i := 0; i < m.n; i++ {
-		if m.free(i) == 0 {
+		if m.hcount(i) == 0 {
 			continue
 		}
 		switch {
-		case m.el[i] == molecule.S && m.val[i] > 2:
+		case m.el[i] == molecule.S && m.valence(i) > 2:
 			return true
-		case m.el[i] == molecule.P && m.val[i] == 5 && !doubleTo(m, i, molecule.O, molecule.S):
+		case m.el[i] == molecule.P && m.valence(i) == 5 && !doubleTo(m, i, molecule.O, molecule.S):
 			return true
 		}
 	}
@@ -678,7 +678,7 @@ func hypervalentHydride(o *outputBuilder, m *mol) bool {
 
 func bareHypervalent(o *outputBuilder, m *mol) bool {
 	for i := 0; i < m.n; i++ {
-		hyper := (m.el[i] == molecule.S && m.val[i] > 2) || (m.el[i] == molecule.P && m.val[i] == 5)
+		hyper := (m.el[i] == molecule.S && m.valence(i) > 2) || (m.el[i] == molecule.P && m.valence(i) == 5)
 		if !hyper || !allSingle(m, i) {
 			continue
 		}
@@ -709,7 +709,7 @@ func doubleTo(m *mol, x int, a, b molecule.Element) bool {
 }
 
 func hypervalentSP(m *mol, x int) bool {
-	return (m.el[x] == molecule.S && m.val[x] > 2) || (m.el[x] == molecule.P && m.val[x] == 5)
+	return (m.el[x] == molecule.S && m.valence(x) > 2) || (m.el[x] == molecule.P && m.valence(x) == 5)
 }
 
 func ylideTautomer(o *outputBuilder, m *mol) bool {
@@ -728,7 +728,7 @@ func ylideTautomer(o *outputBuilder, m *mol) bool {
 
 func sulfurYlide(o *outputBuilder, m *mol) bool {
 	for x := 0; x < m.n; x++ {
-		if m.el[x] != molecule.S || m.val[x] <= 2 {
+		if m.el[x] != molecule.S || m.valence(x) <= 2 {
 			continue
 		}
 		for k := 0; k < int(m.deg[x]); k++ {
@@ -756,7 +756,7 @@ func hypervalentHydrate(o *outputBuilder, m *mol) bool {
 
 func trivalentPOH(o *outputBuilder, m *mol) bool {
 	for x := 0; x < m.n; x++ {
-		if m.el[x] != molecule.P || m.val[x] != 3 {
+		if m.el[x] != molecule.P || m.valence(x) != 3 {
 			continue
 		}
 		for k := 0; k < int(m.deg[x]); k++ {
@@ -775,7 +775,7 @@ func sulfenicAcid(o *outputBuilder, m *mol) bool {
 		}
 		for k := 0; k < int(m.deg[x]); k++ {
 			u := int(m.nb[x][k])
-			if m.el[u] == molecule.O && (m.free(x) > 0 || m.free(u) > 0) {
+			if m.el[u] == molecule.O && (m.hcount(x) > 0 || m.hcount(u) > 0) {
 				return true
 			}
 		}

@@ -23,26 +23,56 @@ import (
 // necessary conditions of the acceptance test are applied while the
 // augmentations are enumerated, before any child is built.
 
-const maxColours = 16
+// maxColours bounds the number of vertex colours of a run (the canonical
+// certificate writes a colour as one byte below 0xff).
+const maxColours = 48
 
-// plan is what a formula fixes for the whole search.
+// plan is what a formula (and a Spec) fixes for the whole search.
 type plan struct {
 	formula molecule.Formula
 	n       int // heavy atoms
-	h       int // hydrogens
+	h       int // hydrogens not fixed by a class
 	colours []colour
+	groups  []group
 	assigns []assignment
+	// rules is true when some colour carries rules (a Spec, or the
+	// charge-separated colours).
+	rules bool
+	// ambiguous is true when one structure may be divided into the
+	// classes in more than one way, so emitted structures are deduplicated.
+	ambiguous bool
 }
 
-// assignment fixes the valence state of every hypervalent-capable atom
-// (as counts per colour) and hence the total bond order E.
+// colour is a vertex class of the search: an element in one valence state
+// with, under a Spec, a fixed hydrogen count, a charge and local rules.
+// The hydrogen count of an atom is its fixed count plus its unused bonding
+// capacity, so colouring atoms this way makes the coloured multigraph and
+// the constitution carry the same information.
+type colour struct {
+	el    molecule.Element
+	val   int // bonding capacity: valence minus fixed hydrogens
+	hx    int // fixed hydrogens (0 when free)
+	chg   int // formal charge
+	group int // the group (element, or Spec class) whose count it shares
+	rule  *crule
+}
+
+// group is a set of colours whose atom counts add up to one number: an
+// element's valence states, or a Spec class's.
+type group struct {
+	colours []int
+	count   int
+}
+
+// assignment fixes the number of atoms of every colour (the valence state
+// of every hypervalent-capable atom) and hence the total bond order E.
 type assignment struct {
 	count [maxColours]int
 	e     int
 }
 
-// newPlan lists the colours and the valence assignments of f.
-func newPlan(f molecule.Formula) (*plan, error) {
+// newPlan lists the colours and the valence assignments of f under opts.
+func newPlan(f molecule.Formula, opts *Options) (*plan, error) {
 	p := &plan{formula: f, n: f.HeavyAtoms(), h: f.HydrogenCount()}
 	if p.n == 0 {
 		return nil, fmt.Errorf("isomers: formula %s has no heavy atoms", f)
@@ -50,26 +80,151 @@ func newPlan(f molecule.Formula) (*plan, error) {
 	if p.n > MaxAtoms {
 		return nil, fmt.Errorf("isomers: formula %s has %d heavy atoms, more than the generator's limit of %d", f, p.n, MaxAtoms)
 	}
-	var elems []molecule.Element
+	switch {
+	case opts != nil && opts.Spec != nil:
+		if err := p.specColours(f, opts.Spec); err != nil {
+			return nil, err
+		}
+	default:
+		p.elementColours(f, opts != nil && opts.ChargeSeparated)
+	}
+	p.enumerateAssignments()
+	return p, nil
+}
+
+// elementColours makes one group per element with one colour per neutral
+// valence and, when charged, the charge-separated states: N+ (valence 4),
+// and the anions bonded to it, O− (1), N− (2) and C− (3).
+func (p *plan) elementColours(f molecule.Formula, charged bool) {
+	var cation, anions []int
 	for e := molecule.H + 1; e < molecule.NumElements; e++ {
 		if f.Count(e) == 0 {
 			continue
 		}
-		elems = append(elems, e)
+		g := group{count: f.Count(e)}
+		add := func(c colour) int {
+			c.group = len(p.groups)
+			p.colours = append(p.colours, c)
+			g.colours = append(g.colours, len(p.colours)-1)
+			return len(p.colours) - 1
+		}
 		for _, v := range e.Valences() {
-			p.colours = append(p.colours, colour{el: e, val: v})
+			add(colour{el: e, val: v})
+		}
+		if charged && f.Count(molecule.N) > 0 {
+			switch e {
+			case molecule.N:
+				cation = append(cation, add(colour{el: e, val: 4, chg: 1}))
+				anions = append(anions, add(colour{el: e, val: 2, chg: -1}))
+			case molecule.O:
+				anions = append(anions, add(colour{el: e, val: 1, chg: -1}))
+			case molecule.C:
+				anions = append(anions, add(colour{el: e, val: 3, chg: -1}))
+			}
+		}
+		p.groups = append(p.groups, g)
+	}
+	if len(cation) == 0 {
+		return
+	}
+	p.rules = true
+	var cm, am uint64
+	for _, c := range cation {
+		cm |= 1 << c
+	}
+	for _, a := range anions {
+		am |= 1 << a
+	}
+	for _, c := range cation {
+		p.colours[c].rule = &crule{fixedH: true, nbr: []cnbr{{colours: am, min: 1, max: 1}}}
+	}
+	for _, a := range anions {
+		p.colours[a].rule = &crule{fixedH: true, maxDeg: 1, minDeg: 1, nbr: []cnbr{{colours: cm, min: 1, max: 1}}}
+	}
+}
+
+// ChargeSeparatedGroups names the charge-separated groups the generator
+// makes with Options.ChargeSeparated: an N+ (four bonds, no hydrogen)
+// bonded to exactly one anion, the anion being a terminal O− (nitro,
+// N-oxide, nitrone, nitrate), =N− (azide, diazo) or ≡C− (isonitrile).
+const ChargeSeparatedGroups = "nitro, nitrate, N-oxides, nitrones, nitrile oxides, azides, diazo compounds and isonitriles"
+
+// specColours makes one group per Spec class with one colour per valence
+// state.
+func (p *plan) specColours(f molecule.Formula, s *Spec) error {
+	freeH, err := s.validate(f)
+	if err != nil {
+		return err
+	}
+	p.h = freeH
+	p.rules = true
+	first := make([]int, len(s.Classes))
+	n := 0
+	for i, c := range s.Classes {
+		first[i] = n
+		n += len(c.valences())
+	}
+	if n > maxColours {
+		return &SpecError{Class: -1, Msg: fmt.Sprintf("%d colours (classes times valence states) exceed the limit of %d", n, maxColours)}
+	}
+	for i, c := range s.Classes {
+		g := group{count: c.Count}
+		r := &crule{fixedH: c.H != FreeH, bonds: c.Bonds, vic: c.Vicinal}
+		if c.MinDegree > 0 {
+			r.minDeg = uint8(c.MinDegree)
+		}
+		if c.MaxDegree > 0 {
+			r.maxDeg = uint8(c.MaxDegree)
+		}
+		for _, nr := range c.Neighbours {
+			cn := cnbr{unsat: nr.Unsaturated, min: nr.Min, max: nr.Max}
+			for _, k := range nr.Classes {
+				for j := range s.Classes[k].valences() {
+					cn.colours |= 1 << (first[k] + j)
+				}
+			}
+			for _, e := range nr.Elements {
+				cn.elements |= 1 << e
+			}
+			r.nbr = append(r.nbr, cn)
+		}
+		for _, v := range c.valences() {
+			hx := 0
+			if c.H != FreeH {
+				hx = c.H
+			}
+			p.colours = append(p.colours, colour{el: c.Element, val: v - hx, hx: hx, chg: c.Charge, group: i, rule: r})
+			g.colours = append(g.colours, len(p.colours)-1)
+		}
+		p.groups = append(p.groups, g)
+	}
+	// Two classes sharing element, charge and hydrogen count may both fit
+	// one atom.
+	for i := range s.Classes {
+		for j := i + 1; j < len(s.Classes); j++ {
+			a, b := &s.Classes[i], &s.Classes[j]
+			if a.Element == b.Element && a.Charge == b.Charge && (a.H == b.H || a.H == FreeH || b.H == FreeH) {
+				p.ambiguous = true
+			}
 		}
 	}
-	// enumerate the multisets of valences per element
+	return nil
+}
+
+// enumerateAssignments lists every split of each group's count over its
+// colours that is neutral and gives a whole total bond order that a
+// connected structure can have.
+func (p *plan) enumerateAssignments() {
 	var cur assignment
-	var rec func(ei int)
-	rec = func(ei int) {
-		if ei == len(elems) {
-			sum := 0
+	var rec func(gi int)
+	rec = func(gi int) {
+		if gi == len(p.groups) {
+			sum, chg := 0, 0
 			for ci, c := range p.colours {
 				sum += cur.count[ci] * c.val
+				chg += cur.count[ci] * c.chg
 			}
-			if (sum-p.h)%2 != 0 || sum < p.h {
+			if chg != 0 || (sum-p.h)%2 != 0 || sum < p.h {
 				return
 			}
 			e := (sum - p.h) / 2
@@ -81,18 +236,12 @@ func newPlan(f molecule.Formula) (*plan, error) {
 			p.assigns = append(p.assigns, a)
 			return
 		}
-		el := elems[ei]
-		var idx []int
-		for ci, c := range p.colours {
-			if c.el == el {
-				idx = append(idx, ci)
-			}
-		}
+		idx := p.groups[gi].colours
 		var split func(j, left int)
 		split = func(j, left int) {
 			if j == len(idx)-1 {
 				cur.count[idx[j]] = left
-				rec(ei + 1)
+				rec(gi + 1)
 				cur.count[idx[j]] = 0
 				return
 			}
@@ -102,10 +251,9 @@ func newPlan(f molecule.Formula) (*plan, error) {
 			}
 			cur.count[idx[j]] = 0
 		}
-		split(0, f.Count(el))
+		split(0, p.groups[gi].count)
 	}
 	rec(0)
-	return p, nil
 }
 
 // aug is one augmentation: a new atom of colour c bonded to att[:na] with
@@ -158,6 +306,10 @@ type searcher struct {
 	res     canonResult
 	distA   [MaxAtoms]int8
 	distB   [MaxAtoms]int8
+	// rule[x] is the compiled rule of atom x's colour (nil: none); done
+	// marks a complete structure while its rules are tested.
+	rule [MaxAtoms]*crule
+	done bool
 }
 
 func newSearcher(p *plan) *searcher {
@@ -186,8 +338,9 @@ func (s *searcher) reset(a int, root uint8, path []aug) {
 }
 
 func (s *searcher) pushAtom(c uint8, att, ord []uint8) {
-	col := s.p.colours[c]
-	s.m.push(c, col.el, col.val, att, ord)
+	col := &s.p.colours[c]
+	s.rule[s.m.n] = col.rule
+	s.m.push(c, col.el, col.val, col.hx, col.chg, att, ord)
 	s.rem[c]--
 	s.nrem--
 	s.vrem -= col.val
@@ -213,6 +366,15 @@ func (s *searcher) expand(weight float64) {
 		return
 	}
 	if s.m.n == s.p.n {
+		if s.p.rules {
+			s.done = true
+			ok := s.allRulesOK()
+			s.done = false
+			if !ok {
+				s.covered += weight
+				return
+			}
+		}
 		if !s.emit(&s.m) {
 			s.stopped = true
 		}
@@ -416,7 +578,17 @@ func (s *searcher) try(kids []aug, lv *level, a *aug, sum int, final bool) []aug
 		return kids
 	}
 	s.pushAtom(a.c, a.att[:a.na], a.ord[:a.na])
-	ok := s.accept()
+	ok := true
+	if s.p.rules {
+		if final {
+			s.done = true
+			ok = s.allRulesOK()
+			s.done = false
+		} else {
+			ok = s.rulesOK()
+		}
+	}
+	ok = ok && s.accept()
 	if ok {
 		if final {
 			if !s.emit(&s.m) {

@@ -25,6 +25,24 @@ type Options struct {
 	// runtime.GOMAXPROCS(0). The set and, for Generate, the order of the
 	// structures do not depend on it.
 	Workers int
+	// Spec, when not nil, restricts the run to the structures that fit its
+	// classes (see Spec); the rules prune the search itself.
+	Spec *Spec
+	// ChargeSeparated adds the charge-separated groups named by
+	// ChargeSeparatedGroups to the neutral valence model (ignored with a
+	// Spec, whose classes say which charged atoms there are). Off, the
+	// generator makes exactly the neutral constitutional isomers.
+	ChargeSeparated bool
+	// Require and Forbid are substructure constraints applied to each
+	// structure before it is emitted: it must contain every Require
+	// fragment and none of the Forbid fragments. Stats.Constrained counts
+	// the structures they removed.
+	Require, Forbid []*molecule.Fragment
+	// Seen, when not nil, is a set of structures shared with other runs:
+	// a structure already in it is not emitted again, and each emitted
+	// structure is added. Runs with an ambiguous Spec use a set of their
+	// own when Seen is nil.
+	Seen *Seen
 
 	// allKekule emits every Kekulé structure separately (tests only: the
 	// oracle comparison of raw multigraphs).
@@ -41,6 +59,10 @@ type Stats struct {
 	// removed (the first enabled rule that objects is charged). Rules that
 	// removed nothing are absent.
 	Removed map[string]int64
+	// Constrained counts structures that passed the filter but not the
+	// Require and Forbid fragments; Duplicates counts structures not
+	// emitted because Seen already held them.
+	Constrained, Duplicates int64
 	// Complete is false if the run stopped early: Limit reached, yield
 	// returned false, or the context ended.
 	Complete bool
@@ -121,17 +143,24 @@ type runner struct {
 	emitted atomic.Int64
 	limit   int64
 	ctx     context.Context
+	require []*molecule.Fragment
+	forbid  []*molecule.Fragment
+	seen    *Seen
 
 	allKekule bool
 }
 
 // workerState is what one worker accumulates.
 type workerState struct {
-	s         *searcher
-	out       outputBuilder
-	generated int64
-	removed   [numRules]int64
-	emitted   int64
+	s           *searcher
+	out         outputBuilder
+	generated   int64
+	removed     [numRules]int64
+	emitted     int64
+	constrained int64
+	duplicates  int64
+	canon       molecule.Canonicalizer
+	key         []byte
 }
 
 func prepare(ctx context.Context, f molecule.Formula, opts Options) (*runner, int, error) {
@@ -141,7 +170,7 @@ func prepare(ctx context.Context, f molecule.Formula, opts Options) (*runner, in
 	if f.HeavyAtoms() > 0 && !f.EvenElectron() {
 		return nil, 0, fmt.Errorf("isomers: formula %s has an odd number of electrons: no neutral closed-shell structure", f)
 	}
-	p, err := newPlan(f)
+	p, err := newPlan(f, &opts)
 	if err != nil {
 		return nil, 0, err
 	}
@@ -159,7 +188,11 @@ func prepare(ctx context.Context, f molecule.Formula, opts Options) (*runner, in
 	if w < 1 {
 		w = 1
 	}
-	r := &runner{p: p, filter: opts.Filter, tasks: tasks, limit: opts.Limit, ctx: ctx, allKekule: opts.allKekule}
+	r := &runner{p: p, filter: opts.Filter, tasks: tasks, limit: opts.Limit, ctx: ctx, allKekule: opts.allKekule,
+		require: opts.Require, forbid: opts.Forbid, seen: opts.Seen}
+	if r.seen == nil && p.ambiguous {
+		r.seen = NewSeen()
+	}
 	return r, w, nil
 }
 
@@ -171,10 +204,32 @@ func (ws *workerState) process(r *runner, m *mol) bool {
 			return false
 		}
 	}
+	if r.seen != nil {
+		ws.key = ws.canon.AppendKey(ws.key[:0], ws.out.graph(m))
+		if !r.seen.add(ws.key) {
+			ws.duplicates++
+			return false
+		}
+	}
 	ws.generated++
 	if rule := r.filter.check(&ws.out, m); rule >= 0 {
 		ws.removed[rule]++
 		return false
+	}
+	if len(r.require) > 0 || len(r.forbid) > 0 {
+		g := ws.out.graph(m)
+		for _, fr := range r.require {
+			if !fr.Matches(g) {
+				ws.constrained++
+				return false
+			}
+		}
+		for _, fr := range r.forbid {
+			if fr.Matches(g) {
+				ws.constrained++
+				return false
+			}
+		}
 	}
 	return true
 }
@@ -225,6 +280,8 @@ func (r *runner) stats(workers []*workerState, covered float64, complete bool) S
 	for _, ws := range workers {
 		st.Generated += ws.generated
 		st.Emitted += ws.emitted
+		st.Constrained += ws.constrained
+		st.Duplicates += ws.duplicates
 		for i, n := range ws.removed {
 			if n > 0 {
 				st.Removed[ruleTable[i].Name] += n
@@ -323,6 +380,8 @@ type result struct {
 	gen     int64
 	removed [numRules]int64
 	covered float64
+	constr  int64
+	dups    int64
 }
 
 // Generate streams every constitutional isomer of f that passes
@@ -370,7 +429,8 @@ func Generate(ctx context.Context, f molecule.Formula, opts Options, yield func(
 				flush := func() bool {
 					cur.gen = ws.generated
 					cur.removed = ws.removed
-					ws.generated = 0
+					cur.constr, cur.dups = ws.constrained, ws.duplicates
+					ws.generated, ws.constrained, ws.duplicates = 0, 0, 0
 					ws.removed = [numRules]int64{}
 					cur.covered = ws.s.covered
 					ws.s.covered = 0
@@ -412,6 +472,8 @@ func Generate(ctx context.Context, f molecule.Formula, opts Options, yield func(
 	for ti := 0; ti < len(chans) && !stopped; ti++ {
 		for res := range chans[ti] {
 			st.Generated += res.gen
+			st.Constrained += res.constr
+			st.Duplicates += res.dups
 			for i, n := range res.removed {
 				removed[i] += n
 			}

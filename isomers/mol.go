@@ -13,15 +13,6 @@ const MaxAtoms = 64
 // with six single bonds).
 const maxDeg = 6
 
-// colour is a vertex class of the search: an element in one valence state.
-// The implicit hydrogen count of an atom is its colour's valence minus its
-// bond-order sum, so colouring atoms by (element, valence) makes the
-// coloured multigraph and the constitution carry the same information.
-type colour struct {
-	el  molecule.Element
-	val int
-}
-
 // mol is the generator's compact molecular multigraph. Vertices are added
 // and removed only at the end (push/pop), and the edges of the last vertex
 // are the last entries of its neighbours' lists, so undo is cheap.
@@ -30,7 +21,9 @@ type mol struct {
 	edges int // number of bonded atom pairs (not bond orders)
 	col   [MaxAtoms]uint8
 	el    [MaxAtoms]molecule.Element
-	val   [MaxAtoms]uint8
+	val   [MaxAtoms]uint8 // bonding capacity: valence minus fixed hydrogens
+	hx    [MaxAtoms]uint8 // hydrogens fixed by the atom's class (0 when free)
+	chg   [MaxAtoms]int8  // formal charge
 	deg   [MaxAtoms]uint8
 	bsum  [MaxAtoms]uint8
 	nb    [MaxAtoms][maxDeg]uint8
@@ -38,17 +31,28 @@ type mol struct {
 	adj   [MaxAtoms]uint64 // neighbour sets as bit masks
 }
 
-// free returns the unused valence (the implicit H count) of atom i.
+// free returns the unused bonding capacity of atom i: its implicit
+// hydrogen count beyond the fixed ones.
 func (m *mol) free(i int) int { return int(m.val[i]) - int(m.bsum[i]) }
 
-// push adds a vertex of colour c (element e, valence val) bonded to the atoms in
-// att with the orders in ord.
-func (m *mol) push(c uint8, e molecule.Element, val int, att, ord []uint8) {
+// hcount returns the hydrogen count of atom i.
+func (m *mol) hcount(i int) int { return int(m.val[i]) + int(m.hx[i]) - int(m.bsum[i]) }
+
+// valence returns the valence state of atom i (bond-order sum plus
+// hydrogens).
+func (m *mol) valence(i int) int { return int(m.val[i]) + int(m.hx[i]) }
+
+// push adds a vertex of colour c (element e, bonding capacity val, fixed
+// hydrogens hx, charge chg) bonded to the atoms in att with the orders in
+// ord.
+func (m *mol) push(c uint8, e molecule.Element, val, hx, chg int, att, ord []uint8) {
 	v := m.n
 	m.n++
 	m.col[v] = c
 	m.el[v] = e
 	m.val[v] = uint8(val)
+	m.hx[v] = uint8(hx)
+	m.chg[v] = int8(chg)
 	m.deg[v] = 0
 	m.bsum[v] = 0
 	m.adj[v] = 0

@@ -27,7 +27,7 @@ func (o *outputBuilder) graph(m *mol) *molecule.Graph {
 	g.Atoms = g.Atoms[:0]
 	g.Bonds = g.Bonds[:0]
 	for i := 0; i < m.n; i++ {
-		g.Atoms = append(g.Atoms, molecule.Atom{Element: m.el[i], HCount: m.free(i)})
+		g.Atoms = append(g.Atoms, molecule.Atom{Element: m.el[i], HCount: m.hcount(i), Charge: int(m.chg[i])})
 	}
 	for i := 0; i < m.n; i++ {
 		for k := 0; k < int(m.deg[i]); k++ {
@@ -41,12 +41,12 @@ func (o *outputBuilder) graph(m *mol) *molecule.Graph {
 	return g
 }
 
-// encode appends a compact form of m: atom count, then element and H count
-// per atom, bond count, then (a, b, order) per bond.
+// encode appends a compact form of m: atom count, then element, H count
+// and charge per atom, bond count, then (a, b, order) per bond.
 func (o *outputBuilder) encode(buf []byte, m *mol) []byte {
 	buf = append(buf, byte(m.n))
 	for i := 0; i < m.n; i++ {
-		buf = append(buf, byte(m.el[i]), byte(m.free(i)))
+		buf = append(buf, byte(m.el[i]), byte(m.hcount(i)), byte(m.chg[i]))
 	}
 	buf = append(buf, byte(m.edges))
 	for i := 0; i < m.n; i++ {
@@ -68,8 +68,8 @@ func decode(buf []byte, off int, g *molecule.Graph) int {
 	g.Atoms = g.Atoms[:0]
 	g.Bonds = g.Bonds[:0]
 	for i := 0; i < n; i++ {
-		g.Atoms = append(g.Atoms, molecule.Atom{Element: molecule.Element(buf[off]), HCount: int(buf[off+1])})
-		off += 2
+		g.Atoms = append(g.Atoms, molecule.Atom{Element: molecule.Element(buf[off]), HCount: int(buf[off+1]), Charge: int(int8(buf[off+2]))})
+		off += 3
 	}
 	ne := int(buf[off])
 	off++

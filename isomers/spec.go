@@ -1,0 +1,439 @@
+package isomers
+
+import (
+	"crypto/sha256"
+	"fmt"
+	"strings"
+	"sync"
+
+	"shiftrank/molecule"
+)
+
+// Spec restricts a run to the structures whose heavy atoms can be divided
+// into the given classes, each atom obeying its class's local rules. The
+// classes together must hold exactly the formula's heavy atoms.
+//
+// The rules enter the canonical augmentation itself: every partial
+// structure is tested after each added atom and dropped as soon as one of
+// its atoms can no longer satisfy its class (too many neighbours, a bond
+// of the wrong order, too many hydrogens next to it, or — once the atom and
+// its neighbours are complete — too few). Each test is hereditary (if a
+// partial structure fails it, so does everything built from it), so the
+// pruning never loses a structure that satisfies the Spec, and the work
+// grows with the constrained space rather than with the whole isomer space.
+//
+// A structure that can be divided into the classes in several ways (two
+// classes of the same element and hydrogen count whose rules both fit one
+// atom) is still emitted once: the run then keeps a set of the emitted
+// structures' canonical forms (see Options.Seen).
+type Spec struct {
+	Classes []Class
+}
+
+// FreeH as Class.H lets the atoms of a class take any hydrogen count (the
+// unused valence, as in an unconstrained run).
+const FreeH = -1
+
+// Unbounded as NeighbourRule.Max means no upper limit.
+const Unbounded = -1
+
+// Class is Count heavy atoms of one element with the same hydrogen count
+// and the same local rules.
+type Class struct {
+	// Name says what the class stands for ("CH3 of peak 4"); for messages.
+	Name    string
+	Element molecule.Element
+	// Valences lists the allowed valence states (bond-order sum plus
+	// hydrogens); nil means all of the element's neutral valences. With
+	// Charge ±1 it must be given.
+	Valences []int
+	// Charge is the formal charge of each atom: 0, or +1/−1 for the
+	// charge-separated groups (see Options.ChargeSeparated).
+	Charge int
+	// H is the number of hydrogens on each atom, or FreeH.
+	H     int
+	Count int
+	// MinDegree and MaxDegree bound the number of heavy-atom neighbours
+	// (0 = no bound).
+	MinDegree, MaxDegree int
+	// Bonds restricts the orders of the atom's bonds.
+	Bonds BondPattern
+	// Vicinal bounds the hydrogens three bonds from each hydrogen of the
+	// atom (the n+1 rule's coupling partners): Max counts hydrogens on
+	// neighbouring carbons, leaving out aldehyde hydrogens (whose vicinal
+	// couplings are 1–3 Hz and often unresolved); Min counts hydrogens on
+	// every neighbour (N–H and O–H couplings are often seen in CDCl3) plus
+	// fluorines on the atom and its neighbours.
+	Vicinal Bound
+	// Neighbours are rules on the atom's neighbours, all of which must hold.
+	Neighbours []NeighbourRule
+}
+
+// BondPattern restricts the orders of an atom's bonds.
+type BondPattern uint8
+
+// The bond patterns.
+const (
+	AnyBonds     BondPattern = iota
+	SingleBonds              // sp3: single bonds only
+	OneDouble                // sp2 in a chain or ring: exactly one double bond, no triple
+	Unsaturated              // at least one double or triple bond
+	OneTriple                // exactly one triple bond
+)
+
+var bondPatternNames = [...]string{"any bonds", "single bonds only", "exactly one double bond", "a double or triple bond", "exactly one triple bond"}
+
+// String names the pattern.
+func (b BondPattern) String() string {
+	if int(b) < len(bondPatternNames) {
+		return bondPatternNames[b]
+	}
+	return fmt.Sprintf("BondPattern(%d)", uint8(b))
+}
+
+// Bound is an inclusive range that applies only when On.
+type Bound struct {
+	On       bool
+	Min, Max int
+}
+
+// NeighbourRule requires that between Min and Max (Unbounded: no limit)
+// of an atom's neighbours match: a neighbour matches if it belongs to one
+// of Classes (indices into Spec.Classes), or is one of Elements, or — when
+// Unsaturated — carries a double or triple bond. The count is tested once
+// the atom is complete; Max is tested all along.
+type NeighbourRule struct {
+	Classes     []int
+	Elements    []molecule.Element
+	Unsaturated bool
+	Min, Max    int
+}
+
+// SpecError reports a Spec that cannot be used with a formula.
+type SpecError struct {
+	Class int // index of the class at fault, or −1 for the whole Spec
+	Msg   string
+}
+
+// Error names the class and the problem.
+func (e *SpecError) Error() string {
+	if e.Class < 0 {
+		return "isomers: spec: " + e.Msg
+	}
+	return fmt.Sprintf("isomers: spec class %d: %s", e.Class, e.Msg)
+}
+
+// crule is a class's rules compiled for the inner loop.
+type crule struct {
+	minDeg, maxDeg uint8
+	bonds          BondPattern
+	vic            Bound
+	nbr            []cnbr
+	fixedH         bool
+}
+
+type cnbr struct {
+	colours  uint64 // colour indices
+	elements uint32 // element bits
+	unsat    bool
+	min, max int
+}
+
+// validate checks s against f and returns the number of hydrogens not
+// fixed by a class (to be carried by FreeH classes).
+func (s *Spec) validate(f molecule.Formula) (freeH int, err error) {
+	if len(s.Classes) == 0 {
+		return 0, &SpecError{Class: -1, Msg: "no classes"}
+	}
+	var count [molecule.NumElements]int
+	fixedH, free := 0, false
+	for i, c := range s.Classes {
+		if c.Element <= molecule.H || c.Element >= molecule.NumElements {
+			return 0, &SpecError{Class: i, Msg: "not a heavy element"}
+		}
+		if c.Count <= 0 {
+			return 0, &SpecError{Class: i, Msg: "count must be positive"}
+		}
+		if c.Charge != 0 && len(c.Valences) == 0 {
+			return 0, &SpecError{Class: i, Msg: "a charged class must give its valence"}
+		}
+		if c.Charge < -1 || c.Charge > 1 {
+			return 0, &SpecError{Class: i, Msg: "charge must be −1, 0 or +1"}
+		}
+		if c.H < FreeH {
+			return 0, &SpecError{Class: i, Msg: "negative hydrogen count"}
+		}
+		for _, v := range c.valences() {
+			if c.H > v {
+				return 0, &SpecError{Class: i, Msg: fmt.Sprintf("%d hydrogens exceed valence %d", c.H, v)}
+			}
+		}
+		for _, r := range c.Neighbours {
+			for _, k := range r.Classes {
+				if k < 0 || k >= len(s.Classes) {
+					return 0, &SpecError{Class: i, Msg: fmt.Sprintf("neighbour rule names class %d of %d", k, len(s.Classes))}
+				}
+			}
+			if r.Max >= 0 && r.Max < r.Min {
+				return 0, &SpecError{Class: i, Msg: "neighbour rule with max below min"}
+			}
+		}
+		count[c.Element] += c.Count
+		if c.H == FreeH {
+			free = true
+		} else {
+			fixedH += c.H * c.Count
+		}
+	}
+	for e := molecule.H + 1; e < molecule.NumElements; e++ {
+		if count[e] != f.Count(e) {
+			return 0, &SpecError{Class: -1, Msg: fmt.Sprintf("classes hold %d %s atoms, the formula %d", count[e], e, f.Count(e))}
+		}
+	}
+	freeH = f.HydrogenCount() - fixedH
+	switch {
+	case freeH < 0:
+		return 0, &SpecError{Class: -1, Msg: fmt.Sprintf("classes fix %d hydrogens, the formula has %d", fixedH, f.HydrogenCount())}
+	case freeH > 0 && !free:
+		return 0, &SpecError{Class: -1, Msg: fmt.Sprintf("classes fix %d hydrogens, the formula has %d, and no class takes the rest", fixedH, f.HydrogenCount())}
+	}
+	if len(s.Classes) > maxColours {
+		return 0, &SpecError{Class: -1, Msg: fmt.Sprintf("%d classes exceed the limit of %d", len(s.Classes), maxColours)}
+	}
+	return freeH, nil
+}
+
+func (c *Class) valences() []int {
+	if len(c.Valences) > 0 {
+		return c.Valences
+	}
+	return c.Element.Valences()
+}
+
+// String describes the class in one line.
+func (c Class) String() string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "%d × %s", c.Count, c.Element)
+	if c.H != FreeH {
+		fmt.Fprintf(&b, "H%d", c.H)
+	}
+	if c.Charge > 0 {
+		b.WriteString("+")
+	} else if c.Charge < 0 {
+		b.WriteString("−")
+	}
+	if c.Name != "" {
+		fmt.Fprintf(&b, " (%s)", c.Name)
+	}
+	return b.String()
+}
+
+// complete reports whether atom x can take no further bond: its
+// hydrogen count is fixed and its valence is used up, or the whole
+// structure is complete.
+func (s *searcher) complete(x int) bool {
+	return s.done || (s.rule[x] != nil && s.rule[x].fixedH && s.m.free(x) == 0)
+}
+
+// multiples counts the double and triple bonds of atom x.
+func (m *mol) multiples(x int) (doubles, triples int) {
+	for k := 0; k < int(m.deg[x]); k++ {
+		switch m.bo[x][k] {
+		case 2:
+			doubles++
+		case 3:
+			triples++
+		}
+	}
+	return
+}
+
+// doubleToO reports whether atom x has a double bond to an oxygen.
+func (m *mol) doubleToO(x int) bool {
+	for k := 0; k < int(m.deg[x]); k++ {
+		if m.bo[x][k] == 2 && m.el[m.nb[x][k]] == molecule.O {
+			return true
+		}
+	}
+	return false
+}
+
+// ruleOK tests the rules of atom x in the current partial structure; it is
+// false only when no structure built from it can satisfy them.
+func (s *searcher) ruleOK(x int) bool {
+	r := s.rule[x]
+	if r == nil {
+		return true
+	}
+	m := &s.m
+	if s.done && r.fixedH && m.free(x) != 0 {
+		return false
+	}
+	deg := int(m.deg[x])
+	if r.maxDeg > 0 && deg > int(r.maxDeg) {
+		return false
+	}
+	cx := s.complete(x)
+	if cx && deg < int(r.minDeg) {
+		return false
+	}
+	if r.bonds != AnyBonds {
+		d, t := m.multiples(x)
+		switch r.bonds {
+		case SingleBonds:
+			if d+t > 0 {
+				return false
+			}
+		case OneDouble:
+			if d > 1 || t > 0 || cx && d == 0 {
+				return false
+			}
+		case Unsaturated:
+			if cx && d+t == 0 {
+				return false
+			}
+		case OneTriple:
+			if t > 1 || d > 0 || cx && t == 0 {
+				return false
+			}
+		}
+	}
+	if r.vic.On {
+		sure, all, allKnown := 0, 0, cx
+		for k := 0; k < deg; k++ {
+			u := int(m.nb[x][k])
+			cu := s.complete(u)
+			if !cu {
+				allKnown = false
+			}
+			h := s.knownH(u, cu)
+			if m.el[u] == molecule.C && h > 0 && !(h == 1 && (!cu || m.doubleToO(u))) {
+				sure += h
+			}
+			all += h
+			if cu && m.el[u] == molecule.F {
+				all++
+			}
+			if cu {
+				for j := 0; j < int(m.deg[u]); j++ {
+					if w := m.nb[u][j]; int(w) != x && m.el[w] == molecule.F {
+						all++
+					}
+				}
+			}
+		}
+		if sure > r.vic.Max {
+			return false
+		}
+		if allKnown && all < r.vic.Min {
+			return false
+		}
+	}
+	for i := range r.nbr {
+		nr := &r.nbr[i]
+		yes, maybe := 0, 0
+		for k := 0; k < deg; k++ {
+			u := int(m.nb[x][k])
+			switch {
+			case nr.colours&(1<<m.col[u]) != 0 || nr.elements&(1<<m.el[u]) != 0:
+				yes++
+			case nr.unsat:
+				if d, t := m.multiples(u); d+t > 0 {
+					yes++
+				} else if !s.complete(u) {
+					maybe++
+				}
+			}
+		}
+		if nr.max >= 0 && yes > nr.max {
+			return false
+		}
+		if cx && yes+maybe < nr.min {
+			return false
+		}
+	}
+	return true
+}
+
+// knownH returns the final hydrogen count of atom u when it is known (a
+// fixed count, or u is complete), else 0.
+func (s *searcher) knownH(u int, complete bool) int {
+	if r := s.rule[u]; r != nil && r.fixedH {
+		return int(s.m.hx[u])
+	}
+	if complete {
+		return s.m.hcount(u)
+	}
+	return 0
+}
+
+// rulesOK tests the rules of the last atom, of the atoms bonded to it and
+// of their neighbours (whose tests may depend on whether those atoms are
+// complete).
+func (s *searcher) rulesOK() bool {
+	m := &s.m
+	v := m.n - 1
+	if !s.ruleOK(v) {
+		return false
+	}
+	for k := 0; k < int(m.deg[v]); k++ {
+		u := int(m.nb[v][k])
+		if !s.ruleOK(u) {
+			return false
+		}
+		if !s.complete(u) {
+			continue
+		}
+		for j := 0; j < int(m.deg[u]); j++ {
+			if w := int(m.nb[u][j]); w != v && !s.ruleOK(w) {
+				return false
+			}
+		}
+	}
+	return true
+}
+
+// allRulesOK tests every atom of a complete structure.
+func (s *searcher) allRulesOK() bool {
+	for x := 0; x < s.m.n; x++ {
+		if !s.ruleOK(x) {
+			return false
+		}
+	}
+	return true
+}
+
+// Seen is a set of structures, by a 128-bit hash of their canonical key
+// (molecule.Canonicalizer; Kekulé structures of one compound share it),
+// safe for concurrent use. Share one between runs over different Specs of
+// one formula so that a structure fitting several comes out once. Its
+// memory grows by about 40 bytes per structure.
+type Seen struct {
+	mu sync.Mutex
+	m  map[[16]byte]struct{}
+}
+
+// NewSeen returns an empty set.
+func NewSeen() *Seen { return &Seen{m: map[[16]byte]struct{}{}} }
+
+// Len returns the number of structures in the set.
+func (s *Seen) Len() int {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	return len(s.m)
+}
+
+// add inserts the structure with canonical key k and reports whether it
+// was new.
+func (s *Seen) add(k []byte) bool {
+	h := sha256.Sum256(k)
+	var key [16]byte
+	copy(key[:], h[:16])
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if _, ok := s.m[key]; ok {
+		return false
+	}
+	s.m[key] = struct{}{}
+	return true
+}
