@@ -74,11 +74,11 @@ type BondPattern uint8
 
 // The bond patterns.
 const (
-	AnyBonds     BondPattern = iota
-	SingleBonds              // sp3: single bonds only
-	OneDouble                // sp2 in a chain or ring: exactly one double bond, no triple
-	Unsaturated              // at least one double or triple bond
-	OneTriple                // exactly one triple bond
+	AnyBonds    BondPattern = iota
+	SingleBonds             // sp3: single bonds only
+	OneDouble               // sp2 in a chain or ring: exactly one double bond, no triple
+	Unsaturated             // at least one double or triple bond
+	OneTriple               // exactly one triple bond
 )
 
 var bondPatternNames = [...]string{"any bonds", "single bonds only", "exactly one double bond", "a double or triple bond", "exactly one triple bond"}
