@@ -166,8 +166,8 @@ func checkProtonList(t *testing.T, e realsizeEntry) {
 	case math.Abs(missing) < 0.01:
 	case missing > 0 && strings.Contains(e.ref.Name, noExchangeableNote) && missing <= float64(exch)+0.01:
 	default:
-		t.Errorf("%s: 1H integrals sum to %.2f H, formula %s has %d H (%d exchangeable; a list may omit them only with %q in the name)",
-			e, sum, e.ref.Formula, hTotal, exch, noExchangeableNote)
+		t.Errorf("%s: 1H integrals sum to %.2f H, the structure (%s) has %d H (%d exchangeable; a list may omit them only with %q in the name)",
+			e, sum, e.g.Formula(), hTotal, exch, noExchangeableNote)
 	}
 }
 
@@ -210,7 +210,7 @@ func checkCarbonList(t *testing.T, e realsizeEntry) {
 		t.Errorf("%s: %d 13C signals for %d carbons", e, len(cl.signals), nC)
 	}
 	if total != nC {
-		t.Errorf("%s: 13C signals count %d carbons with their (nC), formula %s has %d", e, total, e.ref.Formula, nC)
+		t.Errorf("%s: 13C signals count %d carbons with their (nC), the structure (%s) has %d", e, total, e.g.Formula(), nC)
 		return
 	}
 	orbits := carbonOrbitSizes(e.g)
