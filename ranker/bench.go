@@ -22,8 +22,12 @@ type Reference struct {
 	Formula string `json:"formula"`
 	SMILES  string `json:"smiles"`
 	Peaks   string `json:"peaks"`
-	Source  string `json:"source"`
-	Group   string `json:"group,omitempty"`
+	// Carbon is the observed 13C peak list in journal notation
+	// ("13C NMR (101 MHz, CDCl3) δ 171.2, 134.1, 129.3 (2C), ..."), with
+	// "(nC)" where n carbons give one signal; empty if none was given.
+	Carbon string `json:"carbon,omitempty"`
+	Source string `json:"source"`
+	Group  string `json:"group,omitempty"`
 }
 
 // ReferenceSet is an accuracy set (testdata/accuracy.json).
