@@ -169,7 +169,14 @@ func (p *plan) specColours(f molecule.Formula, s *Spec) error {
 	}
 	for i, c := range s.Classes {
 		g := group{count: c.Count}
-		r := &crule{fixedH: c.H != FreeH, bonds: c.Bonds, vic: c.Vicinal}
+		r := &crule{fixedH: c.H != FreeH, bonds: c.Bonds, vic: c.Vicinal, sum: c.Sum}
+		if c.Sum != nil {
+			r.cHull = c.Sum.Per[KindCarbonSP3]
+			for _, k := range []NeighbourKind{KindCarbonC2, KindCarbonyl, KindCarbonSP} {
+				r.cHull.Lo = min(r.cHull.Lo, c.Sum.Per[k].Lo)
+				r.cHull.Hi = max(r.cHull.Hi, c.Sum.Per[k].Hi)
+			}
+		}
 		if c.MinDegree > 0 {
 			r.minDeg = uint8(c.MinDegree)
 		}
@@ -177,7 +184,7 @@ func (p *plan) specColours(f molecule.Formula, s *Spec) error {
 			r.maxDeg = uint8(c.MaxDegree)
 		}
 		for _, nr := range c.Neighbours {
-			cn := cnbr{unsat: nr.Unsaturated, min: nr.Min, max: nr.Max}
+			cn := cnbr{unsat: nr.Unsaturated, double: nr.Double, min: nr.Min, max: nr.Max}
 			for _, k := range nr.Classes {
 				for j := range s.Classes[k].valences() {
 					cn.colours |= 1 << (first[k] + j)

@@ -67,6 +67,53 @@ type Class struct {
 	Vicinal Bound
 	// Neighbours are rules on the atom's neighbours, all of which must hold.
 	Neighbours []NeighbourRule
+	// Sum, when not nil, bounds a sum over the atom's neighbours of an
+	// interval per kind of neighbour (see NeighbourSum).
+	Sum *NeighbourSum
+}
+
+// NeighbourKind classifies a neighbouring atom for NeighbourSum. A carbon
+// is classified by its bonds: a triple bond or two double bonds make it
+// KindCarbonSP; else a double bond to O, N or S KindCarbonyl; else a
+// double bond to C KindCarbonC2 (alkene or aromatic carbon); else
+// KindCarbonSP3. A nitrogen with a positive charge is KindNPlus.
+type NeighbourKind uint8
+
+// The neighbour kinds.
+const (
+	KindCarbonSP3 NeighbourKind = iota
+	KindCarbonC2
+	KindCarbonyl
+	KindCarbonSP
+	KindN
+	KindNPlus
+	KindO
+	KindS
+	KindF
+	KindCl
+	KindBr
+	KindI
+	KindP
+	KindSi
+	KindB
+	NumKinds
+)
+
+// Interval is a closed range of reals.
+type Interval struct{ Lo, Hi float64 }
+
+// NeighbourSum requires that the interval sum over the atom's neighbours
+// of Per[kind of the neighbour] intersect Target, once the atom is
+// complete. A carbon neighbour whose kind may still change (it can take
+// more bonds and has no triple bond) counts with the hull of the four
+// carbon kinds' intervals. This expresses additive shift increments: with
+// Per the range of the α-increment each kind of substituent gives and
+// Target the observed shift minus the base value (widened for β and ring
+// effects), a structure whose substituents cannot reach the observed shift
+// is pruned.
+type NeighbourSum struct {
+	Per    [NumKinds]Interval
+	Target Interval
 }
 
 // BondPattern restricts the orders of an atom's bonds.
@@ -106,7 +153,9 @@ type NeighbourRule struct {
 	Classes     []int
 	Elements    []molecule.Element
 	Unsaturated bool
-	Min, Max    int
+	// Double counts only neighbours joined to the atom by a double bond.
+	Double   bool
+	Min, Max int
 }
 
 // SpecError reports a Spec that cannot be used with a formula.
@@ -129,6 +178,8 @@ type crule struct {
 	bonds          BondPattern
 	vic            Bound
 	nbr            []cnbr
+	sum            *NeighbourSum
+	cHull          Interval // hull of the carbon kinds' intervals of sum
 	fixedH         bool
 }
 
@@ -136,6 +187,7 @@ type cnbr struct {
 	colours  uint64 // colour indices
 	elements uint32 // element bits
 	unsat    bool
+	double   bool
 	min, max int
 }
 
@@ -334,6 +386,9 @@ func (s *searcher) ruleOK(x int) bool {
 		yes, maybe := 0, 0
 		for k := 0; k < deg; k++ {
 			u := int(m.nb[x][k])
+			if nr.double && m.bo[x][k] != 2 {
+				continue
+			}
 			switch {
 			case nr.colours&(1<<m.col[u]) != 0 || nr.elements&(1<<m.el[u]) != 0:
 				yes++
@@ -352,7 +407,68 @@ func (s *searcher) ruleOK(x int) bool {
 			return false
 		}
 	}
+	if r.sum != nil && cx {
+		lo, hi := 0.0, 0.0
+		for k := 0; k < deg; k++ {
+			u := int(m.nb[x][k])
+			iv := s.kindInterval(r, u)
+			lo += iv.Lo
+			hi += iv.Hi
+		}
+		if hi < r.sum.Target.Lo || lo > r.sum.Target.Hi {
+			return false
+		}
+	}
 	return true
+}
+
+// kindInterval returns the NeighbourSum interval of neighbour u: that of
+// its kind, or for a carbon whose kind may still change the hull of the
+// carbon kinds.
+func (s *searcher) kindInterval(r *crule, u int) Interval {
+	m := &s.m
+	switch m.el[u] {
+	case molecule.C:
+		d, t := m.multiples(u)
+		switch {
+		case t > 0 || d > 1:
+			return r.sum.Per[KindCarbonSP]
+		case !s.complete(u):
+			return r.cHull
+		case d == 1:
+			for k := 0; k < int(m.deg[u]); k++ {
+				if m.bo[u][k] == 2 && m.el[m.nb[u][k]] != molecule.C {
+					return r.sum.Per[KindCarbonyl]
+				}
+			}
+			return r.sum.Per[KindCarbonC2]
+		}
+		return r.sum.Per[KindCarbonSP3]
+	case molecule.N:
+		if m.chg[u] > 0 {
+			return r.sum.Per[KindNPlus]
+		}
+		return r.sum.Per[KindN]
+	case molecule.O:
+		return r.sum.Per[KindO]
+	case molecule.S:
+		return r.sum.Per[KindS]
+	case molecule.F:
+		return r.sum.Per[KindF]
+	case molecule.Cl:
+		return r.sum.Per[KindCl]
+	case molecule.Br:
+		return r.sum.Per[KindBr]
+	case molecule.I:
+		return r.sum.Per[KindI]
+	case molecule.P:
+		return r.sum.Per[KindP]
+	case molecule.Si:
+		return r.sum.Per[KindSi]
+	case molecule.B:
+		return r.sum.Per[KindB]
+	}
+	return Interval{}
 }
 
 // knownH returns the final hydrogen count of atom u when it is known (a

@@ -126,10 +126,24 @@ func atomFits(g *molecule.Graph, s *Spec, cls []int, x int) bool {
 			return false
 		}
 	}
+	if c.Sum != nil {
+		lo, hi := 0.0, 0.0
+		for _, e := range nb {
+			iv := c.Sum.Per[kindOf(g, e.Atom)]
+			lo += iv.Lo
+			hi += iv.Hi
+		}
+		if hi < c.Sum.Target.Lo || lo > c.Sum.Target.Hi {
+			return false
+		}
+	}
 	for _, r := range c.Neighbours {
 		count := 0
 		for _, e := range nb {
 			u := e.Atom
+			if r.Double && e.Order != molecule.Double {
+				continue
+			}
 			d, t := multiples(u)
 			if slices.Contains(r.Classes, cls[u]) || slices.Contains(r.Elements, g.Atoms[u].Element) || r.Unsaturated && d+t > 0 {
 				count++
@@ -140,6 +154,40 @@ func atomFits(g *molecule.Graph, s *Spec, cls []int, x int) bool {
 		}
 	}
 	return true
+}
+
+// kindOf classifies atom u of a complete graph as NeighbourSum does.
+func kindOf(g *molecule.Graph, u int) NeighbourKind {
+	a := g.Atoms[u]
+	switch a.Element {
+	case molecule.C:
+		d, t, hetero := 0, 0, false
+		for _, e := range g.Neighbors(u) {
+			switch e.Order {
+			case molecule.Double:
+				d++
+				hetero = hetero || g.Atoms[e.Atom].Element != molecule.C
+			case molecule.Triple:
+				t++
+			}
+		}
+		switch {
+		case t > 0 || d > 1:
+			return KindCarbonSP
+		case d == 1 && hetero:
+			return KindCarbonyl
+		case d == 1:
+			return KindCarbonC2
+		}
+		return KindCarbonSP3
+	case molecule.N:
+		if a.Charge > 0 {
+			return KindNPlus
+		}
+		return KindN
+	}
+	return map[molecule.Element]NeighbourKind{molecule.O: KindO, molecule.S: KindS, molecule.F: KindF,
+		molecule.Cl: KindCl, molecule.Br: KindBr, molecule.I: KindI, molecule.P: KindP, molecule.Si: KindSi, molecule.B: KindB}[a.Element]
 }
 
 // specSet runs the constrained generator and returns canonical SMILES.
@@ -338,6 +386,40 @@ func randomSpec(rng *rand.Rand, g *molecule.Graph) Spec {
 			c.Vicinal = Bound{On: true, Min: lo, Max: hi}
 		}
 		if rng.IntN(2) == 0 {
+			// a neighbour sum with random intervals, its target around
+			// the value for the atoms of the class
+			var ns NeighbourSum
+			for k := range ns.Per {
+				a := rng.Float64() * 2
+				ns.Per[k] = Interval{a, a + rng.Float64()}
+			}
+			lo, hi := 1e9, -1e9
+			for _, x := range atoms {
+				v := 0.0
+				for _, e := range g.Neighbors(x) {
+					iv := ns.Per[kindOf(g, e.Atom)]
+					v += (iv.Lo + iv.Hi) / 2
+				}
+				lo, hi = min(lo, v), max(hi, v)
+			}
+			ns.Target = Interval{lo - 0.1, hi + 0.1}
+			c.Sum = &ns
+		}
+		if rng.IntN(3) == 0 {
+			// double-bonded heteroatom neighbours, as counted
+			lo, hi := 99, 0
+			for _, x := range atoms {
+				n := 0
+				for _, e := range g.Neighbors(x) {
+					if e.Order == molecule.Double && g.Atoms[e.Atom].Element != molecule.C {
+						n++
+					}
+				}
+				lo, hi = min(lo, n), max(hi, n)
+			}
+			c.Neighbours = append(c.Neighbours, NeighbourRule{Elements: []molecule.Element{molecule.N, molecule.O, molecule.S}, Double: true, Min: lo, Max: hi})
+		}
+		if rng.IntN(2) == 0 {
 			// neighbours that are heteroatoms or unsaturated, as counted
 			lo, hi := 99, 0
 			for _, x := range atoms {
@@ -410,7 +492,7 @@ func TestSpecRandomAgainstReference(t *testing.T) {
 			return true
 		})
 		require.NoError(t, err)
-		for k := 0; k < 6; k++ {
+		for k := 0; k < 14; k++ {
 			g := all[rng.IntN(len(all))]
 			spec := randomSpec(rng, g)
 			t.Run(fmt.Sprintf("%s/%s/%d", fs, molecule.CanonicalSMILES(g), k), func(t *testing.T) {
