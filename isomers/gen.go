@@ -307,6 +307,10 @@ type searcher struct {
 	// poll is called every few thousand nodes; returning false stops.
 	poll    func() bool
 	nodes   int
+	// nodeCap, when positive, stops the current task after that many
+	// nodes (Options.NodeLimit); truncated records that it did.
+	nodeCap   int
+	truncated bool
 	covered float64 // weight of finished subtrees (see Stats.Fraction)
 	cut     [MaxAtoms]bool
 	cutw    cutScratch
@@ -411,6 +415,11 @@ func (s *searcher) expand(weight float64) {
 // instead and the returned slice stays empty.
 func (s *searcher) children(kids []aug) []aug {
 	s.nodes++
+	if s.nodeCap > 0 && s.nodes > s.nodeCap {
+		s.stopped = true
+		s.truncated = true
+		return kids
+	}
 	if s.nodes&1023 == 0 && s.poll != nil && !s.poll() {
 		s.stopped = true
 		return kids

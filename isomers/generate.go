@@ -2,6 +2,7 @@ package isomers
 
 import (
 	"context"
+	"crypto/sha256"
 	"fmt"
 	"math/rand/v2"
 	"runtime"
@@ -38,6 +39,14 @@ type Options struct {
 	// fragment and none of the Forbid fragments. Stats.Constrained counts
 	// the structures they removed.
 	Require, Forbid []*molecule.Fragment
+	// NodeLimit, when positive, bounds the search work: the search tree
+	// is split into subtrees (a fixed set for a formula and Spec) and each
+	// may visit at most NodeLimit/(number of subtrees) nodes. Unlike Limit
+	// and the context, it stops the same subtrees at the same place on
+	// every run, so a truncated run emits the same structures however many
+	// workers run and however loaded the machine is. Stats.Truncated
+	// counts the subtrees it cut short.
+	NodeLimit int64
 	// Seen, when not nil, is a set of structures shared with other runs:
 	// a structure already in it is not emitted again, and each emitted
 	// structure is added. Runs with an ambiguous Spec use a set of their
@@ -59,6 +68,10 @@ type Stats struct {
 	// removed (the first enabled rule that objects is charged). Rules that
 	// removed nothing are absent.
 	Removed map[string]int64
+	// Truncated counts the subtrees that NodeLimit cut short (the run is
+	// then not Complete); Nodes counts the search nodes visited.
+	Truncated int
+	Nodes     int64
 	// Constrained counts structures that passed the filter but not the
 	// Require and Forbid fragments; Duplicates counts structures not
 	// emitted because Seen already held them.
@@ -146,8 +159,20 @@ type runner struct {
 	require []*molecule.Fragment
 	forbid  []*molecule.Fragment
 	seen    *Seen
+	nodeCap int
+	// ordered is set by Generate, whose consumer tests Seen in subtree
+	// order so that a truncated run's output does not depend on timing.
+	ordered bool
 
 	allKekule bool
+}
+
+// taskNodeCap divides a node limit over the subtrees (0: no limit).
+func taskNodeCap(limit int64, tasks int) int {
+	if limit <= 0 || tasks == 0 {
+		return 0
+	}
+	return int(max(1, limit/int64(tasks)))
 }
 
 // workerState is what one worker accumulates.
@@ -159,6 +184,8 @@ type workerState struct {
 	emitted     int64
 	constrained int64
 	duplicates  int64
+	truncated   int
+	nodes       int64
 	canon       molecule.Canonicalizer
 	key         []byte
 }
@@ -189,6 +216,7 @@ func prepare(ctx context.Context, f molecule.Formula, opts Options) (*runner, in
 		w = 1
 	}
 	r := &runner{p: p, filter: opts.Filter, tasks: tasks, limit: opts.Limit, ctx: ctx, allKekule: opts.allKekule,
+		nodeCap: taskNodeCap(opts.NodeLimit, len(tasks)),
 		require: opts.Require, forbid: opts.Forbid, seen: opts.Seen}
 	if r.seen == nil && p.ambiguous {
 		r.seen = NewSeen()
@@ -204,9 +232,8 @@ func (ws *workerState) process(r *runner, m *mol) bool {
 			return false
 		}
 	}
-	if r.seen != nil {
-		ws.key = ws.canon.AppendKey(ws.key[:0], ws.out.graph(m))
-		if !r.seen.add(ws.key) {
+	if r.seen != nil && !r.ordered {
+		if !r.seen.add(ws.hash(m)) {
 			ws.duplicates++
 			return false
 		}
@@ -264,15 +291,31 @@ func (r *runner) poll() bool {
 func (r *runner) newWorker() *workerState {
 	ws := &workerState{s: newSearcher(r.p)}
 	ws.s.poll = r.poll
+	ws.s.nodeCap = r.nodeCap
 	return ws
+}
+
+// hash returns the 128-bit hash of m's canonical key (see Seen).
+func (ws *workerState) hash(m *mol) [16]byte {
+	ws.key = ws.canon.AppendKey(ws.key[:0], ws.out.graph(m))
+	h := sha256.Sum256(ws.key)
+	var k [16]byte
+	copy(k[:], h[:16])
+	return k
 }
 
 // runTask searches one task's subtree.
 func (ws *workerState) runTask(t *task) {
 	s := ws.s
 	s.stopped = false
+	ws.nodes += int64(s.nodes)
+	s.nodes = 0
 	s.reset(t.assign, t.root, t.path)
 	s.expand(t.weight)
+	if s.truncated {
+		ws.truncated++
+		s.truncated = false
+	}
 }
 
 func (r *runner) stats(workers []*workerState, covered float64, complete bool) Stats {
@@ -282,6 +325,8 @@ func (r *runner) stats(workers []*workerState, covered float64, complete bool) S
 		st.Emitted += ws.emitted
 		st.Constrained += ws.constrained
 		st.Duplicates += ws.duplicates
+		st.Truncated += ws.truncated
+		st.Nodes += ws.nodes + int64(ws.s.nodes)
 		for i, n := range ws.removed {
 			if n > 0 {
 				st.Removed[ruleTable[i].Name] += n
@@ -359,6 +404,10 @@ func GenerateConcurrent(ctx context.Context, f molecule.Formula, opts Options, y
 	}
 	complete := !r.stop.Load() && int(r.nextT.Load()) >= len(r.tasks)
 	st := r.stats(workers, total, complete)
+	if st.Truncated > 0 {
+		st.Complete = false
+		st.Fraction = min(st.Fraction, 1-1e-9)
+	}
 	if err := ctx.Err(); err != nil {
 		st.Complete = false
 		return st, err
@@ -396,6 +445,7 @@ func Generate(ctx context.Context, f molecule.Formula, opts Options, yield func(
 	if err != nil {
 		return Stats{Removed: map[string]int64{}}, err
 	}
+	r.ordered = true
 	chans := make([]chan *result, len(r.tasks))
 	for i := range chans {
 		chans[i] = make(chan *result, 4)
@@ -409,8 +459,10 @@ func Generate(ctx context.Context, f molecule.Formula, opts Options, yield func(
 	}
 	done := make(chan struct{}) // closed when the consumer stops
 	var wg sync.WaitGroup
+	wss := make([]*workerState, nw)
 	for wi := 0; wi < nw; wi++ {
 		ws := r.newWorker()
+		wss[wi] = ws
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
@@ -448,6 +500,10 @@ func Generate(ctx context.Context, f molecule.Formula, opts Options, yield func(
 						return !r.stop.Load()
 					}
 					cur.data = ws.out.encode(cur.data, m)
+					if r.seen != nil {
+						k := ws.hash(m)
+						cur.data = append(cur.data, k[:]...)
+					}
 					cur.count++
 					if cur.count == batchSize {
 						return flush()
@@ -481,6 +537,16 @@ func Generate(ctx context.Context, f molecule.Formula, opts Options, yield func(
 			off := 0
 			for i := 0; i < res.count; i++ {
 				off = decode(res.data, off, g)
+				if r.seen != nil {
+					var k [16]byte
+					copy(k[:], res.data[off:off+16])
+					off += 16
+					if !r.seen.add(k) {
+						st.Duplicates++
+						st.Generated--
+						continue
+					}
+				}
 				st.Emitted++
 				if !yield(g) || (r.limit > 0 && st.Emitted >= r.limit) || ctx.Err() != nil {
 					stopped = true
@@ -498,15 +564,21 @@ func Generate(ctx context.Context, f molecule.Formula, opts Options, yield func(
 	r.stop.Store(true)
 	close(done)
 	wg.Wait()
+	for _, ws := range wss {
+		st.Truncated += ws.truncated
+		st.Nodes += ws.nodes + int64(ws.s.nodes)
+	}
 	for i, n := range removed {
 		if n > 0 {
 			st.Removed[ruleTable[i].Name] = n
 		}
 	}
 	st.Fraction = covered
-	st.Complete = !stopped && ctx.Err() == nil
+	st.Complete = !stopped && ctx.Err() == nil && st.Truncated == 0
 	if st.Complete {
 		st.Fraction = 1
+	} else if st.Truncated > 0 {
+		st.Fraction = min(st.Fraction, 1-1e-9)
 	}
 	if st.Fraction > 1 {
 		st.Fraction = 1

@@ -1,7 +1,6 @@
 package isomers
 
 import (
-	"crypto/sha256"
 	"fmt"
 	"strings"
 	"sync"
@@ -539,12 +538,9 @@ func (s *Seen) Len() int {
 	return len(s.m)
 }
 
-// add inserts the structure with canonical key k and reports whether it
-// was new.
-func (s *Seen) add(k []byte) bool {
-	h := sha256.Sum256(k)
-	var key [16]byte
-	copy(key[:], h[:16])
+// add inserts the structure whose canonical key hashes to key and reports
+// whether it was new.
+func (s *Seen) add(key [16]byte) bool {
 	s.mu.Lock()
 	defer s.mu.Unlock()
 	if _, ok := s.m[key]; ok {

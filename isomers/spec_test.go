@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math/rand/v2"
 	"slices"
+	"sync"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
@@ -503,4 +504,71 @@ func TestSpecRandomAgainstReference(t *testing.T) {
 			})
 		}
 	}
+}
+
+// A node limit cuts the same subtrees at the same place whatever the
+// number of workers, so a truncated run emits the same set.
+func TestNodeLimitDeterministic(t *testing.T) {
+	f := molecule.MustParseFormula("C7H8O")
+	run := func(workers int, concurrent bool) ([]string, Stats) {
+		var out []string
+		var mu sync.Mutex
+		opts := Options{Workers: workers, NodeLimit: 40_000, ChargeSeparated: true}
+		var st Stats
+		var err error
+		if concurrent {
+			st, err = GenerateConcurrent(context.Background(), f, opts, func(_ int, g *molecule.Graph) bool {
+				mu.Lock()
+				out = append(out, molecule.CanonicalSMILES(g))
+				mu.Unlock()
+				return true
+			})
+		} else {
+			st, err = Generate(context.Background(), f, opts, func(g *molecule.Graph) bool {
+				out = append(out, molecule.CanonicalSMILES(g))
+				return true
+			})
+		}
+		require.NoError(t, err)
+		slices.Sort(out)
+		return out, st
+	}
+	a, sa := run(1, false)
+	b, _ := run(2, true)
+	c, _ := run(3, false)
+	require.Positive(t, sa.Truncated, "the limit must cut some subtrees for this test to mean anything")
+	assert.False(t, sa.Complete)
+	assert.Equal(t, a, b)
+	assert.Equal(t, a, c)
+	full, err := Count(context.Background(), f, Options{ChargeSeparated: true})
+	require.NoError(t, err)
+	assert.Less(t, int64(len(a)), full.Emitted)
+}
+
+// With an ambiguous Spec (two classes that can hold the same atom), every
+// structure still comes out once, in Generate and GenerateConcurrent.
+func TestAmbiguousSpecOnce(t *testing.T) {
+	C, O := molecule.C, molecule.O
+	f := molecule.MustParseFormula("C5H10O")
+	spec := &Spec{Classes: []Class{
+		{Element: C, H: 3, Count: 1},
+		{Element: C, H: 3, Count: 1, Vicinal: Bound{On: true, Min: 0, Max: 2}},
+		{Element: C, H: 2, Count: 1},
+		{Element: C, H: 2, Count: 1},
+		{Element: C, H: 0, Count: 1},
+		{Element: O, H: 0, Count: 1},
+	}}
+	ordered := specSet(t, f, spec, DefaultFilter())
+	var conc []string
+	var mu sync.Mutex
+	_, err := GenerateConcurrent(context.Background(), f, Options{Spec: spec}, func(_ int, g *molecule.Graph) bool {
+		mu.Lock()
+		conc = append(conc, molecule.CanonicalSMILES(g))
+		mu.Unlock()
+		return true
+	})
+	require.NoError(t, err)
+	slices.Sort(conc)
+	assert.Equal(t, ordered, conc)
+	assert.Equal(t, referenceSet(t, f, spec, DefaultFilter(), false), ordered)
 }
