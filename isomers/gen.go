@@ -305,18 +305,18 @@ type searcher struct {
 	emit    func(m *mol) bool
 	stopped bool
 	// poll is called every few thousand nodes; returning false stops.
-	poll    func() bool
-	nodes   int
+	poll  func() bool
+	nodes int
 	// nodeCap, when positive, stops the current task after that many
 	// nodes (Options.NodeLimit); truncated records that it did.
 	nodeCap   int
 	truncated bool
-	covered float64 // weight of finished subtrees (see Stats.Fraction)
-	cut     [MaxAtoms]bool
-	cutw    cutScratch
-	res     canonResult
-	distA   [MaxAtoms]int8
-	distB   [MaxAtoms]int8
+	covered   float64 // weight of finished subtrees (see Stats.Fraction)
+	cut       [MaxAtoms]bool
+	cutw      cutScratch
+	res       canonResult
+	distA     [MaxAtoms]int8
+	distB     [MaxAtoms]int8
 	// rule[x] is the compiled rule of atom x's colour (nil: none); done
 	// marks a complete structure while its rules are tested.
 	rule [MaxAtoms]*crule
