@@ -195,4 +195,3 @@ func kindOf(g *molecule.Graph, u int) NeighbourKind {
 	return map[molecule.Element]NeighbourKind{molecule.O: KindO, molecule.S: KindS, molecule.F: KindF,
 		molecule.Cl: KindCl, molecule.Br: KindBr, molecule.I: KindI, molecule.P: KindP, molecule.Si: KindSi, molecule.B: KindB}[a.Element]
 }
-
