@@ -1,0 +1,79 @@
+package ranker
+
+import (
+	"context"
+	"fmt"
+	"os"
+	"testing"
+
+	"shiftrank/infer"
+	"shiftrank/isomers"
+	"shiftrank/molecule"
+)
+
+func TestReadingsDiag(t *testing.T) {
+	if os.Getenv("SHIFTRANK_DIAG") == "" {
+		t.Skip("diagnostic: set SHIFTRANK_DIAG=1")
+	}
+	b, err := os.ReadFile("../testdata/realsize.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	set, err := ParseReferenceSet(b)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := New(Options{})
+	found, first := 0, 0
+	for _, c := range set.Compounds {
+		j, err := r.prepare(Request{Formula: c.Formula, Peaks: diagPeaks(t, c.Peaks)})
+		if err != nil {
+			t.Errorf("%s: %v", c.Name, err)
+			continue
+		}
+		g, _ := molecule.ParseSMILES(c.SMILES)
+		an := infer.Infer(j.formula, j.inferPeaks(), infer.Options{})
+		hit := -1
+		var why []string
+		for k, rd := range an.Readings {
+			ok, w := rd.Spec.Explain(g)
+			if ok {
+				hit = k
+				break
+			}
+			if k < 3 {
+				why = append(why, w)
+			}
+		}
+		size := ""
+		if hit >= 0 {
+			found++
+			if hit == 0 {
+				first++
+			}
+			st, _ := isomers.Count(context.Background(), j.formula, isomers.Options{Spec: &an.Readings[hit].Spec, NodeLimit: 5_000_000})
+			size = fmt.Sprintf("size %d complete=%v nodes=%d", st.Emitted, st.Complete, st.Nodes)
+		}
+		fmt.Printf("%-40s %-10s readings=%2d hit=%2d %s\n", c.Name, c.Formula, len(an.Readings), hit, size)
+		if hit != 0 {
+			if len(an.Readings) > 0 {
+				fmt.Printf("    top: %s\n", an.Readings[0].Name)
+			}
+			for _, w := range why {
+				fmt.Printf("    why: %s\n", w)
+			}
+			for _, n := range an.Notes {
+				fmt.Printf("    note: %s\n", n)
+			}
+		}
+	}
+	fmt.Printf("truth in a reading: %d/%d, in the first: %d\n", found, len(set.Compounds), first)
+}
+
+func diagPeaks(t *testing.T, s string) PeakList {
+	pl, err := ParsePeaks(s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return pl
+}
