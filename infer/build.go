@@ -95,9 +95,11 @@ func (a *analysis) build(parts []part, v variant, relaxed bool) (*isomers.Spec, 
 	if v.k > 0 {
 		raise += 0.35 // β-nitro raises an sp3 C–H by 0.5–0.7
 	}
-	type pending struct{ class, of int }
+	type pending struct{ class, of int } // part indices
 	var pairs []pending
 	var templ []int
+	cands := make([]isomers.Class, len(parts))
+	own := make([]bool, len(parts))
 	for pi, pt := range parts {
 		c := isomers.Class{Element: pt.el, H: pt.h, Count: pt.count, Name: a.partName(pt)}
 		switch pt.kind {
@@ -135,17 +137,54 @@ func (a *analysis) build(parts []part, v variant, relaxed bool) (*isomers.Spec, 
 		if !relaxed && pt.vic.On && use(pt.vicID) {
 			c.Vicinal = pt.vic
 		}
-		classOf[pi] = len(s.Classes)
-		s.Classes = append(s.Classes, c)
+		cands[pi] = c
 		if !relaxed && pt.pair >= 0 && use(pt.pairID) {
-			pairs = append(pairs, pending{class: classOf[pi], of: pt.pair})
+			pairs = append(pairs, pending{class: pi, of: pt.pair})
+			own[pi] = true
 		}
 		if !relaxed && pt.tmpl != tNone && use(pt.tmplID) {
 			templ = append(templ, pi)
+			own[pi] = true
+		}
+	}
+	// Parts that other classes' rules refer to keep a class of their own;
+	// the others become slots of one class per element and hydrogen count,
+	// so that the search builds each structure once (see isomers.Slot).
+	for pi := range parts {
+		if own[pi] {
+			classOf[pi] = len(s.Classes)
+			s.Classes = append(s.Classes, cands[pi])
+		}
+	}
+	pool := map[[2]int]int{}
+	for pi, pt := range parts {
+		if own[pi] {
+			continue
+		}
+		c := cands[pi]
+		k := [2]int{int(pt.el), pt.h}
+		ci, ok := pool[k]
+		if !ok {
+			ci = len(s.Classes)
+			pool[k] = ci
+			s.Classes = append(s.Classes, isomers.Class{Element: pt.el, H: pt.h, Name: fmt.Sprintf("%sH%s", pt.el, hs(pt.h))})
+		}
+		pc := &s.Classes[ci]
+		pc.Count += c.Count
+		pc.Slots = append(pc.Slots, isomers.Slot{Name: c.Name, Count: c.Count, MinDegree: c.MinDegree, MaxDegree: c.MaxDegree,
+			Bonds: c.Bonds, Vicinal: c.Vicinal, Neighbours: c.Neighbours, Sum: c.Sum})
+		classOf[pi] = ci
+	}
+	for ci := range s.Classes {
+		if c := &s.Classes[ci]; len(c.Slots) == 1 {
+			// one slot: its rules are the class's
+			sl := c.Slots[0]
+			c.Name, c.MinDegree, c.MaxDegree, c.Bonds, c.Vicinal, c.Neighbours, c.Sum = sl.Name, sl.MinDegree, sl.MaxDegree, sl.Bonds, sl.Vicinal, sl.Neighbours, sl.Sum
+			c.Slots = nil
 		}
 	}
 	for _, p := range pairs {
-		c := &s.Classes[p.class]
+		c := &s.Classes[classOf[p.class]]
 		c.Neighbours = append(c.Neighbours, isomers.NeighbourRule{Classes: []int{classOf[p.of]}, Double: true, Min: 1, Max: 1})
 	}
 	left := a.leftover(parts)

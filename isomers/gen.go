@@ -38,6 +38,11 @@ type plan struct {
 	// rules is true when some colour carries rules (a Spec, or the
 	// charge-separated colours).
 	rules bool
+	// slotted is true when some class has slots.
+	slotted bool
+	// allFixed is true when every colour fixes its hydrogen count, so
+	// every atom must use its whole capacity.
+	allFixed bool
 	// ambiguous is true when one structure may be divided into the
 	// classes in more than one way, so emitted structures are deduplicated.
 	ambiguous bool
@@ -62,6 +67,9 @@ type colour struct {
 type group struct {
 	colours []int
 	count   int
+	// slots and slotCount are the compiled Class.Slots.
+	slots     []*crule
+	slotCount []int
 }
 
 // assignment fixes the number of atoms of every colour (the valence state
@@ -158,6 +166,12 @@ func (p *plan) specColours(f molecule.Formula, s *Spec) error {
 	}
 	p.h = freeH
 	p.rules = true
+	p.allFixed = true
+	for _, c := range s.Classes {
+		if c.H == FreeH {
+			p.allFixed = false
+		}
+	}
 	first := make([]int, len(s.Classes))
 	n := 0
 	for i, c := range s.Classes {
@@ -167,23 +181,22 @@ func (p *plan) specColours(f molecule.Formula, s *Spec) error {
 	if n > maxColours {
 		return &SpecError{Class: -1, Msg: fmt.Sprintf("%d colours (classes times valence states) exceed the limit of %d", n, maxColours)}
 	}
-	for i, c := range s.Classes {
-		g := group{count: c.Count}
-		r := &crule{fixedH: c.H != FreeH, bonds: c.Bonds, vic: c.Vicinal, sum: c.Sum}
-		if c.Sum != nil {
-			r.cHull = c.Sum.Per[KindCarbonSP3]
+	compile := func(fixedH bool, minDeg, maxDeg int, bonds BondPattern, vic Bound, nbrs []NeighbourRule, sum *NeighbourSum) *crule {
+		r := &crule{fixedH: fixedH, bonds: bonds, vic: vic, sum: sum}
+		if sum != nil {
+			r.cHull = sum.Per[KindCarbonSP3]
 			for _, k := range []NeighbourKind{KindCarbonC2, KindCarbonyl, KindCarbonSP} {
-				r.cHull.Lo = min(r.cHull.Lo, c.Sum.Per[k].Lo)
-				r.cHull.Hi = max(r.cHull.Hi, c.Sum.Per[k].Hi)
+				r.cHull.Lo = min(r.cHull.Lo, sum.Per[k].Lo)
+				r.cHull.Hi = max(r.cHull.Hi, sum.Per[k].Hi)
 			}
 		}
-		if c.MinDegree > 0 {
-			r.minDeg = uint8(c.MinDegree)
+		if minDeg > 0 {
+			r.minDeg = uint8(minDeg)
 		}
-		if c.MaxDegree > 0 {
-			r.maxDeg = uint8(c.MaxDegree)
+		if maxDeg > 0 {
+			r.maxDeg = uint8(maxDeg)
 		}
-		for _, nr := range c.Neighbours {
+		for _, nr := range nbrs {
 			cn := cnbr{unsat: nr.Unsaturated, double: nr.Double, min: nr.Min, max: nr.Max}
 			for _, k := range nr.Classes {
 				for j := range s.Classes[k].valences() {
@@ -194,6 +207,16 @@ func (p *plan) specColours(f molecule.Formula, s *Spec) error {
 				cn.elements |= 1 << e
 			}
 			r.nbr = append(r.nbr, cn)
+		}
+		return r
+	}
+	for i, c := range s.Classes {
+		g := group{count: c.Count}
+		r := compile(c.H != FreeH, c.MinDegree, c.MaxDegree, c.Bonds, c.Vicinal, c.Neighbours, c.Sum)
+		for _, sl := range c.Slots {
+			g.slots = append(g.slots, compile(c.H != FreeH, sl.MinDegree, sl.MaxDegree, sl.Bonds, sl.Vicinal, sl.Neighbours, sl.Sum))
+			g.slotCount = append(g.slotCount, sl.Count)
+			p.slotted = true
 		}
 		for _, v := range c.valences() {
 			hx := 0
@@ -321,10 +344,20 @@ type searcher struct {
 	// marks a complete structure while its rules are tested.
 	rule [MaxAtoms]*crule
 	done bool
+	// slot matching scratch (see slotsOK)
+	slotAtoms []int
+	slotOK    []bool
+	slotFill  []int
+	slotOf    []int
+	slotSeen  []bool
 }
 
 func newSearcher(p *plan) *searcher {
 	s := &searcher{p: p, levels: make([]level, p.n+1)}
+	s.slotOK = make([]bool, MaxAtoms*MaxAtoms)
+	s.slotFill = make([]int, MaxAtoms)
+	s.slotOf = make([]int, MaxAtoms)
+	s.slotSeen = make([]bool, MaxAtoms)
 	s.cz.m = &s.m
 	return s
 }
@@ -432,6 +465,11 @@ func (s *searcher) children(kids []aug) []aug {
 	}
 	R := s.e - s.b
 	if 2*R > F+s.vrem || F == 0 {
+		return kids
+	}
+	if s.p.allFixed && F > s.vrem {
+		// existing atoms never bond to each other again: their unused
+		// capacity must all go to the atoms still to add
 		return kids
 	}
 	if s.m.isTree() {

@@ -39,13 +39,16 @@ type Options struct {
 	// fragment and none of the Forbid fragments. Stats.Constrained counts
 	// the structures they removed.
 	Require, Forbid []*molecule.Fragment
-	// NodeLimit, when positive, bounds the search work: the search tree
-	// is split into subtrees (a fixed set for a formula and Spec) and each
-	// may visit at most NodeLimit/(number of subtrees) nodes. Unlike Limit
-	// and the context, it stops the same subtrees at the same place on
-	// every run, so a truncated run emits the same structures however many
-	// workers run and however loaded the machine is. Stats.Truncated
-	// counts the subtrees it cut short.
+	// NodeLimit, when positive, bounds the search work in nodes. The
+	// search tree is split into subtrees (a fixed set for a formula and
+	// Spec). GenerateConcurrent and Count run them in rounds: each first
+	// gets an equal share of the limit, those cut short run again with
+	// the budget left shared among them, until none is cut short or the
+	// share stops growing. Generate gives each subtree one equal share.
+	// Unlike Limit and the context, it stops the same subtrees at the same
+	// place on every run, so a truncated run emits the same structures
+	// however many workers run and however loaded the machine is.
+	// Stats.Truncated counts the subtrees it cut short.
 	NodeLimit int64
 	// Seen, when not nil, is a set of structures shared with other runs:
 	// a structure already in it is not emitted again, and each emitted
@@ -163,6 +166,9 @@ type runner struct {
 	// ordered is set by Generate, whose consumer tests Seen in subtree
 	// order so that a truncated run's output does not depend on timing.
 	ordered bool
+	// buffered is set by budgeted runs, which test Seen when a subtree's
+	// structures are released.
+	buffered bool
 
 	allKekule bool
 }
@@ -232,7 +238,7 @@ func (ws *workerState) process(r *runner, m *mol) bool {
 			return false
 		}
 	}
-	if r.seen != nil && !r.ordered {
+	if r.seen != nil && !r.ordered && !r.buffered {
 		if !r.seen.add(ws.hash(m)) {
 			ws.duplicates++
 			return false
@@ -359,6 +365,9 @@ func GenerateConcurrent(ctx context.Context, f molecule.Formula, opts Options, y
 	r, nw, err := prepare(ctx, f, opts)
 	if err != nil {
 		return Stats{Removed: map[string]int64{}}, err
+	}
+	if opts.NodeLimit > 0 {
+		return r.budgeted(ctx, nw, opts.NodeLimit, yield)
 	}
 	workers := make([]*workerState, nw)
 	covered := make([]float64, nw)
@@ -582,6 +591,180 @@ func Generate(ctx context.Context, f molecule.Formula, opts Options, yield func(
 	}
 	if st.Fraction > 1 {
 		st.Fraction = 1
+	}
+	if err := ctx.Err(); err != nil {
+		st.Complete = false
+		return st, err
+	}
+	return st, nil
+}
+
+// taskResult holds what one subtree produced under a node cap.
+type taskResult struct {
+	data      []byte // encoded structures, each followed by its 16-byte hash when deduplicating
+	count     int
+	gen       int64
+	removed   [numRules]int64
+	constr    int64
+	nodes     int64
+	covered   float64
+	truncated bool
+}
+
+// budgeted runs GenerateConcurrent under a node limit in rounds: every
+// subtree first gets an equal share of the limit; the subtrees that
+// finish release their structures, and those cut short are run again
+// from the start with the budget left divided among them, until none is
+// cut short or the share stops growing, when the last round's partial
+// results are released. Each round's caps depend only on the earlier
+// rounds' node counts, so the structures emitted do not depend on the
+// number of workers or on timing.
+func (r *runner) budgeted(ctx context.Context, nw int, limit int64, yield func(int, *molecule.Graph) bool) (Stats, error) {
+	r.buffered = true
+	workers := make([]*workerState, nw)
+	for wi := range workers {
+		workers[wi] = r.newWorker()
+	}
+	results := make([]taskResult, len(r.tasks))
+	pending := make([]int, len(r.tasks))
+	for i := range pending {
+		pending[i] = i
+	}
+	st := Stats{Removed: map[string]int64{}}
+	var removed [numRules]int64
+	used := int64(0)
+	cap := max(1, limit/int64(len(r.tasks)))
+	var mu sync.Mutex // serialises releases (Seen, Limit, counters)
+	graphs := make([]*molecule.Graph, nw)
+	stopped := false
+	release := func(w int, res *taskResult) {
+		mu.Lock()
+		defer mu.Unlock()
+		st.Generated += res.gen
+		st.Constrained += res.constr
+		for i, n := range res.removed {
+			removed[i] += n
+		}
+		if graphs[w] == nil {
+			graphs[w] = molecule.NewGraph(r.p.n)
+		}
+		g := graphs[w]
+		off := 0
+		for i := 0; i < res.count && !stopped; i++ {
+			off = decode(res.data, off, g)
+			if r.seen != nil {
+				var k [16]byte
+				copy(k[:], res.data[off:off+16])
+				off += 16
+				if !r.seen.add(k) {
+					st.Duplicates++
+					st.Generated--
+					continue
+				}
+			}
+			if r.limit > 0 && st.Emitted >= r.limit {
+				stopped = true
+				break
+			}
+			st.Emitted++
+			if yield != nil && !yield(w, g) {
+				stopped = true
+			}
+		}
+		res.data = nil
+	}
+	for len(pending) > 0 && !stopped && ctx.Err() == nil {
+		var next atomic.Int64
+		var wg sync.WaitGroup
+		for wi, ws := range workers {
+			ws.s.nodeCap = int(min(cap, int64(1)<<40))
+			w := wi
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				for !r.stop.Load() && ctx.Err() == nil {
+					k := next.Add(1) - 1
+					if k >= int64(len(pending)) {
+						return
+					}
+					ti := pending[k]
+					res := &results[ti]
+					*res = taskResult{}
+					ws.s.emit = func(m *mol) bool {
+						if !ws.process(r, m) {
+							return true
+						}
+						res.data = ws.out.encode(res.data, m)
+						if r.seen != nil {
+							h := ws.hash(m)
+							res.data = append(res.data, h[:]...)
+						}
+						res.count++
+						return true
+					}
+					g0, c0 := ws.generated, ws.constrained
+					rm0 := ws.removed
+					n0 := ws.nodes + int64(ws.s.nodes)
+					t0 := ws.truncated
+					ws.s.covered = 0
+					ws.runTask(&r.tasks[ti])
+					res.gen, res.constr = ws.generated-g0, ws.constrained-c0
+					for i := range res.removed {
+						res.removed[i] = ws.removed[i] - rm0[i]
+					}
+					res.nodes = ws.nodes + int64(ws.s.nodes) - n0
+					res.truncated = ws.truncated > t0
+					res.covered = ws.s.covered
+					if !res.truncated {
+						release(w, res)
+						if stopped {
+							r.stop.Store(true)
+						}
+					}
+				}
+			}()
+		}
+		wg.Wait()
+		var again []int
+		for _, ti := range pending {
+			used += results[ti].nodes
+			if results[ti].truncated {
+				again = append(again, ti)
+			} else {
+				st.Fraction += r.tasks[ti].weight
+			}
+		}
+		st.Nodes = used
+		pending = again
+		if len(pending) == 0 {
+			break
+		}
+		share := (limit - used) / int64(len(pending))
+		if share <= cap {
+			// no more room to grow: release the partial results of
+			// this round's cut subtrees
+			for _, ti := range pending {
+				res := &results[ti]
+				st.Truncated++
+				st.Fraction += res.covered
+				if !stopped {
+					release(0, res)
+				}
+			}
+			break
+		}
+		cap = share
+	}
+	for i, n := range removed {
+		if n > 0 {
+			st.Removed[ruleTable[i].Name] = n
+		}
+	}
+	st.Complete = st.Truncated == 0 && !stopped && ctx.Err() == nil && !r.stop.Load()
+	if st.Complete {
+		st.Fraction = 1
+	} else {
+		st.Fraction = min(max(st.Fraction, 0), 1-1e-9)
 	}
 	if err := ctx.Err(); err != nil {
 		st.Complete = false

@@ -69,6 +69,25 @@ type Class struct {
 	// Sum, when not nil, bounds a sum over the atom's neighbours of an
 	// interval per kind of neighbour (see NeighbourSum).
 	Sum *NeighbourSum
+	// Slots, when not empty, divide the class's atoms further: each atom
+	// takes one slot (the slots' counts add up to Count) and obeys the
+	// slot's rules as well as the class's. Unlike separate classes, slots
+	// are not colours of the search: a structure is built once however
+	// many ways its atoms could fill the slots, which the search tests as
+	// a matching of atoms to slots after every step.
+	Slots []Slot
+}
+
+// Slot is a part of a class with rules of its own (see Class.Slots). Its
+// neighbour rules may not name classes.
+type Slot struct {
+	Name                 string
+	Count                int
+	MinDegree, MaxDegree int
+	Bonds                BondPattern
+	Vicinal              Bound
+	Neighbours           []NeighbourRule
+	Sum                  *NeighbourSum
 }
 
 // NeighbourKind classifies a neighbouring atom for NeighbourSum. A carbon
@@ -229,6 +248,23 @@ func (s *Spec) validate(f molecule.Formula) (freeH int, err error) {
 				return 0, &SpecError{Class: i, Msg: "neighbour rule with max below min"}
 			}
 		}
+		if len(c.Slots) > 0 {
+			n := 0
+			for k, sl := range c.Slots {
+				if sl.Count <= 0 {
+					return 0, &SpecError{Class: i, Msg: fmt.Sprintf("slot %d: count must be positive", k)}
+				}
+				for _, r := range sl.Neighbours {
+					if len(r.Classes) > 0 {
+						return 0, &SpecError{Class: i, Msg: fmt.Sprintf("slot %d: a slot's neighbour rule may not name classes", k)}
+					}
+				}
+				n += sl.Count
+			}
+			if n != c.Count {
+				return 0, &SpecError{Class: i, Msg: fmt.Sprintf("slots hold %d atoms, the class %d", n, c.Count)}
+			}
+		}
 		count[c.Element] += c.Count
 		if c.H == FreeH {
 			free = true
@@ -312,7 +348,11 @@ func (m *mol) doubleToO(x int) bool {
 // ruleOK tests the rules of atom x in the current partial structure; it is
 // false only when no structure built from it can satisfy them.
 func (s *searcher) ruleOK(x int) bool {
-	r := s.rule[x]
+	return s.ruleOKWith(x, s.rule[x])
+}
+
+// ruleOKWith is ruleOK for rule r (a class's or a slot's).
+func (s *searcher) ruleOKWith(x int, r *crule) bool {
 	if r == nil {
 		return true
 	}
@@ -482,13 +522,166 @@ func (s *searcher) knownH(u int, complete bool) int {
 	return 0
 }
 
+// futureOK tests whether the incomplete atom x can still satisfy its rules
+// with the atoms not yet added. In canonical augmentation a new atom bonds
+// only to existing atoms, so every bond x still lacks must come from an
+// atom still to be added: x needs as many of them (of the right classes)
+// as its rules still require, and no more than its unused capacity.
+func (s *searcher) futureOK(x int) bool {
+	return s.futureOKWith(x, s.rule[x])
+}
+
+// futureOKWith is futureOK for rule r (a class's or a slot's).
+func (s *searcher) futureOKWith(x int, r *crule) bool {
+	if r == nil || s.complete(x) {
+		return true
+	}
+	m := &s.m
+	f := m.free(x)
+	if !r.fixedH {
+		// a free hydrogen count leaves the capacity open; only the
+		// neighbour counts below apply
+		f = min(f, 6)
+	}
+	nrem := s.nrem
+	deg := int(m.deg[x])
+	if need := int(r.minDeg) - deg; need > 0 && (need > f || need > nrem) {
+		return false
+	}
+	if r.fixedH {
+		switch r.bonds {
+		case OneDouble:
+			if d, _ := m.multiples(x); d == 0 && f < 2 {
+				return false
+			}
+		case OneTriple:
+			if _, t := m.multiples(x); t == 0 && f < 3 {
+				return false
+			}
+		case Unsaturated:
+			if d, t := m.multiples(x); d+t == 0 && f < 2 {
+				return false
+			}
+		}
+	}
+	for i := range r.nbr {
+		nr := &r.nbr[i]
+		if nr.min == 0 {
+			continue
+		}
+		have := 0
+		for k := 0; k < deg; k++ {
+			u := int(m.nb[x][k])
+			if nr.double && m.bo[x][k] != 2 {
+				continue
+			}
+			switch {
+			case nr.colours&(1<<m.col[u]) != 0 || nr.elements&(1<<m.el[u]) != 0:
+				have++
+			case nr.unsat:
+				if d, t := m.multiples(u); d+t > 0 || !s.complete(u) {
+					have++
+				}
+			}
+		}
+		need := nr.min - have
+		if need <= 0 {
+			continue
+		}
+		per := 1
+		if nr.double {
+			per = 2
+		}
+		if need*per > f && r.fixedH {
+			return false
+		}
+		avail := 0
+		for ci := range s.p.colours {
+			if s.rem[ci] == 0 {
+				continue
+			}
+			c := &s.p.colours[ci]
+			if nr.colours&(1<<ci) != 0 || nr.elements&(1<<c.el) != 0 || nr.unsat && c.val >= 2 {
+				avail += s.rem[ci]
+			}
+		}
+		if need > avail {
+			return false
+		}
+	}
+	if r.sum != nil && r.fixedH && f > 0 {
+		lo, hi := 0.0, 0.0
+		for k := 0; k < deg; k++ {
+			iv := s.kindInterval(r, int(m.nb[x][k]))
+			lo += iv.Lo
+			hi += iv.Hi
+		}
+		// f more bond orders come from at least ceil(f/3) and at most f
+		// new neighbours, each contributing within the hull of what the
+		// atoms still to add can be
+		fLo, fHi := 1e9, -1e9
+		for ci := range s.p.colours {
+			if s.rem[ci] == 0 {
+				continue
+			}
+			iv := s.colourInterval(r, ci)
+			fLo = min(fLo, iv.Lo)
+			fHi = max(fHi, iv.Hi)
+		}
+		if fLo > fHi {
+			return false
+		}
+		nMin, nMax := (f+2)/3, f
+		hiAll := hi + float64(nMax)*max(fHi, 0) + float64(nMin)*min(fHi, 0)
+		loAll := lo + float64(nMin)*max(fLo, 0) + float64(nMax)*min(fLo, 0)
+		if hiAll < r.sum.Target.Lo || loAll > r.sum.Target.Hi {
+			return false
+		}
+	}
+	return true
+}
+
+// colourInterval is the NeighbourSum interval of an atom of colour ci not
+// yet added: its element's, or the carbon hull.
+func (s *searcher) colourInterval(r *crule, ci int) Interval {
+	c := &s.p.colours[ci]
+	switch c.el {
+	case molecule.C:
+		return r.cHull
+	case molecule.N:
+		if c.chg > 0 {
+			return r.sum.Per[KindNPlus]
+		}
+		return r.sum.Per[KindN]
+	}
+	k, ok := elementKind[c.el]
+	if !ok {
+		return Interval{}
+	}
+	return r.sum.Per[k]
+}
+
+var elementKind = map[molecule.Element]NeighbourKind{
+	molecule.O: KindO, molecule.S: KindS, molecule.F: KindF, molecule.Cl: KindCl, molecule.Br: KindBr,
+	molecule.I: KindI, molecule.P: KindP, molecule.Si: KindSi, molecule.B: KindB,
+}
+
 // rulesOK tests the rules of the last atom, of the atoms bonded to it and
 // of their neighbours (whose tests may depend on whether those atoms are
-// complete).
+// complete), and whether every incomplete atom can still be completed
+// (futureOK).
 func (s *searcher) rulesOK() bool {
 	m := &s.m
 	v := m.n - 1
 	if !s.ruleOK(v) {
+		return false
+	}
+	for x := 0; x < m.n; x++ {
+		if !s.futureOK(x) {
+			return false
+		}
+	}
+	if s.p.slotted && !s.slotsOK() {
 		return false
 	}
 	for k := 0; k < int(m.deg[v]); k++ {
@@ -515,7 +708,77 @@ func (s *searcher) allRulesOK() bool {
 			return false
 		}
 	}
+	return !s.p.slotted || s.slotsOK()
+}
+
+// slotsOK tests, for every class with slots, whether its atoms present
+// can be matched to its slots (each slot taking at most its count) so
+// that every atom can still satisfy its slot's rules: a bipartite
+// matching by augmenting paths (Kuhn's algorithm).
+func (s *searcher) slotsOK() bool {
+	m := &s.m
+	for gi := range s.p.groups {
+		g := &s.p.groups[gi]
+		if len(g.slots) == 0 {
+			continue
+		}
+		atoms := s.slotAtoms[:0]
+		for x := 0; x < m.n; x++ {
+			if s.p.colours[m.col[x]].group == gi {
+				atoms = append(atoms, x)
+			}
+		}
+		s.slotAtoms = atoms
+		if len(atoms) == 0 {
+			continue
+		}
+		ns := len(g.slots)
+		// compatibility
+		for ai, x := range atoms {
+			for k := 0; k < ns; k++ {
+				r := g.slots[k]
+				s.slotOK[ai*ns+k] = s.ruleOKWith(x, r) && s.futureOKWith(x, r)
+			}
+		}
+		for k := 0; k < ns; k++ {
+			s.slotFill[k] = 0
+		}
+		for ai := range atoms {
+			s.slotOf[ai] = -1
+		}
+		for ai := range atoms {
+			for k := 0; k < ns; k++ {
+				s.slotSeen[k] = false
+			}
+			if !s.augment(ai, g, ns, len(atoms)) {
+				return false
+			}
+		}
+	}
 	return true
+}
+
+// augment finds an augmenting path from atom ai (see slotsOK).
+func (s *searcher) augment(ai int, g *group, ns, na int) bool {
+	for k := 0; k < ns; k++ {
+		if !s.slotOK[ai*ns+k] || s.slotSeen[k] {
+			continue
+		}
+		s.slotSeen[k] = true
+		if s.slotFill[k] < g.slotCount[k] {
+			s.slotFill[k]++
+			s.slotOf[ai] = k
+			return true
+		}
+		// try to move an atom holding slot k elsewhere
+		for bj := 0; bj < na; bj++ {
+			if s.slotOf[bj] == k && s.augment(bj, g, ns, na) {
+				s.slotOf[ai] = k
+				return true
+			}
+		}
+	}
+	return false
 }
 
 // Seen is a set of structures, by a 128-bit hash of their canonical key

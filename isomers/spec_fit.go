@@ -33,9 +33,17 @@ func (s *Spec) Explain(g *molecule.Graph) (bool, string) {
 	rec = func(i int) bool {
 		if i == n {
 			for x := 0; x < n; x++ {
-				if ok, w := atomFits(g, s, cls, x); !ok {
+				if ok, w := atomFits(g, &s.Classes[cls[x]], cls, x); !ok {
 					if why == "" {
 						why = fmt.Sprintf("atom %d (%s) as %s: %s", x+1, g.Atoms[x].Element, s.Classes[cls[x]], w)
+					}
+					return false
+				}
+			}
+			for k := range s.Classes {
+				if ok, w := slotsFit(g, &s.Classes[k], k, cls); !ok {
+					if why == "" {
+						why = fmt.Sprintf("%s: %s", s.Classes[k], w)
 					}
 					return false
 				}
@@ -69,8 +77,7 @@ func (s *Spec) Explain(g *molecule.Graph) (bool, string) {
 	return false, why
 }
 
-func atomFits(g *molecule.Graph, s *Spec, cls []int, x int) (bool, string) {
-	c := &s.Classes[cls[x]]
+func atomFits(g *molecule.Graph, c *Class, cls []int, x int) (bool, string) {
 	nb := g.Neighbors(x)
 	if c.MaxDegree > 0 && len(nb) > c.MaxDegree || len(nb) < c.MinDegree {
 		return false, fmt.Sprintf("%d neighbours", len(nb))
@@ -194,4 +201,61 @@ func kindOf(g *molecule.Graph, u int) NeighbourKind {
 	}
 	return map[molecule.Element]NeighbourKind{molecule.O: KindO, molecule.S: KindS, molecule.F: KindF,
 		molecule.Cl: KindCl, molecule.Br: KindBr, molecule.I: KindI, molecule.P: KindP, molecule.Si: KindSi, molecule.B: KindB}[a.Element]
+}
+
+// slotsFit tests whether the atoms of class k (by cls) can fill the
+// class's slots, each atom obeying its slot's rules (a backtracking
+// matching; classes hold few atoms).
+func slotsFit(g *molecule.Graph, c *Class, k int, cls []int) (bool, string) {
+	if len(c.Slots) == 0 {
+		return true, ""
+	}
+	var atoms []int
+	for x := range g.Atoms {
+		if cls[x] == k {
+			atoms = append(atoms, x)
+		}
+	}
+	views := make([]Class, len(c.Slots))
+	for i, sl := range c.Slots {
+		views[i] = Class{Element: c.Element, H: c.H, MinDegree: sl.MinDegree, MaxDegree: sl.MaxDegree, Bonds: sl.Bonds,
+			Vicinal: sl.Vicinal, Neighbours: sl.Neighbours, Sum: sl.Sum}
+	}
+	left := make([]int, len(c.Slots))
+	for i, sl := range c.Slots {
+		left[i] = sl.Count
+	}
+	why := ""
+	var rec func(i int) bool
+	rec = func(i int) bool {
+		if i == len(atoms) {
+			return true
+		}
+		x := atoms[i]
+		for si := range views {
+			if left[si] == 0 {
+				continue
+			}
+			if ok, w := atomFits(g, &views[si], cls, x); !ok {
+				if why == "" {
+					why = fmt.Sprintf("atom %d fits no free slot (slot %d %q: %s)", x+1, si+1, c.Slots[si].Name, w)
+				}
+				continue
+			}
+			left[si]--
+			ok := rec(i + 1)
+			left[si]++
+			if ok {
+				return true
+			}
+		}
+		return false
+	}
+	if rec(0) {
+		return true, ""
+	}
+	if why == "" {
+		why = "the atoms cannot fill the slots"
+	}
+	return false, why
 }

@@ -173,6 +173,30 @@ func randomSpec(rng *rand.Rand, g *molecule.Graph) Spec {
 	for ci := range s.Classes {
 		c := &s.Classes[ci]
 		atoms := members[ci]
+		if len(atoms) >= 2 && rng.IntN(2) == 0 {
+			// slots: one per atom, each with rules that atom satisfies
+			for _, x := range atoms {
+				sl := Slot{Count: 1}
+				if rng.IntN(2) == 0 {
+					sl.MaxDegree = g.Degree(x)
+				}
+				if c.Element == molecule.C && rng.IntN(3) > 0 {
+					sure, all := vicinalOf(g, x)
+					sl.Vicinal = Bound{On: true, Min: all - rng.IntN(2), Max: sure + rng.IntN(2)}
+				}
+				d := 0
+				for _, e := range g.Neighbors(x) {
+					if e.Order == molecule.Double {
+						d++
+					}
+				}
+				if d == 1 && rng.IntN(2) == 0 {
+					sl.Bonds = OneDouble
+				}
+				c.Slots = append(c.Slots, sl)
+			}
+			continue
+		}
 		if rng.IntN(2) == 0 {
 			maxDeg := 0
 			for _, x := range atoms {
@@ -339,10 +363,12 @@ func TestSpecRandomAgainstReference(t *testing.T) {
 // number of workers, so a truncated run emits the same set.
 func TestNodeLimitDeterministic(t *testing.T) {
 	f := molecule.MustParseFormula("C7H8O")
+	full, err := Count(context.Background(), f, Options{ChargeSeparated: true})
+	require.NoError(t, err)
 	run := func(workers int, concurrent bool) ([]string, Stats) {
 		var out []string
 		var mu sync.Mutex
-		opts := Options{Workers: workers, NodeLimit: 40_000, ChargeSeparated: true}
+		opts := Options{Workers: workers, NodeLimit: full.Nodes / 3, ChargeSeparated: true}
 		var st Stats
 		var err error
 		if concurrent {
@@ -363,15 +389,18 @@ func TestNodeLimitDeterministic(t *testing.T) {
 		return out, st
 	}
 	a, sa := run(1, false)
-	b, _ := run(2, true)
 	c, _ := run(3, false)
+	b1, sb := run(1, true)
+	b2, _ := run(2, true)
 	require.Positive(t, sa.Truncated, "the limit must cut some subtrees for this test to mean anything")
+	require.Positive(t, sb.Truncated, "the limit must cut some subtrees for this test to mean anything")
 	assert.False(t, sa.Complete)
-	assert.Equal(t, a, b)
-	assert.Equal(t, a, c)
-	full, err := Count(context.Background(), f, Options{ChargeSeparated: true})
-	require.NoError(t, err)
+	assert.False(t, sb.Complete)
+	assert.Equal(t, a, c, "Generate: equal shares per subtree")
+	assert.Equal(t, b1, b2, "GenerateConcurrent: budget rounds")
+	assert.GreaterOrEqual(t, len(b1), len(a), "rounds hand unused budget on, so they reach at least as far")
 	assert.Less(t, int64(len(a)), full.Emitted)
+	assert.Less(t, int64(len(b1)), full.Emitted)
 }
 
 // With an ambiguous Spec (two classes that can hold the same atom), every

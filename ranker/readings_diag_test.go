@@ -4,7 +4,9 @@ import (
 	"context"
 	"fmt"
 	"os"
+	"strings"
 	"testing"
+	"time"
 
 	"shiftrank/infer"
 	"shiftrank/isomers"
@@ -25,7 +27,11 @@ func TestReadingsDiag(t *testing.T) {
 	}
 	r := New(Options{})
 	found, first := 0, 0
+	only := os.Getenv("SHIFTRANK_DIAG_ONLY")
 	for _, c := range set.Compounds {
+		if only != "" && !strings.Contains(only, c.Name) {
+			continue
+		}
 		j, err := r.prepare(Request{Formula: c.Formula, Peaks: diagPeaks(t, c.Peaks)})
 		if err != nil {
 			t.Errorf("%s: %v", c.Name, err)
@@ -51,8 +57,9 @@ func TestReadingsDiag(t *testing.T) {
 			if hit == 0 {
 				first++
 			}
-			st, _ := isomers.Count(context.Background(), j.formula, isomers.Options{Spec: &an.Readings[hit].Spec, NodeLimit: 5_000_000})
-			size = fmt.Sprintf("size %d complete=%v nodes=%d", st.Emitted, st.Complete, st.Nodes)
+			t0 := time.Now()
+			st, _ := isomers.Count(context.Background(), j.formula, isomers.Options{Spec: &an.Readings[hit].Spec, NodeLimit: diagNodes()})
+			size = fmt.Sprintf("size %d complete=%v nodes=%d %.1fs", st.Emitted, st.Complete, st.Nodes, time.Since(t0).Seconds())
 		}
 		fmt.Printf("%-40s %-10s readings=%2d hit=%2d %s\n", c.Name, c.Formula, len(an.Readings), hit, size)
 		if hit != 0 {
@@ -76,4 +83,13 @@ func diagPeaks(t *testing.T, s string) PeakList {
 		t.Fatal(err)
 	}
 	return pl
+}
+
+func diagNodes() int64 {
+	if v := os.Getenv("SHIFTRANK_DIAG_NODES"); v != "" {
+		var n int64
+		fmt.Sscan(v, &n)
+		return n
+	}
+	return 5_000_000
 }
