@@ -1,7 +1,9 @@
 package infer
 
 import (
+	"cmp"
 	"fmt"
+	"slices"
 	"math"
 	"sort"
 	"strings"
@@ -335,6 +337,9 @@ func (a *analysis) describe(parts []part, v variant, relaxed bool) string {
 		default:
 			add("CH"+hs(pt.h), pt.count)
 		}
+		if relaxed {
+			continue
+		}
 		switch pt.tmpl {
 		case tPhenyl:
 			add("C6H5 ring", 1)
@@ -344,6 +349,7 @@ func (a *analysis) describe(parts []part, v variant, relaxed bool) string {
 			add("tert-butyl", pt.count/3)
 		}
 	}
+	slices.SortStableFunc(order, func(x, y string) int { return cmp.Compare(groupOrder(x), groupOrder(y)) })
 	var b []string
 	for _, k := range order {
 		b = append(b, fmt.Sprintf("%s ×%d", k, count[k]))
@@ -356,4 +362,15 @@ func (a *analysis) describe(parts []part, v variant, relaxed bool) string {
 		mode = "relaxed"
 	}
 	return strings.Join(b, ", ") + " (" + mode + ")"
+}
+
+// groupOrder sorts the groups of a reading's name: sp2 first, then CH3,
+// CH2, CH, exchangeable, fragments.
+func groupOrder(k string) int {
+	for i, p := range []string{"CHO", "sp2 CH2", "sp2 CH", "≡CH", "CH3", "CH2", "CH", "OH", "NH2", "NH", "C6H5", "para", "tert"} {
+		if strings.HasPrefix(k, p) {
+			return i
+		}
+	}
+	return 99
 }

@@ -2,6 +2,7 @@ package infer
 
 import (
 	"container/heap"
+	"encoding/json"
 	"fmt"
 	"math"
 	"slices"
@@ -289,7 +290,8 @@ func dedupReadings(rs []Reading) []Reading {
 	var out []Reading
 	seen := map[string]bool{}
 	for _, r := range rs {
-		k := fmt.Sprintf("%v", r.Spec.Classes)
+		b, _ := json.Marshal(r.Spec.Classes)
+		k := string(b)
 		if seen[k] {
 			continue
 		}

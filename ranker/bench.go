@@ -8,9 +8,11 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"strings"
 	"time"
 
+	"shiftrank/infer"
 	"shiftrank/molecule"
 )
 
@@ -112,7 +114,12 @@ type BenchCase struct {
 	TopSMILES      string  `json:"top_smiles"`
 	Scored         int64   `json:"scored"`
 	Complete       bool    `json:"complete"`
-	Error          string  `json:"error,omitempty"`
+	// Status is the search's status (see SearchReport.Status); Excluded
+	// says why the true structure was outside the readings searched.
+	Status   string  `json:"status"`
+	Excluded string  `json:"excluded,omitempty"`
+	Seconds  float64 `json:"seconds"`
+	Error    string  `json:"error,omitempty"`
 	// Top is the first candidate and True the true structure's candidate
 	// (explained even when it is outside the top K), for misses.
 	Top  *Candidate `json:"top,omitempty"`
@@ -137,6 +144,12 @@ type BenchReport struct {
 	// its mean probability.
 	Calibration []CalibrationBin `json:"calibration"`
 	Seconds     float64          `json:"seconds"`
+	// CompleteShare is the fraction of searches that finished (over all
+	// isomers or within the constraints); MedianSeconds and MaxSeconds
+	// the wall-clock time per compound.
+	CompleteShare float64 `json:"complete_share"`
+	MedianSeconds float64 `json:"median_seconds"`
+	MaxSeconds    float64 `json:"max_seconds"`
 }
 
 // CalibrationBin is one probability range of BenchReport.Calibration.
@@ -216,6 +229,23 @@ func (r *Ranker) Bench(ctx context.Context, set *ReferenceSet, opts BenchOptions
 		rep.Calibration = append(rep.Calibration, bin)
 	}
 	rep.Seconds = time.Since(start).Seconds()
+	var secs []float64
+	done := 0
+	for _, c := range rep.Cases {
+		secs = append(secs, c.Seconds)
+		if c.Complete {
+			done++
+		}
+	}
+	if len(secs) > 0 {
+		slices.Sort(secs)
+		rep.MedianSeconds = secs[len(secs)/2]
+		if len(secs)%2 == 0 {
+			rep.MedianSeconds = (secs[len(secs)/2-1] + secs[len(secs)/2]) / 2
+		}
+		rep.MaxSeconds = secs[len(secs)-1]
+		rep.CompleteShare = float64(done) / float64(len(secs))
+	}
 	return rep, nil
 }
 
@@ -257,11 +287,13 @@ func (r *Ranker) benchJob(ctx context.Context, j *job, ref Reference) (BenchCase
 		return c, err
 	}
 	pr := &probe{score: tc.Score, smiles: trueSMILES}
+	t0 := time.Now()
 	res, err := r.run(ctx, j, nil, pr)
 	if err != nil {
 		return c, err
 	}
-	c.Scored, c.Complete = res.Scored, res.Complete
+	c.Seconds = time.Since(t0).Seconds()
+	c.Scored, c.Complete, c.Status = res.Scored, res.Complete, res.Search.Status
 	if len(res.Candidates) > 0 {
 		top := res.Candidates[0]
 		c.TopSMILES, c.TopProbability = top.SMILES, top.Probability
@@ -272,7 +304,11 @@ func (r *Ranker) benchJob(ctx context.Context, j *job, ref Reference) (BenchCase
 	case !allowed:
 		return c, fmt.Errorf("true structure %s is removed by the filter rule %q", trueSMILES, rule)
 	case pr.seen == 0:
-		return c, fmt.Errorf("true structure %s was not among the %d candidates scored", trueSMILES, res.Scored)
+		// a miss: the true structure was outside what was searched
+		c.Excluded = r.whyExcluded(j, tg, res)
+		tc.Rank = 0
+		c.True = &tc
+		return c, nil
 	}
 	c.Rank = int(pr.above) + 1
 	c.Ties = int(pr.ties)
@@ -281,4 +317,27 @@ func (r *Ranker) benchJob(ctx context.Context, j *job, ref Reference) (BenchCase
 	c.Probability = tc.Probability
 	c.True = &tc
 	return c, nil
+}
+
+// whyExcluded says why a structure was not scored: which constraint of the
+// likeliest reading it breaks, or that the search stopped first.
+func (r *Ranker) whyExcluded(j *job, g *molecule.Graph, res *Result) string {
+	if res.Search.Scope != ScopeConstrained {
+		return "not reached before the search stopped"
+	}
+	an := infer.Infer(j.formula, j.inferPeaks(), infer.Options{Disabled: j.req.Disable})
+	for k, rd := range an.Readings {
+		if ok, _ := rd.Spec.Explain(g); ok {
+			state := ReadingSkipped
+			if k < len(res.Search.Readings) {
+				state = res.Search.Readings[k].State
+			}
+			return fmt.Sprintf("inside reading %d (%s), which was %s", k+1, rd.Name, state)
+		}
+	}
+	if len(an.Readings) == 0 {
+		return "no reading"
+	}
+	_, why := an.Readings[0].Spec.Explain(g)
+	return "outside every reading; reading 1 (" + an.Readings[0].Name + "): " + why
 }

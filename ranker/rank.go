@@ -53,17 +53,32 @@ type Request struct {
 	TimeBudget    time.Duration
 	// KeepSolventPeaks scores solvent and water peaks like any other.
 	KeepSolventPeaks bool
+	// Disable lists IDs of constraints read from the spectrum to switch
+	// off (see SearchReport.Constraints); Unconstrained searches every
+	// plausible isomer instead, ignoring what the spectrum says.
+	Disable       []string
+	Unconstrained bool
+	// MaxNodes is the search budget in generator nodes (default
+	// DefaultMaxNodes): it bounds the work by what is searched, so the
+	// same input gives the same ranking on a busy or an idle machine.
+	MaxNodes int64
+	// Neutral leaves out the charge-separated groups (nitro, N-oxide,
+	// azide, diazo, isonitrile; see isomers.ChargeSeparatedGroups).
+	Neutral bool
 	// MaxHeavyAtoms limits the formula (default molecule.DefaultMaxHeavyAtoms).
 	MaxHeavyAtoms int
 }
 
 // Progress reports a running ranking: isomers generated so far (after the
-// plausibility filter), candidates scored (after fragment constraints), and
-// an estimate of the total number of isomers (0 while unknown).
+// plausibility filter), candidates scored (after fragment constraints), an
+// estimate of the total number of isomers (0 while unknown), and for a
+// constrained search the readings searched so far out of all.
 type Progress struct {
 	Generated     int64 `json:"generated"`
 	Scored        int64 `json:"scored"`
 	TotalEstimate int64 `json:"total_estimate"`
+	Readings      int   `json:"readings,omitempty"`
+	ReadingsTotal int   `json:"readings_total,omitempty"`
 }
 
 // RequestError reports bad input in a Request: Field names the request
@@ -180,6 +195,9 @@ type Result struct {
 	Warnings            []string       `json:"warnings"`
 	Caution             string         `json:"caution"`
 	ElapsedSeconds      float64        `json:"elapsed_seconds"`
+	// Search says what was searched: all isomers or the readings of the
+	// spectrum, completely or not, and which constraints applied.
+	Search SearchReport `json:"search"`
 
 	logZ float64 // log Σ exp(Score/T) over every scored candidate
 }

@@ -11,6 +11,7 @@ import (
 	"sync/atomic"
 	"time"
 
+	"shiftrank/infer"
 	"shiftrank/isomers"
 	"shiftrank/molecule"
 	"shiftrank/predict"
@@ -28,6 +29,7 @@ type job struct {
 	topK     int
 	maxCand  int64
 	budget   time.Duration
+	maxNodes int64
 	peaks    []ObservedPeak // every input peak, in input order
 	scored   []int          // indices into peaks of the peaks that are scored
 	obs      []obsPeak      // the scored peaks, for the likelihood
@@ -93,6 +95,13 @@ func (r *Ranker) prepare(req Request) (*job, error) {
 		j.maxCand = DefaultMaxCandidates
 	case j.maxCand < 0:
 		return nil, &RequestError{Field: "max_candidates", Token: fmt.Sprint(req.MaxCandidates), Msg: "must be positive"}
+	}
+	j.maxNodes = req.MaxNodes
+	switch {
+	case j.maxNodes == 0:
+		j.maxNodes = DefaultMaxNodes
+	case j.maxNodes < 0:
+		return nil, &RequestError{Field: "max_nodes", Token: fmt.Sprint(req.MaxNodes), Msg: "must be positive"}
 	}
 	j.budget = req.TimeBudget
 	switch {
@@ -322,6 +331,14 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 		workers[w].top = newTopK[*molecule.Graph](j.topK)
 	}
 	var generated, scored atomic.Int64
+	var searched, readingsTotal atomic.Int64
+
+	var an *infer.Analysis
+	if !j.req.Unconstrained {
+		an = infer.Infer(j.formula, j.inferPeaks(), infer.Options{Disabled: j.req.Disable})
+	}
+	constrained := an != nil && len(an.Readings) > 0
+	readingsTotal.Store(int64(max(len(readingsOf(an)), 1)))
 
 	var wg sync.WaitGroup
 	stopProgress := make(chan struct{})
@@ -331,24 +348,26 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 	cctx, ccancel := context.WithTimeout(gctx, estimateBudget)
 	defer ccancel()
 	if progress != nil {
-		// The isomer count runs far faster than scoring, so a short count
-		// on one core gives the progress reports their total: exact when it
-		// finishes, else extrapolated from the share of the search space it
-		// covered.
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			st, err := isomers.Count(cctx, j.formula, isomers.Options{Filter: j.filter, Workers: 1})
-			if err != nil && cctx.Err() == nil {
-				return
-			}
-			switch {
-			case st.Complete:
-				totalEstimate.Store(st.Emitted)
-			case st.Fraction > 0:
-				totalEstimate.Store(extrapolate(st.Emitted, st.Fraction))
-			}
-		}()
+		if !constrained {
+			// The isomer count runs far faster than scoring, so a short
+			// count on one core gives the progress reports their total:
+			// exact when it finishes, else extrapolated from the share of
+			// the search space it covered.
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				st, err := isomers.Count(cctx, j.formula, isomers.Options{Filter: j.filter, Workers: 1, ChargeSeparated: !j.req.Neutral})
+				if err != nil && cctx.Err() == nil {
+					return
+				}
+				switch {
+				case st.Complete:
+					totalEstimate.Store(st.Emitted)
+				case st.Fraction > 0:
+					totalEstimate.Store(extrapolate(st.Emitted, st.Fraction))
+				}
+			}()
+		}
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
@@ -359,7 +378,11 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 				case <-stopProgress:
 					return
 				case <-t.C:
-					progress(Progress{Generated: generated.Load(), Scored: scored.Load(), TotalEstimate: totalEstimate.Load()})
+					p := Progress{Generated: generated.Load(), Scored: scored.Load(), TotalEstimate: totalEstimate.Load()}
+					if constrained {
+						p.Readings, p.ReadingsTotal = int(searched.Load()), int(readingsTotal.Load())
+					}
+					progress(p)
 				}
 			}
 		}()
@@ -370,16 +393,6 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 	clone := func(g *molecule.Graph) *molecule.Graph { return g.Clone() }
 	yield := func(w int, g *molecule.Graph) bool {
 		generated.Add(1)
-		for _, fr := range j.require {
-			if !fr.Matches(g) {
-				return true
-			}
-		}
-		for _, fr := range j.forbid {
-			if fr.Matches(g) {
-				return true
-			}
-		}
 		wk := &workers[w]
 		sp, err := pred.Predict(g)
 		if err != nil {
@@ -409,7 +422,100 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 		scored.Add(1)
 		return true
 	}
-	stats, gerr := isomers.GenerateConcurrent(gctx, j.formula, isomers.Options{Filter: j.filter, Limit: j.maxCand, Workers: r.workers}, yield)
+	search := SearchReport{NodeBudget: j.maxNodes, Constraints: []infer.Constraint{}, Readings: []ReadingReport{}}
+	if an != nil {
+		search.Constraints = append(search.Constraints, an.Constraints...)
+		search.Notes = an.Notes
+	}
+	base := isomers.Options{Filter: j.filter, Workers: r.workers, Require: j.require, Forbid: j.forbid, ChargeSeparated: !j.req.Neutral}
+	var stats isomers.Stats
+	var gerr error
+	candLeft := j.maxCand
+	nodesLeft := j.maxNodes
+	stopReason := ""
+	if !constrained {
+		search.Scope = ScopeAll
+		opts := base
+		opts.Limit, opts.NodeLimit = candLeft, nodesLeft
+		stats, gerr = isomers.GenerateConcurrent(gctx, j.formula, opts, yield)
+		search.Nodes = stats.Nodes
+		if !stats.Complete {
+			switch {
+			case candLeft > 0 && stats.Emitted >= candLeft:
+				stopReason = fmt.Sprintf("the candidate limit of %d", j.maxCand)
+			case stats.Truncated > 0:
+				stopReason = fmt.Sprintf("the work budget of %d search nodes", j.maxNodes)
+			}
+		}
+	} else {
+		search.Scope = ScopeConstrained
+		seen := isomers.NewSeen()
+		complete := true
+		stats.Complete = true
+		for k := range an.Readings {
+			rd := &an.Readings[k]
+			rep := ReadingReport{Name: rd.Name, Weight: rd.Weight, Relaxed: rd.Relaxed, Constraints: rd.Constraints, State: ReadingSkipped}
+			if nodesLeft <= 0 || candLeft <= 0 || gctx.Err() != nil {
+				complete = false
+				search.Readings = append(search.Readings, rep)
+				continue
+			}
+			// each reading may take half of what is left, the last one
+			// all of it
+			share := nodesLeft / 2
+			if k == len(an.Readings)-1 {
+				share = nodesLeft
+			}
+			opts := base
+			opts.Spec, opts.Seen, opts.Limit, opts.NodeLimit = &rd.Spec, seen, candLeft, max(share, 1)
+			st, err := isomers.GenerateConcurrent(gctx, j.formula, opts, yield)
+			if err != nil && !errors.Is(err, context.DeadlineExceeded) && !errors.Is(err, context.Canceled) {
+				var se *isomers.SpecError
+				if errors.As(err, &se) {
+					rep.State = ReadingSkipped
+					search.Readings = append(search.Readings, rep)
+					continue
+				}
+				gerr = err
+				break
+			}
+			if err != nil {
+				gerr = err
+			}
+			searched.Add(1)
+			rep.Nodes, rep.Structures = st.Nodes, st.Emitted
+			nodesLeft -= st.Nodes
+			candLeft -= st.Emitted
+			search.Nodes += st.Nodes
+			stats.Generated += st.Generated
+			stats.Emitted += st.Emitted
+			for rule, n := range st.Removed {
+				if stats.Removed == nil {
+					stats.Removed = map[string]int64{}
+				}
+				stats.Removed[rule] += n
+			}
+			switch {
+			case st.Complete:
+				rep.State = ReadingComplete
+			default:
+				rep.State = ReadingPartly
+				complete = false
+				switch {
+				case candLeft <= 0:
+					stopReason = fmt.Sprintf("the candidate limit of %d", j.maxCand)
+				case st.Truncated > 0:
+					stopReason = fmt.Sprintf("the work budget of %d search nodes", j.maxNodes)
+				}
+			}
+			search.Readings = append(search.Readings, rep)
+		}
+		stats.Complete = complete
+		stats.Fraction = 1
+		if stopReason == "" && !complete {
+			stopReason = fmt.Sprintf("the work budget of %d search nodes", j.maxNodes)
+		}
+	}
 	ccancel()
 	close(stopProgress)
 	wg.Wait()
@@ -420,6 +526,10 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 	if gerr != nil && !(timedOut && errors.Is(gerr, context.DeadlineExceeded)) {
 		return nil, fmt.Errorf("generate isomers of %s: %w", j.formula, gerr)
 	}
+	if timedOut {
+		stopReason = fmt.Sprintf("the time budget of %s, a safety stop whose point depends on the machine's load", j.budget)
+	}
+	search.StopReason = stopReason
 
 	res := &Result{
 		Formula: j.formula.String(), DBE: j.formula.DBE(),
@@ -460,7 +570,7 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 	if failed > 0 {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("%d isomers could not be predicted and were not scored (last error: %v)", failed, lastErr))
 	}
-	r.totals(res, stats, timedOut, j)
+	r.totals(res, stats, timedOut, j, &search)
 	res.logZ = ls.value()
 
 	cands, err := r.explainTop(ctx, j, top.sorted(), res.logZ)
@@ -469,7 +579,11 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 	}
 	res.Candidates = cands
 	if res.Scored == 0 {
-		res.Warnings = append(res.Warnings, "no isomer satisfied the constraints: nothing was scored")
+		if res.Complete {
+			res.Warnings = append(res.Warnings, "no structure fits the formula and the constraints: nothing was scored")
+		} else {
+			res.Warnings = append(res.Warnings, "nothing was scored before the search stopped; this does not mean that no structure fits")
+		}
 	}
 	res.ElapsedSeconds = time.Since(start).Seconds()
 	if progress != nil {
@@ -504,31 +618,49 @@ func orDefault(s, d string) string {
 	return s
 }
 
-// totals fills the isomer count, the prior and the budget warnings.
-func (r *Ranker) totals(res *Result, st isomers.Stats, timedOut bool, j *job) {
+// totals fills the isomer count, the prior, the search status and the
+// budget warnings.
+func (r *Ranker) totals(res *Result, st isomers.Stats, timedOut bool, j *job, search *SearchReport) {
 	constrained := len(j.require) > 0 || len(j.forbid) > 0
-	if res.Complete {
+	res.Complete = st.Complete && !timedOut
+	switch {
+	case search.Scope == ScopeConstrained:
+		res.IsomersTotal = res.Generated
+		res.IsomersEstimated = !res.Complete
+		if res.Complete {
+			search.Status = StatusCompleteWithin
+		} else {
+			search.Status = StatusStopped
+		}
+	case res.Complete:
 		res.IsomersTotal = st.Emitted
-	} else {
+		search.Status = StatusComplete
+	default:
+		search.Status = StatusStopped
 		res.IsomersEstimated = true
 		res.IsomersTotal = extrapolate(res.Generated, st.Fraction)
-		why := fmt.Sprintf("the candidate limit (%d)", j.maxCand)
-		if timedOut {
-			why = fmt.Sprintf("the time budget (%s)", j.budget)
-		}
-		frac := ""
-		if st.Fraction > 0 {
-			frac = fmt.Sprintf(", %.1f %% of the search space", 100*st.Fraction)
-		}
-		res.Warnings = append(res.Warnings, fmt.Sprintf(
-			"incomplete search: %s stopped the generator after %d isomers (%d scored%s); about %d isomers exist. "+
-				"Probabilities are relative to the scored isomers only, and the true structure may be among those not scored: add required or forbidden fragments (require / forbid) to narrow the search, or raise the budget.",
-			why, res.Generated, res.Scored, frac, res.IsomersTotal))
+	}
+	search.Summary = search.summary(res)
+	res.Search = *search
+	if !res.Complete {
+		res.Warnings = append(res.Warnings, search.Summary+" The true structure may be among those not scored: switch constraints off or raise the budget only after checking the ones shown.")
+	}
+	scope := "scored isomers"
+	if search.Scope == ScopeConstrained {
+		scope = "scored structures of the searched readings of the spectrum"
 	}
 	switch {
 	case constrained:
-		res.Prior = fmt.Sprintf("uniform over the %d scored isomers that pass the plausibility filter and the fragment constraints", res.Scored)
+		res.Prior = fmt.Sprintf("uniform over the %d %s that pass the plausibility filter and the fragment constraints", res.Scored, scope)
 	default:
-		res.Prior = fmt.Sprintf("uniform over the %d scored isomers that pass the plausibility filter", res.Scored)
+		res.Prior = fmt.Sprintf("uniform over the %d %s that pass the plausibility filter", res.Scored, scope)
 	}
+}
+
+// readingsOf returns an analysis's readings (none for nil).
+func readingsOf(an *infer.Analysis) []infer.Reading {
+	if an == nil {
+		return nil
+	}
+	return an.Readings
 }

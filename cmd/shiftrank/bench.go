@@ -76,8 +76,12 @@ func writeBench(w io.Writer, rep *ranker.BenchReport) {
 		}
 		fmt.Fprintf(w, "%4s  %7s  %6s  %7d  %s (%s)", rank, formatProb(c.Probability), formatProb(c.TopProbability), c.Scored, c.Name, c.Formula)
 		if !c.Complete && c.Error == "" {
-			fmt.Fprint(w, " [incomplete search]")
+			fmt.Fprint(w, " [stopped early]")
 		}
+		if c.Excluded != "" {
+			fmt.Fprintf(w, " [not scored: %s]", c.Excluded)
+		}
+		fmt.Fprintf(w, " %.1f s", c.Seconds)
 		if c.Error != "" {
 			fmt.Fprintf(w, " ERROR: %s", c.Error)
 		}
@@ -104,6 +108,8 @@ func writeBench(w io.Writer, rep *ranker.BenchReport) {
 	}
 	fmt.Fprintf(w, "\n%d compounds: top-1 %.1f %%, top-3 %.1f %%, mean reciprocal rank %.3f\n",
 		rep.N, 100*rep.Top1, 100*rep.Top3, rep.MRR)
+	fmt.Fprintf(w, "searches complete (over all isomers or within the constraints): %.1f %%; time per compound median %.1f s, max %.1f s\n",
+		100*rep.CompleteShare, rep.MedianSeconds, rep.MaxSeconds)
 	fmt.Fprintf(w, "calibration: mean probability of the top candidate %.3f vs observed top-1 rate %.3f; mean probability of the true structure %.3f\n",
 		rep.MeanTopProbability, rep.Top1, rep.MeanTrueProbability)
 	fmt.Fprintln(w, "  p(top) range   compounds  mean p(top)  top-1 rate")

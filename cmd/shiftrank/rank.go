@@ -35,6 +35,11 @@ func runRank(ctx context.Context, args []string, e env) error {
 	maxCand := fs.Int64("max-candidates", ranker.DefaultMaxCandidates, "stop after this many isomers")
 	budget := fs.Duration("time-budget", ranker.DefaultTimeBudget, "stop generating after this long")
 	keepSolvent := fs.Bool("keep-solvent", false, "score peaks that match the solvent or water signals")
+	var disable stringList
+	fs.Var(&disable, "disable", "switch off a constraint read from the spectrum, by its ID as printed (repeatable)")
+	allIsomers := fs.Bool("all-isomers", false, "search every plausible isomer, ignoring the constraints read from the spectrum")
+	maxNodes := fs.Int64("max-nodes", ranker.DefaultMaxNodes, "search budget in generator nodes (the same input stops at the same place on any machine)")
+	neutral := fs.Bool("neutral", false, "leave out charge-separated groups (nitro, N-oxides, azides, diazo compounds, isonitriles)")
 	asJSON := fs.Bool("json", false, "print the result as JSON")
 	fs.Usage = func() {
 		fmt.Fprintln(e.stderr, "usage: shiftrank rank --formula F --peaks TEXT|@FILE|- [flags]")
@@ -65,7 +70,7 @@ func runRank(ctx context.Context, args []string, e env) error {
 	req := ranker.Request{
 		Formula: *formula, Peaks: pl, MHz: *mhz, Solvent: *solvent, TopK: *top, Filter: *filter,
 		Require: require, Forbid: forbid, MaxCandidates: *maxCand, TimeBudget: *budget,
-		KeepSolventPeaks: *keepSolvent,
+		KeepSolventPeaks: *keepSolvent, Disable: disable, Unconstrained: *allIsomers, MaxNodes: *maxNodes, Neutral: *neutral,
 	}
 	var progress func(ranker.Progress)
 	if e.stderrTTY {
@@ -134,15 +139,13 @@ func readPeakList(arg string, stdin io.Reader) (ranker.PeakList, error) {
 
 // writeResult prints a ranking for a reader.
 func writeResult(w io.Writer, res *ranker.Result) {
-	total := fmt.Sprintf("%d isomers", res.IsomersTotal)
-	if res.IsomersEstimated {
-		total = fmt.Sprintf("about %d isomers (estimate)", res.IsomersTotal)
-	}
-	fmt.Fprintf(w, "%s (DBE %d): %s, %d scored", res.Formula, res.DBE, total, res.Scored)
+	fmt.Fprintln(w, res.Search.Summary)
+	fmt.Fprintf(w, "%s (DBE %d), %d scored", res.Formula, res.DBE, res.Scored)
 	if !res.Complete {
-		fmt.Fprint(w, " — INCOMPLETE SEARCH")
+		fmt.Fprint(w, " — STOPPED EARLY")
 	}
 	fmt.Fprintf(w, "\n%.0f MHz, %s, filter %s; prior %s; %.1f s\n", res.MHz, res.Solvent, res.Filter, res.Prior, res.ElapsedSeconds)
+	writeSearch(w, &res.Search)
 	if len(res.Require) > 0 {
 		fmt.Fprintf(w, "required fragments: %s\n", strings.Join(res.Require, ", "))
 	}
@@ -234,4 +237,28 @@ func joinInts(a []int) string {
 		s[i] = fmt.Sprint(x)
 	}
 	return strings.Join(s, ",")
+}
+
+// writeSearch lists the constraints read from the spectrum and the
+// readings searched.
+func writeSearch(w io.Writer, s *ranker.SearchReport) {
+	if len(s.Constraints) > 0 {
+		fmt.Fprintln(w, "\nconstraints read from the spectrum (switch one off with --disable ID):")
+		for _, c := range s.Constraints {
+			state := ""
+			if !c.Enabled {
+				state = " [off]"
+			}
+			fmt.Fprintf(w, "  %-28s %s%s\n", c.ID, c.Reason, state)
+		}
+	}
+	if len(s.Readings) > 0 {
+		fmt.Fprintln(w, "readings searched, most plausible first:")
+		for i, r := range s.Readings {
+			fmt.Fprintf(w, "  %2d. %-19s %6d structures  %s\n", i+1, r.State, r.Structures, r.Name)
+		}
+	}
+	for _, n := range s.Notes {
+		fmt.Fprintf(w, "note: %s\n", n)
+	}
 }
