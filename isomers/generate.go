@@ -621,6 +621,9 @@ type taskResult struct {
 // number of workers or on timing.
 func (r *runner) budgeted(ctx context.Context, nw int, limit int64, yield func(int, *molecule.Graph) bool) (Stats, error) {
 	r.buffered = true
+	if len(r.tasks) == 0 {
+		return Stats{Removed: map[string]int64{}, Complete: ctx.Err() == nil, Fraction: 1}, ctx.Err()
+	}
 	workers := make([]*workerState, nw)
 	for wi := range workers {
 		workers[wi] = r.newWorker()
