@@ -122,7 +122,7 @@ var ruleTable = [numRules]ruleDef{
 	{Rule{"no-trivalent-p-oh", "P(III)–OH (phosphorous, phosphonous and phosphinous acids and their partial esters) exists almost entirely as the P(V) tautomer with P=O and P–H (H-phosphonates, H-phosphinates, secondary phosphine oxides), which the generator also makes (common practice); trialkyl phosphites without OH are kept."}, trivalentPOH, fP3 | fOH},
 	{Rule{"no-sulfenic-acid", "Sulfenic acids R–S–OH and their O–SH isomers are transient: they condense to thiosulfinates or are oxidised, and are isolable only with bulky protecting groups (common practice)."}, sulfenicAcid, fS2 | fO},
 	{Rule{"no-hypervalent-hydrate", "An OH on P(V) or hypervalent S with only single bonds (P(OH)5-type ortho acids, R–P(OH)4, R2S(OH)2) loses water to the P=O or S=O compound, as gem-diols do to carbonyls (common practice); phosphoranes and sulfuranes without OH (PCl5, SF4) are kept."}, hypervalentHydrate, fHyper | fOH},
-	{Rule{"no-small-aromatic-ring", "A three- or four-membered ring all of whose bonds belong to an aromatic π system (a bicyclic aromatic perimeter closed across by a short bond, e.g. azabicyclo[2.1.0]pentadienes) holds a local cyclobutadiene or cyclopropenyl-anion unit under extreme angle strain and is not isolable (common practice); rings fused to an aromatic ring through one bond (cyclopropabenzene, biphenylene) are kept."}, smallAromaticRing, fDouble | fRing},
+	{Rule{"no-small-aromatic-ring", "A three- or four-membered ring whose atoms all belong to one aromatic π system (a bicyclic aromatic perimeter closed across by a short bond, e.g. azabicyclo[2.1.0]pentadienes) holds a local cyclobutadiene or cyclopropenyl-anion unit under extreme angle strain and is not isolable (common practice); rings fused to an aromatic ring through one bond (cyclopropabenzene, biphenylene) are kept."}, smallAromaticRing, fDouble | fRing},
 	{Rule{"no-fused-cyclopropene", "A cyclopropene whose alkene carbon also belongs to another ring (fused across the double bond, bicyclo[n.1.0]alk-1(n+2)-enes, or at one alkene carbon, bicyclo[n.1.0]alk-1-enes) adds the strain of the fusion to the cyclopropene's wide exocyclic angle; such alkenes are transient intermediates trapped only in situ (common practice). Aromatic fusions (cyclopropabenzene), ordinary and spiro-fused cyclopropenes are kept."}, fusedCyclopropene, fDouble | fRing},
 }
 
@@ -793,35 +793,58 @@ func (o *outputBuilder) aromaticPair(m *mol, a, b int) bool {
 	return false
 }
 
+// smallAromaticRing reports a three- or four-membered ring whose atoms
+// all belong to an aromatic system and whose bonds are all aromatic but at
+// most one: the short ring closes across the aromatic perimeter (the
+// transannular bond of a bicyclic perimeter is not itself aromatic; see
+// molecule.AromaticBonds). Biphenylene's four-membered ring has two
+// non-aromatic bonds and cyclopropabenzene's ring an sp3 atom, so both
+// are kept.
 func smallAromaticRing(o *outputBuilder, m *mol) bool {
-	// only rings with a double bond can be aromatic, so look for those
-	// first and perceive aromaticity only then
+	arom := func(a, b int) int {
+		if o.aromaticPair(m, a, b) {
+			return 1
+		}
+		return 0
+	}
 	for a := 0; a < m.n; a++ {
+		if m.deg[a] < 3 {
+			continue // each end of the closing bond has three ring bonds
+		}
 		for k := 0; k < int(m.deg[a]); k++ {
 			b := int(m.nb[a][k])
-			if m.bo[a][k] != 2 {
-				continue
-			}
 			for j := 0; j < int(m.deg[b]); j++ {
 				c := int(m.nb[b][j])
 				if c == a {
 					continue
 				}
-				// three-membered ring a=b–c–a
-				if m.order(c, a) > 0 && o.aromaticPair(m, a, b) && o.aromaticPair(m, b, c) && o.aromaticPair(m, c, a) {
+				// three-membered ring a–b–c–a
+				if c > b && m.order(c, a) > 0 && o.aromaticAtom(m, a) && o.aromaticAtom(m, b) && o.aromaticAtom(m, c) &&
+					arom(a, b)+arom(b, c)+arom(c, a) >= 2 {
 					return true
 				}
-				// four-membered ring a=b–c–d–a
+				// four-membered ring a–b–c–d–a
 				for i := 0; i < int(m.deg[c]); i++ {
 					d := int(m.nb[c][i])
-					if d == b || d == a || m.order(d, a) == 0 {
+					if d == b || d == a || d < b || m.order(d, a) == 0 {
 						continue
 					}
-					if o.aromaticPair(m, a, b) && o.aromaticPair(m, b, c) && o.aromaticPair(m, c, d) && o.aromaticPair(m, d, a) {
+					if o.aromaticAtom(m, a) && o.aromaticAtom(m, b) && o.aromaticAtom(m, c) && o.aromaticAtom(m, d) &&
+						arom(a, b)+arom(b, c)+arom(c, d)+arom(d, a) >= 3 {
 						return true
 					}
 				}
 			}
+		}
+	}
+	return false
+}
+
+// aromaticAtom reports whether atom x has an aromatic bond.
+func (o *outputBuilder) aromaticAtom(m *mol, x int) bool {
+	for k := 0; k < int(m.deg[x]); k++ {
+		if o.aromatic(m, x, k) {
+			return true
 		}
 	}
 	return false
