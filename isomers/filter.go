@@ -98,7 +98,7 @@ func features(m *mol) feature {
 }
 
 // numRules is the number of rules in ruleTable.
-const numRules = 20
+const numRules = 24
 
 // ruleTable lists the rules in the order they are applied and reported.
 // The reasons are textbook organic chemistry (common practice); the ring
@@ -122,8 +122,12 @@ var ruleTable = [numRules]ruleDef{
 	{Rule{"no-trivalent-p-oh", "P(III)–OH (phosphorous, phosphonous and phosphinous acids and their partial esters) exists almost entirely as the P(V) tautomer with P=O and P–H (H-phosphonates, H-phosphinates, secondary phosphine oxides), which the generator also makes (common practice); trialkyl phosphites without OH are kept."}, trivalentPOH, fP3 | fOH},
 	{Rule{"no-sulfenic-acid", "Sulfenic acids R–S–OH and their O–SH isomers are transient: they condense to thiosulfinates or are oxidised, and are isolable only with bulky protecting groups (common practice)."}, sulfenicAcid, fS2 | fO},
 	{Rule{"no-hypervalent-hydrate", "An OH on P(V) or hypervalent S with only single bonds (P(OH)5-type ortho acids, R–P(OH)4, R2S(OH)2) loses water to the P=O or S=O compound, as gem-diols do to carbonyls (common practice); phosphoranes and sulfuranes without OH (PCl5, SF4) are kept."}, hypervalentHydrate, fHyper | fOH},
-	{Rule{"no-small-aromatic-ring", "A three- or four-membered ring all of whose bonds belong to an aromatic π system (a bicyclic aromatic perimeter closed across by a short bond, e.g. azabicyclo[2.1.0]pentadienes) holds a local cyclobutadiene or cyclopropenyl-anion unit under extreme angle strain and is not isolable (common practice); rings fused to an aromatic ring through one bond (cyclopropabenzene, biphenylene) are kept."}, smallAromaticRing, fDouble | fRing},
+	{Rule{"no-small-aromatic-ring", "A three- or four-membered ring whose atoms all belong to one aromatic π system (a bicyclic aromatic perimeter closed across by a short bond, e.g. azabicyclo[2.1.0]pentadienes) holds a local cyclobutadiene or cyclopropenyl-anion unit under extreme angle strain and is not isolable (common practice); rings fused to an aromatic ring through one bond (cyclopropabenzene, biphenylene) are kept."}, smallAromaticRing, fDouble | fRing},
 	{Rule{"no-fused-cyclopropene", "A cyclopropene whose alkene carbon also belongs to another ring (fused across the double bond, bicyclo[n.1.0]alk-1(n+2)-enes, or at one alkene carbon, bicyclo[n.1.0]alk-1-enes) adds the strain of the fusion to the cyclopropene's wide exocyclic angle; such alkenes are transient intermediates trapped only in situ (common practice). Aromatic fusions (cyclopropabenzene), ordinary and spiro-fused cyclopropenes are kept."}, fusedCyclopropene, fDouble | fRing},
+	{Rule{"no-small-ring-junction", "Two rings of three or four atoms that share an atom (bicyclo[1.1.0]butanes, bicyclo[2.1.0]pentanes, bicyclo[2.2.0]hexanes, [1.1.1]propellanes, bicyclo[1.1.1]pentanes, spiropentanes, spiro[3.3]heptanes, ladderanes, cubanes) add their strain at the shared atoms (bicyclo[1.1.0]butane about 64 and [1.1.1]propellane about 98 kcal/mol, against 27.5 for cyclopropane; Wiberg 1986, Angew. Chem. Int. Ed. 25:312, from memory); they are made on purpose by special routes and are neither natural products nor routine unknowns (common practice). A single three- or four-membered ring, also fused or bridged to larger rings (pinane, carane, thujane, caryophyllene, bicyclo[2.1.1]hexane), is kept; switch the rule off for building blocks such as bicyclo[1.1.1]pentanes and azaspiro[3.3]heptanes."}, smallRingJunction, fRing2},
+	{Rule{"no-four-ring-heteroatom-pair", "A four-membered ring of carbons and two or more O, N or S atoms (1,2- and 1,3-dioxetanes, diazetidines, oxazetidines, dithietanes, oxathietanes, thiazetidines) adds lone-pair repulsion and weak heteroatom bonds to the ring strain: 1,3-dioxetanes have never been isolated, 1,2-dioxetanes cleave to two carbonyl compounds on warming (first isolated by Kopecky and Mumford 1969, Can. J. Chem. 47:709, from memory) and the others are rare laboratory compounds (common practice). Rings with one heteroatom (oxetanes, azetidines, thietanes, β-lactones, β-lactams), uretdiones (1,3-diazetidine-2,4-diones, the stable isocyanate dimers) and rings with P, Si or hypervalent S (β-sultams, Lawesson's reagent) are kept."}, fourRingHeteroatomPair, fRing},
+	{Rule{"no-four-ring-hetero-alkene", "A double bond inside a four-membered ring that holds O, N or S (2H-oxetes, 1- and 2-azetines, 2H-thietes, 1,2-diazetes and the benzo-fused benzoxetes and benzothietes) opens electrocyclically to the α,β-unsaturated carbonyl, imine or thiocarbonyl compound or polymerises; such rings are observed at low temperature or with special substitution only (common practice). Exocyclic double bonds (β-lactones, β-lactams, diketene, oxetan-3-one) and cyclobutenes without a ring heteroatom are kept."}, fourRingHeteroAlkene, fRing | fDouble},
+	{Rule{"no-cyclopropene", "A C=C double bond in a three-membered ring (cyclopropenes) about doubles the strain of cyclopropane (about 54 against 27.5 kcal/mol, from memory); cyclopropenes with a vinylic C–H dimerise by the ene reaction near room temperature, substituted ones are specialty compounds, and in nature they occur only as the cyclopropene fatty acids (sterculic and malvalic acid) of some seed oils — switch the rule off for those (common practice). Cyclopropenones (2π-aromatic; diphenylcyclopropenone is a stable commercial compound) and the aromatic cyclopropabenzene are kept."}, cyclopropene, fRing | fDouble},
 }
 
 // Rules returns the filter rules in the order they are applied.
@@ -793,35 +797,58 @@ func (o *outputBuilder) aromaticPair(m *mol, a, b int) bool {
 	return false
 }
 
+// smallAromaticRing reports a three- or four-membered ring whose atoms
+// all belong to an aromatic system and whose bonds are all aromatic but at
+// most one: the short ring closes across the aromatic perimeter (the
+// transannular bond of a bicyclic perimeter is not itself aromatic; see
+// molecule.AromaticBonds). Biphenylene's four-membered ring has two
+// non-aromatic bonds and cyclopropabenzene's ring an sp3 atom, so both
+// are kept.
 func smallAromaticRing(o *outputBuilder, m *mol) bool {
-	// only rings with a double bond can be aromatic, so look for those
-	// first and perceive aromaticity only then
+	arom := func(a, b int) int {
+		if o.aromaticPair(m, a, b) {
+			return 1
+		}
+		return 0
+	}
 	for a := 0; a < m.n; a++ {
+		if m.deg[a] < 3 {
+			continue // each end of the closing bond has three ring bonds
+		}
 		for k := 0; k < int(m.deg[a]); k++ {
 			b := int(m.nb[a][k])
-			if m.bo[a][k] != 2 {
-				continue
-			}
 			for j := 0; j < int(m.deg[b]); j++ {
 				c := int(m.nb[b][j])
 				if c == a {
 					continue
 				}
-				// three-membered ring a=b–c–a
-				if m.order(c, a) > 0 && o.aromaticPair(m, a, b) && o.aromaticPair(m, b, c) && o.aromaticPair(m, c, a) {
+				// three-membered ring a–b–c–a
+				if c > b && m.order(c, a) > 0 && o.aromaticAtom(m, a) && o.aromaticAtom(m, b) && o.aromaticAtom(m, c) &&
+					arom(a, b)+arom(b, c)+arom(c, a) >= 2 {
 					return true
 				}
-				// four-membered ring a=b–c–d–a
+				// four-membered ring a–b–c–d–a
 				for i := 0; i < int(m.deg[c]); i++ {
 					d := int(m.nb[c][i])
-					if d == b || d == a || m.order(d, a) == 0 {
+					if d == b || d == a || d < b || m.order(d, a) == 0 {
 						continue
 					}
-					if o.aromaticPair(m, a, b) && o.aromaticPair(m, b, c) && o.aromaticPair(m, c, d) && o.aromaticPair(m, d, a) {
+					if o.aromaticAtom(m, a) && o.aromaticAtom(m, b) && o.aromaticAtom(m, c) && o.aromaticAtom(m, d) &&
+						arom(a, b)+arom(b, c)+arom(c, d)+arom(d, a) >= 3 {
 						return true
 					}
 				}
 			}
+		}
+	}
+	return false
+}
+
+// aromaticAtom reports whether atom x has an aromatic bond.
+func (o *outputBuilder) aromaticAtom(m *mol, x int) bool {
+	for k := 0; k < int(m.deg[x]); k++ {
+		if o.aromatic(m, x, k) {
+			return true
 		}
 	}
 	return false
@@ -886,4 +913,152 @@ func (o *outputBuilder) ringAvoiding(m *mol, a, b, x int) bool {
 		frontier = next
 	}
 	return false
+}
+
+// Strained small rings. The rules below find three- and four-membered
+// rings through the neighbour bit masks: a three-membered ring is a bond
+// b–c between two neighbours of a; a four-membered ring a–b–c–d is an atom
+// c bonded to two neighbours b and d of a.
+
+// eachSmallRing calls f with the atoms of every three-membered ring
+// (d = -1) and every four-membered ring (in ring order a–b–c–d) of m, each
+// once, until f returns true; it reports whether f did.
+func eachSmallRing(m *mol, f func(a, b, c, d int) bool) bool {
+	for a := 0; a < m.n; a++ {
+		if m.deg[a] < 2 {
+			continue
+		}
+		above := ^uint64(0) << uint(a+1) // atoms after a: a is the ring's smallest atom
+		for nb := m.adj[a] & above; nb != 0; nb &= nb - 1 {
+			b := bits.TrailingZeros64(nb)
+			// three-membered rings a–b–c with b < c
+			for c3 := m.adj[b] & m.adj[a] & (^uint64(0) << uint(b+1)); c3 != 0; c3 &= c3 - 1 {
+				if f(a, b, bits.TrailingZeros64(c3), -1) {
+					return true
+				}
+			}
+			// four-membered rings a–b–c–d with b < d
+			for nd := m.adj[a] & (^uint64(0) << uint(b+1)); nd != 0; nd &= nd - 1 {
+				d := bits.TrailingZeros64(nd)
+				for cs := m.adj[b] & m.adj[d] & above; cs != 0; cs &= cs - 1 {
+					if f(a, b, bits.TrailingZeros64(cs), d) {
+						return true
+					}
+				}
+			}
+		}
+	}
+	return false
+}
+
+// smallRingJunction reports two rings of three or four atoms that share
+// an atom (fused, bridged or spiro).
+func smallRingJunction(o *outputBuilder, m *mol) bool {
+	var count [MaxAtoms]uint8
+	return eachSmallRing(m, func(a, b, c, d int) bool {
+		shared := false
+		for _, x := range [4]int{a, b, c, d} {
+			if x < 0 {
+				continue
+			}
+			count[x]++
+			shared = shared || count[x] > 1
+		}
+		return shared
+	})
+}
+
+// ringHeteroatom reports whether x is a ring heteroatom for the
+// four-membered-ring rules: O, N or divalent S.
+func ringHeteroatom(m *mol, x int) bool {
+	switch m.el[x] {
+	case molecule.O, molecule.N:
+		return true
+	}
+	return isDivalentS(m, x)
+}
+
+// fourRingHeteroatomPair reports a four-membered ring of carbons and at
+// least two O, N or divalent S atoms, except a uretdione
+// (1,3-diazetidine-2,4-dione).
+func fourRingHeteroatomPair(o *outputBuilder, m *mol) bool {
+	return eachSmallRing(m, func(a, b, c, d int) bool {
+		if d < 0 {
+			return false
+		}
+		ring := [4]int{a, b, c, d}
+		het := 0
+		for _, x := range ring {
+			switch {
+			case ringHeteroatom(m, x):
+				het++
+			case m.el[x] != molecule.C:
+				return false // P, Si, B or hypervalent S in the ring
+			}
+		}
+		if het < 2 {
+			return false
+		}
+		// uretdione: N, C(=O), N, C(=O) around the ring
+		for k := 0; k < 2; k++ {
+			if m.el[ring[k]] == molecule.N && m.el[ring[k+2]] == molecule.N &&
+				doubleTo(m, ring[k+1], molecule.O, molecule.O) && doubleTo(m, ring[(k+3)%4], molecule.O, molecule.O) {
+				return false
+			}
+		}
+		return true
+	})
+}
+
+// fourRingHeteroAlkene reports a four-membered ring with an O, N or S
+// ring atom and a double or aromatic bond between two of its ring atoms.
+func fourRingHeteroAlkene(o *outputBuilder, m *mol) bool {
+	return eachSmallRing(m, func(a, b, c, d int) bool {
+		if d < 0 {
+			return false
+		}
+		ring := [4]int{a, b, c, d}
+		het := false
+		for _, x := range ring {
+			e := m.el[x]
+			het = het || e == molecule.O || e == molecule.N || e == molecule.S
+		}
+		if !het {
+			return false
+		}
+		for k, x := range ring {
+			y := ring[(k+1)%4]
+			if m.order(x, y) == 2 {
+				return true
+			}
+			// a single bond of a Kekulé structure may still be aromatic
+			// (benzoxete); only bonds between unsaturated atoms can be
+			if m.bsum[x] > m.deg[x] && m.bsum[y] > m.deg[y] && o.aromaticPair(m, x, y) {
+				return true
+			}
+		}
+		return false
+	})
+}
+
+// cyclopropene reports a non-aromatic C=C inside a three-membered ring,
+// except in a cyclopropenone.
+func cyclopropene(o *outputBuilder, m *mol) bool {
+	return eachSmallRing(m, func(a, b, c, d int) bool {
+		if d >= 0 {
+			return false
+		}
+		ring := [3]int{a, b, c}
+		for k, x := range ring {
+			y, z := ring[(k+1)%3], ring[(k+2)%3]
+			if m.el[x] != molecule.C || m.el[y] != molecule.C || m.order(x, y) != 2 || o.aromaticPair(m, x, y) {
+				continue
+			}
+			if m.el[z] == molecule.C && doubleTo(m, z, molecule.O, molecule.O) {
+				continue // cyclopropenone
+			}
+			return true
+		}
+		return false
+	})
 }

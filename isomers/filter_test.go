@@ -14,15 +14,21 @@ import (
 // (Fawcett's S = 7, isolable), Δ9,10-octalin, norbornene, phenol,
 // acetamide, acetaldoxime, 2-hydroxypyridine, ethylene glycol,
 // 2-methoxyethanol, ethanolamine, N-(hydroxymethyl)acetamide,
-// 2-chloroethanol, cyclopropene, cyclopropenone, 2H-azirines, biphenylene,
+// 2-chloroethanol, cyclopropenone, 2H-azirines, biphenylene,
 // DMSO, phosphorous acid, SF4, PCl5, dimethyl sulfone, trimethylphosphine
 // oxide, methanesulfinic acid, methylphosphonic acid,
 // methylenetriphenylphosphorane (the Wittig reagent), carbon disulfide,
 // trimethyl phosphite, dimethylphosphine oxide and sulfide, methyl
 // methanesulfenate, 2-mercaptoethanol, 1,1-ethanedithiol, phosphoric
 // acid, pentamethoxyphosphorane, methanesulfonic acid, cyclopropabenzene,
-// cyclopropene, 1-methylcyclopropene, norcarane, methylenecyclopropane,
-// triafulvene, spiro[2.2]pent-1-ene).
+// norcarane, methylenecyclopropane, pinane, α-pinene, 3-carene, sabinene,
+// β-caryophyllene, bicyclo[2.1.1]hexane, cyclobutane, oxetane, β-propiolactone,
+// azetidin-2-one, thietane, 1,3-dimethyluretdione, 1,2-thiazetidine
+// 1,1-dioxide (a β-sultam), diketene, oxetan-3-one, cyclobutene,
+// benzocyclobutene, diphenylcyclopropenone). Cyclopropene,
+// 1-methylcyclopropene, triafulvene and spiro[2.2]pent-1-ene are real but
+// rare and unstable; the default filter removes them (no-cyclopropene,
+// no-small-ring-junction).
 var filterCases = []struct {
 	rule   string
 	remove []string
@@ -38,15 +44,19 @@ var filterCases = []struct {
 	{"no-hemiacetal", []string{"CC(O)OC", "OC1CCCO1", "CC(O)S", "CC(O)SC", "CC(S)OC"}, []string{"COCCO", "CC(=O)O", "COC(C)OC", "OCCS", "CC(S)S"}},
 	{"no-hemiaminal", []string{"CC(O)N", "OCN(C)C"}, []string{"NCCO", "OCNC(C)=O", "CC(N)=O"}},
 	{"no-hypohalite", []string{"COCl", "CCOBr"}, []string{"ClCCO", "CC(=O)Cl"}},
-	{"no-antiaromatic-ring", []string{"C1=CO1", "C1=CS1", "C1=CN1", "C1=CC=C1", "CC1=NC=C1"}, []string{"C1=CC1", "O=C1C=C1", "C1=NC1", "c1ccc2c(c1)-c1ccccc1-2", "C1=CCC1"}},
+	{"no-antiaromatic-ring", []string{"C1=CO1", "C1=CS1", "C1=CN1", "C1=CC=C1", "CC1=NC=C1"}, []string{"O=C1C=C1", "C1=NC1", "c1ccc2c(c1)-c1ccccc1-2", "C1=CCC1"}},
 	{"no-hypervalent-hydride", []string{"C[SH3]", "[PH5]", "C[SH](=O)(=O)", "C=[PH2]C"}, []string{"CS(C)=O", "O[PH](O)=O", "C[PH](C)=O", "C[PH](C)=S", "CS", "CP"}},
 	{"no-ylide-tautomer", []string{"C=P(C)(C)O", "C=S(C)O", "C=P(O)(O)O"}, []string{"CP(C)(C)=O", "CS(=O)O", "CP(=O)(O)O", "C=P(c1ccccc1)(c1ccccc1)c1ccccc1"}},
 	{"no-sulfur-ylide", []string{"C=S(C)C", "C=S=O", "C=S(=O)=O", "C#S(C)(O)O"}, []string{"CS(C)=O", "CS(C)(=O)=O", "C=P(c1ccccc1)(c1ccccc1)c1ccccc1", "S=C=S"}},
 	{"no-trivalent-p-oh", []string{"OP(O)O", "CP(C)O", "COP(O)OC"}, []string{"COP(OC)OC", "O[PH](O)=O", "C[PH](C)=O", "CP(C)C"}},
 	{"no-sulfenic-acid", []string{"CSO", "COS", "CCSO"}, []string{"CSOC", "CS(=O)O", "CSC", "COC"}},
 	{"no-hypervalent-hydrate", []string{"OP(O)(O)(O)O", "CP(O)(O)(O)O", "CS(C)(O)O", "OS1(O)CC1"}, []string{"OP(O)(O)=O", "ClP(Cl)(Cl)(Cl)Cl", "COP(OC)(OC)(OC)OC", "CS(=O)(=O)O", "FS(F)(F)F"}},
-	{"no-small-aromatic-ring", []string{"Cn1c2ccc21", "Cc1cc2[nH]c12", "Cc1c2ccn12"}, []string{"c1ccc2c(c1)C2", "c1ccc2c(c1)-c1ccccc1-2", "c1ccccc1", "c1ccc2Cn12", "c1[nH]cc2Cc12", "C1=CC1"}},
-	{"no-fused-cyclopropene", []string{"C1CCC2=C(C1)C2", "C1C2=C1C2", "C1CC2=C1C2", "C1=C2CC=CC12", "C1CC2C=C2C1"}, []string{"C1=CC1", "CC1=CC1", "c1ccc2c(c1)C2", "C1CC2CC2C1", "C=C1CC1", "C=C1C=C1", "C1=CC11CC1"}},
+	{"no-small-aromatic-ring", []string{"Cn1c2ccc21", "Cc1cc2[nH]c12", "Cc1c2ccn12"}, []string{"c1ccc2c(c1)C2", "c1ccc2c(c1)-c1ccccc1-2", "c1ccccc1", "c1ccc2Cn12", "c1[nH]cc2Cc12", "O=C1C=C1"}},
+	{"no-fused-cyclopropene", []string{"C1CCC2=C(C1)C2", "C1C2=C1C2", "C1CC2=C1C2", "C1=C2CC=CC12", "C1CC2C=C2C1"}, []string{"O=C1C=C1", "c1ccc2c(c1)C2", "C1CC2CC2C1", "C=C1CC1"}},
+	{"no-small-ring-junction", []string{"C1C2CC12", "C1CC2CC12", "C1CC2CCC12", "C1C23CC12C3", "C1C2CC1C2", "C1CC11CC1", "C1CC2(C1)CCC2", "C12C3C4C1C5C2C3C45", "C1=CC11CC1"}, []string{"CC1CCC2CC1C2(C)C", "CC1=CCC2CC1C2(C)C", "CC1=CCC2C(C1)C2(C)C", "CC(C)C12CCC(=C)C1C2", "CC1=CCCC(=C)C2CC(C)(C)C2CC1", "C1CC2CC1C2", "C1CCC1"}},
+	{"no-four-ring-heteroatom-pair", []string{"C1OCO1", "CC1(C)OOC1(C)C", "C1NCN1", "C1CNO1", "C1SCS1", "CN1CN(C)C1=O"}, []string{"C1COC1", "O=C1CCO1", "O=C1CCN1", "C1CSC1", "CN1C(=O)N(C)C1=O", "O=S1(=O)CCN1"}},
+	{"no-four-ring-hetero-alkene", []string{"C1=COC1", "C1=CNC1", "C1CN=C1", "C1=CSC1", "c1ccc2c(c1)CO2", "c1ccc2c(c1)CS2", "C1CCC2=C(C1)CO2"}, []string{"O=C1CCO1", "C=C1CC(=O)O1", "O=C1COC1", "C1=CCC1", "C1Cc2ccccc21", "O=C1CCN1"}},
+	{"no-cyclopropene", []string{"C1=CC1", "CC1=CC1", "CC1(C)C=C1", "CC1=C(C)C1", "C=C1C=C1", "CCCCCCCCC1=C(CCCCCCCC(=O)O)C1"}, []string{"O=C1C=C1", "O=C1C(c2ccccc2)=C1c1ccccc1", "c1ccc2c(c1)C2", "C=C1CC1", "C1=NC1", "CC1(C)CC1C(=O)O"}},
 	{"no-bare-hypervalent", []string{"C[S](C)(C)C", "C[P](C)(C)(C)C"}, []string{"FS(F)(F)F", "ClP(Cl)(Cl)(Cl)Cl", "CS(C)(=O)=O", "CS(C)=O", "COP(=O)(OC)OC"}},
 }
 

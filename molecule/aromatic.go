@@ -1,5 +1,10 @@
 package molecule
 
+import (
+	"math/bits"
+	"slices"
+)
+
 // Aromaticity model (Hückel's rule, 4n+2 π electrons), chosen so that it
 // depends only on the constitution and never on which Kekulé structure a
 // graph happens to carry:
@@ -24,21 +29,44 @@ package molecule
 //     neighbouring ring bond, so the counts above are the same in every
 //     Kekulé structure.
 //  2. Candidate atoms joined by ring bonds form the candidate subgraph.
-//     Every simple cycle of it whose atoms' π counts sum to 4n+2 is
-//     aromatic: its bonds, and bonds joining two of its atoms (the fusion
-//     bond of azulene), are aromatic. Single rings (benzene, pyrrole) and
-//     the perimeters of fused systems (naphthalene, azulene, indole) are
-//     all simple cycles, so fused systems need no special case. A ring of
-//     4n π electrons (cyclobutadiene, cyclooctatetraene, pentalene) is not
-//     aromatic, so its Kekulé structures stay distinct.
+//     A simple cycle of it is aromatic if its atoms' π counts sum to
+//     4n+2 and it is a ring of the molecule: a GF(2) sum of relevant
+//     cycles (cycles that are not sums of shorter ones; Vismara 1997,
+//     Electron. J. Combin. 4:R9, from memory) made of candidate atoms
+//     only. Single rings (benzene, pyrrole) are relevant cycles, and the
+//     perimeters of fused systems (naphthalene, azulene, indole) are sums
+//     of their rings, so fused systems need no special case; but the six
+//     sp2 atoms of 1,4-methanobenzene (bicyclo[2.2.1]hepta-1,3,5-triene)
+//     only close a cycle around the sp3 bridge, which is the sum of the
+//     two five-membered rings through the bridge, and are not aromatic.
+//     The bonds of an aromatic cycle are aromatic; a bond across it
+//     (the 5/7 fusion bond of azulene, the transannular bond of an
+//     azabicyclo[2.1.0]pentadiene) is aromatic only if it lies on another
+//     aromatic cycle (the fusion bond of naphthalene lies on both benzene
+//     rings), so it keeps its own order and Kekulé structures that differ
+//     in it stay distinct compounds. A ring of 4n π electrons
+//     (cyclobutadiene, cyclooctatetraene, pentalene) is not aromatic, so
+//     its Kekulé structures stay distinct.
+//     This follows the ring model of RDKit's aromaticity (rings of the
+//     molecule and fused combinations of them, marking the bonds of a
+//     combination that lie on one of its rings only), with two
+//     differences: RDKit takes its rings from a symmetrised smallest set
+//     of smallest rings, which in a few strained polycycles misses a
+//     relevant ring depending on the atom order of the input; and RDKit
+//     counts a ring carbon with an exocyclic C=C as one π electron (and
+//     one with an exocyclic C=O or C=N as none), where step 1 makes it no
+//     candidate (a cross-conjugated, fulvene- or quinone-like ring, not a
+//     cyclic 4n+2 system).
 //  3. For large candidate subgraphs (cyclomatic number above
 //     maxCandRings, as in large polycyclic aromatics) only cycles of at
 //     most fallbackCycleLen atoms are examined, which bounds the work.
 //     The limit depends only on the graph, so the result is still
 //     independent of atom numbering.
 //
-// The result is invariant under renumbering the atoms and under Kekulé
-// shifts within the aromatic bonds, which is what canonical forms need.
+// The result is invariant under renumbering the atoms (relevant cycles
+// and their spans are graph invariants, unlike a smallest set of smallest
+// rings) and under Kekulé shifts within the aromatic bonds, which is what
+// canonical forms need.
 const (
 	maxCandRings     = 8
 	fallbackCycleLen = 10
@@ -96,6 +124,27 @@ type aromaticity struct {
 	disc, low []int
 	// candidate adjacency (CSR over atoms)
 	cStart, cNbr, cBond []int
+	// the simple cycles of the candidate subgraph: bond bit sets of
+	// words uint64 each, lengths, 4n+2 flags, one atom of each
+	words     int
+	cycBits   []uint64
+	cycLen    []int
+	cycHuckel []bool
+	cycAtom   []int
+	anyHuckel bool
+	// ring cycle selection (markRingCycles)
+	sysOf         []int // ring system (union-find parent) per atom
+	sysImpure     []bool
+	order, hOrder []int
+	good, shorter gf2Basis
+	scratch       []uint64
+	// Horton candidate cycles: bond bit sets and lengths; shortest-path
+	// trees (distance and parent bond per source and atom, flattened)
+	hBits     []uint64
+	hLen      []int
+	dist, par []int
+	queue     []int
+	mark      []int
 }
 
 func (a *aromaticity) perceive(g *Graph) []bool {
@@ -187,7 +236,13 @@ func (a *aromaticity) perceive(g *Graph) []bool {
 	if a.candRings(n) > maxCandRings {
 		a.maxLen = fallbackCycleLen
 	}
+	a.words = (m + 63) / 64
+	a.cycBits, a.cycLen, a.cycHuckel, a.cycAtom = a.cycBits[:0], a.cycLen[:0], a.cycHuckel[:0], a.cycAtom[:0]
+	a.anyHuckel = false
 	a.enumerate(g)
+	if a.anyHuckel {
+		a.markRingCycles(g)
+	}
 	return a.arom
 }
 
@@ -343,17 +398,31 @@ func (a *aromaticity) extend(g *Graph, s, v int) {
 	}
 }
 
-// cycle handles the cycle a.path (closed back to its first atom).
+// cycle records the cycle a.path (closed back to its first atom): its
+// bonds as a bit set, its length and whether its π count is 4n+2.
 func (a *aromaticity) cycle(g *Graph) {
-	if a.pathSum%4 != 2 {
-		return
+	w := a.words
+	start := len(a.cycBits)
+	for k := 0; k < w; k++ {
+		a.cycBits = append(a.cycBits, 0)
 	}
-	for _, v := range a.path {
+	set := a.cycBits[start:]
+	for i, v := range a.path {
+		u := a.path[(i+1)%len(a.path)]
 		for k := a.cStart[v]; k < a.cStart[v+1]; k++ {
-			if a.onPath[a.cNbr[k]] {
-				a.arom[a.cBond[k]] = true
+			if a.cNbr[k] == u {
+				b := a.cBond[k]
+				set[b/64] |= 1 << (b % 64)
+				break
 			}
 		}
+	}
+	huckel := a.pathSum%4 == 2
+	a.cycLen = append(a.cycLen, len(a.path))
+	a.cycHuckel = append(a.cycHuckel, huckel)
+	a.cycAtom = append(a.cycAtom, a.path[0])
+	if huckel {
+		a.anyHuckel = true
 	}
 }
 
@@ -455,4 +524,242 @@ func resizeInt8(s []int8, n int) []int8 {
 	s = s[:n]
 	clear(s)
 	return s
+}
+
+// markRingCycles marks the bonds of the 4n+2 cycles that count as rings
+// of the molecule (step 2 of the model): a cycle counts if it is a GF(2)
+// sum of relevant cycles (Vismara 1997: cycles that are not sums of
+// shorter cycles) made of candidate atoms only. In a ring system whose
+// atoms are all candidates every cycle qualifies, so the minimum cycle
+// basis is only computed for ring systems that also hold other atoms.
+func (a *aromaticity) markRingCycles(g *Graph) {
+	n := len(g.Atoms)
+	a.sysOf = resizeInts(a.sysOf, n)
+	for v := range a.sysOf {
+		a.sysOf[v] = v
+	}
+	for i, b := range g.Bonds {
+		if a.ringBond[i] {
+			if ra, rb := a.find(b.A), a.find(b.B); ra != rb {
+				a.sysOf[ra] = rb
+			}
+		}
+	}
+	a.sysImpure = resizeBools(a.sysImpure, n)
+	for i, b := range g.Bonds {
+		if !a.ringBond[i] {
+			continue
+		}
+		if !a.cand[b.A] || !a.cand[b.B] {
+			a.sysImpure[a.find(b.A)] = true
+		}
+	}
+	mixed := false
+	for c := range a.cycLen {
+		if a.cycHuckel[c] && a.sysImpure[a.find(a.cycAtom[c])] {
+			mixed = true
+			break
+		}
+	}
+	if !mixed {
+		for c := range a.cycLen {
+			if a.cycHuckel[c] {
+				a.markCycle(c)
+			}
+		}
+		return
+	}
+	// Horton's candidate cycles (Horton 1987, SIAM J. Comput. 16:358,
+	// from memory) shorter than the longest candidate cycle: those shorter
+	// than L span every cycle shorter than L, so a cycle of length L is
+	// relevant exactly when it is not in their span.
+	w := a.words
+	maxLen := 0
+	for _, l := range a.cycLen {
+		maxLen = max(maxLen, l)
+	}
+	a.hortonCycles(g, maxLen-1)
+	a.order = a.order[:0]
+	for c := range a.hLen {
+		a.order = append(a.order, c)
+	}
+	slices.SortStableFunc(a.order, func(x, y int) int { return a.hLen[x] - a.hLen[y] })
+	a.hOrder = append(a.hOrder[:0], a.order...)
+	a.order = a.order[:0]
+	for c := range a.cycLen {
+		a.order = append(a.order, c)
+	}
+	slices.SortStableFunc(a.order, func(x, y int) int { return a.cycLen[x] - a.cycLen[y] })
+	a.good.reset(w)
+	a.shorter.reset(w)
+	r := 0
+	for i := 0; i < len(a.order); {
+		l := a.cycLen[a.order[i]]
+		for ; r < len(a.hOrder) && a.hLen[a.hOrder[r]] < l; r++ {
+			h := a.hOrder[r]
+			a.shorter.add(a.hBits[h*w : (h+1)*w])
+		}
+		for ; i < len(a.order) && a.cycLen[a.order[i]] == l; i++ {
+			set := a.cycleBits(a.order[i])
+			if !a.shorter.contains(set, &a.scratch) {
+				a.good.add(set)
+			}
+		}
+	}
+	for c := range a.cycLen {
+		if a.cycHuckel[c] && a.good.contains(a.cycleBits(c), &a.scratch) {
+			a.markCycle(c)
+		}
+	}
+}
+
+func (a *aromaticity) find(v int) int {
+	for a.sysOf[v] != v {
+		a.sysOf[v] = a.sysOf[a.sysOf[v]]
+		v = a.sysOf[v]
+	}
+	return v
+}
+
+func (a *aromaticity) cycleBits(c int) []uint64 { return a.cycBits[c*a.words : (c+1)*a.words] }
+
+// markCycle marks the bonds of cycle c aromatic.
+func (a *aromaticity) markCycle(c int) {
+	for wi, word := range a.cycleBits(c) {
+		for ; word != 0; word &= word - 1 {
+			a.arom[wi*64+bits.TrailingZeros64(word)] = true
+		}
+	}
+}
+
+// gf2Basis is a basis of a space of bit vectors over GF(2) (here: sets of
+// bonds, cycles under symmetric difference) in echelon form: each vector
+// has a pivot bit that no earlier vector has set.
+type gf2Basis struct {
+	words int
+	vecs  []uint64
+	piv   []int
+}
+
+func (b *gf2Basis) reset(words int) {
+	b.words = words
+	b.vecs = b.vecs[:0]
+	b.piv = b.piv[:0]
+}
+
+// reduce removes from v, in place, every pivot of the basis.
+func (b *gf2Basis) reduce(v []uint64) {
+	for k, p := range b.piv {
+		if v[p/64]&(1<<(p%64)) != 0 {
+			bv := b.vecs[k*b.words : (k+1)*b.words]
+			for i := range v {
+				v[i] ^= bv[i]
+			}
+		}
+	}
+}
+
+// add inserts v (which it does not modify) unless it is in the span.
+func (b *gf2Basis) add(v []uint64) {
+	start := len(b.vecs)
+	b.vecs = append(b.vecs, v...)
+	nv := b.vecs[start:]
+	b.reduce(nv)
+	for i, word := range nv {
+		if word != 0 {
+			b.piv = append(b.piv, i*64+bits.TrailingZeros64(word))
+			return
+		}
+	}
+	b.vecs = b.vecs[:start]
+}
+
+// contains reports whether v is in the span, using *scratch.
+func (b *gf2Basis) contains(v []uint64, scratch *[]uint64) bool {
+	*scratch = append((*scratch)[:0], v...)
+	b.reduce(*scratch)
+	for _, word := range *scratch {
+		if word != 0 {
+			return false
+		}
+	}
+	return true
+}
+
+// hortonCycles fills a.hBits and a.hLen with Horton's candidate cycles of
+// at most maxLen atoms: for each ring atom s and ring bond x–y, the shortest
+// path from s to x, the bond, and the shortest path from y back to s, when
+// the two paths meet only at s. Shortest paths follow one breadth-first
+// tree per source over the ring bonds.
+func (a *aromaticity) hortonCycles(g *Graph, maxLen int) {
+	n := len(g.Atoms)
+	w := a.words
+	a.hBits = a.hBits[:0]
+	a.hLen = a.hLen[:0]
+	if cap(a.dist) < n*n {
+		a.dist = make([]int, n*n)
+		a.par = make([]int, n*n)
+	}
+	a.dist, a.par = a.dist[:n*n], a.par[:n*n]
+	a.mark = resizeInts(a.mark, n)
+	for s := 0; s < n; s++ {
+		d, p := a.dist[s*n:(s+1)*n], a.par[s*n:(s+1)*n]
+		for v := range d {
+			d[v], p[v] = -1, -1
+		}
+		d[s] = 0
+		a.queue = append(a.queue[:0], s)
+		for h := 0; h < len(a.queue); h++ {
+			v := a.queue[h]
+			if 2*d[v]+1 > maxLen {
+				break // farther atoms only close longer cycles
+			}
+			for _, nb := range g.Neighbors(v) {
+				if a.ringBond[nb.Bond] && d[nb.Atom] < 0 {
+					d[nb.Atom] = d[v] + 1
+					p[nb.Atom] = nb.Bond
+					a.queue = append(a.queue, nb.Atom)
+				}
+			}
+		}
+	}
+	stamp := 0
+	for s := 0; s < n; s++ {
+		d, p := a.dist[s*n:(s+1)*n], a.par[s*n:(s+1)*n]
+		for i, b := range g.Bonds {
+			if !a.ringBond[i] {
+				continue
+			}
+			x, y := b.A, b.B
+			if d[x] < 0 || d[y] < 0 || p[x] == i || p[y] == i || d[x]+d[y]+1 > maxLen {
+				continue
+			}
+			stamp++
+			for v := x; v != s; v = g.Bonds[p[v]].Other(v) {
+				a.mark[v] = stamp
+			}
+			disjoint := true
+			for v := y; v != s; v = g.Bonds[p[v]].Other(v) {
+				if a.mark[v] == stamp {
+					disjoint = false
+					break
+				}
+			}
+			if !disjoint {
+				continue
+			}
+			start := len(a.hBits)
+			for k := 0; k < w; k++ {
+				a.hBits = append(a.hBits, 0)
+			}
+			set := a.hBits[start:]
+			set[i/64] |= 1 << (i % 64)
+			for _, v := range [2]int{x, y} {
+				for ; v != s; v = g.Bonds[p[v]].Other(v) {
+					set[p[v]/64] |= 1 << (p[v] % 64)
+				}
+			}
+			a.hLen = append(a.hLen, d[x]+d[y]+1)
+		}
+	}
 }

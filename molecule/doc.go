@@ -35,10 +35,14 @@
 // # Aromaticity
 //
 // AromaticBonds applies Hückel's rule (4n+2 π electrons) to every simple
-// cycle of sp2-like ring atoms, with per-atom electron counts that do not
-// depend on the Kekulé structure, so the Kekulé structures of one aromatic
-// compound share one Key and one CanonicalSMILES, while 4n systems
-// (cyclooctatetraene) keep their bond-shift isomers apart. A ring carbon
+// cycle of sp2-like ring atoms that is a ring of the molecule or the
+// perimeter of fused rings (not the envelope around an sp3 bridge), with
+// per-atom electron counts that do not depend on the Kekulé structure, so
+// the Kekulé structures of one aromatic compound share one Key and one
+// CanonicalSMILES, while 4n systems (cyclooctatetraene) keep their
+// bond-shift isomers apart. Only the bonds of aromatic cycles are
+// aromatic: a bond across a perimeter (azulene's fusion bond) keeps its
+// order. A ring carbon
 // with an exocyclic double bond (2-pyridone, quinones) makes its ring
 // non-aromatic: such rings have one Kekulé structure anyway. See
 // aromatic.go for the full model.
