@@ -281,12 +281,7 @@ func (cx *cctx) aromatic(c int, r *cres) {
 			}
 			val := inc[d]
 			if size == 5 {
-				switch d {
-				case 0:
-					val *= 1.2
-				case 2:
-					val *= 0.5
-				}
+				val, name = cx.fiveRingInc(c, x, d, ring, inc, name)
 				r.sigma += 1.0
 			}
 			if d == 0 && alphaN && size == 6 {
@@ -355,4 +350,45 @@ func (cx *cctx) alkylOnRing(x, v int) ([4]float64, string) {
 		name = "CH2–" + xtab[s].name
 	}
 	return inc, "alkyl (" + name + ")"
+}
+
+// fiveRingInc maps a substituent on atom x of a five-membered aromatic
+// ring onto the benzene increments inc for carbon c at ring distance d:
+// ipso (scaled by the ring heteroatom), the neighbour across the formal
+// C=C bond and the atom across the heteroatom like para (conjugation),
+// the neighbour across the C–C single bond like ortho, the atom two C–C
+// bonds away like meta. Factors: our fit to 2-methylfuran, furfural and
+// 2-methylthiophene (Kalinowski, from memory).
+func (cx *cctx) fiveRingInc(c, x, d int, ring []int, inc [4]float64, name string) (float64, string) {
+	g := cx.g
+	het := molecule.C
+	for _, a := range ring {
+		if e := g.Atoms[a].Element; e != molecule.C && (het == molecule.C || e == molecule.O || e == molecule.S) {
+			het = e
+		}
+	}
+	switch d {
+	case 0:
+		f := map[molecule.Element]float64{molecule.O: 1.1, molecule.S: 1.5, molecule.N: 1.3}[het]
+		if f == 0 {
+			f = 1.2
+		}
+		return inc[0] * f, name
+	case 1:
+		if b := g.BondBetween(c, x); b >= 0 && g.Bonds[b].Order == molecule.Double {
+			f := map[molecule.Element]float64{molecule.O: 1.6, molecule.S: 1.0, molecule.N: 1.3}[het]
+			if f == 0 {
+				f = 1.2
+			}
+			return inc[3] * f, name + " (across C=C, as para)"
+		}
+		return inc[1], name
+	}
+	for _, nb := range g.Neighbors(c) {
+		y := nb.Atom
+		if inRing(ring, y) && g.BondBetween(y, x) >= 0 && g.Atoms[y].Element != molecule.C {
+			return inc[3] * 0.9, name + " (across the heteroatom, as para)"
+		}
+	}
+	return inc[2], name
 }

@@ -68,8 +68,9 @@ func (cx *cctx) sp3(c int, r *cres) {
 			v = ringCarbo[s]
 			name += " carbocycle)"
 		} else {
-			v = ringHetero[s]
-			name += ", with heteroatom or sp2 atom)"
+			pos, kind := cx.ringHeteroDistance(c)
+			v = ringHetero[s][kind][pos]
+			name += ", " + [4]string{"", "α", "β", "γ"}[pos] + " to " + [3]string{"a heteroatom", "a C=X carbon", "a C=C carbon"}[kind] + ")"
 			r.sigma += 1.0
 		}
 		if size > 8 {
@@ -79,11 +80,31 @@ func (cx *cctx) sp3(c int, r *cres) {
 		if size <= 4 {
 			r.sigma += 1.5
 		}
+		// An exocyclic alkyl group on a ring carbon adds less than a
+		// chain carbon: methylcyclohexane C1 33.0 against cyclohexane
+		// 27.0 (+6.0, Pretsch cyclohexane increments) where Grant–Paul
+		// counts +9.1.
+		exo := 0
+		for _, nb := range g.Neighbors(c) {
+			if cx.skel[nb.Atom] && cx.m.ringBond[nb.Bond] == 0 {
+				exo++
+			}
+		}
+		if exo > 0 && size >= 5 {
+			ac.add("exocyclic alkyl on a ring carbon", -3.0*float64(exo))
+		}
+	}
+	// γ carbons anti rather than gauche: an equatorial group and the ring
+	// carbons two bonds away (methylcyclohexane CH3 22.9, C3 26.6; Pretsch
+	// cyclohexane increments: γ 0.0 for equatorial CH3).
+	if anti := cx.antiGamma(c, func(z int) bool { return cx.skel[z] }); anti > 0 {
+		ac.add("γ carbons anti in a ring (equatorial) ×"+strconv.Itoa(anti), -gpGamma*float64(anti))
 	}
 	// α substituents.
 	var subs [4]xsub
 	var subAt [4]int
 	ns := 0
+	hetAlpha := false
 	nBeta := float64(n[2])
 	deg := min(degC, 3)
 	for _, nb := range g.Neighbors(c) {
@@ -95,6 +116,9 @@ func (cx *cctx) sp3(c int, r *cres) {
 		if ns < 4 {
 			subs[ns], subAt[ns] = s, y
 			ns++
+		}
+		if g.Atoms[y].Element != molecule.C {
+			hetAlpha = true
 		}
 		z := &xtab[s].sp3
 		v := z.a[deg] + z.kb*nBeta
@@ -108,17 +132,26 @@ func (cx *cctx) sp3(c int, r *cres) {
 			r.sigma += 2.5
 			r.est = true
 		}
-		if s == xAryl || s == xHetAryl {
+		if (s == xOAcyl || s == xOCarbonyl2 || s == xAmideNH || s == xAmideNR) && cx.m.ringBond[nb.Bond] == 5 {
+			// γ-butyrolactone OCH2 68.6 and 2-pyrrolidinone NCH2 42.5
+			// against THF 68.0 and pyrrolidine 47.0, where the open-chain
+			// increments predict ester and amide α carbons ~5–10 ppm
+			// below ethers and amines (Pretsch, from memory).
+			ac.add("five-membered lactone/lactam ring", 6.5)
+		}
+		switch {
+		case s == xAryl || s == xHetAryl:
 			cx.benzylic(c, y, r)
+		case s == xVinyl && cx.m.multi[y] == 1:
+			cx.allylic(c, y, nb.Bond, r)
 		}
 		// γ effect across the group: sp3 carbons on the far side of a
-		// heteroatom or carbonyl (MTBE OCH3 49.4 vs dimethyl ether 60.0;
-		// 3-pentanone CH2 35.5 vs butanone 36.9; from memory).
+		// heteroatom or carbonyl (MTBE OCH3 49.5 against dimethyl ether
+		// 60.0: −3.6 each across O and N, also fitting Et2O/Me2O and
+		// Et3N/Me3N; 3-pentanone CH2 35.5 against butanone 36.9: −1.4
+		// across C=O; −2.0 across S; from memory).
 		if !cx.m.arom[y] {
-			per := -2.0
-			if g.Atoms[y].Element == molecule.C {
-				per = -1.4
-			}
+			per := gammaAcross(g.Atoms[y].Element)
 			k := 0
 			for _, n1 := range g.Neighbors(y) {
 				x2 := n1.Atom
@@ -126,9 +159,14 @@ func (cx *cctx) sp3(c int, r *cres) {
 					continue
 				}
 				for _, n2 := range g.Neighbors(x2) {
-					if z := n2.Atom; z != y && z != c && cx.skel[z] {
-						k++
+					z := n2.Atom
+					if z == y || z == c || !cx.skel[z] {
+						continue
 					}
+					if cx.antiPath(nb.Bond, n1.Bond, n2.Bond) || (cx.dist[z] >= 0 && cx.dist[z] <= 2) {
+						continue
+					}
+					k++
 				}
 			}
 			if k > 0 {
@@ -142,9 +180,20 @@ func (cx *cctx) sp3(c int, r *cres) {
 			r.sigma += 1.5
 		}
 	}
-	_ = subAt
-	// β substituents (on sp3 neighbours) and γ substituents (on sp3
-	// carbons two bonds away).
+	partOfAlpha := func(y int) bool {
+		for _, a := range subAt[:ns] {
+			if g.BondBetween(a, y) >= 0 {
+				return true
+			}
+		}
+		return false
+	}
+	// β substituents (on sp3 neighbours): smaller on a branched carbon
+	// (2-methyl-1-propanol CH 30.8 and isobutyl chloride CH 31.0 against
+	// isobutane 25.2: about half of Zβ) and next to another heteroatom
+	// (1,2-dichloroethane 43.5 against chloroethane 39.9; DME 71.8,
+	// 1,4-dioxane 67.1: about half; Gottlieb 1997, from memory).
+	betaScale := [5]float64{1, 1, 1, 0.55, 0.45}[min(degC, 4)]
 	for _, n1 := range g.Neighbors(c) {
 		x := n1.Atom
 		if !cx.skel[x] {
@@ -153,34 +202,55 @@ func (cx *cctx) sp3(c int, r *cres) {
 		degX := cx.skelDegree(x)
 		for _, n2 := range g.Neighbors(x) {
 			y := n2.Atom
-			if y == c || cx.skel[y] || g.BondBetween(c, y) >= 0 {
+			if y == c || cx.skel[y] || g.BondBetween(c, y) >= 0 || partOfAlpha(y) {
 				continue
 			}
 			s := cx.xclass(x, y)
 			z := &xtab[s].sp3
-			v := z.b + z.bb*float64(max(degX-1, 0))
+			v := (z.b + z.bb*float64(max(degX-1, 0))) * betaScale
+			name := "β: " + xtab[s].name
+			if hetAlpha && g.Atoms[y].Element != molecule.C {
+				v *= 0.5
+				name += " (vicinal to a heteroatom, ×0.5)"
+			}
 			if cx.explain {
-				ac.add("β: "+xtab[s].name, v)
+				ac.add(name, v)
 			} else {
 				ac.raw(v)
 			}
 			r.sigma += 0.2
 		}
 	}
-	for z := range g.Atoms {
-		if cx.dist[z] != 2 {
+	// γ substituents (on sp3 carbons two bonds away); ×0.4 when anti
+	// across a ring (cyclohexanol C3 24.4 against cyclohexane 27.0:
+	// −2.6 where the open-chain Zγ is −6.2; Pretsch).
+	for _, n1 := range g.Neighbors(c) {
+		x := n1.Atom
+		if !cx.skel[x] {
 			continue
 		}
-		for _, n1 := range g.Neighbors(z) {
-			y := n1.Atom
-			if cx.skel[y] || g.BondBetween(c, y) >= 0 {
+		for _, n2 := range g.Neighbors(x) {
+			z := n2.Atom
+			if z == c || !cx.skel[z] || cx.dist[z] != 2 {
 				continue
 			}
-			s := cx.xclass(z, y)
-			if cx.explain {
-				ac.add("γ: "+xtab[s].name, xtab[s].sp3.g)
-			} else {
-				ac.raw(xtab[s].sp3.g)
+			for _, n3 := range g.Neighbors(z) {
+				y := n3.Atom
+				if cx.skel[y] || g.BondBetween(c, y) >= 0 || partOfAlpha(y) {
+					continue
+				}
+				s := cx.xclass(z, y)
+				v := xtab[s].sp3.g
+				name := "γ: " + xtab[s].name
+				if cx.antiPath(n1.Bond, n2.Bond, n3.Bond) {
+					v *= 0.4
+					name += " (anti in a ring)"
+				}
+				if cx.explain {
+					ac.add(name, v)
+				} else {
+					ac.raw(v)
+				}
 			}
 		}
 	}
@@ -329,6 +399,144 @@ func (cx *cctx) benzylic(c, y int, r *cres) {
 				e = -1.0
 			}
 			r.ac.add("ortho substituent "+g.Atoms[v].Element.String()+" (γ)", e)
+		}
+	}
+}
+
+// gammaAcross is the γ effect of an sp3 carbon reached across a
+// heteroatom or carbonyl group (see sp3).
+func gammaAcross(e molecule.Element) float64 {
+	switch e {
+	case molecule.O, molecule.N:
+		return -3.6
+	case molecule.C:
+		return -1.4
+	}
+	return -2.0
+}
+
+// antiPath reports whether the path of bonds b1–b2–b3 runs anti across a
+// ring: b2 is a bond of a ring of six or more atoms and exactly one of b1,
+// b3 is a ring bond (an equatorial group and the ring atoms two bonds
+// away).
+func (cx *cctx) antiPath(b1, b2, b3 int) bool {
+	rb := cx.m.ringBond
+	if rb[b2] < 6 {
+		return false
+	}
+	return (rb[b1] > 0) != (rb[b3] > 0)
+}
+
+// antiGamma counts the atoms z (accepted by ok) three bonds from c along
+// paths that run anti across a ring (antiPath), each counted once.
+func (cx *cctx) antiGamma(c int, ok func(int) bool) int {
+	g := cx.g
+	k := 0
+	for _, n1 := range g.Neighbors(c) {
+		x := n1.Atom
+		if !cx.skel[x] {
+			continue
+		}
+		for _, n2 := range g.Neighbors(x) {
+			y := n2.Atom
+			if y == c || !cx.skel[y] {
+				continue
+			}
+			for _, n3 := range g.Neighbors(y) {
+				z := n3.Atom
+				if z == x || z == c || !ok(z) || cx.dist[z] != 3 {
+					continue
+				}
+				if cx.antiPath(n1.Bond, n2.Bond, n3.Bond) {
+					k++
+				}
+			}
+		}
+	}
+	return k
+}
+
+// ringHeteroDistance returns 1, 2 or 3 (3 or more): the bond distance from
+// ring carbon c to the nearest ring atom of its ring system that is not an
+// sp3 carbon, and that atom's kind (ringHet, ringExo, ringEndo).
+func (cx *cctx) ringHeteroDistance(c int) (int, int) {
+	g := cx.g
+	m := cx.m
+	sys := m.rsys[c]
+	dist := make([]int16, len(g.Atoms))
+	for i := range dist {
+		dist[i] = -1
+	}
+	dist[c] = 0
+	queue := []int{c}
+	for h := 0; h < len(queue); h++ {
+		v := queue[h]
+		if v != c && !cx.skel[v] {
+			kind := ringHet
+			if g.Atoms[v].Element == molecule.C {
+				kind = ringEndo
+				for _, nb := range g.Neighbors(v) {
+					if nb.Order == molecule.Double && m.ringBond[nb.Bond] == 0 {
+						kind = ringExo
+					}
+				}
+			}
+			return min(int(dist[v]), 3), kind
+		}
+		if dist[v] >= 3 {
+			continue
+		}
+		for _, nb := range g.Neighbors(v) {
+			w := nb.Atom
+			if dist[w] >= 0 || m.rsys[w] != sys || m.ringBond[nb.Bond] == 0 {
+				continue
+			}
+			dist[w] = dist[v] + 1
+			queue = append(queue, w)
+		}
+	}
+	return 3, ringHet
+}
+
+// allylic adds the effects of the groups on the alkene carbon y (bonded to
+// c by bond b) and on its partner: a second group on y (isobutylene CH3
+// 24.2 against propene 19.4: +4.8) and the γ effect of groups on the
+// partner, large when cis (Z-2-butene CH3 12.1, E 17.6; 2-methyl-2-butene
+// 17.3 cis and 25.7 trans; Pretsch, from memory). The constitution fixes
+// cis/trans only in small rings; otherwise the mean is used.
+func (cx *cctx) allylic(c, y, b int, r *cres) {
+	g := cx.g
+	m := cx.m
+	q, qb := -1, -1
+	for _, nb := range g.Neighbors(y) {
+		if nb.Order == molecule.Double && g.Atoms[nb.Atom].Element == molecule.C {
+			q, qb = nb.Atom, nb.Bond
+		}
+	}
+	if q < 0 || m.multi[q] != 1 {
+		return
+	}
+	for _, nb := range g.Neighbors(y) {
+		if nb.Atom != c && nb.Atom != q {
+			r.ac.add("allylic: second group on the alkene carbon", 4.8)
+		}
+	}
+	ringDbl := m.ringBond[qb] > 0 && m.ringBond[qb] <= 7
+	for _, nb := range g.Neighbors(q) {
+		if nb.Atom == y {
+			continue
+		}
+		switch {
+		case !ringDbl:
+			r.ac.add("allylic: group on the other alkene carbon (cis/trans mean)", -3.75)
+			r.sigma += 0.8
+		case (m.ringBond[b] > 0) == (m.ringBond[nb.Bond] > 0):
+			if m.ringBond[qb] <= 5 {
+				break // cyclopentene: the ring correction covers it
+			}
+			r.ac.add("allylic: cis group on the other alkene carbon", -7.0)
+		default:
+			r.ac.add("allylic: trans group on the other alkene carbon", -0.5)
 		}
 	}
 }

@@ -40,11 +40,29 @@ var gpSteric = [5][5]float64{
 // cyclohexane 27.0, cycloheptane 28.5, cyclooctane 26.9 (Pretsch).
 var ringCarbo = [9]float64{3: -18.7, 4: -2.9, 5: -8.9, 6: -5.2, 7: -1.2, 8: -3.1}
 
-// ringHetero[s]: the same for a ring that also holds heteroatoms or sp2
-// carbons (oxirane 40.6, oxetane 72.6/23.1, THF 67.9/25.7, THP
-// 68.6/26.8/23.6, pyrrolidine 47.0/25.7, piperidine 47.5/27.2/25.2,
-// cyclohexanone 42.0/27.1/25.0; our averages over these parents).
-var ringHetero = [9]float64{3: -26.0, 4: -4.0, 5: -5.0, 6: -1.5, 7: 0, 8: -1.0}
+// ringHetero[s][k][d]: the same for a ring that also holds other atoms,
+// by their kind k (ringHet: N, O, S ...; ringExo: a carbon with an
+// exocyclic double bond, C=O; ringEndo: a carbon of an endocyclic double
+// bond or a fused aromatic ring) and the distance d (1, 2, 3 or more
+// bonds) from the observed carbon to the nearest of them. Fitted to the
+// parent rings: THF 68.0/25.6, THP 68.7/26.6/23.6, pyrrolidine 47.0/25.7,
+// piperidine 47.5/27.2/25.2, oxirane 40.6, oxetane 72.6/23.1;
+// cyclopentanone 38.3/23.3, cyclohexanone 42.0/27.1/25.1; cyclopentene
+// 32.5/22.9, cyclohexene 25.2/22.8 (Pretsch; Gottlieb 1997; from memory).
+const (
+	ringHet = iota
+	ringExo
+	ringEndo
+)
+
+var ringHetero = [9][3][4]float64{
+	3: {{0, -26, -26, -26}, {0, -20, -20, -20}, {0, -20, -20, -20}},
+	4: {{0, -4, -4, -4}, {0, -4, -4, -4}, {0, -4, -4, -4}},
+	5: {{0, -6.0, -1.5, -1.5}, {0, -5.0, -1.0, -1.0}, {0, -3.7, -6.2, -1.5}},
+	6: {{0, -1.5, -3.9, -0.5}, {0, -1.5, 2.8, -4.6}, {0, -1.5, -7.0, -1.5}},
+	7: {{0, 0, 0, 0}, {0, 0, 0, 0}, {0, 0, 0, 0}},
+	8: {{0, -1, -1, -1}, {0, -1, -1, -1}, {0, -1, -1, -1}},
+}
 
 // zrow holds the effects of one substituent class on an sp3 carbon.
 type zrow struct {
@@ -78,7 +96,9 @@ type xinfo struct {
 // xtab: substituent increments per class. Each sp3 row is derived from
 // the CH3X / CH3CH2X / (CH3)2CHX / (CH3)3CX shifts named beside it
 // (Pretsch; Kalinowski; from memory) against the Grant–Paul parents
-// (methane −2.3, ethane 6.8, propane C2 15.9, isobutane C2 25.0).
+// (methane −2.3, ethane 6.8, propane C2 15.9, isobutane C2 25.0), with
+// the γ effect across the group (gammaAcross) taken out: the O–R, N and
+// S rows stand for a methyl on the far side.
 var xtab = [numX]xinfo{
 	xAlkyl: {name: "alkyl"},
 	// propene 19.4, 1-butene 26.9, 3-methyl-1-butene 32.0,
@@ -192,7 +212,7 @@ var xtab = [numX]xinfo{
 	// 68.5, MTBE C 72.7, dibutyl ether 70.7/31.9/19.4; anisole
 	// 159.9/114.1/129.5/120.7; methyl vinyl ether 152.7/84.2; ethoxyacetylene
 	// 89.8/23.0.
-	xOR: {name: "O–R", sp3: zrow{a: [4]float64{62.3, 61.1, 56.6, 47.7}, kb: -2.1, b: 7.5, bb: -2.0, g: -5.8},
+	xOR: {name: "O–R", sp3: zrow{a: [4]float64{62.3, 62.7, 59.8, 47.7}, kb: -2.1, b: 7.5, bb: -2.0, g: -5.8},
 		ar: [4]float64{31.4, -14.4, 1.0, -7.7}, ene: [2]float64{29.4, -38.9}, yne: [2]float64{17.9, -48.9}},
 	// anisole OCH3 55.1, phenetole 63.3/14.8, isopropyl phenyl ether
 	// 69.8; diphenyl ether 157.3/118.9/129.8/123.3; phenyl vinyl ether
@@ -242,11 +262,11 @@ var xtab = [numX]xinfo{
 		ar: [4]float64{17.9, -13.4, 0.8, -10.0}, ene: [2]float64{22, -28}, yne: [2]float64{15, -30}},
 	// dimethylamine 38.2, diethylamine 44.1/15.3, diisopropylamine
 	// 45.2/23.6; N-methylaniline ring 149.4/112.4/129.2/117.2.
-	xNHR: {name: "NHR", sp3: zrow{a: [4]float64{40.5, 39.3, 33.3, 28.0}, kb: -2.0, b: 8.5, bb: -1.5, g: -4.6},
+	xNHR: {name: "NHR", sp3: zrow{a: [4]float64{40.5, 40.9, 36.5, 31.0}, kb: -2.0, b: 8.5, bb: -1.5, g: -4.6},
 		ar: [4]float64{20.9, -16.1, 0.7, -11.3}, ene: [2]float64{25, -30}, yne: [2]float64{15, -30}},
 	// trimethylamine 47.5, triethylamine 46.5/11.8; N,N-dimethylaniline
 	// 150.7/112.7/129.0/116.7; enamines (Pretsch 28/−32).
-	xNR2: {name: "NR2", sp3: zrow{a: [4]float64{49.8, 43.7, 38.0, 32.0}, kb: -2.0, b: 5.3, bb: -1.0, g: -4.6},
+	xNR2: {name: "NR2", sp3: zrow{a: [4]float64{49.8, 46.7, 41.0, 35.0}, kb: -2.0, b: 5.3, bb: -1.0, g: -4.6},
 		ar: [4]float64{22.2, -15.8, 0.5, -11.8}, ene: [2]float64{28.0, -32.0}, yne: [2]float64{18, -32}},
 	// N-methylaniline NCH3 30.7, N-ethylaniline 38.5/14.9,
 	// N-isopropylaniline 44.2; diphenylamine 143.1/117.8/129.3/121.0.
@@ -254,7 +274,7 @@ var xtab = [numX]xinfo{
 		ar: [4]float64{14.6, -10.7, 0.8, -7.5}, ene: [2]float64{20, -25}, yne: [2]float64{15, -30}},
 	// N,N-dimethylaniline NCH3 40.6, N,N-diethylaniline 44.3/12.6;
 	// N-methyldiphenylamine 149.1/120.4/129.2/121.2.
-	xNArR: {name: "NR–Ar", sp3: zrow{a: [4]float64{42.9, 39.5, 35.0, 30.0}, kb: -2.0, b: 5.8, bb: -1.0, g: -4.6},
+	xNArR: {name: "NR–Ar", sp3: zrow{a: [4]float64{42.9, 41.1, 36.5, 31.5}, kb: -2.0, b: 5.8, bb: -1.0, g: -4.6},
 		ar: [4]float64{20.6, -8.1, 0.7, -7.3}, ene: [2]float64{24, -28}, yne: [2]float64{15, -30}},
 	// N-methylacetamide 26.3, N-ethylacetamide 34.4/14.8,
 	// N-isopropylacetamide 41.3, N-tert-butylacetamide 51.1; acetanilide
@@ -264,7 +284,7 @@ var xtab = [numX]xinfo{
 	// N,N-dimethylacetamide 35.0/38.0, N,N-diethylacetamide 40.0/42.0
 	// and 13.0/14.2 (mean of the rotamers); N-methylacetanilide
 	// 144.7/127.1/129.7/127.7; N-vinylpyrrolidone 129.5/94.5.
-	xAmideNR: {name: "NR–C(=O)", sp3: zrow{a: [4]float64{38.8, 36.2, 31.0, 28.0}, kb: -1.8, b: 6.8, bb: -1.5, g: -4.6},
+	xAmideNR: {name: "NR–C(=O)", sp3: zrow{a: [4]float64{38.8, 37.8, 32.5, 29.5}, kb: -1.8, b: 6.8, bb: -1.5, g: -4.6},
 		ar: [4]float64{16.2, -1.4, 1.2, -0.8}, ene: [2]float64{6.2, -28.8}, yne: [2]float64{10, -20}},
 	// N-methyl imines CH3 48.2, N-isopropyl 61.5, N-tert-butyl 57.1;
 	// N-benzylideneaniline N-phenyl 152.1/120.9/129.2/125.9.
@@ -323,7 +343,7 @@ var xtab = [numX]xinfo{
 		ar: [4]float64{7.3, 2.5, 0.7, -1.5}, ene: [2]float64{8, -10}, yne: [2]float64{5, -10}},
 	// dimethyl disulfide 22.0, diethyl disulfide 32.9/14.5; diphenyl
 	// disulfide 137.0/127.5/129.0/127.1.
-	xSS: {name: "S–S", sp3: zrow{a: [4]float64{24.3, 28.1, 29.0, 30.0}, kb: -2.0, b: 7.7, bb: -1.0, g: -3.0},
+	xSS: {name: "S–S", sp3: zrow{a: [4]float64{24.3, 26.1, 27.0, 28.0}, kb: -2.0, b: 7.7, bb: -1.0, g: -3.0},
 		ar: [4]float64{8.5, -1.0, 0.5, -1.4}, ene: [2]float64{8, -10}, yne: [2]float64{5, -10}},
 	// S-methyl thioacetate SCH3 11.6, S-ethyl 23.4/14.8; S-phenyl
 	// thioacetate ring 127.9/134.4/129.2/129.4.
