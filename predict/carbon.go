@@ -181,12 +181,13 @@ func (p *Predictor) carbonSpectrum(cx *cctx) *CarbonSpectrum {
 		return &CarbonSpectrum{Signals: []CarbonSignal{}}
 	}
 	p.markAmideSides(m, groups)
-	type key struct{ orbit, syn, anti int }
+	alk := cx.markAlkeneSides(groups)
+	type key struct{ orbit, syn, anti, cis, trans int }
 	var keys []key
 	var reps []int
 	env := make([]int, len(groups))
 	for i := range groups {
-		k := key{m.orbit[groups[i].atom], int(groups[i].syn), int(groups[i].anti)}
+		k := key{m.orbit[groups[i].atom], int(groups[i].syn), int(groups[i].anti), int(alk[i][0]), int(alk[i][1])}
 		e := -1
 		for j, kk := range keys {
 			if kk == k {
@@ -224,6 +225,14 @@ func (p *Predictor) carbonSpectrum(cx *cctx) *CarbonSpectrum {
 		}
 		if r.sigma <= 0 {
 			r.sigma = 2
+		}
+		if cx.polycyclic(gr.atom) {
+			// Bridged and fused saturated ring systems (camphor, decalins)
+			// are outside what additive increments describe well.
+			r.sigma += 2.5
+			if cx.explain {
+				r.reasons = append(r.reasons, "in a fused or bridged non-aromatic ring system: wider uncertainty")
+			}
 		}
 		if g.Atoms[gr.atom].Charge != 0 {
 			r.sigma += 3
@@ -270,6 +279,9 @@ func (p *Predictor) carbonSpectrum(cx *cctx) *CarbonSpectrum {
 		if cx.explain && len(s.Atoms) > 1 {
 			s.Reasons = append(s.Reasons, "equivalent by symmetry: atoms "+intList(s.Atoms))
 		}
+		if cx.explain && keys[e].cis != keys[e].trans {
+			s.Reasons = append(s.Reasons, "the two equal groups on one alkene carbon are cis and trans to different groups on the other: separate lines")
+		}
 		if cx.explain && keys[e].syn != keys[e].anti {
 			s.Reasons = append(s.Reasons, "restricted rotation about the amide C–N bond (common practice): the two groups on N give separate lines; which one is syn to O is not predicted")
 		}
@@ -278,4 +290,96 @@ func (p *Predictor) carbonSpectrum(cx *cctx) *CarbonSpectrum {
 		}
 	}
 	return sp
+}
+
+// markAlkeneSides finds acyclic C=C bonds with two equivalent groups a, b
+// on one carbon p and two different positions on the other carbon q (the
+// two methyls of 2-methyl-2-butene, 17.3 and 25.7 ppm; Pretsch): a is cis
+// to one position of q, b to the other, so they and the atoms nearer to
+// either give separate lines. It returns, per group, how many such
+// alkenes it lies on the cis side and on the trans side of, and records
+// for a and b the position of q each is cis to (cx.alkCis; -1 for H).
+func (cx *cctx) markAlkeneSides(groups []hgroup) [][2]int8 {
+	m := cx.m
+	g := cx.g
+	out := make([][2]int8, len(groups))
+	for bi, bd := range g.Bonds {
+		if bd.Order != molecule.Double || m.ringBond[bi] > 0 || m.arom[bd.A] {
+			continue
+		}
+		for _, pq := range [2][2]int{{bd.A, bd.B}, {bd.B, bd.A}} {
+			p, q := pq[0], pq[1]
+			if g.Atoms[p].Element != molecule.C || g.Atoms[q].Element != molecule.C || m.multi[p] != 1 || m.multi[q] != 1 {
+				continue
+			}
+			var ab []int
+			for _, nb := range g.Neighbors(p) {
+				if nb.Atom != q {
+					ab = append(ab, nb.Atom)
+				}
+			}
+			if len(ab) != 2 || m.orbit[ab[0]] != m.orbit[ab[1]] {
+				continue
+			}
+			var pos []int
+			for _, nb := range g.Neighbors(q) {
+				if nb.Atom != p {
+					pos = append(pos, nb.Atom)
+				}
+			}
+			for k := 0; k < g.Atoms[q].HCount; k++ {
+				pos = append(pos, -1)
+			}
+			if len(pos) != 2 || (pos[0] == -1 && pos[1] == -1) || (pos[0] >= 0 && pos[1] >= 0 && m.orbit[pos[0]] == m.orbit[pos[1]]) {
+				continue
+			}
+			if pos[0] == -1 || (pos[1] >= 0 && m.label[pos[1]] < m.label[pos[0]]) {
+				pos[0], pos[1] = pos[1], pos[0]
+			}
+			a, b := ab[0], ab[1]
+			if m.label[b] < m.label[a] {
+				a, b = b, a
+			}
+			if cx.alkCis == nil {
+				cx.alkCis = make(map[int]int)
+			}
+			cx.alkCis[a], cx.alkCis[b] = pos[0], pos[1]
+			m.bfs(a, -1, -1, p, -1, false)
+			da := append([]int16(nil), m.dist...)
+			m.bfs(b, -1, -1, p, -1, false)
+			for i := range groups {
+				x := groups[i].atom
+				u, v := da[x], m.dist[x]
+				switch {
+				case u >= 0 && (v < 0 || u < v):
+					out[i][0]++
+				case v >= 0 && (u < 0 || v < u):
+					out[i][1]++
+				}
+			}
+		}
+	}
+	return out
+}
+
+// polycyclic reports whether carbon c is a non-aromatic atom of a ring
+// system with more than one ring (bonds − atoms + 1 > 1).
+func (cx *cctx) polycyclic(c int) bool {
+	m := cx.m
+	if m.arom[c] || m.rsys[c] < 0 {
+		return false
+	}
+	sys := m.rsys[c]
+	atoms, bonds := 0, 0
+	for i := range cx.g.Atoms {
+		if m.rsys[i] == sys {
+			atoms++
+		}
+	}
+	for bi, b := range cx.g.Bonds {
+		if m.ringBond[bi] > 0 && m.rsys[b.A] == sys {
+			bonds++
+		}
+	}
+	return bonds-atoms+1 > 1
 }

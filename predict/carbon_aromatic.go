@@ -282,7 +282,7 @@ func (cx *cctx) aromatic(c int, r *cres) {
 			val := inc[d]
 			if size == 5 {
 				val, name = cx.fiveRingInc(c, x, d, ring, inc, name)
-				r.sigma += 1.0
+				r.sigma += 2.0
 			}
 			if d == 0 && alphaN && size == 6 {
 				switch {

@@ -93,6 +93,10 @@ type cctx struct {
 	parentOf []string  // name of the parent ring system per atom
 	dist     []int16   // BFS scratch
 	queue    []int
+	// alkCis maps each of two equivalent groups on an alkene carbon to
+	// the position on the other carbon it is cis to (-1 for H); see
+	// markAlkeneSides.
+	alkCis map[int]int
 }
 
 func newCarbonCtx(m *mol, explain bool) *cctx {

@@ -492,7 +492,8 @@ func (cx *cctx) acylSubstituent(c, x int, f acylFamily, nConj *int, r *cres) {
 	case s == xVinyl || s == xImineC:
 		v, name = famConj[f][1], "conjugated C=C"
 		if *nConj > 0 {
-			v *= 0.4 // 2,6-cyclohexadienone, quinones
+			v *= 0.4 // cross-conjugated dienones, quinones
+			r.sigma += 3
 		}
 		*nConj++
 	case s == xAlkynyl:

@@ -526,7 +526,12 @@ func (cx *cctx) allylic(c, y, b int, r *cres) {
 		if nb.Atom == y {
 			continue
 		}
+		cisTo, fixed := cx.alkCis[c]
 		switch {
+		case !ringDbl && fixed && cisTo == nb.Atom:
+			r.ac.add("allylic: cis group on the other alkene carbon", -7.0)
+		case !ringDbl && fixed:
+			r.ac.add("allylic: trans group on the other alkene carbon", -0.5)
 		case !ringDbl:
 			r.ac.add("allylic: group on the other alkene carbon (cis/trans mean)", -3.75)
 			r.sigma += 0.8

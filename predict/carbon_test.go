@@ -246,6 +246,9 @@ func TestCarbonSignalCount(t *testing.T) {
 		{"OCC(O)CO", 2},            // glycerol
 		{"c1ccncc1", 3},            // pyridine
 		{"CC1=CCC(CC1)C(C)=C", 10}, // limonene
+		{"CC=C(C)C", 5},            // 2-methyl-2-butene: the two C3 methyls differ (cis/trans)
+		{"C=C(C)C", 3},             // isobutylene: both methyls alike
+		{"CC(C)=C(C)C", 2},         // tetramethylethylene
 	}
 	for _, c := range cases {
 		g := mustParse(t, c.smiles)
