@@ -383,3 +383,12 @@ func (cx *cctx) polycyclic(c int) bool {
 	}
 	return bonds-atoms+1 > 1
 }
+
+// addCat adds an increment whose name is the concatenation of parts,
+// built only when explaining (the scoring path allocates no strings).
+func (a *acc) addCat(v float64, parts ...string) {
+	a.u += micro(v)
+	if a.explain {
+		a.terms = append(a.terms, Term{Term: strings.Join(parts, ""), PPM: round3(v)})
+	}
+}

@@ -100,7 +100,7 @@ func (cx *cctx) assignParents() {
 		comp[i] = -1
 	}
 	table := aromaticParents()
-	var canon molecule.Canonicalizer
+	canon := &m.w.canon // the orbits are already copied out (refine.go)
 	for s := range g.Atoms {
 		if !m.arom[s] || comp[s] >= 0 {
 			continue
@@ -203,7 +203,7 @@ func (cx *cctx) aromatic(c int, r *cres) {
 	}
 	switch {
 	case hasParent:
-		ac.add("base "+cx.parentOf[c], cx.parent[c])
+		ac.addCat(cx.parent[c], "base ", cx.parentOf[c])
 		r.sigma = 1.0
 		if hetero || cx.parentOf[c] != "benzene" {
 			r.kind = "heteroaromatic " + r.kind[len("aromatic "):]
@@ -219,7 +219,7 @@ func (cx *cctx) aromatic(c int, r *cres) {
 			x := ring[k]
 			if e := g.Atoms[x].Element; e != molecule.C {
 				d := min(k, 6-k)
-				ac.add("ring "+e.String()+" ("+[4]string{"", "α", "β", "γ"}[d]+")", ringNInc[d])
+				ac.addCat(ringNInc[d], "ring ", e.String(), " (", [4]string{"", "α", "β", "γ"}[d], ")")
 				if e != molecule.N {
 					r.sigma += 4
 				}
@@ -255,7 +255,7 @@ func (cx *cctx) aromatic(c int, r *cres) {
 			if cx.aromBond != nil && cx.aromBond[nb.Bond] {
 				// A fused ring: part of the parent when there is one.
 				if !hasParent {
-					ac.add(pos[d]+"fused ring", fusedInc[d])
+					ac.addCat(fusedInc[d], pos[d], "fused ring")
 				}
 				continue
 			}
@@ -278,6 +278,9 @@ func (cx *cctx) aromatic(c int, r *cres) {
 				inc, name = cx.alkylOnRing(x, v)
 			} else {
 				inc = xtab[s].ar
+			}
+			if !cx.explain {
+				name = ""
 			}
 			val := inc[d]
 			if size == 5 {
@@ -302,7 +305,7 @@ func (cx *cctx) aromatic(c int, r *cres) {
 				r.sigma += 0.3
 			}
 			if cx.explain {
-				ac.add(pos[d]+name, val)
+				ac.addCat(val, pos[d], name)
 			} else {
 				ac.raw(val)
 			}
@@ -337,6 +340,9 @@ func (cx *cctx) alkylOnRing(x, v int) ([4]float64, string) {
 		inc[i] += b[i]
 	}
 	name := [4]string{"CH3", "CH2R", "CHR2", "CR3"}[min(nC, 3)]
+	if !cx.explain {
+		name = ""
+	}
 	for _, nb := range g.Neighbors(v) {
 		y := nb.Atom
 		if y == x || cx.skel[y] {
@@ -347,7 +353,12 @@ func (cx *cctx) alkylOnRing(x, v int) ([4]float64, string) {
 		for i := range inc {
 			inc[i] += d[i]
 		}
-		name = "CH2–" + xtab[s].name
+		if cx.explain {
+			name = "CH2–" + xtab[s].name
+		}
+	}
+	if !cx.explain {
+		return inc, ""
 	}
 	return inc, "alkyl (" + name + ")"
 }
@@ -367,27 +378,34 @@ func (cx *cctx) fiveRingInc(c, x, d int, ring []int, inc [4]float64, name string
 			het = e
 		}
 	}
+	ipso, conj := 1.2, 1.2
+	switch het {
+	case molecule.O:
+		ipso, conj = 1.1, 1.6
+	case molecule.S:
+		ipso, conj = 1.5, 1.0
+	case molecule.N:
+		ipso, conj = 1.3, 1.3
+	}
 	switch d {
 	case 0:
-		f := map[molecule.Element]float64{molecule.O: 1.1, molecule.S: 1.5, molecule.N: 1.3}[het]
-		if f == 0 {
-			f = 1.2
-		}
-		return inc[0] * f, name
+		return inc[0] * ipso, name
 	case 1:
 		if b := g.BondBetween(c, x); b >= 0 && g.Bonds[b].Order == molecule.Double {
-			f := map[molecule.Element]float64{molecule.O: 1.6, molecule.S: 1.0, molecule.N: 1.3}[het]
-			if f == 0 {
-				f = 1.2
+			if cx.explain {
+				name += " (across C=C, as para)"
 			}
-			return inc[3] * f, name + " (across C=C, as para)"
+			return inc[3] * conj, name
 		}
 		return inc[1], name
 	}
 	for _, nb := range g.Neighbors(c) {
 		y := nb.Atom
 		if inRing(ring, y) && g.BondBetween(y, x) >= 0 && g.Atoms[y].Element != molecule.C {
-			return inc[3] * 0.9, name + " (across the heteroatom, as para)"
+			if cx.explain {
+				name += " (across the heteroatom, as para)"
+			}
+			return inc[3] * 0.9, name
 		}
 	}
 	return inc[2], name

@@ -91,8 +91,10 @@ type cctx struct {
 	aromBond []bool    // Hückel aromatic bonds (molecule.AromaticBonds)
 	parent   []float64 // aromatic parent-ring shift per atom, NaN if none
 	parentOf []string  // name of the parent ring system per atom
-	dist     []int16   // BFS scratch
+	dist     []int16   // BFS scratch (skelBFS)
 	queue    []int
+	dist2    []int16 // second BFS scratch (scratch())
+	q2       []int
 	// alkCis maps each of two equivalent groups on an alkene carbon to
 	// the position on the other carbon it is cis to (-1 for H); see
 	// markAlkeneSides.
@@ -102,7 +104,9 @@ type cctx struct {
 func newCarbonCtx(m *mol, explain bool) *cctx {
 	g := m.g
 	n := len(g.Atoms)
-	cx := &cctx{m: m, g: g, explain: explain, skel: make([]bool, n), dist: make([]int16, n), queue: make([]int, 0, n)}
+	d := make([]int16, 2*n)
+	q := make([]int, 0, 2*n)
+	cx := &cctx{m: m, g: g, explain: explain, skel: make([]bool, n), dist: d[:n], dist2: d[n:], queue: q[:0:n], q2: q[n:n]}
 	for i, a := range g.Atoms {
 		cx.skel[i] = a.Element == molecule.C && !m.arom[i] && m.multi[i] == 0 && a.Charge == 0
 	}
@@ -517,3 +521,11 @@ func (cx *cctx) xclassC(from, x int) xsub {
 
 // isAcyl reports whether class s is a carbonyl-type group (C=O, C≡N).
 func isAcyl(s xsub) bool { return s >= xCHO && s <= xCN }
+
+// scratch returns the second BFS distance array, every entry -1.
+func (cx *cctx) scratch() []int16 {
+	for i := range cx.dist2 {
+		cx.dist2[i] = -1
+	}
+	return cx.dist2
+}

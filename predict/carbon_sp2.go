@@ -107,7 +107,7 @@ func (cx *cctx) alkeneSide(a, partner int, own bool, r *cres) int {
 		if !cx.skel[x] {
 			s := cx.xclass(a, x)
 			if cx.explain {
-				ac.add(prefix+xtab[s].name, xtab[s].ene[col])
+				ac.addCat(xtab[s].ene[col], prefix, xtab[s].name)
 			} else {
 				ac.raw(xtab[s].ene[col])
 			}
@@ -123,23 +123,23 @@ func (cx *cctx) alkeneSide(a, partner int, own bool, r *cres) int {
 		if !own {
 			alpha, beta, gamma = eneA1, eneB1, eneG1
 		}
-		ac.add(prefix+"α alkyl", alpha)
+		ac.addCat(alpha, prefix, "α alkyl")
 		for _, n2 := range g.Neighbors(x) {
 			y := n2.Atom
 			if y == a || y == partner {
 				continue
 			}
 			if cx.skel[y] {
-				ac.add(prefix+"β carbon", beta)
+				ac.addCat(beta, prefix, "β carbon")
 				for _, n3 := range g.Neighbors(y) {
 					if z := n3.Atom; z != x && z != a && z != partner && cx.skel[z] {
-						ac.add(prefix+"γ carbon", gamma)
+						ac.addCat(gamma, prefix, "γ carbon")
 					}
 				}
 				continue
 			}
 			s := cx.xclass(x, y)
-			ac.add(prefix+"β: "+xtab[s].name, eneBeta(s)[col])
+			ac.addCat(eneBeta(s)[col], prefix, "β: ", xtab[s].name)
 			r.sigma += 0.3
 		}
 	}
@@ -174,7 +174,7 @@ func (cx *cctx) alleneEnd(c, q int, r *cres) {
 		if s == xAlkyl {
 			ac.add("alkyl on allene C", 10.0)
 		} else {
-			ac.add("allene: "+xtab[s].name+" (×0.8 of the alkene increment)", 0.8*xtab[s].ene[0])
+			ac.addCat(0.8*xtab[s].ene[0], "allene: ", xtab[s].name, " (×0.8 of the alkene increment)")
 		}
 	}
 	for _, nb := range g.Neighbors(q) {
@@ -266,7 +266,7 @@ func (cx *cctx) alkyne(c int, r *cres) {
 			}
 			if !cx.skel[x] {
 				s := cx.xclass(a, x)
-				r.ac.add(prefix+xtab[s].name, xtab[s].yne[side])
+				r.ac.addCat(xtab[s].yne[side], prefix, xtab[s].name)
 				if xtab[s].est || s >= xOH && s <= xOMinus || s >= xF && s <= xI || s >= xNH2 && s <= xNPlus {
 					r.sigma += 3
 				} else {
@@ -278,23 +278,23 @@ func (cx *cctx) alkyne(c int, r *cres) {
 			if side == 1 {
 				alpha, beta, gamma = yneA1, yneB1, yneG1
 			}
-			r.ac.add(prefix+"α alkyl", alpha)
+			r.ac.addCat(alpha, prefix, "α alkyl")
 			for _, n2 := range g.Neighbors(x) {
 				y := n2.Atom
 				if y == a {
 					continue
 				}
 				if cx.skel[y] {
-					r.ac.add(prefix+"β carbon", beta)
+					r.ac.addCat(beta, prefix, "β carbon")
 					for _, n3 := range g.Neighbors(y) {
 						if z := n3.Atom; z != x && cx.skel[z] {
-							r.ac.add(prefix+"γ carbon", gamma)
+							r.ac.addCat(gamma, prefix, "γ carbon")
 						}
 					}
 					continue
 				}
 				s := cx.xclass(x, y)
-				r.ac.add(prefix+"β: "+xtab[s].name, yneBeta(s)[side])
+				r.ac.addCat(yneBeta(s)[side], prefix, "β: ", xtab[s].name)
 				r.sigma += 0.5
 			}
 		}
@@ -458,7 +458,7 @@ func (cx *cctx) acylSubstituent(c, x int, f acylFamily, nConj *int, r *cres) {
 			if f != famKetone && f != famAldehyde {
 				v *= 0.6
 			}
-			ac.add("α-carbon group: "+xtab[s].name, v)
+			ac.addCat(v, "α-carbon group: ", xtab[s].name)
 			r.sigma += 0.8
 		}
 		if k > 0 {
@@ -629,7 +629,7 @@ func (cx *cctx) carbonyl(c int, r *cres) {
 			}
 		default:
 			r.kind = "C=O (unusual)"
-			ac.add("estimate: acyl on "+e.String(), 215)
+			ac.addCat(215, "estimate: acyl on ", e.String())
 			r.sigma = 15
 			r.estimate("carbonyl bonded to " + e.String() + " is outside the tables: rough estimate")
 		}
@@ -695,7 +695,7 @@ func (cx *cctx) carbonyl(c int, r *cres) {
 	}
 	if size := cx.carbonylRing(c); size > 0 {
 		if v := famRing(fam, size); v != 0 {
-			ac.add("ring ("+itoa(size)+"-membered)", v)
+			ac.addCat(v, "ring (", itoa(size), "-membered)")
 		}
 		if size <= 4 {
 			r.sigma += 3
@@ -831,7 +831,7 @@ func (cx *cctx) nitrile(c int, r *cres) {
 		case molecule.S:
 			ac.add("S–C≡N (thiocyanate)", -4.0)
 		default:
-			ac.add("estimate: C≡N on "+g.Atoms[x].Element.String(), -10)
+			ac.addCat(-10, "estimate: C≡N on ", g.Atoms[x].Element.String())
 			r.sigma = 8
 			r.estimate("nitrile carbon on an unusual atom: rough estimate")
 		}
@@ -909,7 +909,7 @@ func (cx *cctx) imine(c int, r *cres) {
 		r.kind = "C=N (imine)"
 		base = [2][2]float64{{166.0, 161.5}, {171.0, 167.0}}[b2i(ket)][b2i(aryl)]
 	}
-	ac.add("base "+r.kind, base)
+	ac.addCat(base, "base ", r.kind)
 	for _, nb := range g.Neighbors(c) {
 		x := nb.Atom
 		if x == n || !cx.skel[x] {
@@ -954,12 +954,13 @@ func (cx *cctx) allSkeletonRing(c, q, rs int) bool {
 	g := cx.g
 	// shortest path from c to q avoiding the double bond, through sp3
 	// carbons only
-	dist := make([]int16, len(g.Atoms))
+	dist := cx.scratch()
 	for i := range dist {
 		dist[i] = -1
 	}
 	dist[c] = 0
-	queue := []int{c}
+	queue := append(cx.q2[:0], c)
+	defer func() { cx.q2 = queue }()
 	for h := 0; h < len(queue); h++ {
 		v := queue[h]
 		for _, nb := range g.Neighbors(v) {

@@ -37,16 +37,16 @@ func (cx *cctx) sp3(c int, r *cres) {
 	}
 	ac.add("base (Grant–Paul)", gpBase)
 	if n[1] > 0 {
-		ac.add("α carbons ×"+strconv.Itoa(n[1]), gpAlpha*float64(n[1]))
+		ac.addCat(gpAlpha*float64(n[1]), "α carbons ×", strconv.Itoa(n[1]))
 	}
 	if n[2] > 0 {
-		ac.add("β carbons ×"+strconv.Itoa(n[2]), gpBeta*float64(n[2]))
+		ac.addCat(gpBeta*float64(n[2]), "β carbons ×", strconv.Itoa(n[2]))
 	}
 	if n[3] > 0 {
-		ac.add("γ carbons ×"+strconv.Itoa(n[3]), gpGamma*float64(n[3]))
+		ac.addCat(gpGamma*float64(n[3]), "γ carbons ×", strconv.Itoa(n[3]))
 	}
 	if n[4] > 0 {
-		ac.add("δ carbons ×"+strconv.Itoa(n[4]), gpDelta*float64(n[4]))
+		ac.addCat(gpDelta*float64(n[4]), "δ carbons ×", strconv.Itoa(n[4]))
 	}
 	degC := cx.skelDegree(c)
 	steric := 0.0
@@ -63,14 +63,18 @@ func (cx *cctx) sp3(c int, r *cres) {
 	if size := int(cx.m.ringAtom[c]); size > 0 {
 		s := min(size, 8)
 		var v float64
-		name := "ring (" + strconv.Itoa(size) + "-membered"
+		var name string
 		if cx.skelCycle(c) == size {
 			v = ringCarbo[s]
-			name += " carbocycle)"
+			if cx.explain {
+				name = "ring (" + strconv.Itoa(size) + "-membered carbocycle)"
+			}
 		} else {
 			pos, kind := cx.ringHeteroDistance(c)
 			v = ringHetero[s][kind][pos]
-			name += ", " + [4]string{"", "α", "β", "γ"}[pos] + " to " + [3]string{"a heteroatom", "a C=X carbon", "a C=C carbon"}[kind] + ")"
+			if cx.explain {
+				name = "ring (" + strconv.Itoa(size) + "-membered, " + [4]string{"", "α", "β", "γ"}[pos] + " to " + [3]string{"a heteroatom", "a C=X carbon", "a C=C carbon"}[kind] + ")"
+			}
 			r.sigma += 1.0
 		}
 		if size > 8 {
@@ -98,7 +102,7 @@ func (cx *cctx) sp3(c int, r *cres) {
 	// carbons two bonds away (methylcyclohexane CH3 22.9, C3 26.6; Pretsch
 	// cyclohexane increments: γ 0.0 for equatorial CH3).
 	if anti := cx.antiGamma(c, func(z int) bool { return cx.skel[z] }); anti > 0 {
-		ac.add("γ carbons anti in a ring (equatorial) ×"+strconv.Itoa(anti), -gpGamma*float64(anti))
+		ac.addCat(-gpGamma*float64(anti), "γ carbons anti in a ring (equatorial) ×", strconv.Itoa(anti))
 	}
 	// α substituents.
 	var subs [4]xsub
@@ -123,7 +127,7 @@ func (cx *cctx) sp3(c int, r *cres) {
 		z := &xtab[s].sp3
 		v := z.a[deg] + z.kb*nBeta
 		if cx.explain {
-			ac.add("α: "+xtab[s].name, v)
+			ac.addCat(v, "α: ", xtab[s].name)
 		} else {
 			ac.raw(v)
 		}
@@ -170,13 +174,13 @@ func (cx *cctx) sp3(c int, r *cres) {
 				}
 			}
 			if k > 0 {
-				ac.add("γ across "+xtab[s].name+" ×"+strconv.Itoa(k), per*float64(k))
+				ac.addCat(per*float64(k), "γ across ", xtab[s].name, " ×", strconv.Itoa(k))
 			}
 		}
 	}
 	for i := 0; i < ns; i++ {
 		for j := i + 1; j < ns; j++ {
-			ac.add("geminal "+xtab[subs[i]].name+"/"+xtab[subs[j]].name, gemPair(subs[i], subs[j]))
+			ac.addCat(gemPair(subs[i], subs[j]), "geminal ", xtab[subs[i]].name, "/", xtab[subs[j]].name)
 			r.sigma += 1.5
 		}
 	}
@@ -208,16 +212,12 @@ func (cx *cctx) sp3(c int, r *cres) {
 			s := cx.xclass(x, y)
 			z := &xtab[s].sp3
 			v := (z.b + z.bb*float64(max(degX-1, 0))) * betaScale
-			name := "β: " + xtab[s].name
+			note := ""
 			if hetAlpha && g.Atoms[y].Element != molecule.C {
 				v *= 0.5
-				name += " (vicinal to a heteroatom, ×0.5)"
+				note = " (vicinal to a heteroatom, ×0.5)"
 			}
-			if cx.explain {
-				ac.add(name, v)
-			} else {
-				ac.raw(v)
-			}
+			ac.addCat(v, "β: ", xtab[s].name, note)
 			r.sigma += 0.2
 		}
 	}
@@ -241,16 +241,12 @@ func (cx *cctx) sp3(c int, r *cres) {
 				}
 				s := cx.xclass(z, y)
 				v := xtab[s].sp3.g
-				name := "γ: " + xtab[s].name
+				note := ""
 				if cx.antiPath(n1.Bond, n2.Bond, n3.Bond) {
 					v *= 0.4
-					name += " (anti in a ring)"
+					note = " (anti in a ring)"
 				}
-				if cx.explain {
-					ac.add(name, v)
-				} else {
-					ac.raw(v)
-				}
+				ac.addCat(v, "γ: ", xtab[s].name, note)
 			}
 		}
 	}
@@ -302,7 +298,7 @@ func (cx *cctx) skelCycle(c int) int {
 	g := cx.g
 	nbs := g.Neighbors(c)
 	best := 0
-	dist := make([]int16, len(g.Atoms))
+	dist := cx.scratch()
 	for i := 0; i < len(nbs); i++ {
 		p := nbs[i].Atom
 		if !cx.skel[p] {
@@ -317,7 +313,7 @@ func (cx *cctx) skelCycle(c int) int {
 				dist[k] = -1
 			}
 			dist[p] = 0
-			queue := []int{p}
+			queue := append(cx.q2[:0], p)
 			for h := 0; h < len(queue); h++ {
 				v := queue[h]
 				for _, nb := range g.Neighbors(v) {
@@ -329,6 +325,7 @@ func (cx *cctx) skelCycle(c int) int {
 					queue = append(queue, w)
 				}
 			}
+			cx.q2 = queue
 			if d := int(dist[q]); d > 0 && (best == 0 || d+2 < best) {
 				best = d + 2
 			}
@@ -398,7 +395,7 @@ func (cx *cctx) benzylic(c, y int, r *cres) {
 			default:
 				e = -1.0
 			}
-			r.ac.add("ortho substituent "+g.Atoms[v].Element.String()+" (γ)", e)
+			r.ac.addCat(e, "ortho substituent ", g.Atoms[v].Element.String(), " (γ)")
 		}
 	}
 }
@@ -463,12 +460,13 @@ func (cx *cctx) ringHeteroDistance(c int) (int, int) {
 	g := cx.g
 	m := cx.m
 	sys := m.rsys[c]
-	dist := make([]int16, len(g.Atoms))
+	dist := cx.scratch()
 	for i := range dist {
 		dist[i] = -1
 	}
 	dist[c] = 0
-	queue := []int{c}
+	queue := append(cx.q2[:0], c)
+	defer func() { cx.q2 = queue }()
 	for h := 0; h < len(queue); h++ {
 		v := queue[h]
 		if v != c && !cx.skel[v] {
