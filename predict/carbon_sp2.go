@@ -69,6 +69,20 @@ func (cx *cctx) alkene(c int, r *cres) {
 			ac.add("alkyl on the β carbon of a conjugated C=O/C≡N", 4.0*float64(min(k, 2)))
 		}
 	}
+	// The α carbon of such an enone gains too (cyclohexenone C2 130.0,
+	// mesityl oxide C3 124.1, methyl crotonate C2 122.7 against the
+	// additive 127.8, 121.9, 120.9).
+	if cx.acceptorOn(c, q) {
+		k := 0
+		for _, nb := range g.Neighbors(q) {
+			if nb.Atom != c && cx.skel[nb.Atom] {
+				k++
+			}
+		}
+		if k > 0 {
+			ac.add("alkyl on the other carbon of a conjugated C=O/C≡N", 2.0*float64(min(k, 2)))
+		}
+	}
 	if rs > 0 && !cx.allSkeletonRing(c, q, rs) {
 		return
 	}

@@ -27,6 +27,9 @@ func (cx *cctx) sp3(c int, r *cres) {
 	}
 	r.sigma = 1.5
 	ac := &r.ac
+	if cx.trifluoromethyl(c, r) {
+		return
+	}
 	// Skeleton distances from c.
 	var n [5]int
 	cx.skelBFS(c, 4)
@@ -136,12 +139,13 @@ func (cx *cctx) sp3(c int, r *cres) {
 			r.sigma += 2.5
 			r.est = true
 		}
-		if (s == xOAcyl || s == xOCarbonyl2 || s == xAmideNH || s == xAmideNR) && cx.m.ringBond[nb.Bond] == 5 {
-			// γ-butyrolactone OCH2 68.6 and 2-pyrrolidinone NCH2 42.5
-			// against THF 68.0 and pyrrolidine 47.0, where the open-chain
-			// increments predict ester and amide α carbons ~5–10 ppm
-			// below ethers and amines (Pretsch, from memory).
-			ac.add("five-membered lactone/lactam ring", 6.5)
+		if rb := cx.m.ringBond[nb.Bond]; (s == xOAcyl || s == xOCarbonyl2 || s == xAmideNH || s == xAmideNR) && rb >= 5 && rb <= 7 {
+			// γ-butyrolactone OCH2 68.6, δ-valerolactone 69.4 and
+			// 2-pyrrolidinone NCH2 42.5 against THF 68.0, THP 68.7 and
+			// pyrrolidine 47.0, where the open-chain increments predict
+			// ester and amide α carbons ~5–10 ppm below ethers and amines
+			// (Pretsch, Kalinowski, from memory).
+			ac.add("lactone/lactam ring", 6.5)
 		}
 		switch {
 		case s == xAryl || s == xHetAryl:
@@ -212,6 +216,12 @@ func (cx *cctx) sp3(c int, r *cres) {
 			s := cx.xclass(x, y)
 			z := &xtab[s].sp3
 			v := (z.b + z.bb*float64(max(degX-1, 0))) * betaScale
+			if s == xF && cx.countElem(x, molecule.F) >= 2 {
+				// β effects of CF2/CF3 are far below three times one F
+				// (2,2,2-trifluoroethanol CH2 61.4 against ethanol 58.3;
+				// Kalinowski, from memory).
+				v = 2.5 * betaScale
+			}
 			note := ""
 			if hetAlpha && g.Atoms[y].Element != molecule.C {
 				v *= 0.5
@@ -542,4 +552,62 @@ func (cx *cctx) allylic(c, y, b int, r *cres) {
 			r.ac.add("allylic: trans group on the other alkene carbon", -0.5)
 		}
 	}
+}
+
+// trifluoromethyl predicts a carbon with three or four fluorines from a
+// base value, where the additive scheme fails: CF3 on carbon 124.5
+// (2,2,2-trifluoroethanol 124.2, benzotrifluoride 124.3), on C=O 115
+// (trifluoroacetic acid 114.8), CHF3 118.5, CF4 123.3 (Pretsch,
+// Kalinowski, from memory). It reports whether it handled c.
+func (cx *cctx) trifluoromethyl(c int, r *cres) bool {
+	g := cx.g
+	nF := 0
+	for _, nb := range g.Neighbors(c) {
+		if g.Atoms[nb.Atom].Element == molecule.F {
+			nF++
+		}
+	}
+	if nF < 3 {
+		return false
+	}
+	r.kind = "CF3"
+	r.sigma = 3
+	switch {
+	case nF >= 4:
+		r.kind = "CF4"
+		r.ac.add("tetrafluoromethane", 123.3)
+		return true
+	case g.Atoms[c].HCount > 0:
+		r.kind = "CHF3"
+		r.ac.add("fluoroform", 118.5)
+		return true
+	}
+	r.ac.add("base CF3–C", 124.5)
+	for _, nb := range g.Neighbors(c) {
+		y := nb.Atom
+		if g.Atoms[y].Element == molecule.F {
+			continue
+		}
+		s := cx.xclass(c, y)
+		switch {
+		case isAcyl(s):
+			r.ac.addCat(-9.5, "CF3 on ", xtab[s].name)
+		case s == xAlkyl, s == xAryl, s == xHetAryl, s == xVinyl, s == xAlkynyl:
+		default:
+			r.ac.addCat(-3, "estimate: CF3 on ", xtab[s].name)
+			r.sigma = 6
+		}
+	}
+	return true
+}
+
+// countElem returns the number of neighbours of x of element e.
+func (cx *cctx) countElem(x int, e molecule.Element) int {
+	k := 0
+	for _, nb := range cx.g.Neighbors(x) {
+		if cx.g.Atoms[nb.Atom].Element == e {
+			k++
+		}
+	}
+	return k
 }

@@ -381,15 +381,20 @@ var xtab = [numX]xinfo{
 		ar: [4]float64{1.5, 7.1, -0.7, 2.8}, ene: [2]float64{10, 10}, yne: [2]float64{5, 5}, est: true},
 }
 
-// geminal pair corrections for two non-alkyl substituents on one sp3
-// carbon, by element of the attached atoms: CH2(OMe)2 97.9 and HC(OMe)3
-// 112.9 against MeOMe 60.0; CH2F2 109.8 and CHF3 118.5 against CH3F;
-// CH2Cl2 54.0, CHCl3 77.7, CCl4 96.1 against CH3Cl 25.6; CH2Br2 21.6,
-// CHBr3 12.3 against CH3Br 10.2 (Pretsch; Gottlieb 1997).
+// gemPair is the correction for two non-alkyl substituents on one sp3
+// carbon, by kind: CH2(OMe)2 97.9 and HC(OMe)3 112.9 against MeOMe 60.0;
+// CH2F2 109.8 and CHF3 118.5 against CH3F; CH2Cl2 54.0, CHCl3 77.7, CCl4
+// 96.1 against CH3Cl 25.6; CH2Br2 21.6, CHBr3 12.3 against CH3Br 10.2;
+// a heteroatom next to a C=O or C≡N (ethyl chloroacetate CH2 40.9, ethyl
+// bromoacetate 25.8, methoxyacetic acid 69.3, ethyl glycinate 44.0) or
+// next to an aryl or vinyl group (benzyl alcohol 65.2, benzyl chloride
+// 46.3, benzylamine 46.5); Pretsch; Kalinowski; Gottlieb 1997; from
+// memory.
 func gemPair(a, b xsub) float64 {
 	ea, eb := gemElem(a), gemElem(b)
 	if ea > eb {
 		ea, eb = eb, ea
+		a, b = b, a
 	}
 	switch {
 	case ea == 'O' && eb == 'O':
@@ -404,14 +409,38 @@ func gemPair(a, b xsub) float64 {
 		return -1.5
 	case ea == 'B' && eb == 'B':
 		return -8
+	}
+	// One heteroatom and one carbon group (b).
+	if eb == 'c' {
+		acyl := isAcyl(b)
+		switch ea {
+		case 'O':
+			if acyl {
+				return -12
+			}
+			return -8
+		case 'N':
+			if acyl {
+				return -8
+			}
+			return -5.5
+		case 'C', 'B':
+			if acyl {
+				return -7
+			}
+			return -3
+		case 'S':
+			return -4
+		}
+		return -2
+	}
+	switch {
 	case ea == 'B' || eb == 'B':
 		return -5
 	case ea == 'O' || eb == 'O':
 		return -8
 	case ea == 'S' || eb == 'S':
 		return -4
-	case ea == 'c' || eb == 'c':
-		return -2
 	}
 	return -3
 }
