@@ -368,8 +368,7 @@ func (cx *cctx) alkylOnRing(x, v int) ([4]float64, string) {
 // ipso (scaled by the ring heteroatom), the neighbour across the formal
 // C=C bond and the atom across the heteroatom like para (conjugation),
 // the neighbour across the C–C single bond like ortho, the atom two C–C
-// bonds away like meta. Factors: our fit to 2-methylfuran, furfural and
-// 2-methylthiophene (Kalinowski, from memory).
+// bonds away like meta.
 func (cx *cctx) fiveRingInc(c, x, d int, ring []int, inc [4]float64, name string) (float64, string) {
 	g := cx.g
 	het := molecule.C
@@ -378,24 +377,37 @@ func (cx *cctx) fiveRingInc(c, x, d int, ring []int, inc [4]float64, name string
 			het = e
 		}
 	}
-	ipso, conj := 1.2, 1.2
+	// Scale factors {ipso of an alkyl, ipso of an acyl, across C=C for a
+	// positive / negative increment, across the heteroatom for a
+	// positive / negative increment}; acceptors are amplified more than
+	// donors (2-methylfuran, furfural, 2-methylthiophene,
+	// thiophene-2-carbaldehyde; Kalinowski, from memory). Pyrrole-type
+	// and other rings take the mean of furan and thiophene.
+	f := [6]float64{1.25, 1.8, 1.75, 1.0, 1.25, 0.7}
 	switch het {
 	case molecule.O:
-		ipso, conj = 1.1, 1.6
+		f = [6]float64{1.0, 1.3, 1.95, 1.28, 0.92, 0.6}
 	case molecule.S:
-		ipso, conj = 1.5, 1.0
-	case molecule.N:
-		ipso, conj = 1.3, 1.3
+		f = [6]float64{1.5, 2.3, 1.55, 0.8, 1.6, 0.8}
+	}
+	pick := func(v, pos, neg float64) float64 {
+		if v > 0 {
+			return v * pos
+		}
+		return v * neg
 	}
 	switch d {
 	case 0:
-		return inc[0] * ipso, name
+		if inc[0] > 0 && inc[3] > 2 {
+			return inc[0] * f[1], name // an acceptor (positive para increment)
+		}
+		return inc[0] * f[0], name
 	case 1:
 		if b := g.BondBetween(c, x); b >= 0 && g.Bonds[b].Order == molecule.Double {
 			if cx.explain {
 				name += " (across C=C, as para)"
 			}
-			return inc[3] * conj, name
+			return pick(inc[3], f[2], f[3]), name
 		}
 		return inc[1], name
 	}
@@ -405,7 +417,7 @@ func (cx *cctx) fiveRingInc(c, x, d int, ring []int, inc [4]float64, name string
 			if cx.explain {
 				name += " (across the heteroatom, as para)"
 			}
-			return inc[3] * 0.9, name
+			return pick(inc[3], f[4], f[5]), name
 		}
 	}
 	return inc[2], name

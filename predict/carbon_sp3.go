@@ -112,7 +112,10 @@ func (cx *cctx) sp3(c int, r *cres) {
 	var subAt [4]int
 	ns := 0
 	hetAlpha := false
-	nBeta := float64(n[2])
+	// β carbons in the same ring of five or fewer atoms are not gauche to
+	// the group (cyclopentanol C1 73.9 against cyclopentane 25.8: +48.1,
+	// the full open-chain α effect; Kalinowski, from memory).
+	nBeta := float64(n[2] - cx.smallRingBeta(c))
 	deg := min(degC, 3)
 	for _, nb := range g.Neighbors(c) {
 		y := nb.Atom
@@ -171,10 +174,20 @@ func (cx *cctx) sp3(c int, r *cres) {
 					if z == y || z == c || !cx.skel[z] {
 						continue
 					}
-					if cx.antiPath(nb.Bond, n1.Bond, n2.Bond) || (cx.dist[z] >= 0 && cx.dist[z] <= 2) {
+					if cx.antiPath(nb.Bond, n1.Bond, n2.Bond) || (cx.dist[z] >= 0 && cx.dist[z] <= 2) || cx.nextToNeighbour(c, z) {
 						continue
 					}
 					k++
+				}
+				// A heteroatom on the far carbon (the OCH2 of an acetal,
+				// 1,1-diethoxyethane 60.8 against diethyl ether 65.9;
+				// Kalinowski, from memory).
+				if g.Atoms[y].Element != molecule.C {
+					for _, n2 := range g.Neighbors(x2) {
+						if z := n2.Atom; z != y && !cx.skel[z] && g.Atoms[z].Element != molecule.C && !cx.nextToNeighbour(c, z) && g.BondBetween(c, z) < 0 {
+							ac.add("heteroatom across "+g.Atoms[y].Element.String(), -4.0)
+						}
+					}
 				}
 			}
 			if k > 0 {
@@ -252,7 +265,7 @@ func (cx *cctx) sp3(c int, r *cres) {
 				s := cx.xclass(z, y)
 				v := xtab[s].sp3.g
 				note := ""
-				if cx.antiPath(n1.Bond, n2.Bond, n3.Bond) {
+				if cx.antiPath(n1.Bond, n2.Bond, n3.Bond) || cx.exoOnFiveRing(n1.Bond, n2.Bond, n3.Bond) {
 					v *= 0.4
 					note = " (anti in a ring)"
 				}
@@ -610,4 +623,41 @@ func (cx *cctx) countElem(x int, e molecule.Element) int {
 		}
 	}
 	return k
+}
+
+// nextToNeighbour reports whether z is bonded to a neighbour of c (so it is
+// two bonds from c, not three).
+func (cx *cctx) nextToNeighbour(c, z int) bool {
+	for _, nb := range cx.g.Neighbors(c) {
+		if cx.g.BondBetween(nb.Atom, z) >= 0 {
+			return true
+		}
+	}
+	return false
+}
+
+// smallRingBeta counts the sp3 carbons two bonds from c inside c's ring
+// when that ring has five or fewer atoms.
+func (cx *cctx) smallRingBeta(c int) int {
+	m := cx.m
+	size := m.ringAtom[c]
+	if size == 0 || size > 5 {
+		return 0
+	}
+	k := 0
+	for z := range cx.g.Atoms {
+		if cx.dist[z] == 2 && m.rsys[z] == m.rsys[c] && m.ringAtom[z] <= 5 {
+			k++
+		}
+	}
+	return k
+}
+
+// exoOnFiveRing reports whether the path b1–b2–b3 goes from c along ring
+// bonds of a five-membered ring to a group outside it (cyclopentanol C3
+// 23.3 against cyclopentane 25.8: −2.5, where the open-chain Zγ of OH is
+// −6.2).
+func (cx *cctx) exoOnFiveRing(b1, b2, b3 int) bool {
+	rb := cx.m.ringBond
+	return rb[b1] == 5 && rb[b2] == 5 && rb[b3] == 0
 }
