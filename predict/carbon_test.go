@@ -137,6 +137,21 @@ func TestCarbonValidation(t *testing.T) {
 // or tune the increments (testdata/carbon_holdout.json). It asserts only
 // a loose bound, 3 ppm overall: the figure to watch is the logged one.
 func TestCarbonHoldout(t *testing.T) {
+	// No compound may be in both sets (compared by canonical SMILES).
+	seen := map[string]string{}
+	for _, file := range []string{"testdata/carbon_validation.json", "testdata/carbon_holdout.json"} {
+		b, err := os.ReadFile(file)
+		require.NoError(t, err)
+		var set carbonSet
+		require.NoError(t, json.Unmarshal(b, &set))
+		for _, c := range set.Compounds {
+			key := molecule.CanonicalSMILES(mustParse(t, c.SMILES))
+			if prev, ok := seen[key]; ok && prev != file {
+				t.Errorf("%s (%s) is in both %s and %s", c.Name, c.SMILES, prev, file)
+			}
+			seen[key] = file
+		}
+	}
 	errs := compareCarbon(t, "testdata/carbon_holdout.json")
 	require.GreaterOrEqual(t, len(errs), 40, "the holdout set must hold at least 40 carbons")
 	overall, _ := reportCarbon(t, "holdout", errs)
@@ -413,4 +428,47 @@ func FuzzCarbonGraph(f *testing.F) {
 		}
 		checkCarbonSpectrum(t, g.SMILES(), g, sp, true)
 	})
+}
+
+// TestCarbonConcurrent: one Predictor serves many goroutines (the ranker
+// scores candidates in parallel) and gives the same answers as serially.
+func TestCarbonConcurrent(t *testing.T) {
+	p := New(Options{})
+	want := make([][]float64, len(battery))
+	for i, s := range battery {
+		sp, err := p.Carbon(mustParse(t, s))
+		require.NoError(t, err)
+		for _, sig := range sp.Signals {
+			want[i] = append(want[i], sig.Shift)
+		}
+	}
+	errc := make(chan error, 4)
+	for w := 0; w < 4; w++ {
+		go func() {
+			for i, s := range battery {
+				g, err := molecule.ParseSMILES(s)
+				if err != nil {
+					errc <- err
+					return
+				}
+				sp, err := p.Carbon(g)
+				if err != nil {
+					errc <- err
+					return
+				}
+				var got []float64
+				for _, sig := range sp.Signals {
+					got = append(got, sig.Shift)
+				}
+				if !slices.Equal(got, want[i]) {
+					errc <- fmt.Errorf("%s: concurrent %v, serial %v", s, got, want[i])
+					return
+				}
+			}
+			errc <- nil
+		}()
+	}
+	for w := 0; w < 4; w++ {
+		require.NoError(t, <-errc)
+	}
 }
