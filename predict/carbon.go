@@ -279,6 +279,9 @@ func (p *Predictor) carbonSpectrum(cx *cctx) *CarbonSpectrum {
 		if cx.explain && len(s.Atoms) > 1 {
 			s.Reasons = append(s.Reasons, "equivalent by symmetry: atoms "+intList(s.Atoms))
 		}
+		if cx.explain && len(s.Atoms) == 2 && m.stereo && sharedNeighbour(g, s.Atoms[0], s.Atoms[1]) {
+			s.Reasons = append(s.Reasons, "diastereotopic (a stereocentre in the molecule): the two carbons may give two close lines")
+		}
 		if cx.explain && keys[e].cis != keys[e].trans {
 			s.Reasons = append(s.Reasons, "the two equal groups on one alkene carbon are cis and trans to different groups on the other: separate lines")
 		}
@@ -391,4 +394,15 @@ func (a *acc) addCat(v float64, parts ...string) {
 	if a.explain {
 		a.terms = append(a.terms, Term{Term: strings.Join(parts, ""), PPM: round3(v)})
 	}
+}
+
+// sharedNeighbour reports whether atoms a and b are bonded to one common
+// atom (the two methyls of an isopropyl group).
+func sharedNeighbour(g *molecule.Graph, a, b int) bool {
+	for _, nb := range g.Neighbors(a) {
+		if g.BondBetween(nb.Atom, b) >= 0 {
+			return true
+		}
+	}
+	return false
 }

@@ -46,7 +46,8 @@ var ringCarbo = [9]float64{3: -18.7, 4: -2.9, 5: -8.9, 6: -5.2, 7: -1.2, 8: -3.1
 // bond or a fused aromatic ring) and the distance d (1, 2, 3 or more
 // bonds) from the observed carbon to the nearest of them. Fitted to the
 // parent rings: THF 68.0/25.6, THP 68.7/26.6/23.6, pyrrolidine 47.0/25.7,
-// piperidine 47.5/27.2/25.2, oxirane 40.6, oxetane 72.6/23.1;
+// piperidine 47.5/27.2/25.2, oxirane 40.6, oxetane 72.6/23.1,
+// cyclobutanone 47.8/9.9 (thiirane 18.9: see carbon_sp3.go);
 // cyclopentanone 38.3/23.3, cyclohexanone 42.0/27.1/25.1; cyclopentene
 // 32.5/22.9, cyclohexene 25.2/22.8 (Pretsch; Gottlieb 1997; from memory).
 const (
@@ -57,7 +58,7 @@ const (
 
 var ringHetero = [9][3][4]float64{
 	3: {{0, -26, -26, -26}, {0, -20, -20, -20}, {0, -20, -20, -20}},
-	4: {{0, -4, -4, -4}, {0, -4, -4, -4}, {0, -4, -4, -4}},
+	4: {{0, -4, -4, -4}, {0, 1.5, -9, -9}, {0, -4, -4, -4}},
 	5: {{0, -6.0, -1.5, -1.5}, {0, -5.0, -1.0, -1.0}, {0, -3.7, -6.2, -1.5}},
 	6: {{0, -1.5, -3.9, -0.5}, {0, -1.5, 2.8, -4.6}, {0, -1.5, -7.0, -1.5}},
 	7: {{0, 0, 0, 0}, {0, 0, 0, 0}, {0, 0, 0, 0}},
