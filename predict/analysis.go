@@ -18,6 +18,9 @@ type mol struct {
 	// prochiral: some atom could become a stereocentre when one H of a
 	// CH2 elsewhere is replaced (see prochiralAt)
 	prochiral bool
+	// ringCO: some ring carbon of a 5- to 7-membered ring carries an
+	// exocyclic C=O or C=S (candidates for amideRing)
+	ringCO bool
 	// scratch for breadth-first searches
 	dist  []int16
 	queue []int
@@ -113,6 +116,18 @@ func (w *work) analyse(g *molecule.Graph) *mol {
 			}
 		}
 		m.ringSystems()
+		for bi, b := range g.Bonds {
+			if b.Order != molecule.Double || m.ringBond[bi] != 0 {
+				continue
+			}
+			for _, x := range [2]int{b.A, b.B} {
+				if sz := m.ringAtom[x]; sz >= 5 && sz <= 7 && g.Atoms[x].Element == molecule.C {
+					if e := g.Atoms[b.A+b.B-x].Element; e == molecule.O || e == molecule.S {
+						m.ringCO = true
+					}
+				}
+			}
+		}
 	}
 	for i := range g.Atoms {
 		if m.arom[i] {

@@ -61,6 +61,12 @@ func (p *Predictor) carbonH(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 		p.aromaticH(m, gr, r, ac)
 		return
 	}
+	if m.ringCO && m.multi[c] == 1 {
+		if ring, _ := m.amideRing(c); ring != nil {
+			p.amideRingH(m, c, ring, r, ac)
+			return
+		}
+	}
 	var dblO, dblS, dblN, dblC, dblX, tripC, tripN int
 	dblPartner := -1
 	for _, nb := range g.Neighbors(c) {
