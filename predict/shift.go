@@ -110,6 +110,14 @@ func (p *Predictor) carbonH(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 		ac.add("estimate: H on a hypervalent C=S", 6.5)
 		r.sigma = 1.5
 		r.reasons = append(r.reasons, "H on carbon doubly bonded to a hypervalent sulfur is outside the tables: estimate")
+	case dblS > 0 && m.thioformamide(c):
+		// Thioformamides HC(=S)NR2: about 1.2 ppm above the formamide H
+		// (DMF 8.02; N,N-dimethylthioformamide near 9.2, from memory, not
+		// checked): an estimate with a wide σ.
+		r.kind = "HC(=S)N (thioformamide)"
+		ac.add("estimate: thioformamide H", 9.2)
+		r.sigma = 0.5
+		r.reasons = append(r.reasons, "thioformamide H: estimate, no tabulated increments")
 	case dblS > 0:
 		r.kind = "CH=S (thioformyl)"
 		ac.add("estimate: thioaldehyde H", 10.5)
@@ -603,4 +611,15 @@ func (m *mol) pmsAlkylRow(from, x int) ([3]float64, bool) {
 		}
 	}
 	return best, found
+}
+
+// thioformamide reports whether thiocarbonyl carbon c is bonded to N by a
+// single bond.
+func (m *mol) thioformamide(c int) bool {
+	for _, nb := range m.g.Neighbors(c) {
+		if nb.Order == molecule.Single && m.g.Atoms[nb.Atom].Element == molecule.N {
+			return true
+		}
+	}
+	return false
 }
