@@ -375,11 +375,36 @@ func (p *Predictor) ring4H(m *mol, c, h int, r *shiftResult, ac *acc) bool {
 		return false // cyclobutane: the ring correction of the general scheme is exact
 	}
 	base, ok := ring4Parent[key]
+	g := m.g
+	r.sigma = 0.2
+	if !ok && (key[0] == 'L' || key[1] == 'L' || key[2] == 'L') {
+		// β-Lactams: no parent at hand; take the β-lactone position and
+		// the open-chain difference between an amide N and an ester O as
+		// α substituents (2.00 against 2.82 on CH2, alphaInc), wider σ.
+		var lk [3]byte
+		for i, t := range key {
+			lk[i] = t
+			if t == 'L' {
+				lk[i] = 'E'
+			}
+		}
+		if lk[1] < lk[0] {
+			lk[0], lk[1] = lk[1], lk[0]
+		}
+		if base, ok = ring4Parent[lk]; !ok {
+			return false
+		}
+		if key[0] == 'L' || key[1] == 'L' {
+			base += alphaInc[subAmideN][1] - alphaInc[subOAcyl][1]
+		}
+		r.sigma += 0.25
+		if p.opts.Explain {
+			r.reasons = append(r.reasons, "β-lactam ring: estimated from the β-lactone parent, wider uncertainty")
+		}
+	}
 	if !ok {
 		return false
 	}
-	g := m.g
-	r.sigma = 0.2
 	ac.add("four-membered ring parent ("+string(key[:2])+"/"+string(key[2:])+")", base)
 	ns := 0
 	for _, nb := range g.Neighbors(c) {

@@ -525,7 +525,10 @@ func (m *mol) ringCarbonylGamma(c int) bool {
 				continue
 			}
 			for _, n3 := range g.Neighbors(n2.Atom) {
-				if n3.Atom != n1.Atom && m.ringBond[n3.Bond] > 0 && g.Atoms[n3.Atom].Element == molecule.C && m.carbonylOf(n3.Atom) >= 0 {
+				k := n3.Atom
+				if k != n1.Atom && m.ringBond[n3.Bond] > 0 && g.Atoms[k].Element == molecule.C && m.carbonylOf(k) >= 0 && !m.nextTo(c, k) {
+					// (A C=O that is also β to c, the other way round a
+					// five-membered ring, already counts as β: no γ term.)
 					return true
 				}
 			}
@@ -659,6 +662,17 @@ func (m *mol) haloAcylOxygen(o, from int) int {
 func (m *mol) sulfonylHalide(s int) bool {
 	for _, nb := range m.g.Neighbors(s) {
 		if m.g.Atoms[nb.Atom].Element.IsHalogen() {
+			return true
+		}
+	}
+	return false
+}
+
+// nextTo reports whether some neighbour of c is bonded to k (k is two
+// bonds from c).
+func (m *mol) nextTo(c, k int) bool {
+	for _, nb := range m.g.Neighbors(c) {
+		if m.g.BondBetween(nb.Atom, k) >= 0 {
 			return true
 		}
 	}
