@@ -10,12 +10,12 @@ import "shiftrank/molecule"
 // 7.36 (Gottlieb 1997), and 7.30 fits toluene, anisole and benzaldehyde
 // in CDCl3 best with Pretsch's increments.
 const (
-	baseBenzene  = 7.30
-	ringNAlpha   = 1.32
-	ringNAlpha2  = 0.65
-	ringNBeta    = -0.01
-	ringNGamma   = 0.38
-	ringNNAlpha  = 0.55
+	baseBenzene = 7.30
+	ringNAlpha  = 1.32
+	ringNAlpha2 = 0.65
+	ringNBeta   = -0.01
+	ringNGamma  = 0.38
+	ringNNAlpha = 0.55
 	// A γ ring N in a ring with a second N adds less (pyrimidine H4 8.78,
 	// 1,3,5-triazine 9.25, pyridazine H4 7.51, Pretsch, from memory; our
 	// fit, testdata/classes/azoles.json tuning part).
