@@ -66,7 +66,16 @@ func (s *classStats) mae() float64 { return s.sumAbs / float64(max(s.n, 1)) }
 // holdoutTarget lists the classes whose hold-out part meets issue 10's
 // per-class target (mean absolute error ≤ 0.25 ppm); the test fails if one
 // of them falls back above it. Classes not listed are reported only.
-var holdoutTarget = map[string]bool{}
+var holdoutTarget = map[string]bool{
+	"ring amides":                    true,
+	"ring alkenes":                   true,
+	"geminal electronegative":        true,
+	"nitrogen-rich azoles":           true,
+	"three- and four-membered rings": true,
+	"sulfur neighbours":              true,
+	"next to CF2/CF3":                true,
+	"geminal alkene methyls":         true,
+}
 
 // TestClassShifts reports, for each class of testdata/classes, the mean
 // absolute error of the tuning and hold-out parts, the share of
@@ -79,6 +88,7 @@ func TestClassShifts(t *testing.T) {
 	require.NotEmpty(t, files)
 	sort.Strings(files)
 	p := New(Options{})
+	pe := New(Options{Explain: true})
 	var total [2]classStats
 	type line struct {
 		class string
@@ -124,6 +134,9 @@ func TestClassShifts(t *testing.T) {
 					}
 					sp, err = p.Predict(g)
 					require.NoError(t, err, where)
+					spe, err := pe.Predict(g)
+					require.NoError(t, err, where)
+					checkSpectrum(t, where, g, spe, true)
 					spectra[e.SMILES] = sp
 					used[e.SMILES] = map[int]bool{}
 				}
@@ -153,22 +166,23 @@ func TestClassShifts(t *testing.T) {
 		}
 		lines = append(lines, ln)
 	}
-	t.Logf("%-34s | %-38s | %-38s", "class", "tuning: n  MAE  >0.5  ≤2σ  max", "hold-out: n  MAE  >0.5  ≤2σ  max")
+	t.Logf("%-31s | %-30s | %-30s", "", "tuning", "hold-out")
+	t.Logf("%-31s | %-30s | %-30s", "class", "  n   MAE  >0.5   ≤2σ   max", "  n   MAE  >0.5   ≤2σ   max")
 	row := func(s *classStats) string {
 		if s.n == 0 {
 			return "—"
 		}
-		return padf("%3d %5.2f %4.0f%% %4.0f%% %5.2f", s.n, s.mae(), 100*float64(s.over05)/float64(s.n), 100*float64(s.within2σ)/float64(s.n), s.max)
+		return fmt.Sprintf("%3d %5.2f %4.0f%% %4.0f%% %5.2f", s.n, s.mae(), 100*float64(s.over05)/float64(s.n), 100*float64(s.within2σ)/float64(s.n), s.max)
 	}
 	for i := range lines {
 		l := &lines[i]
 		mark := ""
 		if l.part[1].mae() > 0.25 {
-			mark = "  (hold-out above 0.25: " + l.part[1].worst + ")"
+			mark = " | hold-out above 0.25, worst: " + l.part[1].worst
 		}
-		t.Logf("%-34s | %-38s | %-38s%s", l.class, row(&l.part[0]), row(&l.part[1]), mark)
+		t.Logf("%-31s | %-30s | %-30s%s", l.class, row(&l.part[0]), row(&l.part[1]), mark)
 	}
-	t.Logf("%-34s | %-38s | %-38s", "all classes", row(&total[0]), row(&total[1]))
+	t.Logf("%-31s | %-30s | %-30s", "all classes", row(&total[0]), row(&total[1]))
 	for i := range lines {
 		l := &lines[i]
 		if holdoutTarget[l.class] {
@@ -186,6 +200,25 @@ func sharesAtom(a, b []int) bool {
 	return false
 }
 
-func padf(format string, args ...any) string {
-	return strings.TrimRight(fmt.Sprintf(format, args...), " ")
+// TestWideSigmaOutsideTables: hydrogens the increment tables do not cover
+// must carry a σ that says so, not a precise-looking default (issue 10).
+func TestWideSigmaOutsideTables(t *testing.T) {
+	p := New(Options{})
+	for _, tc := range []struct {
+		name, smiles string
+		atom         int
+		minSigma     float64
+	}{
+		{"five-membered heteroaromatic outside the base table ([1,2,4]triazolo[4,3-a]pyridine H3)", "c1ccc2nncn2c1", 6, 0.35},
+		{"CH2 bridging an aromatic ring (1,6-methano[10]annulene)", "C12=CC=CC=C(C2)C=CC=C1", 6, 2},
+		{"thioformamide H (N,N-dimethylthioformamide)", "CN(C)C=S", 3, 0.5},
+		{"endocyclic conjugated triene (cycloheptatriene H3)", "C1C=CC=CC=C1", 3, 0.4},
+		{"cross-conjugated five-membered ring (pyrazol-3-one H4)", "O=C1C=CNN1", 2, 0.4},
+		{"beta-lactam CH2 estimated from the beta-lactone parent", "O=C1CCN1", 2, 0.4},
+	} {
+		sp := predictSMILES(t, p, tc.smiles)
+		es := envOn(sp, tc.atom)
+		require.Len(t, es, 1, tc.name)
+		assert.GreaterOrEqual(t, es[0].Sigma, tc.minSigma, "%s: Predict(%q) σ = %.2f, want ≥ %.2f (outside the tables)", tc.name, tc.smiles, es[0].Sigma, tc.minSigma)
+	}
 }

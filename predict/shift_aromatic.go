@@ -35,6 +35,18 @@ var (
 	fusedS5 = [3]float64{0.70, 0.50, 0.10}
 )
 
+// ringNBridge = {α, β, γ}: increments of a three-connected ring N in a
+// six-membered aromatic ring, our fit to imidazo[1,2-a]pyridine H5, H6/H8
+// and H7 (8.10, 6.76 / 7.58, 7.14; literature values from memory,
+// testdata/classes/azoles.json tuning part).
+var ringNBridge = [3]float64{0.80, -0.19, 0.0}
+
+// pyrroleN reports whether x is an aromatic N with three bonds (or an H):
+// pyrrole type.
+func (m *mol) pyrroleN(x int) bool {
+	return m.g.Atoms[x].Element == molecule.N && m.arom[x] && m.g.Degree(x)+m.g.Atoms[x].HCount == 3
+}
+
 // pyridineN reports whether y is an aromatic N without H and with two
 // neighbours (pyridine type).
 func (m *mol) pyridineN(y int) bool {
@@ -161,6 +173,19 @@ func (p *Predictor) aromaticH(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 			d := min(k, 6-k)
 			if g.Atoms[x].Element != molecule.N {
 				r.sigma += 0.3
+			}
+			if m.pyrroleN(x) {
+				// A ring N with three bonds in a six-membered aromatic
+				// ring (the bridgehead N of imidazo[1,2-a]pyridine,
+				// indolizine) donates instead of withdrawing.
+				v := ringNBridge[d-1]
+				if p.opts.Explain {
+					ac.add([3]string{"ring N, bridgehead (α)", "ring N, bridgehead (β)", "ring N, bridgehead (γ)"}[d-1], v)
+				} else {
+					ac.raw(v)
+				}
+				r.sigma += 0.1
+				continue
 			}
 			switch d {
 			case 1:

@@ -47,9 +47,11 @@ func gemDamp(s sub, k int, prev []sub) float64 {
 	return alphaDamp[min(k, len(alphaDamp)-1)]
 }
 
-// electronegative reports whether s is a halogen, O, N or S substituent.
+// electronegative reports whether s is a halogen or O substituent (the
+// tuning compounds of gemDamp have no N or S pairs, so those keep the
+// general damping).
 func electronegative(s sub) bool {
-	return s >= subF && s <= subSOther
+	return s >= subF && s <= subOX
 }
 
 // shooleryI is Shoolery's constant for iodine (1.82; Shoolery's table as
