@@ -480,7 +480,7 @@ func (p *Predictor) alkeneH(m *mol, gr *hgroup, q int, r *shiftResult, ac *acc) 
 	case 5:
 		ac.add("cyclopentene ring", 0.07)
 	}
-	if dblRing >= 5 && dblRing <= 7 {
+	if dblRing >= 5 && dblRing <= 7 && m.poly {
 		p.bridgedAlkene(m, c, q, r, ac)
 	}
 	if dblRing >= 5 && dblRing <= 8 && m.ringDiene(c, q) {

@@ -41,7 +41,17 @@ func (m *mol) amideRing(x int) (ring []int, nCO int) {
 		return nil, 0
 	}
 	sz := m.ringAtom[x]
-	if sz < 5 || sz > 7 || m.rsys[x] < 0 || !m.rsysCO(m.rsys[x]) {
+	if sz < 5 || sz > 7 || m.rsys[x] < 0 {
+		return nil, 0
+	}
+	for _, nb := range m.g.Neighbors(x) {
+		// Quick rejection: an sp3 ring carbon next to x breaks the ring's
+		// conjugation.
+		if y := nb.Atom; m.ringBond[nb.Bond] > 0 && m.g.Atoms[y].Element == molecule.C && m.multi[y] == 0 && !m.arom[y] {
+			return nil, 0
+		}
+	}
+	if !m.rsysCO(m.rsys[x]) {
 		return nil, 0
 	}
 	ring = m.smallestRing(x)
@@ -447,15 +457,7 @@ func (p *Predictor) ring4H(m *mol, c, h int, r *shiftResult, ac *acc) bool {
 }
 
 // ringBonds returns the number of ring bonds at atom x.
-func (m *mol) ringBonds(x int) int {
-	n := 0
-	for _, nb := range m.g.Neighbors(x) {
-		if m.ringBond[nb.Bond] > 0 {
-			n++
-		}
-	}
-	return n
-}
+func (m *mol) ringBonds(x int) int { return int(m.nRing[x]) }
 
 // junction classifies sp3 atom x by its place in a polycyclic skeleton:
 // 0 not a ring junction (fewer than three ring bonds); junctionBridged for
@@ -505,7 +507,7 @@ const (
 // testdata/classes/bridged_polycyclic.json. The name of the term is empty
 // when there is none.
 func (m *mol) bridgedCorrection(c, h int) (float64, string) {
-	if m.rsys[c] < 0 {
+	if !m.poly || m.rsys[c] < 0 {
 		return 0, ""
 	}
 	switch h {
