@@ -18,6 +18,13 @@ type mol struct {
 	// prochiral: some atom could become a stereocentre when one H of a
 	// CH2 elsewhere is replaced (see prochiralAt)
 	prochiral bool
+	nRing     []int8 // number of ring bonds at the atom
+	// poly: some atom has three or more ring bonds (a fused, bridged or
+	// spiro polycyclic skeleton)
+	poly bool
+	// ringCO: some ring carbon of a 5- to 7-membered ring carries an
+	// exocyclic C=O or C=S (candidates for amideRing)
+	ringCO bool
 	// scratch for breadth-first searches
 	dist  []int16
 	queue []int
@@ -56,11 +63,11 @@ func (w *work) analyse(g *molecule.Graph) *mol {
 	w.i16 = growInt16(w.i16, 3*n+len(g.Bonds))
 	i16 := w.i16
 	m.ringAtom, m.rsys, m.dist, m.ringBond = i16[:n], i16[n:2*n], i16[2*n:3*n], i16[3*n:]
-	if cap(w.i8) < n {
-		w.i8 = make([]int8, n)
+	if cap(w.i8) < 2*n {
+		w.i8 = make([]int8, 2*n)
 	}
-	m.multi = w.i8[:n]
-	clear(m.multi)
+	m.multi, m.nRing = w.i8[:n], w.i8[n:2*n]
+	clear(w.i8[:2*n])
 	if cap(w.ints) < 4*n {
 		w.ints = make([]int, 4*n)
 	}
@@ -106,6 +113,11 @@ func (w *work) analyse(g *molecule.Graph) *mol {
 			if r == 0 {
 				continue
 			}
+			m.nRing[b.A]++
+			m.nRing[b.B]++
+			if m.nRing[b.A] >= 3 || m.nRing[b.B] >= 3 {
+				m.poly = true
+			}
 			for _, x := range [2]int{b.A, b.B} {
 				if m.ringAtom[x] == 0 || r < m.ringAtom[x] {
 					m.ringAtom[x] = r
@@ -113,6 +125,18 @@ func (w *work) analyse(g *molecule.Graph) *mol {
 			}
 		}
 		m.ringSystems()
+		for bi, b := range g.Bonds {
+			if b.Order != molecule.Double || m.ringBond[bi] != 0 {
+				continue
+			}
+			for _, x := range [2]int{b.A, b.B} {
+				if sz := m.ringAtom[x]; sz >= 5 && sz <= 7 && g.Atoms[x].Element == molecule.C {
+					if e := g.Atoms[b.A+b.B-x].Element; e == molecule.O || e == molecule.S {
+						m.ringCO = true
+					}
+				}
+			}
+		}
 	}
 	for i := range g.Atoms {
 		if m.arom[i] {

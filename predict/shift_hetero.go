@@ -33,6 +33,13 @@ func (p *Predictor) exchangeable(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 		ey := g.Atoms[y].Element
 		switch {
 		case ey == molecule.C && m.arom[y]:
+			if v, what := m.chelatedPhenol(y); v > 0 {
+				exch(r, ac, "OH (phenol, H-bonded to "+what+")", v, v-1.5, v+1.5)
+				if p.opts.Explain {
+					r.reasons = append(r.reasons, "intramolecular hydrogen bond to the ortho "+what+": the OH is a sharp singlet far downfield, little dependent on concentration")
+				}
+				return
+			}
 			exch(r, ac, "OH (phenol)", 5.5, 4, 8)
 		case ey == molecule.C && (m.carbonylOf(y) >= 0 || m.thioCarbonylOf(y) >= 0):
 			exch(r, ac, "COOH (acid)", 11.5, 10, 13)
@@ -226,4 +233,64 @@ func (p *Predictor) boronH(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 	if p.opts.Explain {
 		r.reasons = append(r.reasons, "B–H: broadened by the quadrupolar 11B nucleus; reported as a broad singlet, couplings not resolved")
 	}
+}
+
+// chelatedPhenol: for the aromatic carbon y carrying an OH, the shift of an
+// OH held by an intramolecular hydrogen bond to an acceptor on an ortho
+// ring carbon, and the acceptor's name; 0 if there is none. Aldehyde 11.0
+// and ester 10.8 from salicylaldehyde (11.03) and methyl salicylate (10.76)
+// (testdata/classes/hbonded_oh.json, tuning part); ketones, acids and
+// amides 11.5, the middle of the 10.5–12.5 ppm range of such OH (common
+// practice); o-nitrophenol 10.6 and o-hydroxyaryl imines 13.0 (from
+// memory).
+func (m *mol) chelatedPhenol(y int) (float64, string) {
+	g := m.g
+	best, what := 0.0, ""
+	for _, n1 := range g.Neighbors(y) {
+		z := n1.Atom
+		if !m.arom[z] || m.ringBond[n1.Bond] == 0 {
+			continue
+		}
+		for _, n2 := range g.Neighbors(z) {
+			w := n2.Atom
+			if w == y || m.ringBond[n2.Bond] != 0 || n2.Order != molecule.Single {
+				continue
+			}
+			var v float64
+			var name string
+			switch g.Atoms[w].Element {
+			case molecule.C:
+				switch s := m.classify(z, w); {
+				case s == subCHO:
+					v, name = 11.0, "C=O (aldehyde)"
+				case s == subEster:
+					v, name = 10.8, "C=O (ester)"
+				case s >= subKetone && s <= subAmideC:
+					v, name = 11.5, "C=O"
+				case s == subImineC:
+					v, name = 13.0, "C=N"
+				}
+			case molecule.N:
+				if m.classify(z, w) == subNitroso || m.nitro(w) {
+					v, name = 10.6, "NO2"
+				}
+			}
+			if v > best {
+				best, what = v, name
+			}
+		}
+	}
+	return best, what
+}
+
+// nitro reports whether N atom w is a nitro group (two O on N, one or both
+// doubly bonded, charge-separated or not).
+func (m *mol) nitro(w int) bool {
+	o := 0
+	for _, nb := range m.g.Neighbors(w) {
+		if m.g.Atoms[nb.Atom].Element == molecule.O && m.g.Degree(nb.Atom) == 1 && m.g.Atoms[nb.Atom].HCount == 0 {
+			o++
+		}
+	}
+	return o == 2
 }
