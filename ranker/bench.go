@@ -12,6 +12,7 @@ import (
 	"time"
 
 	"shiftrank/molecule"
+	"shiftrank/spectrum"
 )
 
 // Reference is one compound of an accuracy set: a formula, an observed
@@ -220,7 +221,7 @@ func (r *Ranker) Bench(ctx context.Context, set *ReferenceSet, opts BenchOptions
 // counts how many candidates score higher.
 func (r *Ranker) benchOne(ctx context.Context, ref Reference, opts BenchOptions) (BenchCase, error) {
 	c := BenchCase{Reference: ref}
-	pl, err := ParsePeaks(ref.Peaks)
+	pl, err := spectrum.ParsePeaks(ref.Peaks)
 	if err != nil {
 		return c, fmt.Errorf("peaks: %w", err)
 	}

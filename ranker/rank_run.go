@@ -14,6 +14,7 @@ import (
 	"shiftrank/isomers"
 	"shiftrank/molecule"
 	"shiftrank/predict"
+	"shiftrank/spectrum"
 )
 
 // job is a validated Request with everything parsed.
@@ -71,9 +72,9 @@ func (r *Ranker) prepare(req Request) (*job, error) {
 	j.solvent = DefaultSolvent
 	switch {
 	case req.Solvent != "":
-		c, ok := CanonicalSolvent(req.Solvent)
+		c, ok := spectrum.CanonicalSolvent(req.Solvent)
 		if !ok {
-			return nil, &RequestError{Field: "solvent", Token: req.Solvent, Msg: "unknown solvent (known: " + strings.Join(Solvents(), ", ") + ")"}
+			return nil, &RequestError{Field: "solvent", Token: req.Solvent, Msg: "unknown solvent (known: " + strings.Join(spectrum.Solvents(), ", ") + ")"}
 		}
 		j.solvent = c
 	case req.Peaks.Solvent != "":
@@ -153,16 +154,12 @@ const solventMaxH = 1.5
 // integrals of the peaks that are scored.
 func (j *job) preparePeaks() error {
 	pl := j.req.Peaks
-	if len(pl.Peaks) == 0 {
-		return &RequestError{Field: "peaks", Msg: "no peaks"}
-	}
-	if len(pl.Peaks) > MaxPeaks {
-		return &RequestError{Field: "peaks", Msg: fmt.Sprintf("%d peaks exceed the limit of %d", len(pl.Peaks), MaxPeaks)}
-	}
-	for i, p := range pl.Peaks {
-		if field, msg := checkPeak(p); msg != "" {
-			return &RequestError{Field: fmt.Sprintf("peaks[%d].%s", i, field), Pos: p.Pos, Token: p.Text, Msg: msg}
+	if err := pl.Check(); err != nil {
+		var pe *spectrum.PeakError
+		if errors.As(err, &pe) {
+			return &RequestError{Field: pe.Field, Pos: pe.Pos, Token: pe.Token, Msg: pe.Msg}
 		}
+		return &RequestError{Field: "peaks", Msg: err.Error(), Err: err}
 	}
 	j.peaks = make([]ObservedPeak, len(pl.Peaks))
 	for i, p := range pl.Peaks {
@@ -178,9 +175,9 @@ func (j *job) preparePeaks() error {
 	// the formula when every peak is counted is taken to be the
 	// compound's (tert-butyl chloride's 9 H singlet at 1.62 ppm sits on
 	// the water signal of CDCl3).
-	allH, _, scaleErr := ScaleIntegrals(pl, j.formula.HydrogenCount())
+	allH, _, scaleErr := spectrum.ScaleIntegrals(pl, j.formula.HydrogenCount())
 	var exclWarn []string
-	for _, fl := range FlagSolvent(pl, j.solvent) {
+	for _, fl := range spectrum.FlagSolvent(pl, j.solvent) {
 		k := fl.Peak
 		if k < 0 || k >= len(j.peaks) {
 			continue
@@ -213,16 +210,16 @@ func (j *job) preparePeaks() error {
 		exclWarn = []string{"every peak matches a solvent or water signal; all are scored as signals of the compound"}
 	}
 	j.warnings = append(j.warnings, exclWarn...)
-	kept := PeakList{MHz: pl.MHz, Solvent: pl.Solvent}
+	kept := spectrum.PeakList{MHz: pl.MHz, Solvent: pl.Solvent}
 	for i, p := range pl.Peaks {
 		if !excluded[i] {
 			kept.Peaks = append(kept.Peaks, p)
 			j.scored = append(j.scored, i)
 		}
 	}
-	implied, warns, err := ScaleIntegrals(kept, j.formula.HydrogenCount())
+	implied, warns, err := spectrum.ScaleIntegrals(kept, j.formula.HydrogenCount())
 	if err != nil {
-		var pe *PeakError
+		var pe *spectrum.PeakError
 		if errors.As(err, &pe) {
 			return &RequestError{Field: "peaks." + pe.Field, Pos: pe.Pos, Token: pe.Token, Msg: pe.Msg, Err: err}
 		}

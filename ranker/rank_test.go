@@ -10,15 +10,16 @@ import (
 	"time"
 
 	"shiftrank/molecule"
+	"shiftrank/spectrum"
 )
 
 // ethylAcetate is ethyl acetate in CDCl3 (Gottlieb, Kotlyar, Nudelman,
 // J. Org. Chem. 1997, 62, 7512, Table 1; from memory).
 const ethylAcetate = "1H NMR (300 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H)"
 
-func mustPeaks(t testing.TB, s string) PeakList {
+func mustPeaks(t testing.TB, s string) spectrum.PeakList {
 	t.Helper()
-	pl, err := ParsePeaks(s)
+	pl, err := spectrum.ParsePeaks(s)
 	if err != nil {
 		t.Fatalf("ParsePeaks(%q): %v", s, err)
 	}

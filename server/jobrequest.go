@@ -15,6 +15,7 @@ import (
 	"shiftrank/isomers"
 	"shiftrank/molecule"
 	"shiftrank/ranker"
+	"shiftrank/spectrum"
 )
 
 // JobRequest is the body of POST /v1/jobs. Field names are part of the
@@ -116,7 +117,7 @@ func (jr JobRequest) rankerRequest(lim limits) (ranker.Request, []FieldError) {
 		bad("/mhz", fmt.Sprintf("spectrometer frequency %g MHz is outside %d..%d", jr.MHz, minMHz, maxMHz))
 	}
 	if rr.Solvent != "" {
-		if c, ok := ranker.CanonicalSolvent(rr.Solvent); ok {
+		if c, ok := spectrum.CanonicalSolvent(rr.Solvent); ok {
 			rr.Solvent = c
 		} else {
 			bad("/solvent", fmt.Sprintf("unknown solvent %q (e.g. CDCl3, DMSO-d6, D2O, CD3OD, C6D6, acetone-d6)", truncate(rr.Solvent, 50)))
@@ -154,12 +155,12 @@ func formulaField(err error) FieldError {
 
 // parsePeaksField parses the "peaks" member: a JSON string of journal text
 // or a JSON array of peak objects.
-func parsePeaksField(raw json.RawMessage) (ranker.PeakList, []FieldError) {
+func parsePeaksField(raw json.RawMessage) (spectrum.PeakList, []FieldError) {
 	raw = bytes.TrimSpace(raw)
 	if len(raw) == 0 || string(raw) == "null" {
-		return ranker.PeakList{}, []FieldError{{Field: "/peaks", Detail: "required: journal text such as \"3.69 (q, 2H), 1.22 (t, 3H)\" or an array of peak objects"}}
+		return spectrum.PeakList{}, []FieldError{{Field: "/peaks", Detail: "required: journal text such as \"3.69 (q, 2H), 1.22 (t, 3H)\" or an array of peak objects"}}
 	}
-	var pl ranker.PeakList
+	var pl spectrum.PeakList
 	var err error
 	switch raw[0] {
 	case '"':
@@ -170,14 +171,14 @@ func parsePeaksField(raw json.RawMessage) (ranker.PeakList, []FieldError) {
 		if strings.TrimSpace(text) == "" {
 			return pl, []FieldError{{Field: "/peaks", Detail: "required: the peak list is empty"}}
 		}
-		pl, err = ranker.ParsePeaks(text)
+		pl, err = spectrum.ParsePeaks(text)
 	case '[':
-		pl, err = ranker.ParsePeaksJSON(raw)
+		pl, err = spectrum.ParsePeaksJSON(raw)
 	default:
 		return pl, []FieldError{{Field: "/peaks", Detail: "must be a string of journal text or an array of peak objects"}}
 	}
 	if err != nil {
-		var pe *ranker.PeakError
+		var pe *spectrum.PeakError
 		if errors.As(err, &pe) {
 			pos := pe.Pos
 			f := FieldError{Field: "/peaks", Detail: pe.Msg, Token: pe.Token, Position: &pos}

@@ -11,6 +11,7 @@ import (
 	"strings"
 
 	"shiftrank/ranker"
+	"shiftrank/spectrum"
 )
 
 // stringList is a repeatable string flag.
@@ -95,39 +96,39 @@ func runRank(ctx context.Context, args []string, e env) error {
 
 // readPeakList reads --peaks: inline text, @FILE or - (stdin). JSON input
 // (starting with [ or {) and JCAMP-DX (starting with ##) are recognised.
-func readPeakList(arg string, stdin io.Reader) (ranker.PeakList, error) {
+func readPeakList(arg string, stdin io.Reader) (spectrum.PeakList, error) {
 	var data []byte
 	switch {
 	case arg == "-":
-		b, err := io.ReadAll(io.LimitReader(stdin, ranker.MaxPeakInput+1))
+		b, err := io.ReadAll(io.LimitReader(stdin, spectrum.MaxPeakInput+1))
 		if err != nil {
-			return ranker.PeakList{}, fmt.Errorf("read peaks from stdin: %w", err)
+			return spectrum.PeakList{}, fmt.Errorf("read peaks from stdin: %w", err)
 		}
 		data = b
 	case strings.HasPrefix(arg, "@"):
 		b, err := os.ReadFile(arg[1:])
 		if err != nil {
-			return ranker.PeakList{}, badInputf("--peaks: %w", err)
+			return spectrum.PeakList{}, badInputf("--peaks: %w", err)
 		}
 		data = b
 	default:
 		data = []byte(arg)
 	}
-	if len(data) > ranker.MaxPeakInput {
-		return ranker.PeakList{}, badInputf("--peaks: input exceeds %d bytes", ranker.MaxPeakInput)
+	if len(data) > spectrum.MaxPeakInput {
+		return spectrum.PeakList{}, badInputf("--peaks: input exceeds %d bytes", spectrum.MaxPeakInput)
 	}
-	var pl ranker.PeakList
+	var pl spectrum.PeakList
 	var err error
 	switch t := strings.TrimSpace(string(data)); {
 	case strings.HasPrefix(t, "[") || strings.HasPrefix(t, "{"):
-		pl, err = ranker.ParsePeaksJSON(data)
+		pl, err = spectrum.ParsePeaksJSON(data)
 	case strings.HasPrefix(t, "##"):
-		pl, err = ranker.ParseJCAMP(data)
+		pl, err = spectrum.ParseJCAMP(data)
 	default:
-		pl, err = ranker.ParsePeaks(string(data))
+		pl, err = spectrum.ParsePeaks(string(data))
 	}
 	if err != nil {
-		return ranker.PeakList{}, badInputf("--peaks: %w", err)
+		return spectrum.PeakList{}, badInputf("--peaks: %w", err)
 	}
 	return pl, nil
 }

@@ -10,7 +10,7 @@ import (
 	"testing"
 
 	"shiftrank/molecule"
-	"shiftrank/ranker"
+	"shiftrank/spectrum"
 )
 
 // The page reads formulas and peak lists itself for live feedback (the DBE,
@@ -66,7 +66,7 @@ func testClientParsers(p *page) {
 		}
 	}
 
-	// Peak lists: the table's rows against ranker.ParsePeaks.
+	// Peak lists: the table's rows against spectrum.ParsePeaks.
 	in, _ = json.Marshal(peakCases)
 	var js []jsPeaks
 	p.eval(fmt.Sprintf(`import("/static/chem.js").then(m => %s.map(t => {
@@ -76,7 +76,7 @@ func testClientParsers(p *page) {
 			Rows: r.rows.map(x => ({Shift: x.shift, Mult: x.mult, J: x.j, Integral: x.integral}))};
 	}))`, in), &js)
 	for i, text := range peakCases {
-		want, err := ranker.ParsePeaks(text)
+		want, err := spectrum.ParsePeaks(text)
 		if err != nil {
 			p.t.Fatalf("service rejects notation example %q: %v", text, err)
 		}
@@ -93,7 +93,7 @@ func testClientParsers(p *page) {
 		}
 		comparePeaks(p.t, text, "page table", g.Rows, want.Peaks)
 		// What the table writes, the service reads as the same peaks.
-		back, err := ranker.ParsePeaks(g.Text)
+		back, err := spectrum.ParsePeaks(g.Text)
 		if err != nil {
 			p.t.Errorf("service rejects the table's text %q (from %q): %v", g.Text, text, err)
 			continue
@@ -151,7 +151,7 @@ func testTableTextRandom(p *page) {
 	var texts []string
 	p.eval(fmt.Sprintf(`import("/static/chem.js").then(m => %s.map(r => m.formatPeaks([{shift: r.Shift, mult: r.Mult, j: r.J, integral: r.Integral}])))`, in), &texts)
 	for i, text := range texts {
-		got, err := ranker.ParsePeaks(text)
+		got, err := spectrum.ParsePeaks(text)
 		if err != nil {
 			p.t.Errorf("service rejects the table's text %q for row %+v: %v", text, rows[i], err)
 			continue
@@ -167,7 +167,7 @@ func deref(p *int) any {
 	return *p
 }
 
-func comparePeaks(t *testing.T, text, who string, rows []jsRow, want []ranker.Peak) {
+func comparePeaks(t *testing.T, text, who string, rows []jsRow, want []spectrum.Peak) {
 	t.Helper()
 	if len(rows) != len(want) {
 		t.Errorf("%q: %s has %d peaks, service %d", text, who, len(rows), len(want))

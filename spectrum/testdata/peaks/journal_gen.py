@@ -1,4 +1,4 @@
-# Generates ranker/testdata/peaks/journal.json: positions computed here, independently of the Go parser.
+# Generates spectrum/testdata/peaks/journal.json: positions computed here, independently of the Go parser.
 import json
 cases = []
 def ok(name, inp, mhz=0, solvent="", peaks=(), source=""):

@@ -1,15 +1,15 @@
-package ranker_test
+package spectrum_test
 
 import (
 	"fmt"
 
-	"shiftrank/ranker"
+	"shiftrank/spectrum"
 )
 
 // Ethyl acetate in CDCl3 as a journal reports it (shifts from Gottlieb,
 // Kotlyar, Nudelman, J. Org. Chem. 1997, 62, 7512; from memory).
 func ExampleParsePeaks() {
-	pl, err := ranker.ParsePeaks("1H NMR (400 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H).")
+	pl, err := spectrum.ParsePeaks("1H NMR (400 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H).")
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -26,21 +26,21 @@ func ExampleParsePeaks() {
 }
 
 func ExampleParsePeaks_error() {
-	_, err := ranker.ParsePeaks("δ 4.12 (q, 2H), 2.05 (s, J = 7.1 Hz, 3H)")
+	_, err := spectrum.ParsePeaks("δ 4.12 (q, 2H), 2.05 (s, J = 7.1 Hz, 3H)")
 	fmt.Println(err)
 	// Output:
 	// peak list: j: J given for a singlet at position 26 ("J = 7.1 Hz")
 }
 
 func ExamplePeakList_String() {
-	pl, _ := ranker.ParsePeaks("δH (CDCl3; 500 MHz) 7.20-7.35 (5 H, m), 5.1 (brs, 1 H)")
+	pl, _ := spectrum.ParsePeaks("δH (CDCl3; 500 MHz) 7.20-7.35 (5 H, m), 5.1 (brs, 1 H)")
 	fmt.Println(pl)
 	// Output:
 	// 1H NMR (500 MHz, CDCl3) δ 7.35–7.2 (m, 5H), 5.1 (br s, 1H)
 }
 
 func ExampleParsePeaksJSON() {
-	pl, err := ranker.ParsePeaksJSON([]byte(`{"mhz": 400, "solvent": "CDCl3", "peaks": [
+	pl, err := spectrum.ParsePeaksJSON([]byte(`{"mhz": 400, "solvent": "CDCl3", "peaks": [
 		{"shift": 4.12, "multiplicity": "q", "j": [7.1], "integral": 2},
 		{"range": [7.35, 7.20], "multiplicity": "m", "integral": 5}]}`))
 	if err != nil {
@@ -67,7 +67,7 @@ func ExampleParseJCAMP() {
 (1.26, 45, T, <CH3>)
 ##END=
 `
-	pl, err := ranker.ParseJCAMP([]byte(jdx))
+	pl, err := spectrum.ParseJCAMP([]byte(jdx))
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -80,8 +80,8 @@ func ExampleParseJCAMP() {
 // Ethanol (C2H6O) whose OH signal was not observed; fractional integrals
 // as measured. Shifts from Gottlieb et al. 1997 (from memory).
 func ExampleScaleIntegrals() {
-	pl, _ := ranker.ParsePeaks("δ 3.72 (q, J = 7.0 Hz, 2.04H), 1.25 (t, J = 7.0 Hz, 3.1H)")
-	implied, warnings, err := ranker.ScaleIntegrals(pl, 6)
+	pl, _ := spectrum.ParsePeaks("δ 3.72 (q, J = 7.0 Hz, 2.04H), 1.25 (t, J = 7.0 Hz, 3.1H)")
+	implied, warnings, err := spectrum.ScaleIntegrals(pl, 6)
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -96,8 +96,8 @@ func ExampleScaleIntegrals() {
 }
 
 func ExampleFlagSolvent() {
-	pl, _ := ranker.ParsePeaks("1H NMR (DMSO-d6) δ 7.9 (d, J = 8 Hz, 2H), 3.34 (br s), 2.50 (quint), 2.35 (s, 3H)")
-	for _, f := range ranker.FlagSolvent(pl, "") {
+	pl, _ := spectrum.ParsePeaks("1H NMR (DMSO-d6) δ 7.9 (d, J = 8 Hz, 2H), 3.34 (br s), 2.50 (quint), 2.35 (s, 3H)")
+	for _, f := range spectrum.FlagSolvent(pl, "") {
 		fmt.Printf("peak %d at %.2f: %s %s (exclude %v)\n", f.Peak, pl.Peaks[f.Peak].Shift, f.Signal.Kind, f.Signal.Name, f.Exclude)
 	}
 	// Output:
@@ -107,7 +107,7 @@ func ExampleFlagSolvent() {
 
 func ExampleNormalizeMultiplicity() {
 	for _, s := range []string{"brs", "doublet of triplets", "app. t", "p", "hept", "ABq"} {
-		code, apparent, ok := ranker.NormalizeMultiplicity(s)
+		code, apparent, ok := spectrum.NormalizeMultiplicity(s)
 		fmt.Printf("%q -> %q apparent=%v ok=%v\n", s, code, apparent, ok)
 	}
 	// Output:
@@ -121,7 +121,7 @@ func ExampleNormalizeMultiplicity() {
 
 func ExampleCanonicalSolvent() {
 	for _, s := range []string{"chloroform-d", "[D6]DMSO", "methanol-d4", "CCl4"} {
-		c, ok := ranker.CanonicalSolvent(s)
+		c, ok := spectrum.CanonicalSolvent(s)
 		fmt.Printf("%s -> %q %v\n", s, c, ok)
 	}
 	// Output:

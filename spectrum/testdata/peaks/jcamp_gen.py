@@ -1,4 +1,4 @@
-# Generates ranker/testdata/peaks/jcamp.json. Expected peaks are worked out by hand in
+# Generates spectrum/testdata/peaks/jcamp.json. Expected peaks are worked out by hand in
 # the comments; error positions are found here in the file bytes.
 import json, os
 D = os.path.dirname(os.path.abspath(__file__))

@@ -1,4 +1,4 @@
-# Generates ranker/testdata/peaks/json.json (format tests; invented values).
+# Generates spectrum/testdata/peaks/json.json (format tests; invented values).
 import json
 cases = []
 def ok(name, inp, mhz=0, solvent="", peaks=()):

@@ -1,4 +1,4 @@
-package ranker
+package spectrum
 
 import (
 	"fmt"
@@ -154,6 +154,27 @@ func (p Peak) String() string {
 }
 
 func peakNum(x float64) string { return strconv.FormatFloat(x, 'f', -1, 64) }
+
+// Check applies the validation every reader applies, for a list built by
+// hand: at least one and at most MaxPeaks peaks, each within the shift
+// range, with a non-negative integral and at most MaxJValues J values
+// within 0 to MaxJ Hz, and no J on a singlet. It returns nil or a
+// *PeakError whose Field is "peaks" or "peaks[i].field" (i the 0-based
+// peak index) and whose Pos and Token are the peak's Pos and Text.
+func (pl PeakList) Check() error {
+	switch {
+	case len(pl.Peaks) == 0:
+		return &PeakError{Field: "peaks", Msg: "no peaks"}
+	case len(pl.Peaks) > MaxPeaks:
+		return &PeakError{Field: "peaks", Msg: fmt.Sprintf("%d peaks exceed the limit of %d", len(pl.Peaks), MaxPeaks)}
+	}
+	for i, p := range pl.Peaks {
+		if field, msg := checkPeak(p); msg != "" {
+			return &PeakError{Pos: p.Pos, Token: p.Text, Field: fmt.Sprintf("peaks[%d].%s", i, field), Msg: msg}
+		}
+	}
+	return nil
+}
 
 // checkPeak applies the validation shared by every input format. It
 // returns a message and the field it concerns, or "" when the peak is

@@ -1,4 +1,4 @@
-package ranker
+package spectrum
 
 import (
 	"errors"
