@@ -163,7 +163,7 @@ func (j *job) preparePeaks() error {
 	}
 	j.peaks = make([]ObservedPeak, len(pl.Peaks))
 	for i, p := range pl.Peaks {
-		op := ObservedPeak{Index: i, Shift: p.Shift, Multiplicity: p.Multiplicity, J: p.J, Integral: p.Integral, Text: p.Text}
+		op := ObservedPeak{Index: i, Shift: p.Shift, Multiplicity: p.Multiplicity.Code(), J: p.J, Integral: p.Integral, Text: p.Text}
 		if p.IsRange() {
 			op.ShiftLo, op.ShiftHi = p.ShiftLo, p.ShiftHi
 		}
@@ -237,9 +237,7 @@ func (j *job) preparePeaks() error {
 			h = implied[k]
 		}
 		j.peaks[j.scored[k]].ImpliedH = h
-		mult := parsePattern(p.Multiplicity)
-		mult.apparent = p.Apparent
-		j.obs[k] = obsPeak{shift: p.Shift, lo: lo, hi: hi, mult: mult, j: p.J, h: h}
+		j.obs[k] = obsPeak{shift: p.Shift, lo: lo, hi: hi, mult: scoredPattern(p.Multiplicity), j: p.J, h: h}
 	}
 	return nil
 }
@@ -270,7 +268,7 @@ func toEnvs(sp *predict.Spectrum, buf []predEnv) []predEnv {
 		}
 		buf = append(buf, predEnv{
 			h: e.H, shift: e.Shift, lo: math.Min(lo, e.Shift), hi: math.Max(hi, e.Shift), sigma: e.Sigma,
-			mult: parsePattern(e.Multiplicity), j: e.J,
+			mult: e.Pattern, j: e.J,
 			exchangeable: e.Exchangeable, diastereotopic: e.Diastereotopic,
 		})
 	}

@@ -24,7 +24,7 @@ import (
 // Within the block:
 //   - ##PEAK ASSIGNMENTS= (XYA), (XYMA), (XYWA) or (XYMWA), one
 //     parenthesised entry per signal, "(4.12, 35.0, q, <OCH2>)": each
-//     entry is a peak; M is a multiplicity (NormalizeMultiplicity) and A
+//     entry is a peak; M is a multiplicity (ParseMultiplicity) and A
 //     the assignment, kept as Label. Used when present.
 //   - otherwise ##PEAK TABLE= (XY..XY), (XYW..XYW) or (XYM..XYM): entries
 //     "x,y" separated by spaces or semicolons. With an M column each entry
@@ -591,11 +591,11 @@ func (jc *jcamp) entry(r ldr, vars string, fields []jfield, ax axis, pos int, te
 			if f.text == "" || f.text == "?" {
 				continue
 			}
-			code, app, ok := NormalizeMultiplicity(f.text)
+			m, ok := parseMultiplicity(f.text)
 			if !ok {
 				return pk, jc.errAt(f.pos, trimTok(f.text), r.raw, "unknown multiplicity")
 			}
-			pk.Multiplicity, pk.Apparent = code, app
+			pk.Multiplicity = m
 		case 'A':
 			a := strings.TrimSpace(f.text)
 			a = strings.TrimSuffix(strings.TrimPrefix(a, "<"), ">")
@@ -723,8 +723,6 @@ var binomial = [][]float64{
 	{1, 5, 10, 10, 5, 1}, {1, 6, 15, 20, 15, 6, 1},
 }
 
-var binomialCode = []string{"", "s", "d", "t", "q", "quint", "sext", "sept"}
-
 // multiplet builds one signal from its lines (sorted high to low ppm).
 func multiplet(ls []jline, mhz float64, hasW bool) Peak {
 	var pk Peak
@@ -741,7 +739,7 @@ func multiplet(ls []jline, mhz float64, hasW bool) Peak {
 		centre = sumXY / sumY
 	}
 	pk.Multiplicity, pk.J = firstOrder(ls, mhz)
-	if pk.Multiplicity == "m" {
+	if pk.Multiplicity.IsMultiplet() {
 		// A multiplet is reported as the range of its lines.
 		pk.ShiftLo, pk.ShiftHi, pk.Shift = lo, hi, (lo+hi)/2
 	} else {
@@ -763,10 +761,10 @@ func multiplet(ls []jline, mhz float64, hasW bool) Peak {
 // firstOrder recognises n+1-rule patterns and doublets of doublets in a
 // group of lines: spacings equal within 0.5 Hz (or 10 %), intensities
 // within 30 % of the pattern. Anything else is "m".
-func firstOrder(ls []jline, mhz float64) (string, []float64) {
+func firstOrder(ls []jline, mhz float64) (Multiplicity, []float64) {
 	n := len(ls)
 	if n == 1 {
-		return "s", nil
+		return Singlet(), nil
 	}
 	sp := make([]float64, n-1)
 	for i := range sp {
@@ -791,13 +789,13 @@ func firstOrder(ls []jline, mhz float64) (string, []float64) {
 		}
 		mean = roundJ(mean / float64(len(sp)))
 		if equal && mean > 0 && (n == 2 || intensitiesFit(y, binomial[n])) {
-			return binomialCode[n], []float64{mean}
+			return Split(n), []float64{mean}
 		}
 	}
 	if n == 4 && roundJ(sp[0]) > 0 && near(sp[0], sp[2]) && !near(sp[0], sp[1]) && intensitiesFit(y, []float64{1, 1, 1, 1}) {
-		return "dd", []float64{roundJ(sp[0] + sp[1]), roundJ(sp[0])}
+		return Split(2, 2), []float64{roundJ(sp[0] + sp[1]), roundJ(sp[0])}
 	}
-	return "m", nil
+	return Multiplet(), nil
 }
 
 func intensitiesFit(y, want []float64) bool {

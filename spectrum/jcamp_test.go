@@ -89,7 +89,7 @@ func TestFirstOrderLines(t *testing.T) {
 	}
 	for _, c := range cases {
 		got, j := firstOrder(lines(c.hz, c.y), mhz)
-		if got != c.want || len(j) != len(c.j) {
+		if got.Code() != c.want || len(j) != len(c.j) {
 			t.Errorf("%s: firstOrder = %q %v, want %q %v", c.name, got, j, c.want, c.j)
 			continue
 		}
@@ -145,7 +145,7 @@ func TestParseJCAMPAssignmentsWithWidth(t *testing.T) {
 	}
 	for i, w := range want {
 		p := pl.Peaks[i]
-		if math.Abs(p.Shift-w.shift) > 1e-9 || math.Abs(p.Integral-w.integral) > 1e-9 || p.Multiplicity != w.mult || p.Label != w.label {
+		if math.Abs(p.Shift-w.shift) > 1e-9 || math.Abs(p.Integral-w.integral) > 1e-9 || p.Multiplicity.Code() != w.mult || p.Label != w.label {
 			t.Errorf("peak %d = %v (integral %g), want %.2f %s %s integral %g", i, p, p.Integral, w.shift, w.mult, w.label, w.integral)
 		}
 	}

@@ -30,24 +30,19 @@ const (
 //
 // Shift is the centre in ppm: the reported shift, or the midpoint of a
 // range. ShiftLo <= ShiftHi bound a range ("7.35–7.20 (m, 5H)"); both equal
-// Shift for a single value. Multiplicity is a normalised code (see
-// NormalizeMultiplicity): "s", "d", "t", "q", "quint", "sext", "sept",
-// "oct", "non", compounds of d/t/q ("dd", "dt", "td", "ddd", "dq", "qd",
-// "tt", ...), "m", or one of those prefixed "br " ("br s", "br d", ...);
-// "" means not reported. Apparent is set for "app t", "apparent d",
-// "pseudo-t": the pattern looks like Multiplicity but need not be first
-// order. J lists the coupling constants in Hz in the order given (may be
-// empty even for a split signal: J is optional). Integral is the relative
-// area as given, possibly fractional; 0 means not given. Label is the
-// author's assignment note ("OCH2", "H-3", "exch. D2O"), kept for display
-// and never used for scoring. Pos is the byte offset of the peak in the
-// input text and Text the original token, for error messages; for JSON
-// and JCAMP-DX input they point into that input.
+// Shift for a single value. Multiplicity is the reported pattern (the zero
+// value when not reported), apparent ("app t") and broad ("br s") marks
+// included. J lists the coupling constants in Hz in the order given (may
+// be empty even for a split signal: J is optional). Integral is the
+// relative area as given, possibly fractional; 0 means not given. Label is
+// the author's assignment note ("OCH2", "H-3", "exch. D2O"), kept for
+// display and never used for scoring. Pos is the byte offset of the peak
+// in the input text and Text the original token, for error messages; for
+// JSON and JCAMP-DX input they point into that input.
 type Peak struct {
 	Shift            float64
 	ShiftLo, ShiftHi float64
-	Multiplicity     string
-	Apparent         bool
+	Multiplicity     Multiplicity
 	J                []float64
 	Integral         float64
 	Label            string
@@ -127,12 +122,8 @@ func (p Peak) String() string {
 		b.WriteString(peakNum(p.Shift))
 	}
 	var items []string
-	if p.Multiplicity != "" {
-		m := p.Multiplicity
-		if p.Apparent {
-			m = "app " + m
-		}
-		items = append(items, m)
+	if p.Multiplicity.IsReported() {
+		items = append(items, p.Multiplicity.String())
 	}
 	if len(p.J) > 0 {
 		js := make([]string, len(p.J))
@@ -196,7 +187,7 @@ func checkPeak(p Peak) (field, msg string) {
 			return "j", fmt.Sprintf("J = %s Hz outside 0 to %g Hz", peakNum(j), MaxJ)
 		}
 	}
-	if len(p.J) > 0 && isSinglet(p.Multiplicity) {
+	if len(p.J) > 0 && p.Multiplicity.IsSinglet() {
 		return "j", "J given for a singlet"
 	}
 	return "", ""

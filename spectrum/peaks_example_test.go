@@ -105,18 +105,22 @@ func ExampleFlagSolvent() {
 	// peak 2 at 2.50: residual DMSO-d5 (exclude true)
 }
 
-func ExampleNormalizeMultiplicity() {
+func ExampleParseMultiplicity() {
 	for _, s := range []string{"brs", "doublet of triplets", "app. t", "p", "hept", "ABq"} {
-		code, apparent, ok := spectrum.NormalizeMultiplicity(s)
-		fmt.Printf("%q -> %q apparent=%v ok=%v\n", s, code, apparent, ok)
+		m, err := spectrum.ParseMultiplicity(s)
+		if err != nil {
+			fmt.Println(err)
+			continue
+		}
+		fmt.Printf("%q -> %q partners=%d apparent=%v\n", s, m.Code(), m.Partners(), m.Apparent())
 	}
 	// Output:
-	// "brs" -> "br s" apparent=false ok=true
-	// "doublet of triplets" -> "dt" apparent=false ok=true
-	// "app. t" -> "t" apparent=true ok=true
-	// "p" -> "quint" apparent=false ok=true
-	// "hept" -> "sept" apparent=false ok=true
-	// "ABq" -> "m" apparent=false ok=true
+	// "brs" -> "br s" partners=0 apparent=false
+	// "doublet of triplets" -> "dt" partners=3 apparent=false
+	// "app. t" -> "t" partners=2 apparent=true
+	// "p" -> "quint" partners=4 apparent=false
+	// "hept" -> "sept" partners=6 apparent=false
+	// "ABq" -> "m" partners=0 apparent=false
 }
 
 func ExampleCanonicalSolvent() {

@@ -16,7 +16,7 @@ import (
 //
 // or an object {"mhz": 400, "solvent": "CDCl3", "peaks": [...]}. A peak has
 // exactly one of "shift" (ppm) and "range" (two shifts in ppm, either
-// order), and optionally "multiplicity" (any spelling NormalizeMultiplicity
+// order), and optionally "multiplicity" (any spelling ParseMultiplicity
 // accepts, or ""), "apparent" (bool), "j" (Hz), "integral" (relative area,
 // positive) and "label" (free text). The parser is strict: unknown or
 // repeated fields, wrong types, trailing data and the checks of ParsePeaks
@@ -251,6 +251,7 @@ func (jp *jsonPeaks) peak(path string) (Peak, error) {
 		return pk, jp.errAt(start, jp.tokText(start), path, "expected a peak object")
 	}
 	seen := map[string]int{}
+	apparent := false // "apparent": true, which may come before "multiplicity"
 	var shift float64
 	var rng []float64
 	jPos := -1
@@ -295,12 +296,11 @@ func (jp *jsonPeaks) peak(path string) (Peak, error) {
 				return pk, err
 			}
 			if s != "" {
-				code, app, ok := NormalizeMultiplicity(s)
+				m, ok := parseMultiplicity(s)
 				if !ok {
 					return pk, jp.errAt(vpos, s, field, "unknown multiplicity")
 				}
-				pk.Multiplicity = code
-				pk.Apparent = pk.Apparent || app
+				pk.Multiplicity = m.WithApparent(m.Apparent() || apparent)
 			}
 			seen[key] = vpos
 		case "apparent":
@@ -312,7 +312,8 @@ func (jp *jsonPeaks) peak(path string) (Peak, error) {
 			if !ok {
 				return pk, jp.errAt(vpos, jp.tokText(vpos), field, "expected true or false")
 			}
-			pk.Apparent = pk.Apparent || b
+			apparent = apparent || b
+			pk.Multiplicity = pk.Multiplicity.WithApparent(pk.Multiplicity.Apparent() || b)
 			seen[key] = vpos
 		case "j":
 			vs, ps, err := jp.numbers(field)
@@ -363,7 +364,7 @@ func (jp *jsonPeaks) peak(path string) (Peak, error) {
 	default:
 		return pk, jp.errAt(start, "{", path+".shift", "missing field")
 	}
-	if len(pk.J) > 0 && isSinglet(pk.Multiplicity) {
+	if len(pk.J) > 0 && pk.Multiplicity.IsSinglet() {
 		return pk, jp.errAt(jPos, "j", path+".j", "J given for a singlet")
 	}
 	pk.Pos = start
@@ -399,7 +400,7 @@ func (pl PeakList) MarshalJSON() ([]byte, error) {
 		Peaks   []jsonPeak `json:"peaks"`
 	}{MHz: pl.MHz, Solvent: pl.Solvent, Peaks: make([]jsonPeak, len(pl.Peaks))}
 	for i, p := range pl.Peaks {
-		jpk := jsonPeak{Multiplicity: p.Multiplicity, Apparent: p.Apparent, J: p.J,
+		jpk := jsonPeak{Multiplicity: p.Multiplicity.Code(), Apparent: p.Multiplicity.Apparent(), J: p.J,
 			Integral: p.Integral, Label: p.Label}
 		if p.IsRange() {
 			jpk.Range = []float64{p.ShiftHi, p.ShiftLo}

@@ -20,7 +20,7 @@ import (
 // Each peak is a shift in ppm, or a range in either order joined by a
 // hyphen, en or em dash or minus sign ("7.35–7.20"), optionally followed
 // by a parenthesised description whose comma-separated items may come in
-// any order: a multiplicity (see NormalizeMultiplicity); coupling
+// any order: a multiplicity (see ParseMultiplicity); coupling
 // constants ("J = 8.0, 2.1 Hz", "J1 = 8.0 Hz, J2 = 2.1 Hz",
 // "J = 7.1 and 1.2 Hz", "3J = 7.1 Hz", also "8.0 Hz" or a bare number
 // right after a split multiplicity); an integral ("2H", "2 H", "2.04H");
@@ -771,32 +771,31 @@ func (p *journal) describe(pk *Peak, from, to int) error {
 			}
 			continue
 		}
-		if code, app, ok := NormalizeMultiplicity(text); ok {
+		if m, ok := parseMultiplicity(text); ok {
 			switch {
-			case pk.Multiplicity == "":
-				pk.Multiplicity, pk.Apparent = code, app
+			case !pk.Multiplicity.IsReported():
+				pk.Multiplicity = m
 				brOnly = isBareBroad(text)
-				lastMult = !isSinglet(code)
+				lastMult = !m.IsSinglet()
 			case brOnly:
 				// "(br, s)": the broad flag came first.
-				base, _ := SplitMultiplicity(code)
-				pk.Multiplicity, pk.Apparent, brOnly = "br "+base, pk.Apparent || app, false
-			case isBareBroad(text) && !strings.HasPrefix(pk.Multiplicity, "br "):
+				pk.Multiplicity, brOnly = m.WithBroad(true).WithApparent(m.Apparent() || pk.Multiplicity.Apparent()), false
+			case isBareBroad(text) && !pk.Multiplicity.Broad():
 				// "(s, br)"
-				pk.Multiplicity = "br " + pk.Multiplicity
+				pk.Multiplicity = pk.Multiplicity.WithBroad(true)
 			default:
 				return p.errAt(it.pos, text, "multiplicity", "second multiplicity for one peak")
 			}
 			continue
 		}
-		if pk.Multiplicity == "" && looksLikeCode(text) {
+		if !pk.Multiplicity.IsReported() && looksLikeCode(text) {
 			return p.errAt(it.pos, text, "multiplicity", "unknown multiplicity")
 		}
 		labels = append(labels, text)
 		lastLabel = true
 	}
 	pk.Label = strings.Join(labels, ", ")
-	if len(pk.J) > 0 && isSinglet(pk.Multiplicity) {
+	if len(pk.J) > 0 && pk.Multiplicity.IsSinglet() {
 		return p.errAt(jPos, jTok, "j", "J given for a singlet")
 	}
 	return nil

@@ -80,12 +80,12 @@ func CanonicalSolvent(name string) (string, bool) {
 // SolventSignal is a known signal of an NMR solvent: the residual
 // protio-solvent peak, dissolved water, or the TMS reference.
 type SolventSignal struct {
-	Solvent      string  // canonical solvent name
-	Kind         string  // "residual", "water" or "reference"
-	Name         string  // the species: "CHCl3", "H2O", "HOD", "TMS", ...
-	Shift        float64 // ppm
-	Multiplicity string  // as observed: "s", "quint" (CHD2 groups), "br s"
-	Tolerance    float64 // ppm: a peak this close to Shift is flagged
+	Solvent      string       // canonical solvent name
+	Kind         string       // "residual", "water" or "reference"
+	Name         string       // the species: "CHCl3", "H2O", "HOD", "TMS", ...
+	Shift        float64      // ppm
+	Multiplicity Multiplicity // as observed: s, quint (CHD2 groups), br s
+	Tolerance    float64      // ppm: a peak this close to Shift is flagged
 }
 
 // Tolerances for FlagSolvent, ppm. The residual and TMS signals are sharp
@@ -106,45 +106,45 @@ const (
 // at 0.00 (common practice).
 var solventTable = map[string][]SolventSignal{
 	SolventCDCl3: {
-		{Kind: "residual", Name: "CHCl3", Shift: 7.26, Multiplicity: "s"},
-		{Kind: "water", Name: "H2O", Shift: 1.56, Multiplicity: "s"},
-		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+		{Kind: "residual", Name: "CHCl3", Shift: 7.26, Multiplicity: Singlet()},
+		{Kind: "water", Name: "H2O", Shift: 1.56, Multiplicity: Singlet()},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
 	},
 	SolventDMSO: {
-		{Kind: "residual", Name: "DMSO-d5", Shift: 2.50, Multiplicity: "quint"},
-		{Kind: "water", Name: "H2O", Shift: 3.33, Multiplicity: "s"},
-		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+		{Kind: "residual", Name: "DMSO-d5", Shift: 2.50, Multiplicity: Split(5)},
+		{Kind: "water", Name: "H2O", Shift: 3.33, Multiplicity: Singlet()},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
 	},
 	SolventAcetone: {
-		{Kind: "residual", Name: "acetone-d5", Shift: 2.05, Multiplicity: "quint"},
-		{Kind: "water", Name: "H2O", Shift: 2.84, Multiplicity: "s"},
-		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+		{Kind: "residual", Name: "acetone-d5", Shift: 2.05, Multiplicity: Split(5)},
+		{Kind: "water", Name: "H2O", Shift: 2.84, Multiplicity: Singlet()},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
 	},
 	SolventCD3OD: {
-		{Kind: "residual", Name: "CHD2OD", Shift: 3.31, Multiplicity: "quint"},
+		{Kind: "residual", Name: "CHD2OD", Shift: 3.31, Multiplicity: Split(5)},
 		// The solvent OH (CD3OH/HOD exchange) and dissolved water give one
 		// signal at 4.87.
-		{Kind: "water", Name: "H2O/OH", Shift: 4.87, Multiplicity: "s"},
-		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+		{Kind: "water", Name: "H2O/OH", Shift: 4.87, Multiplicity: Singlet()},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
 	},
 	SolventD2O: {
-		{Kind: "water", Name: "HOD", Shift: 4.79, Multiplicity: "s"},
-		{Kind: "reference", Name: "DSS", Shift: 0.00, Multiplicity: "s"},
+		{Kind: "water", Name: "HOD", Shift: 4.79, Multiplicity: Singlet()},
+		{Kind: "reference", Name: "DSS", Shift: 0.00, Multiplicity: Singlet()},
 	},
 	SolventC6D6: {
-		{Kind: "residual", Name: "C6D5H", Shift: 7.16, Multiplicity: "s"},
-		{Kind: "water", Name: "H2O", Shift: 0.40, Multiplicity: "s"},
-		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+		{Kind: "residual", Name: "C6D5H", Shift: 7.16, Multiplicity: Singlet()},
+		{Kind: "water", Name: "H2O", Shift: 0.40, Multiplicity: Singlet()},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
 	},
 	SolventCD3CN: {
-		{Kind: "residual", Name: "CHD2CN", Shift: 1.94, Multiplicity: "quint"},
-		{Kind: "water", Name: "H2O", Shift: 2.13, Multiplicity: "s"},
-		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+		{Kind: "residual", Name: "CHD2CN", Shift: 1.94, Multiplicity: Split(5)},
+		{Kind: "water", Name: "H2O", Shift: 2.13, Multiplicity: Singlet()},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
 	},
 	SolventCD2Cl2: {
-		{Kind: "residual", Name: "CHDCl2", Shift: 5.32, Multiplicity: "t"},
-		{Kind: "water", Name: "H2O", Shift: 1.52, Multiplicity: "s"},
-		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+		{Kind: "residual", Name: "CHDCl2", Shift: 5.32, Multiplicity: Split(3)},
+		{Kind: "water", Name: "H2O", Shift: 1.52, Multiplicity: Singlet()},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
 	},
 }
 
@@ -222,7 +222,7 @@ func FlagSolvent(pl PeakList, solvent string) []PeakFlag {
 				// the compound's (a methoxy group near water in DMSO-d6):
 				// flag it without leaving it out.
 				f.Exclude = sig.Kind != "water" || math.Abs(f.Delta) <= residualTolerance ||
-					p.Integral == 0 || p.Multiplicity != "s"
+					p.Integral == 0 || p.Multiplicity.Code() != "s"
 			case p.ShiftLo-sig.Tolerance <= sig.Shift && sig.Shift <= p.ShiftHi+sig.Tolerance:
 				// Inside a range, or near a peak of another multiplicity.
 			default:
@@ -247,14 +247,14 @@ func FlagSolvent(pl PeakList, solvent string) []PeakFlag {
 // fitsSignal reports whether an observed multiplicity is consistent with a
 // solvent signal: not reported, a singlet (residual CHD2 quintets are
 // often reported as s or m at low resolution), or the signal's own pattern.
-func fitsSignal(mult string, sig SolventSignal) bool {
-	switch mult {
+func fitsSignal(m Multiplicity, sig SolventSignal) bool {
+	switch code := m.Code(); code {
 	case "", "s", "br s":
 		return true
-	case sig.Multiplicity:
+	case sig.Multiplicity.Code():
 		return true
 	case "m":
-		return sig.Kind == "residual" && sig.Multiplicity != "s"
+		return sig.Kind == "residual" && !sig.Multiplicity.IsSinglet()
 	}
 	return false
 }

@@ -179,8 +179,8 @@ func comparePeaks(t *testing.T, text, who string, rows []jsRow, want []spectrum.
 		if err != nil || math.Abs(hi-w.ShiftHi) > 1e-9 || math.Abs(lo-w.ShiftLo) > 1e-9 {
 			t.Errorf("%q peak %d: %s δ %q, service %v–%v", text, k+1, who, r.Shift, w.ShiftHi, w.ShiftLo)
 		}
-		if r.Mult != w.Multiplicity {
-			t.Errorf("%q peak %d: %s multiplicity %q, service %q", text, k+1, who, r.Mult, w.Multiplicity)
+		if r.Mult != w.Multiplicity.Code() {
+			t.Errorf("%q peak %d: %s multiplicity %q, service %q", text, k+1, who, r.Mult, w.Multiplicity.Code())
 		}
 		var j []float64
 		for _, f := range strings.FieldsFunc(r.J, func(c rune) bool { return c == ',' || c == ' ' }) {
