@@ -221,7 +221,7 @@ func (r *Ranker) Bench(ctx context.Context, set *ReferenceSet, opts BenchOptions
 // counts how many candidates score higher.
 func (r *Ranker) benchOne(ctx context.Context, ref Reference, opts BenchOptions) (BenchCase, error) {
 	c := BenchCase{Reference: ref}
-	pl, err := spectrum.ParsePeaks(ref.Peaks)
+	pl, err := spectrum.ReadList([]byte(ref.Peaks), spectrum.H1)
 	if err != nil {
 		return c, fmt.Errorf("peaks: %w", err)
 	}

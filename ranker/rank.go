@@ -34,6 +34,9 @@ type Request struct {
 	// Peaks is the observed 1H peak list (see spectrum.Read). At least one
 	// peak.
 	Peaks spectrum.PeakList
+	// Carbon is an observed 13C peak list read with Peaks (no peaks: none).
+	// It is checked but not scored yet; the result says so in a warning.
+	Carbon spectrum.PeakList
 	// MHz is the spectrometer 1H frequency (default: Peaks.MHz, else 400).
 	MHz float64
 	// Solvent (default: Peaks.Solvent, else CDCl3) decides which peaks are

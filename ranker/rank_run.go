@@ -146,6 +146,20 @@ func parseFragment(field, s string) (*molecule.Fragment, error) {
 	return fr, nil
 }
 
+// checkList validates a peak list given in the request; prefix names the
+// request field ("" for peaks, "carbon." for the 13C list).
+func checkList(prefix string, pl spectrum.PeakList) error {
+	err := pl.Check()
+	if err == nil {
+		return nil
+	}
+	var pe *spectrum.PeakError
+	if errors.As(err, &pe) {
+		return &RequestError{Field: prefix + pe.Field, Pos: pe.Pos, Token: pe.Token, Msg: pe.Msg, Err: err}
+	}
+	return &RequestError{Field: prefix + "peaks", Msg: err.Error(), Err: err}
+}
+
 // solventMaxH is the implied H count from which a peak on a solvent or
 // water shift is taken to be the compound's (see preparePeaks).
 const solventMaxH = 1.5
@@ -154,12 +168,20 @@ const solventMaxH = 1.5
 // integrals of the peaks that are scored.
 func (j *job) preparePeaks() error {
 	pl := j.req.Peaks
-	if err := pl.Check(); err != nil {
-		var pe *spectrum.PeakError
-		if errors.As(err, &pe) {
-			return &RequestError{Field: pe.Field, Pos: pe.Pos, Token: pe.Token, Msg: pe.Msg}
+	if pl.Nucleus != spectrum.H1 {
+		return &RequestError{Field: "peaks", Token: pl.Nucleus.String(), Msg: "the ranking needs a 1H peak list"}
+	}
+	if err := checkList("", pl); err != nil {
+		return err
+	}
+	if c := j.req.Carbon; len(c.Peaks) > 0 {
+		if c.Nucleus != spectrum.C13 {
+			return &RequestError{Field: "carbon", Token: c.Nucleus.String(), Msg: "not a 13C peak list"}
 		}
-		return &RequestError{Field: "peaks", Msg: err.Error(), Err: err}
+		if err := checkList("carbon.", c); err != nil {
+			return err
+		}
+		j.warnings = append(j.warnings, fmt.Sprintf("the 13C list (%d peaks) was read and checked but is not used in scoring yet: the ranking rests on the 1H list", len(c.Peaks)))
 	}
 	j.peaks = make([]ObservedPeak, len(pl.Peaks))
 	for i, p := range pl.Peaks {

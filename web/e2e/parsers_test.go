@@ -66,7 +66,7 @@ func testClientParsers(p *page) {
 		}
 	}
 
-	// Peak lists: the table's rows against spectrum.ParsePeaks.
+	// Peak lists: the table's rows against spectrum.ReadList.
 	in, _ = json.Marshal(peakCases)
 	var js []jsPeaks
 	p.eval(fmt.Sprintf(`import("/static/chem.js").then(m => %s.map(t => {
@@ -76,7 +76,7 @@ func testClientParsers(p *page) {
 			Rows: r.rows.map(x => ({Shift: x.shift, Mult: x.mult, J: x.j, Integral: x.integral}))};
 	}))`, in), &js)
 	for i, text := range peakCases {
-		want, err := spectrum.ParsePeaks(text)
+		want, err := spectrum.ReadList([]byte(text), spectrum.H1)
 		if err != nil {
 			p.t.Fatalf("service rejects notation example %q: %v", text, err)
 		}
@@ -93,7 +93,7 @@ func testClientParsers(p *page) {
 		}
 		comparePeaks(p.t, text, "page table", g.Rows, want.Peaks)
 		// What the table writes, the service reads as the same peaks.
-		back, err := spectrum.ParsePeaks(g.Text)
+		back, err := spectrum.ReadList([]byte(g.Text), spectrum.H1)
 		if err != nil {
 			p.t.Errorf("service rejects the table's text %q (from %q): %v", g.Text, text, err)
 			continue
@@ -151,7 +151,7 @@ func testTableTextRandom(p *page) {
 	var texts []string
 	p.eval(fmt.Sprintf(`import("/static/chem.js").then(m => %s.map(r => m.formatPeaks([{shift: r.Shift, mult: r.Mult, j: r.J, integral: r.Integral}])))`, in), &texts)
 	for i, text := range texts {
-		got, err := spectrum.ParsePeaks(text)
+		got, err := spectrum.ReadList([]byte(text), spectrum.H1)
 		if err != nil {
 			p.t.Errorf("service rejects the table's text %q for row %+v: %v", text, rows[i], err)
 			continue

@@ -6,50 +6,68 @@ import (
 	"shiftrank/spectrum"
 )
 
-// Ethyl acetate in CDCl3 as a journal reports it (shifts from Gottlieb,
-// Kotlyar, Nudelman, J. Org. Chem. 1997, 62, 7512; from memory).
-func ExampleParsePeaks() {
-	pl, err := spectrum.ParsePeaks("1H NMR (400 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H).")
+// Ethyl acetate in CDCl3 as a journal reports it (1H and 13C shifts
+// from Gottlieb, Kotlyar, Nudelman, J. Org. Chem. 1997, 62, 7512, Tables
+// 1 and 2; from memory).
+func ExampleRead() {
+	lists, err := spectrum.Read([]byte("1H NMR (400 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H); " +
+		"13C NMR (101 MHz, CDCl3) δ 171.36 (C), 60.49 (CH2), 21.04 (CH3), 14.19 (CH3)."))
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
-	fmt.Println(pl.MHz, pl.Solvent)
-	for _, p := range pl.Peaks {
-		fmt.Printf("%.2f ppm %s J=%v %gH\n", p.Shift, p.Multiplicity, p.J, p.Integral)
+	for _, pl := range lists {
+		fmt.Println(pl.Nucleus, pl.MHz, pl.Solvent)
+		for _, p := range pl.Peaks {
+			fmt.Printf("  %.2f ppm mult=%q J=%v integral=%g DEPT=%q\n", p.Shift, p.Multiplicity, p.J, p.Integral, p.DEPT)
+		}
 	}
 	// Output:
-	// 400 CDCl3
-	// 4.12 ppm q J=[7.1] 2H
-	// 2.05 ppm s J=[] 3H
-	// 1.26 ppm t J=[7.1] 3H
+	// 1H 400 CDCl3
+	//   4.12 ppm mult="q" J=[7.1] integral=2 DEPT=""
+	//   2.05 ppm mult="s" J=[] integral=3 DEPT=""
+	//   1.26 ppm mult="t" J=[7.1] integral=3 DEPT=""
+	// 13C 101 CDCl3
+	//   171.36 ppm mult="" J=[] integral=0 DEPT="C"
+	//   60.49 ppm mult="" J=[] integral=0 DEPT="CH2"
+	//   21.04 ppm mult="" J=[] integral=0 DEPT="CH3"
+	//   14.19 ppm mult="" J=[] integral=0 DEPT="CH3"
 }
 
-func ExampleParsePeaks_error() {
-	_, err := spectrum.ParsePeaks("δ 4.12 (q, 2H), 2.05 (s, J = 7.1 Hz, 3H)")
+func ExampleParseText_error() {
+	_, err := spectrum.ParseText("δ 4.12 (q, 2H), 2.05 (s, J = 7.1 Hz, 3H)")
 	fmt.Println(err)
 	// Output:
 	// peak list: j: J given for a singlet at position 26 ("J = 7.1 Hz")
 }
 
 func ExamplePeakList_String() {
-	pl, _ := spectrum.ParsePeaks("δH (CDCl3; 500 MHz) 7.20-7.35 (5 H, m), 5.1 (brs, 1 H)")
-	fmt.Println(pl)
+	lists, _ := spectrum.ParseText("δH (CDCl3; 500 MHz) 7.20-7.35 (5 H, m), 5.1 (brs, 1 H); δC 128.5 (2 × CH), 64.9 (CH2)")
+	for _, pl := range lists {
+		fmt.Println(pl)
+	}
 	// Output:
 	// 1H NMR (500 MHz, CDCl3) δ 7.35–7.2 (m, 5H), 5.1 (br s, 1H)
+	// 13C NMR δ 128.5 (2C, CH), 64.9 (CH2)
 }
 
-func ExampleParsePeaksJSON() {
-	pl, err := spectrum.ParsePeaksJSON([]byte(`{"mhz": 400, "solvent": "CDCl3", "peaks": [
-		{"shift": 4.12, "multiplicity": "q", "j": [7.1], "integral": 2},
-		{"range": [7.35, 7.20], "multiplicity": "m", "integral": 5}]}`))
+func ExampleParseJSON() {
+	lists, err := spectrum.ParseJSON([]byte(`[
+		{"mhz": 400, "solvent": "CDCl3", "peaks": [
+			{"shift": 4.12, "multiplicity": "q", "j": [7.1], "integral": 2},
+			{"range": [7.35, 7.20], "multiplicity": "m", "integral": 5}]},
+		{"nucleus": "13C", "mhz": 101, "peaks": [
+			{"shift": 129.3, "dept": "CH", "count": 2}]}]`))
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
-	fmt.Println(pl)
+	for _, pl := range lists {
+		fmt.Println(pl)
+	}
 	// Output:
 	// 1H NMR (400 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 7.35–7.2 (m, 5H)
+	// 13C NMR (101 MHz) δ 129.3 (2C, CH)
 }
 
 func ExampleParseJCAMP() {
@@ -67,12 +85,12 @@ func ExampleParseJCAMP() {
 (1.26, 45, T, <CH3>)
 ##END=
 `
-	pl, err := spectrum.ParseJCAMP([]byte(jdx))
+	lists, err := spectrum.ParseJCAMP([]byte(jdx))
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
-	fmt.Println(pl)
+	fmt.Println(lists[0])
 	// Output:
 	// 1H NMR (400.13 MHz, CDCl3) δ 4.12 (q, OCH2), 2.05 (s, CH3CO), 1.26 (t, CH3)
 }
@@ -80,7 +98,7 @@ func ExampleParseJCAMP() {
 // Ethanol (C2H6O) whose OH signal was not observed; fractional integrals
 // as measured. Shifts from Gottlieb et al. 1997 (from memory).
 func ExampleScaleIntegrals() {
-	pl, _ := spectrum.ParsePeaks("δ 3.72 (q, J = 7.0 Hz, 2.04H), 1.25 (t, J = 7.0 Hz, 3.1H)")
+	pl, _ := must1H("δ 3.72 (q, J = 7.0 Hz, 2.04H), 1.25 (t, J = 7.0 Hz, 3.1H)")
 	implied, warnings, err := spectrum.ScaleIntegrals(pl, 6)
 	if err != nil {
 		fmt.Println(err)
@@ -96,7 +114,7 @@ func ExampleScaleIntegrals() {
 }
 
 func ExampleFlagSolvent() {
-	pl, _ := spectrum.ParsePeaks("1H NMR (DMSO-d6) δ 7.9 (d, J = 8 Hz, 2H), 3.34 (br s), 2.50 (quint), 2.35 (s, 3H)")
+	pl, _ := must1H("1H NMR (DMSO-d6) δ 7.9 (d, J = 8 Hz, 2H), 3.34 (br s), 2.50 (quint), 2.35 (s, 3H)")
 	for _, f := range spectrum.FlagSolvent(pl, "") {
 		fmt.Printf("peak %d at %.2f: %s %s (exclude %v)\n", f.Peak, pl.Peaks[f.Peak].Shift, f.Signal.Kind, f.Signal.Name, f.Exclude)
 	}
@@ -134,3 +152,6 @@ func ExampleCanonicalSolvent() {
 	// methanol-d4 -> "CD3OD" true
 	// CCl4 -> "" false
 }
+
+// must1H reads journal text holding one 1H list, for the examples.
+func must1H(s string) (spectrum.PeakList, error) { return spectrum.ReadList([]byte(s), spectrum.H1) }

@@ -3,6 +3,7 @@ package spectrum
 import (
 	"encoding/json"
 	"errors"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -19,10 +20,13 @@ type wantPeak struct {
 	Apparent     bool      `json:"apparent"`
 	J            []float64 `json:"j"`
 	Integral     float64   `json:"integral"`
+	Count        int       `json:"count"`
+	DEPT         string    `json:"dept"`
 	Label        string    `json:"label"`
 }
 
 type wantList struct {
+	Nucleus string     `json:"nucleus"` // "" means 1H
 	MHz     float64    `json:"mhz"`
 	Solvent string     `json:"solvent"`
 	Peaks   []wantPeak `json:"peaks"`
@@ -30,19 +34,45 @@ type wantList struct {
 
 type wantErr struct {
 	Pos   int    `json:"pos"`
+	Line  int    `json:"line"` // 0: not checked
 	Token string `json:"token"`
 	Field string `json:"field"`
 }
 
 // peakCase is one case of testdata/peaks/journal.json (written by
-// journal_gen.py, which computes the expected byte positions itself).
+// journal_gen.py, which computes the expected byte positions itself) or
+// json.json. Want is the single 1H list expected, Lists the lists of an
+// input holding several.
 type peakCase struct {
-	Name   string    `json:"name"`
-	Source string    `json:"source"`
-	Input  string    `json:"input"`
-	Want   *wantList `json:"want"`
-	Err    *wantErr  `json:"err"`
+	Name   string     `json:"name"`
+	Source string     `json:"source"`
+	Input  string     `json:"input"`
+	Want   *wantList  `json:"want"`
+	Lists  []wantList `json:"lists"`
+	Err    *wantErr   `json:"err"`
 }
+
+// wantLists returns the lists a case expects.
+func (c peakCase) wantLists() []wantList {
+	if c.Want != nil {
+		return []wantList{*c.Want}
+	}
+	return c.Lists
+}
+
+// checkLists compares parsed lists with the expectation.
+func checkLists(t *testing.T, name string, got []PeakList, want []wantList) {
+	t.Helper()
+	if len(got) != len(want) {
+		t.Fatalf("%s: %d lists, want %d: %v", name, len(got), len(want), got)
+	}
+	for i := range want {
+		checkList(t, fmt.Sprintf("%s list %d", name, i), got[i], want[i])
+	}
+}
+
+// parse1H reads input holding one 1H list.
+func parse1H(s string) (PeakList, error) { return ReadList([]byte(s), H1) }
 
 func loadCases(t *testing.T, name string) []peakCase {
 	t.Helper()
@@ -63,8 +93,12 @@ const shiftTol = 1e-9
 // not compared.
 func checkList(t *testing.T, name string, got PeakList, want wantList) {
 	t.Helper()
-	if got.MHz != want.MHz || got.Solvent != want.Solvent {
-		t.Errorf("%s: header = (%g MHz, %q), want (%g MHz, %q)", name, got.MHz, got.Solvent, want.MHz, want.Solvent)
+	wantNuc := want.Nucleus
+	if wantNuc == "" {
+		wantNuc = "1H"
+	}
+	if got.Nucleus.String() != wantNuc || got.MHz != want.MHz || got.Solvent != want.Solvent {
+		t.Errorf("%s: header = (%s, %g MHz, %q), want (%s, %g MHz, %q)", name, got.Nucleus, got.MHz, got.Solvent, wantNuc, want.MHz, want.Solvent)
 	}
 	if len(got.Peaks) != len(want.Peaks) {
 		t.Fatalf("%s: %d peaks, want %d: %v", name, len(got.Peaks), len(want.Peaks), got)
@@ -99,6 +133,9 @@ func checkList(t *testing.T, name string, got PeakList, want wantList) {
 		if math.Abs(g.Integral-w.Integral) > 1e-9 {
 			t.Errorf("%s: peak %d integral = %g, want %g", name, i, g.Integral, w.Integral)
 		}
+		if g.Count != w.Count || g.DEPT.String() != w.DEPT {
+			t.Errorf("%s: peak %d count, DEPT = %d, %q; want %d, %q", name, i, g.Count, g.DEPT, w.Count, w.DEPT)
+		}
 		if g.Label != w.Label {
 			t.Errorf("%s: peak %d label = %q, want %q", name, i, g.Label, w.Label)
 		}
@@ -111,40 +148,42 @@ func checkErr(t *testing.T, name string, err error, want wantErr) {
 	if !errors.As(err, &pe) {
 		t.Fatalf("%s: error = %v (%T), want a *PeakError", name, err, err)
 	}
-	if pe.Pos != want.Pos || pe.Token != want.Token || pe.Field != want.Field {
-		t.Errorf("%s: error at %d %q field %q (%v), want at %d %q field %q",
-			name, pe.Pos, pe.Token, pe.Field, err, want.Pos, want.Token, want.Field)
+	if pe.Pos != want.Pos || pe.Token != want.Token || pe.Field != want.Field || want.Line != 0 && pe.Line != want.Line {
+		t.Errorf("%s: error at %d (line %d) %q field %q (%v), want at %d (line %d) %q field %q",
+			name, pe.Pos, pe.Line, pe.Token, pe.Field, err, want.Pos, want.Line, want.Token, want.Field)
 	}
 }
 
-func TestParsePeaks(t *testing.T) {
+func TestParseText(t *testing.T) {
 	for _, c := range loadCases(t, "journal.json") {
 		t.Run(c.Name, func(t *testing.T) {
-			pl, err := ParsePeaks(c.Input)
+			lists, err := ParseText(c.Input)
 			if c.Err != nil {
 				if err == nil {
-					t.Fatalf("ParsePeaks(%q) = %v, want an error", c.Input, pl)
+					t.Fatalf("ParseText(%q) = %v, want an error", c.Input, lists)
 				}
 				checkErr(t, c.Name, err, *c.Err)
 				return
 			}
 			if err != nil {
-				t.Fatalf("ParsePeaks(%q): %v", c.Input, err)
+				t.Fatalf("ParseText(%q): %v", c.Input, err)
 			}
-			checkList(t, c.Name, pl, *c.Want)
-			// Positions point at the peak text in the input.
-			for i, p := range pl.Peaks {
-				if p.Pos < 0 || p.Pos+len(p.Text) > len(c.Input) || c.Input[p.Pos:p.Pos+len(p.Text)] != p.Text {
-					t.Errorf("peak %d: Pos %d, Text %q do not point into the input", i, p.Pos, p.Text)
+			checkLists(t, c.Name, lists, c.wantLists())
+			for _, pl := range lists {
+				// Positions point at the peak text in the input.
+				for i, p := range pl.Peaks {
+					if p.Pos < 0 || p.Pos+len(p.Text) > len(c.Input) || c.Input[p.Pos:p.Pos+len(p.Text)] != p.Text {
+						t.Errorf("peak %d: Pos %d, Text %q do not point into the input", i, p.Pos, p.Text)
+					}
 				}
-			}
-			// The journal form written by String parses back to the same list.
-			again, err := ParsePeaks(pl.String())
-			if err != nil {
-				t.Fatalf("ParsePeaks(String() = %q): %v", pl.String(), err)
-			}
-			if !samePeaks(pl, again) {
-				t.Errorf("round trip:\n got %v\nwant %v", again, pl)
+				// The journal form written by String parses back to the same list.
+				again, err := ParseText(pl.String())
+				if err != nil {
+					t.Fatalf("ParseText(String() = %q): %v", pl.String(), err)
+				}
+				if len(again) != 1 || !samePeaks(pl, again[0]) {
+					t.Errorf("round trip:\n got %v\nwant %v", again, pl)
+				}
 			}
 		})
 	}
@@ -152,7 +191,7 @@ func TestParsePeaks(t *testing.T) {
 
 // samePeaks compares two lists ignoring Pos and Text.
 func samePeaks(a, b PeakList) bool {
-	if a.MHz != b.MHz || a.Solvent != b.Solvent || len(a.Peaks) != len(b.Peaks) {
+	if a.Nucleus != b.Nucleus || a.MHz != b.MHz || a.Solvent != b.Solvent || len(a.Peaks) != len(b.Peaks) {
 		return false
 	}
 	for i := range a.Peaks {
@@ -183,15 +222,15 @@ func TestPeakString(t *testing.T) {
 	}
 }
 
-func TestParsePeaksLimits(t *testing.T) {
+func TestParseTextLimits(t *testing.T) {
 	big := make([]byte, MaxPeakInput+1)
 	for i := range big {
 		big[i] = ' '
 	}
-	if _, err := ParsePeaks(string(big)); err == nil {
-		t.Error("ParsePeaks accepted more than MaxPeakInput bytes")
+	if _, err := ParseText(string(big)); err == nil {
+		t.Error("ParseText accepted more than MaxPeakInput bytes")
 	}
-	if _, err := ParsePeaks("δ 2.05 (s, 3H)\xff"); err == nil {
-		t.Error("ParsePeaks accepted invalid UTF-8")
+	if _, err := ParseText("δ 2.05 (s, 3H)\xff"); err == nil {
+		t.Error("ParseText accepted invalid UTF-8")
 	}
 }
