@@ -5,6 +5,7 @@ import (
 	"strconv"
 
 	"shiftrank/molecule"
+	"shiftrank/spectrum"
 )
 
 // Coupling constants, Hz (common practice; Pretsch and Friebolin ch. 3,
@@ -549,13 +550,21 @@ const (
 	mergeTolHz = 1.5
 )
 
-var nameN = [...]string{"s", "d", "t", "q", "quint", "sext", "sept"}
+// maxSingleN is the largest number of equivalent partners named as one
+// n+1 pattern (a septet); more read as "m".
+const maxSingleN = 6
 
-// name sets Multiplicity and J of environment id from its couplings.
+// setPattern sets the typed and the written multiplicity of e.
+func setPattern(e *Environment, m spectrum.Multiplicity) {
+	e.Pattern, e.Multiplicity = m, m.Code()
+}
+
+// name sets Pattern, Multiplicity and J of environment id from its
+// couplings.
 func (p *Predictor) name(envs []Environment, id int) {
 	e := &envs[id]
 	if e.Exchangeable || (len(e.Couplings) == 0 && e.Multiplicity == "br s") {
-		e.Multiplicity = "br s"
+		setPattern(e, spectrum.Singlet().WithBroad(true))
 		return
 	}
 	type cl struct {
@@ -607,7 +616,7 @@ func (p *Predictor) name(envs []Environment, id int) {
 	explain := p.opts.Explain
 	for _, c := range e.Couplings {
 		if c.Resolved && len(c.Label) > 12 && c.Label[:12] == "ring vicinal" {
-			e.Multiplicity = "m"
+			setPattern(e, spectrum.Multiplet())
 			if explain {
 				e.Reasons = append(e.Reasons, "vicinal couplings in a saturated ring differ for cis and trans neighbours and the ring protons are magnetically inequivalent: m")
 			}
@@ -615,14 +624,14 @@ func (p *Predictor) name(envs []Environment, id int) {
 		}
 	}
 	if strong >= 0 {
-		e.Multiplicity = "m"
+		setPattern(e, spectrum.Multiplet())
 		if explain {
 			e.Reasons = append(e.Reasons, "strongly coupled to environment "+itoa(strong)+" (Δν/J = "+ftoa1(ratio)+" at "+ftoa1(p.opts.MHz)+" MHz): second-order multiplet, reported as m")
 		}
 		return
 	}
 	if nc > len(cls) {
-		e.Multiplicity = "m"
+		setPattern(e, spectrum.Multiplet())
 		return
 	}
 	// Largest J first.
@@ -631,32 +640,30 @@ func (p *Predictor) name(envs []Environment, id int) {
 			cls[k], cls[k-1] = cls[k-1], cls[k]
 		}
 	}
-	name := ""
-	lines := 1
+	pat := spectrum.Multiplet()
 	switch {
 	case nc == 0:
-		name = "s"
-	case nc == 1 && cls[0].n < len(nameN):
-		name = nameN[cls[0].n]
-		lines = cls[0].n + 1
-	case nc == 1:
-		name = "m"
+		pat = spectrum.Singlet()
+	case nc == 1 && cls[0].n <= maxSingleN:
+		pat = spectrum.Split(cls[0].n + 1)
 	case nc <= 3:
+		// A compound pattern of d, t and q factors with at most 16 lines.
+		var f [3]int
+		lines := 1
 		for k := 0; k < nc; k++ {
 			if cls[k].n > 3 {
-				name = "m"
+				lines = 0
 				break
 			}
-			name += nameN[cls[k].n]
-			lines *= cls[k].n + 1
+			f[k] = cls[k].n + 1
+			lines *= f[k]
 		}
-		if name != "m" && lines > 16 {
-			name = "m"
+		if lines > 0 && lines <= 16 {
+			pat = spectrum.Split(f[:nc]...)
 		}
-	default:
-		name = "m"
 	}
-	e.Multiplicity = name
+	setPattern(e, pat)
+	name := e.Multiplicity
 	if name != "m" && name != "s" {
 		e.J = make([]float64, nc)
 		for k := 0; k < nc; k++ {

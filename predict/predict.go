@@ -6,6 +6,7 @@ import (
 	"sync"
 
 	"shiftrank/molecule"
+	"shiftrank/spectrum"
 )
 
 // Options configures a Predictor. The zero value means the defaults.
@@ -107,9 +108,14 @@ type Environment struct {
 	// the wide range of an exchangeable hydrogen. Both equal Shift
 	// otherwise.
 	ShiftMin, ShiftMax float64
-	// Multiplicity is the expected first-order appearance: "s", "d", "t",
-	// "q", "quint", "sext", "sept", "dd", "dt", "td", "tt", "dq", "qd",
-	// "ddd", "m" (multiplet) or "br s" (broad singlet).
+	// Pattern is the expected first-order appearance in typed form: a
+	// singlet, an n+1 pattern ("d" to "sept"), a compound of d, t and q
+	// factors of at most 16 lines ("dd", "dt", "td", "tt", "dq", "qd",
+	// "ddd"), a multiplet, or a broad singlet. Scoring compares it with
+	// the observed spectrum.Multiplicity without reading text.
+	Pattern spectrum.Multiplicity
+	// Multiplicity is Pattern written as its code ("s", "dt", "m",
+	// "br s"), for reports.
 	Multiplicity string
 	// Couplings lists every predicted coupling of one hydrogen of this
 	// environment, resolved or not, largest J first.

@@ -14,6 +14,7 @@ import (
 
 	"shiftrank/infer"
 	"shiftrank/molecule"
+	"shiftrank/spectrum"
 )
 
 // Reference is one compound of an accuracy set: a formula, an observed
@@ -254,7 +255,7 @@ func (r *Ranker) Bench(ctx context.Context, set *ReferenceSet, opts BenchOptions
 // counts how many candidates score higher.
 func (r *Ranker) benchOne(ctx context.Context, ref Reference, opts BenchOptions) (BenchCase, error) {
 	c := BenchCase{Reference: ref}
-	pl, err := ParsePeaks(ref.Peaks)
+	pl, err := spectrum.ReadList([]byte(ref.Peaks), spectrum.H1)
 	if err != nil {
 		return c, fmt.Errorf("peaks: %w", err)
 	}

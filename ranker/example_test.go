@@ -6,13 +6,14 @@ import (
 
 	"shiftrank/molecule"
 	"shiftrank/ranker"
+	"shiftrank/spectrum"
 )
 
 // Rank the isomers of C4H8O2 against the published spectrum of ethyl
 // acetate in CDCl3 (Gottlieb, Kotlyar, Nudelman, J. Org. Chem. 1997, 62,
 // 7512; from memory).
 func ExampleRanker_Rank() {
-	pl, err := ranker.ParsePeaks("1H NMR (300 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H)")
+	pl, err := spectrum.ReadList([]byte("1H NMR (300 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H)"), spectrum.H1)
 	if err != nil {
 		fmt.Println(err)
 		return

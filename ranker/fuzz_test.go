@@ -3,6 +3,8 @@ package ranker
 import (
 	"errors"
 	"testing"
+
+	"shiftrank/spectrum"
 )
 
 // FuzzParseReferenceSet checks that reading an accuracy-set file never
@@ -38,7 +40,7 @@ func FuzzPrepare(f *testing.F) {
 	f.Add("Xy", "", "", "", "", 1e9, "D2O")
 	r := New(Options{Workers: 1})
 	f.Fuzz(func(t *testing.T, formula, filter, require, forbid, peaks string, mhz float64, solvent string) {
-		pl, err := ParsePeaks(peaks)
+		pl, err := spectrum.ReadList([]byte(peaks), spectrum.H1)
 		if err != nil {
 			return
 		}

@@ -4,12 +4,14 @@ import (
 	"fmt"
 	"runtime"
 	"time"
+
+	"shiftrank/spectrum"
 )
 
 // Request defaults and limits.
 const (
 	DefaultMHz           = 400.0
-	DefaultSolvent       = SolventCDCl3
+	DefaultSolvent       = spectrum.SolventCDCl3
 	DefaultTopK          = 10
 	MaxTopK              = 200
 	DefaultFilter        = "plausible"
@@ -29,8 +31,12 @@ type Request struct {
 	// Formula is the molecular formula ("C4H8O2"), parsed with
 	// molecule.ParseFormulaLimit and MaxHeavyAtoms.
 	Formula string
-	// Peaks is the observed peak list (see ParsePeaks). At least one peak.
-	Peaks PeakList
+	// Peaks is the observed 1H peak list (see spectrum.Read). At least one
+	// peak.
+	Peaks spectrum.PeakList
+	// Carbon is an observed 13C peak list read with Peaks (no peaks: none).
+	// It is checked but not scored yet; the result says so in a warning.
+	Carbon spectrum.PeakList
 	// MHz is the spectrometer 1H frequency (default: Peaks.MHz, else 400).
 	MHz float64
 	// Solvent (default: Peaks.Solvent, else CDCl3) decides which peaks are

@@ -15,6 +15,7 @@ import (
 	"shiftrank/isomers"
 	"shiftrank/molecule"
 	"shiftrank/predict"
+	"shiftrank/spectrum"
 )
 
 // job is a validated Request with everything parsed.
@@ -73,9 +74,9 @@ func (r *Ranker) prepare(req Request) (*job, error) {
 	j.solvent = DefaultSolvent
 	switch {
 	case req.Solvent != "":
-		c, ok := CanonicalSolvent(req.Solvent)
+		c, ok := spectrum.CanonicalSolvent(req.Solvent)
 		if !ok {
-			return nil, &RequestError{Field: "solvent", Token: req.Solvent, Msg: "unknown solvent (known: " + strings.Join(Solvents(), ", ") + ")"}
+			return nil, &RequestError{Field: "solvent", Token: req.Solvent, Msg: "unknown solvent (known: " + strings.Join(spectrum.Solvents(), ", ") + ")"}
 		}
 		j.solvent = c
 	case req.Peaks.Solvent != "":
@@ -154,6 +155,20 @@ func parseFragment(field, s string) (*molecule.Fragment, error) {
 	return fr, nil
 }
 
+// checkList validates a peak list given in the request; prefix names the
+// request field ("" for peaks, "carbon." for the 13C list).
+func checkList(prefix string, pl spectrum.PeakList) error {
+	err := pl.Check()
+	if err == nil {
+		return nil
+	}
+	var pe *spectrum.PeakError
+	if errors.As(err, &pe) {
+		return &RequestError{Field: prefix + pe.Field, Pos: pe.Pos, Token: pe.Token, Msg: pe.Msg, Err: err}
+	}
+	return &RequestError{Field: prefix + "peaks", Msg: err.Error(), Err: err}
+}
+
 // solventMaxH is the implied H count from which a peak on a solvent or
 // water shift is taken to be the compound's (see preparePeaks).
 const solventMaxH = 1.5
@@ -162,20 +177,24 @@ const solventMaxH = 1.5
 // integrals of the peaks that are scored.
 func (j *job) preparePeaks() error {
 	pl := j.req.Peaks
-	if len(pl.Peaks) == 0 {
-		return &RequestError{Field: "peaks", Msg: "no peaks"}
+	if pl.Nucleus != spectrum.H1 {
+		return &RequestError{Field: "peaks", Token: pl.Nucleus.String(), Msg: "the ranking needs a 1H peak list"}
 	}
-	if len(pl.Peaks) > MaxPeaks {
-		return &RequestError{Field: "peaks", Msg: fmt.Sprintf("%d peaks exceed the limit of %d", len(pl.Peaks), MaxPeaks)}
+	if err := checkList("", pl); err != nil {
+		return err
 	}
-	for i, p := range pl.Peaks {
-		if field, msg := checkPeak(p); msg != "" {
-			return &RequestError{Field: fmt.Sprintf("peaks[%d].%s", i, field), Pos: p.Pos, Token: p.Text, Msg: msg}
+	if c := j.req.Carbon; len(c.Peaks) > 0 {
+		if c.Nucleus != spectrum.C13 {
+			return &RequestError{Field: "carbon", Token: c.Nucleus.String(), Msg: "not a 13C peak list"}
 		}
+		if err := checkList("carbon.", c); err != nil {
+			return err
+		}
+		j.warnings = append(j.warnings, fmt.Sprintf("the 13C list (%d peaks) was read and checked but is not used in scoring yet: the ranking rests on the 1H list", len(c.Peaks)))
 	}
 	j.peaks = make([]ObservedPeak, len(pl.Peaks))
 	for i, p := range pl.Peaks {
-		op := ObservedPeak{Index: i, Shift: p.Shift, Multiplicity: p.Multiplicity, J: p.J, Integral: p.Integral, Text: p.Text}
+		op := ObservedPeak{Index: i, Shift: p.Shift, Multiplicity: p.Multiplicity.Code(), J: p.J, Integral: p.Integral, Text: p.Text}
 		if p.IsRange() {
 			op.ShiftLo, op.ShiftHi = p.ShiftLo, p.ShiftHi
 		}
@@ -187,9 +206,9 @@ func (j *job) preparePeaks() error {
 	// the formula when every peak is counted is taken to be the
 	// compound's (tert-butyl chloride's 9 H singlet at 1.62 ppm sits on
 	// the water signal of CDCl3).
-	allH, _, scaleErr := ScaleIntegrals(pl, j.formula.HydrogenCount())
+	allH, _, scaleErr := spectrum.ScaleIntegrals(pl, j.formula.HydrogenCount())
 	var exclWarn []string
-	for _, fl := range FlagSolvent(pl, j.solvent) {
+	for _, fl := range spectrum.FlagSolvent(pl, j.solvent) {
 		k := fl.Peak
 		if k < 0 || k >= len(j.peaks) {
 			continue
@@ -222,16 +241,16 @@ func (j *job) preparePeaks() error {
 		exclWarn = []string{"every peak matches a solvent or water signal; all are scored as signals of the compound"}
 	}
 	j.warnings = append(j.warnings, exclWarn...)
-	kept := PeakList{MHz: pl.MHz, Solvent: pl.Solvent}
+	kept := spectrum.PeakList{MHz: pl.MHz, Solvent: pl.Solvent}
 	for i, p := range pl.Peaks {
 		if !excluded[i] {
 			kept.Peaks = append(kept.Peaks, p)
 			j.scored = append(j.scored, i)
 		}
 	}
-	implied, warns, err := ScaleIntegrals(kept, j.formula.HydrogenCount())
+	implied, warns, err := spectrum.ScaleIntegrals(kept, j.formula.HydrogenCount())
 	if err != nil {
-		var pe *PeakError
+		var pe *spectrum.PeakError
 		if errors.As(err, &pe) {
 			return &RequestError{Field: "peaks." + pe.Field, Pos: pe.Pos, Token: pe.Token, Msg: pe.Msg, Err: err}
 		}
@@ -249,9 +268,7 @@ func (j *job) preparePeaks() error {
 			h = implied[k]
 		}
 		j.peaks[j.scored[k]].ImpliedH = h
-		mult := parsePattern(p.Multiplicity)
-		mult.apparent = p.Apparent
-		j.obs[k] = obsPeak{shift: p.Shift, lo: lo, hi: hi, mult: mult, j: p.J, h: h}
+		j.obs[k] = obsPeak{shift: p.Shift, lo: lo, hi: hi, mult: scoredPattern(p.Multiplicity), j: p.J, h: h}
 	}
 	return nil
 }
@@ -282,7 +299,7 @@ func toEnvs(sp *predict.Spectrum, buf []predEnv) []predEnv {
 		}
 		buf = append(buf, predEnv{
 			h: e.H, shift: e.Shift, lo: math.Min(lo, e.Shift), hi: math.Max(hi, e.Shift), sigma: e.Sigma,
-			mult: parsePattern(e.Multiplicity), j: e.J,
+			mult: e.Pattern, j: e.J,
 			exchangeable: e.Exchangeable, diastereotopic: e.Diastereotopic,
 		})
 	}

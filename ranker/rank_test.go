@@ -9,18 +9,22 @@ import (
 	"testing"
 	"time"
 
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+
 	"shiftrank/molecule"
+	"shiftrank/spectrum"
 )
 
 // ethylAcetate is ethyl acetate in CDCl3 (Gottlieb, Kotlyar, Nudelman,
 // J. Org. Chem. 1997, 62, 7512, Table 1; from memory).
 const ethylAcetate = "1H NMR (300 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H)"
 
-func mustPeaks(t testing.TB, s string) PeakList {
+func mustPeaks(t testing.TB, s string) spectrum.PeakList {
 	t.Helper()
-	pl, err := ParsePeaks(s)
+	pl, err := spectrum.ReadList([]byte(s), spectrum.H1)
 	if err != nil {
-		t.Fatalf("ParsePeaks(%q): %v", s, err)
+		t.Fatalf("ReadList(%q): %v", s, err)
 	}
 	return pl
 }
@@ -51,6 +55,10 @@ func TestRankRequestErrors(t *testing.T) {
 		{"negative budget", Request{Formula: "C4H8O2", Peaks: pl, TimeBudget: -time.Second}, "time_budget", "-1s"},
 		{"unknown solvent", Request{Formula: "C4H8O2", Peaks: pl, Solvent: "THF-d8x"}, "solvent", "THF-d8x"},
 		{"too many H for the peaks", Request{Formula: "CH4O", Peaks: mustPeaks(t, "5.0 (s, 1H), 4.0 (s, 1H), 3.0 (s, 1H), 2.0 (s, 1H), 1.0 (s, 1H)")}, "peaks", ""},
+		{"13C list as the peaks", Request{Formula: "C4H8O2", Peaks: carbonList(t)}, "peaks", "13C"},
+		{"1H list as the 13C list", Request{Formula: "C4H8O2", Peaks: pl, Carbon: pl}, "carbon", "1H"},
+		{"bad 13C list", Request{Formula: "C4H8O2", Peaks: pl, Carbon: spectrum.PeakList{Nucleus: spectrum.C13,
+			Peaks: []spectrum.Peak{{Shift: 300, ShiftLo: 300, ShiftHi: 300, Text: "300"}}}}, "carbon.peaks[0].shift", "300"},
 	}
 	r := New(Options{Workers: 1})
 	for _, tc := range tests {
@@ -68,6 +76,39 @@ func TestRankRequestErrors(t *testing.T) {
 			}
 		})
 	}
+}
+
+// carbonList is the 13C list of ethyl acetate in CDCl3 (Gottlieb, Kotlyar,
+// Nudelman, J. Org. Chem. 1997, 62, 7512, Table 2; from memory).
+func carbonList(t testing.TB) spectrum.PeakList {
+	t.Helper()
+	pl, err := spectrum.ReadList([]byte("13C NMR (101 MHz, CDCl3) δ 171.36, 60.49, 21.04, 14.19"), spectrum.C13)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return pl
+}
+
+// TestRankCarbonListNotScored: a 13C list given with the 1H list leaves
+// the ranking as it is and says so.
+func TestRankCarbonListNotScored(t *testing.T) {
+	r := New(Options{Workers: 1})
+	req := Request{Formula: "C4H8O2", Peaks: mustPeaks(t, ethylAcetate), TopK: 3}
+	without, err := r.Rank(context.Background(), req, nil)
+	require.NoError(t, err)
+	req.Carbon = carbonList(t)
+	with, err := r.Rank(context.Background(), req, nil)
+	require.NoError(t, err)
+	require.Len(t, with.Candidates, len(without.Candidates))
+	for i := range with.Candidates {
+		assert.Equal(t, without.Candidates[i].SMILES, with.Candidates[i].SMILES)
+		assert.InDelta(t, without.Candidates[i].Score, with.Candidates[i].Score, 1e-9)
+	}
+	found := false
+	for _, w := range with.Warnings {
+		found = found || strings.Contains(w, "13C list (4 peaks)")
+	}
+	assert.True(t, found, "warnings %q should mention the 13C list", with.Warnings)
 }
 
 func TestRankEthylAcetate(t *testing.T) {

@@ -2,7 +2,8 @@ package ranker
 
 import (
 	"math"
-	"strings"
+
+	"shiftrank/spectrum"
 )
 
 // Model holds the parameters of the likelihood that scores a candidate
@@ -160,7 +161,7 @@ type predEnv struct {
 	h              int
 	shift, lo, hi  float64
 	sigma          float64
-	mult           pattern
+	mult           spectrum.Multiplicity
 	j              []float64 // Hz, largest first
 	exchangeable   bool
 	diastereotopic bool
@@ -169,7 +170,7 @@ type predEnv struct {
 // obsPeak is the part of an observed peak the likelihood reads.
 type obsPeak struct {
 	shift, lo, hi float64
-	mult          pattern
+	mult          spectrum.Multiplicity // as scoredPattern returns it
 	j             []float64
 	h             float64 // implied H from the integral, 0 when not given
 }
@@ -271,7 +272,7 @@ func (s *scorer) pairCost(t terms, w float64) float64 {
 
 // overlapCost returns the cost of one extra environment on peak p.
 func (s *scorer) overlapCost(p *obsPeak) float64 {
-	if p.mult.kind != patFirstOrder || p.lo != p.hi {
+	if !p.mult.IsFirstOrder() || p.lo != p.hi {
 		return 0
 	}
 	return s.m.Overlap
@@ -354,94 +355,17 @@ func (s *scorer) score(envs []predEnv, peaks []obsPeak) (float64, assignment) {
 	return -a.cost, a
 }
 
-// pattern is a parsed multiplicity: the line counts of its coupling
-// groups ("dt" = [2 3]), or one of the special kinds.
-type pattern struct {
-	kind     patternKind
-	broad    bool
-	apparent bool     // reported as "app t", "pseudo-d": not necessarily first order
-	groups   [4]uint8 // line counts, first group first; 0 = unused
-	ng       uint8
-}
+// maxScoredFactors is the largest number of n+1 factors the likelihood
+// tells apart: an observed pattern of more (a "ddddd") is scored as m.
+const maxScoredFactors = 4
 
-type patternKind uint8
-
-const (
-	patFirstOrder patternKind = iota // s, d, t, dd, dt, quint, ...
-	patMultiplet                     // m: unresolved, complex
-	patUnknown                       // not reported: carries no evidence
-)
-
-// partners returns the number of coupling partners the pattern implies
-// (n+1 rule: a q has 3, a dt 1+2 = 3).
-func (p pattern) partners() int {
-	n := 0
-	for k := uint8(0); k < p.ng; k++ {
-		n += int(p.groups[k]) - 1
+// scoredPattern returns an observed multiplicity as the likelihood reads
+// it (see maxScoredFactors).
+func scoredPattern(m spectrum.Multiplicity) spectrum.Multiplicity {
+	if m.NumFactors() > maxScoredFactors {
+		return spectrum.Multiplet().WithBroad(m.Broad()).WithApparent(m.Apparent())
 	}
-	return n
-}
-
-// parsePattern reads a normalised multiplicity code ("s", "br s", "dt",
-// "quint", "m", "br t", ...). Unknown codes read as "m".
-func parsePattern(code string) pattern {
-	var p pattern
-	c := strings.TrimSpace(code)
-	if rest, ok := strings.CutPrefix(c, "br"); ok {
-		p.broad = true
-		c = strings.TrimSpace(rest)
-		if c == "" {
-			c = "s"
-		}
-	}
-	switch c {
-	case "":
-		if !p.broad {
-			p.kind = patUnknown
-		}
-		return p
-	case "s":
-		return p
-	case "m":
-		p.kind = patMultiplet
-		return p
-	case "quint", "p":
-		p.groups[0], p.ng = 5, 1
-		return p
-	case "sext", "hex":
-		p.groups[0], p.ng = 6, 1
-		return p
-	case "sept", "hept":
-		p.groups[0], p.ng = 7, 1
-		return p
-	case "oct":
-		p.groups[0], p.ng = 8, 1
-		return p
-	case "non":
-		p.groups[0], p.ng = 9, 1
-		return p
-	}
-	for _, r := range c {
-		var l uint8
-		switch r {
-		case 'd':
-			l = 2
-		case 't':
-			l = 3
-		case 'q':
-			l = 4
-		default:
-			p.kind, p.ng = patMultiplet, 0
-			return p
-		}
-		if p.ng == uint8(len(p.groups)) {
-			p.kind, p.ng = patMultiplet, 0
-			return p
-		}
-		p.groups[p.ng] = l
-		p.ng++
-	}
-	return p
+	return m
 }
 
 // Multiplicity probabilities P(observed | predicted). These are our own
@@ -474,59 +398,59 @@ const (
 )
 
 // multiplicityLogP returns log P(observed pattern | predicted pattern).
-func multiplicityLogP(obs, pred pattern, exchangeable bool) float64 {
+func multiplicityLogP(obs, pred spectrum.Multiplicity, exchangeable bool) float64 {
 	p, _ := multiplicityJudge(obs, pred, exchangeable)
 	return math.Log(p)
 }
 
 // multiplicityJudge returns P(observed | predicted) and a short verdict for
 // the explanation.
-func multiplicityJudge(obs, pred pattern, exchangeable bool) (float64, string) {
-	if obs.kind == patUnknown {
+func multiplicityJudge(obs, pred spectrum.Multiplicity, exchangeable bool) (float64, string) {
+	if !obs.IsReported() {
 		return 1, "not reported"
 	}
 	if exchangeable {
 		switch {
-		case obs.kind == patFirstOrder && obs.ng == 0 && obs.broad:
+		case obs.IsSinglet() && obs.Broad():
 			return pExchBroadS, "as expected for exchangeable H"
-		case obs.kind == patFirstOrder && obs.ng == 0:
+		case obs.IsSinglet():
 			return pExchS, "compatible: exchangeable H, often sharp in CDCl3"
 		}
 		return pExchOther, "unusual for exchangeable H (usually a singlet)"
 	}
-	if obs.kind == patMultiplet {
+	if obs.IsMultiplet() {
 		switch {
-		case pred.kind == patMultiplet:
+		case pred.IsMultiplet():
 			return pPredMObservedM, "as predicted"
-		case pred.ng == 0:
+		case pred.NumFactors() == 0:
 			return pSingletAsM, "contradicts a singlet unless signals overlap"
 		}
 		return pObservedM, "compatible: a multiplet can hide any splitting"
 	}
-	if pred.kind == patMultiplet {
-		if obs.ng == 0 {
+	if pred.IsMultiplet() {
+		if obs.NumFactors() == 0 {
 			return pPredMObservedS, "contradicts: a coupled multiplet predicted, a singlet observed"
 		}
 		return pPredMOther, "compatible: predicted strongly coupled, reported first order"
 	}
 	broad := 1.0
-	if obs.broad {
-		if obs.ng == 0 && pred.ng == 0 {
+	if obs.Broad() {
+		if obs.NumFactors() == 0 && pred.NumFactors() == 0 {
 			return pBroadSingletSeq, "compatible: broadened singlet"
 		}
 		broad = pBroadFactor
 	}
-	if pred.ng == 0 {
-		if obs.ng == 0 {
+	if pred.NumFactors() == 0 {
+		if obs.NumFactors() == 0 {
 			return pExact * broad, "as predicted"
 		}
 		return pSplitSinglet * broad, "contradicts: no coupled neighbours predicted, splitting observed"
 	}
-	if obs.groups == pred.groups && obs.ng == pred.ng {
+	if obs.SamePattern(pred) {
 		return pExact * broad, "as predicted"
 	}
-	no, np := obs.partners(), pred.partners()
-	if obs.apparent && no == np {
+	no, np := obs.Partners(), pred.Partners()
+	if obs.Apparent() && no == np {
 		// An apparent pattern says only how many lines are seen.
 		return pApparent * broad, "compatible: apparent pattern with the predicted number of coupling partners"
 	}

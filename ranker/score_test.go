@@ -3,6 +3,10 @@ package ranker
 import (
 	"math"
 	"testing"
+
+	"github.com/stretchr/testify/assert"
+
+	"shiftrank/spectrum"
 )
 
 func TestStudentTDensity(t *testing.T) {
@@ -25,7 +29,7 @@ func TestMultiplicityTable(t *testing.T) {
 	// The table's order, not its values, is the check: exact beats
 	// compatible beats contradicting (common practice in reading spectra).
 	p := func(obs, pred string) float64 {
-		v, _ := multiplicityJudge(parsePattern(obs), parsePattern(pred), false)
+		v, _ := multiplicityJudge(pat(obs), pat(pred), false)
 		return v
 	}
 	tests := []struct {
@@ -46,35 +50,44 @@ func TestMultiplicityTable(t *testing.T) {
 		}
 	}
 	// Exchangeable H: a broad singlet is the most likely report.
-	bs, _ := multiplicityJudge(parsePattern("br s"), parsePattern("br s"), true)
-	tt, _ := multiplicityJudge(parsePattern("t"), parsePattern("br s"), true)
+	bs, _ := multiplicityJudge(pat("br s"), pat("br s"), true)
+	tt, _ := multiplicityJudge(pat("t"), pat("br s"), true)
 	if !(bs > tt) {
 		t.Errorf("exchangeable: P(br s) = %.3f not above P(t) = %.3f", bs, tt)
 	}
 	// Not reported: no evidence either way.
-	if v, _ := multiplicityJudge(parsePattern(""), parsePattern("q"), false); v != 1 {
+	if v, _ := multiplicityJudge(pat(""), pat("q"), false); v != 1 {
 		t.Errorf("unreported multiplicity: P = %v, want 1", v)
 	}
 }
 
-func TestParsePattern(t *testing.T) {
+// pat reads a multiplicity code for a test, as the scorer sees it.
+func pat(code string) spectrum.Multiplicity {
+	m, err := spectrum.ParseMultiplicity(code)
+	if err != nil {
+		panic(err)
+	}
+	return scoredPattern(m)
+}
+
+func TestScoredPattern(t *testing.T) {
 	tests := []struct {
-		code     string
-		partners int
-		kind     patternKind
+		code      string
+		partners  int
+		multiplet bool
 	}{
-		{"s", 0, patFirstOrder}, {"d", 1, patFirstOrder}, {"q", 3, patFirstOrder},
-		{"quint", 4, patFirstOrder}, {"sext", 5, patFirstOrder}, {"sept", 6, patFirstOrder},
-		{"dt", 3, patFirstOrder}, {"td", 3, patFirstOrder}, {"ddd", 3, patFirstOrder},
-		{"qd", 4, patFirstOrder}, {"br s", 0, patFirstOrder}, {"m", 0, patMultiplet},
-		{"", 0, patUnknown}, {"xyz", 0, patMultiplet},
+		{"s", 0, false}, {"d", 1, false}, {"q", 3, false},
+		{"quint", 4, false}, {"sext", 5, false}, {"sept", 6, false},
+		{"dt", 3, false}, {"td", 3, false}, {"ddd", 3, false}, {"dddd", 4, false},
+		{"qd", 4, false}, {"br s", 0, false}, {"m", 0, true},
+		{"ddddd", 0, true}, {"br ddddd", 0, true},
 	}
 	for _, tc := range tests {
-		p := parsePattern(tc.code)
-		if p.kind != tc.kind || p.partners() != tc.partners {
-			t.Errorf("parsePattern(%q) = kind %d, %d partners; want kind %d, %d partners (n+1 rule)", tc.code, p.kind, p.partners(), tc.kind, tc.partners)
-		}
+		p := pat(tc.code)
+		assert.Equal(t, tc.multiplet, p.IsMultiplet(), "scoredPattern(%q) multiplet", tc.code)
+		assert.Equal(t, tc.partners, p.Partners(), "scoredPattern(%q) partners (n+1 rule)", tc.code)
 	}
+	assert.True(t, pat("br ddddd").Broad(), "a broad pattern stays broad")
 }
 
 func TestLogSum(t *testing.T) {
@@ -105,12 +118,12 @@ func TestLogSum(t *testing.T) {
 // swapped prediction scores worse.
 func TestScoreEthylAcetatePattern(t *testing.T) {
 	peaks := []obsPeak{
-		{shift: 4.12, lo: 4.12, hi: 4.12, mult: parsePattern("q"), j: []float64{7.1}, h: 2},
-		{shift: 2.05, lo: 2.05, hi: 2.05, mult: parsePattern("s"), h: 3},
-		{shift: 1.26, lo: 1.26, hi: 1.26, mult: parsePattern("t"), j: []float64{7.1}, h: 3},
+		{shift: 4.12, lo: 4.12, hi: 4.12, mult: pat("q"), j: []float64{7.1}, h: 2},
+		{shift: 2.05, lo: 2.05, hi: 2.05, mult: pat("s"), h: 3},
+		{shift: 1.26, lo: 1.26, hi: 1.26, mult: pat("t"), j: []float64{7.1}, h: 3},
 	}
 	env := func(h int, shift float64, mult string, j ...float64) predEnv {
-		return predEnv{h: h, shift: shift, lo: shift, hi: shift, sigma: 0.15, mult: parsePattern(mult), j: j}
+		return predEnv{h: h, shift: shift, lo: shift, hi: shift, sigma: 0.15, mult: pat(mult), j: j}
 	}
 	right := []predEnv{env(3, 1.25, "t", 7.1), env(2, 4.10, "q", 7.1), env(3, 2.02, "s")}
 	// Methyl propanoate's pattern: OCH3 s, CH2 q at 2.3, CH3 t.
@@ -150,13 +163,13 @@ func TestScorePenalties(t *testing.T) {
 // is explained by splitting it, not by leaving a peak unexplained.
 func TestScoreDiastereotopicSplit(t *testing.T) {
 	peaks := []obsPeak{
-		{shift: 3.65, lo: 3.65, hi: 3.65, mult: parsePattern("dd"), h: 1},
-		{shift: 3.45, lo: 3.45, hi: 3.45, mult: parsePattern("dd"), h: 1},
-		{shift: 1.15, lo: 1.15, hi: 1.15, mult: parsePattern("d"), h: 3},
+		{shift: 3.65, lo: 3.65, hi: 3.65, mult: pat("dd"), h: 1},
+		{shift: 3.45, lo: 3.45, hi: 3.45, mult: pat("dd"), h: 1},
+		{shift: 1.15, lo: 1.15, hi: 1.15, mult: pat("d"), h: 3},
 	}
 	envs := []predEnv{
-		{h: 2, shift: 3.55, lo: 3.55, hi: 3.55, sigma: 0.15, mult: parsePattern("m"), diastereotopic: true},
-		{h: 3, shift: 1.15, lo: 1.15, hi: 1.15, sigma: 0.1, mult: parsePattern("d")},
+		{h: 2, shift: 3.55, lo: 3.55, hi: 3.55, sigma: 0.15, mult: pat("m"), diastereotopic: true},
+		{h: 3, shift: 1.15, lo: 1.15, hi: 1.15, sigma: 0.1, mult: pat("d")},
 	}
 	sc := newScorer(DefaultModel())
 	_, a := sc.score(envs, peaks)
@@ -179,13 +192,13 @@ func TestScoreDiastereotopicSplit(t *testing.T) {
 // whose predicted pattern is vaguer ("m") over one with a precise coupled
 // pattern ("dd"): both were not resolved in the observation.
 func TestMultiplicityMIsNeutral(t *testing.T) {
-	m := parsePattern("m")
-	a, _ := multiplicityJudge(m, parsePattern("dd"), false)
-	b, _ := multiplicityJudge(m, parsePattern("m"), false)
+	m := pat("m")
+	a, _ := multiplicityJudge(m, pat("dd"), false)
+	b, _ := multiplicityJudge(m, pat("m"), false)
 	if a != b {
 		t.Errorf("P(m | dd) = %.3f, P(m | m) = %.3f: want equal", a, b)
 	}
-	s, _ := multiplicityJudge(m, parsePattern("s"), false)
+	s, _ := multiplicityJudge(m, pat("s"), false)
 	if !(s < a) {
 		t.Errorf("P(m | s) = %.3f not below P(m | dd) = %.3f", s, a)
 	}

@@ -17,6 +17,15 @@ func FuzzDecodeJobRequest(f *testing.F) {
 		`{"formula":"C2H6O","peaks":"1.2 (s)"} trailing`,
 		`{"formula":"C2H6O","peaks":"1.2 (s)","options":{"top_k":"x"}}`,
 		`{"formula":"C2H6O","peaks":"1.2 (s)","unknown":1}`,
+		`{"formula":"C2H6O","peaks":"1H NMR (CDCl3) δ 3.72 (q, 2H), 1.24 (t, 3H); 13C NMR δ 58.3 (CH2), 18.4 (CH3)"}`,
+		`{"formula":"C2H6O","peaks":"##TITLE= x
+##JCAMP-DX= 5.01
+##.OBSERVE NUCLEUS= ^1H
+##XUNITS= PPM
+##PEAK TABLE= (XYM..XYM)
+3.72,20,q 1.24,30,t
+##END=
+"}`,
 		`[]`, `null`, ``, `{`,
 	}
 	for _, s := range seeds {

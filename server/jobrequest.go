@@ -15,6 +15,7 @@ import (
 	"shiftrank/isomers"
 	"shiftrank/molecule"
 	"shiftrank/ranker"
+	"shiftrank/spectrum"
 )
 
 // JobRequest is the body of POST /v1/jobs. Field names are part of the
@@ -22,9 +23,13 @@ import (
 type JobRequest struct {
 	// Formula is the molecular formula, e.g. "C4H8O2" (required).
 	Formula string `json:"formula"`
-	// Peaks is the observed 1H peak list: either journal text such as
-	// "4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H)" or a JSON array of
-	// {"shift" or "range", "multiplicity", "j", "integral"} objects (required).
+	// Peaks is the observed peak list (required): a string of journal text
+	// such as "4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H)", possibly with a
+	// 13C section ("...; 13C NMR (101 MHz, CDCl3) δ 171.1, ..."), or of a
+	// JCAMP-DX file (starting with ##TITLE= or ##JCAMP-DX=); or a JSON
+	// array of {"shift" or "range", "multiplicity", "j", "integral"}
+	// objects. All are read by spectrum.Read. A 1H list is required; a 13C
+	// list is checked and passed on, not scored yet.
 	Peaks json.RawMessage `json:"peaks"`
 	// MHz is the spectrometer 1H frequency; 0 means the peak-list header's
 	// or 400.
@@ -108,15 +113,15 @@ func (jr JobRequest) rankerRequest(lim limits) (ranker.Request, []FieldError) {
 		fields = append(fields, formulaField(err))
 	}
 
-	pl, fe := parsePeaksField(jr.Peaks)
+	pl, carbon, fe := parsePeaksField(jr.Peaks)
 	fields = append(fields, fe...)
-	rr.Peaks = pl
+	rr.Peaks, rr.Carbon = pl, carbon
 
 	if jr.MHz != 0 && (jr.MHz < minMHz || jr.MHz > maxMHz) {
 		bad("/mhz", fmt.Sprintf("spectrometer frequency %g MHz is outside %d..%d", jr.MHz, minMHz, maxMHz))
 	}
 	if rr.Solvent != "" {
-		if c, ok := ranker.CanonicalSolvent(rr.Solvent); ok {
+		if c, ok := spectrum.CanonicalSolvent(rr.Solvent); ok {
 			rr.Solvent = c
 		} else {
 			bad("/solvent", fmt.Sprintf("unknown solvent %q (e.g. CDCl3, DMSO-d6, D2O, CD3OD, C6D6, acetone-d6)", truncate(rr.Solvent, 50)))
@@ -152,49 +157,59 @@ func formulaField(err error) FieldError {
 	return FieldError{Field: "/formula", Detail: err.Error()}
 }
 
-// parsePeaksField parses the "peaks" member: a JSON string of journal text
-// or a JSON array of peak objects.
-func parsePeaksField(raw json.RawMessage) (ranker.PeakList, []FieldError) {
+// parsePeaksField parses the "peaks" member with spectrum.Read: a JSON
+// string of journal text or JCAMP-DX, or a JSON array of peak objects. It
+// returns the 1H list and the 13C list (empty when absent).
+func parsePeaksField(raw json.RawMessage) (h, c spectrum.PeakList, _ []FieldError) {
 	raw = bytes.TrimSpace(raw)
 	if len(raw) == 0 || string(raw) == "null" {
-		return ranker.PeakList{}, []FieldError{{Field: "/peaks", Detail: "required: journal text such as \"3.69 (q, 2H), 1.22 (t, 3H)\" or an array of peak objects"}}
+		return h, c, []FieldError{{Field: "/peaks", Detail: "required: journal text such as \"3.69 (q, 2H), 1.22 (t, 3H)\", JCAMP-DX text or an array of peak objects"}}
 	}
-	var pl ranker.PeakList
-	var err error
+	var input []byte
 	switch raw[0] {
 	case '"':
 		var text string
 		if err := json.Unmarshal(raw, &text); err != nil {
-			return pl, []FieldError{{Field: "/peaks", Detail: "not a valid JSON string"}}
+			return h, c, []FieldError{{Field: "/peaks", Detail: "not a valid JSON string"}}
 		}
 		if strings.TrimSpace(text) == "" {
-			return pl, []FieldError{{Field: "/peaks", Detail: "required: the peak list is empty"}}
+			return h, c, []FieldError{{Field: "/peaks", Detail: "required: the peak list is empty"}}
 		}
-		pl, err = ranker.ParsePeaks(text)
+		input = []byte(text)
 	case '[':
-		pl, err = ranker.ParsePeaksJSON(raw)
+		input = raw
 	default:
-		return pl, []FieldError{{Field: "/peaks", Detail: "must be a string of journal text or an array of peak objects"}}
+		return h, c, []FieldError{{Field: "/peaks", Detail: "must be a string of journal text or JCAMP-DX, or an array of peak objects"}}
+	}
+	lists, err := spectrum.Read(input)
+	if err == nil {
+		var found bool
+		if h, found, err = spectrum.Pick(lists, spectrum.H1); err == nil && !found {
+			return h, c, []FieldError{{Field: "/peaks", Detail: fmt.Sprintf("no 1H peak list (found %s): the ranking needs one", lists[0].Nucleus)}}
+		}
+	}
+	if err == nil {
+		c, _, err = spectrum.Pick(lists, spectrum.C13)
 	}
 	if err != nil {
-		var pe *ranker.PeakError
+		var pe *spectrum.PeakError
 		if errors.As(err, &pe) {
 			pos := pe.Pos
 			f := FieldError{Field: "/peaks", Detail: pe.Msg, Token: pe.Token, Position: &pos}
 			switch {
-			case raw[0] == '[' && pe.Field != "":
+			case raw[0] == '[' && pe.Field != "" && pe.Field != "nucleus":
 				f.Field = peakPathPointer(pe.Field)
 			case pe.Field != "":
 				f.Detail = pe.Field + ": " + pe.Msg
 			}
-			return pl, []FieldError{f}
+			if pe.Line > 1 {
+				f.Detail = fmt.Sprintf("line %d: %s", pe.Line, f.Detail)
+			}
+			return h, c, []FieldError{f}
 		}
-		return pl, []FieldError{{Field: "/peaks", Detail: err.Error()}}
+		return h, c, []FieldError{{Field: "/peaks", Detail: err.Error()}}
 	}
-	if len(pl.Peaks) == 0 {
-		return pl, []FieldError{{Field: "/peaks", Detail: "the peak list has no peaks"}}
-	}
-	return pl, nil
+	return h, c, nil
 }
 
 func fragmentFields(base string, frags []string) []FieldError {

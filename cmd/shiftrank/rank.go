@@ -11,6 +11,7 @@ import (
 	"strings"
 
 	"shiftrank/ranker"
+	"shiftrank/spectrum"
 )
 
 // stringList is a repeatable string flag.
@@ -24,7 +25,7 @@ func runRank(ctx context.Context, args []string, e env) error {
 	fs := flag.NewFlagSet("rank", flag.ContinueOnError)
 	fs.SetOutput(e.stderr)
 	formula := fs.String("formula", "", "molecular formula, e.g. C4H8O2 (required)")
-	peaks := fs.String("peaks", "", "observed peak list: journal text, @FILE, or - for stdin; JSON and JCAMP-DX are recognised (required)")
+	peaks := fs.String("peaks", "", "observed peak lists: journal text (1H, and 13C sections), @FILE, or - for stdin; JSON and JCAMP-DX are recognised; a 13C list is read but not scored yet (required)")
 	mhz := fs.Float64("mhz", 0, "spectrometer 1H frequency in MHz (default: from the peak list header, else 400)")
 	solvent := fs.String("solvent", "", "NMR solvent (default: from the peak list header, else CDCl3)")
 	top := fs.Int("top", ranker.DefaultTopK, "number of candidates to show")
@@ -63,12 +64,12 @@ func runRank(ctx context.Context, args []string, e env) error {
 	if *top < 1 || *top > ranker.MaxTopK {
 		return badInputf("rank: --top %d: want 1–%d", *top, ranker.MaxTopK)
 	}
-	pl, err := readPeakList(*peaks, e.stdin)
+	pl, carbon, err := readPeakLists(*peaks, e.stdin)
 	if err != nil {
 		return err
 	}
 	req := ranker.Request{
-		Formula: *formula, Peaks: pl, MHz: *mhz, Solvent: *solvent, TopK: *top, Filter: *filter,
+		Formula: *formula, Peaks: pl, Carbon: carbon, MHz: *mhz, Solvent: *solvent, TopK: *top, Filter: *filter,
 		Require: require, Forbid: forbid, MaxCandidates: *maxCand, TimeBudget: *budget,
 		KeepSolventPeaks: *keepSolvent, Disable: disable, Unconstrained: *allIsomers, MaxNodes: *maxNodes, Neutral: *neutral,
 	}
@@ -98,43 +99,45 @@ func runRank(ctx context.Context, args []string, e env) error {
 	return nil
 }
 
-// readPeakList reads --peaks: inline text, @FILE or - (stdin). JSON input
-// (starting with [ or {) and JCAMP-DX (starting with ##) are recognised.
-func readPeakList(arg string, stdin io.Reader) (ranker.PeakList, error) {
+// readPeakLists reads --peaks: inline text, @FILE or - (stdin), in any
+// format spectrum.Read recognises. It returns the 1H list, which must be
+// there, and the 13C list (empty when absent).
+func readPeakLists(arg string, stdin io.Reader) (h, c spectrum.PeakList, err error) {
 	var data []byte
 	switch {
 	case arg == "-":
-		b, err := io.ReadAll(io.LimitReader(stdin, ranker.MaxPeakInput+1))
+		b, err := io.ReadAll(io.LimitReader(stdin, spectrum.MaxPeakInput+1))
 		if err != nil {
-			return ranker.PeakList{}, fmt.Errorf("read peaks from stdin: %w", err)
+			return h, c, fmt.Errorf("read peaks from stdin: %w", err)
 		}
 		data = b
 	case strings.HasPrefix(arg, "@"):
 		b, err := os.ReadFile(arg[1:])
 		if err != nil {
-			return ranker.PeakList{}, badInputf("--peaks: %w", err)
+			return h, c, badInputf("--peaks: %w", err)
 		}
 		data = b
 	default:
 		data = []byte(arg)
 	}
-	if len(data) > ranker.MaxPeakInput {
-		return ranker.PeakList{}, badInputf("--peaks: input exceeds %d bytes", ranker.MaxPeakInput)
+	if len(data) > spectrum.MaxPeakInput {
+		return h, c, badInputf("--peaks: input exceeds %d bytes", spectrum.MaxPeakInput)
 	}
-	var pl ranker.PeakList
-	var err error
-	switch t := strings.TrimSpace(string(data)); {
-	case strings.HasPrefix(t, "[") || strings.HasPrefix(t, "{"):
-		pl, err = ranker.ParsePeaksJSON(data)
-	case strings.HasPrefix(t, "##"):
-		pl, err = ranker.ParseJCAMP(data)
-	default:
-		pl, err = ranker.ParsePeaks(string(data))
+	lists, err := spectrum.Read(data)
+	if err != nil {
+		return h, c, badInputf("--peaks: %w", err)
+	}
+	h, found, err := spectrum.Pick(lists, spectrum.H1)
+	if err == nil && !found {
+		return h, c, badInputf("--peaks: no 1H peak list (found %s): the ranking needs one", lists[0].Nucleus)
+	}
+	if err == nil {
+		c, _, err = spectrum.Pick(lists, spectrum.C13)
 	}
 	if err != nil {
-		return ranker.PeakList{}, badInputf("--peaks: %w", err)
+		return h, c, badInputf("--peaks: %w", err)
 	}
-	return pl, nil
+	return h, c, nil
 }
 
 // writeResult prints a ranking for a reader.

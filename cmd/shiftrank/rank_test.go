@@ -90,6 +90,9 @@ func TestRankCommandBadInput(t *testing.T) {
 		{"missing file", []string{"--formula", "C4H8O2", "--peaks", "@/nonexistent/peaks.txt"}, "peaks"},
 		{"top zero", []string{"--formula", "C4H8O2", "--peaks", "1.0 (s, 8H)", "--top", "0"}, "--top"},
 		{"unknown flag", []string{"--formula", "C4H8O2", "--peaks", "1.0 (s, 8H)", "--bogus"}, "bogus"},
+		{"13C list only", []string{"--formula", "C4H8O2", "--peaks", "13C NMR δ 171.4, 60.5, 21.0, 14.2"}, "no 1H peak list"},
+		{"two 1H lists", []string{"--formula", "C4H8O2", "--peaks", "1H NMR δ 2.05 (s, 3H); 1H NMR δ 1.99 (s, 3H)"}, "second 1H peak list"},
+		{"bad 13C section", []string{"--formula", "C4H8O2", "--peaks", "1H NMR δ 2.05 (s, 3H); 13C NMR δ 171.4 (2H)"}, "integral in a 13C list"},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -102,6 +105,28 @@ func TestRankCommandBadInput(t *testing.T) {
 				t.Errorf("error %q does not name %q", err, tc.want)
 			}
 		})
+	}
+}
+
+// TestRankCommandJCAMPAndCarbon reads a JCAMP-DX file holding 1H and 13C
+// peak tables (an invented demo file of the spectrum package) and journal
+// text with a 13C section: the 1H list ranks, the 13C list is noted.
+func TestRankCommandJCAMPAndCarbon(t *testing.T) {
+	out, _, err := runCmd(t, "", "rank", "--formula", "C4H8O2", "--peaks", "@../../spectrum/testdata/peaks/compound-13c-1h.jdx", "--json", "--top", "1")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(out, `"smiles": "`+ethylAcetateCanon()+`"`) || !strings.Contains(out, "13C list (4 peaks)") {
+		t.Errorf("JCAMP-DX ranking lacks ethyl acetate first or the 13C note:\n%s", out)
+	}
+	// 13C shifts of ethyl acetate in CDCl3: Gottlieb et al. 1997, Table 2
+	// (from memory).
+	out, _, err = runCmd(t, "", "rank", "--formula", "C4H8O2", "--peaks", ethylAcetatePeaks+"; 13C NMR (75 MHz, CDCl3) δ 171.36, 60.49, 21.04, 14.19", "--top", "1")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(out, "13C list (4 peaks)") {
+		t.Errorf("output does not note the 13C list:\n%s", out)
 	}
 }
 

@@ -10,7 +10,7 @@ import (
 	"testing"
 
 	"shiftrank/molecule"
-	"shiftrank/ranker"
+	"shiftrank/spectrum"
 )
 
 // The page reads formulas and peak lists itself for live feedback (the DBE,
@@ -66,7 +66,7 @@ func testClientParsers(p *page) {
 		}
 	}
 
-	// Peak lists: the table's rows against ranker.ParsePeaks.
+	// Peak lists: the table's rows against spectrum.ReadList.
 	in, _ = json.Marshal(peakCases)
 	var js []jsPeaks
 	p.eval(fmt.Sprintf(`import("/static/chem.js").then(m => %s.map(t => {
@@ -76,7 +76,7 @@ func testClientParsers(p *page) {
 			Rows: r.rows.map(x => ({Shift: x.shift, Mult: x.mult, J: x.j, Integral: x.integral}))};
 	}))`, in), &js)
 	for i, text := range peakCases {
-		want, err := ranker.ParsePeaks(text)
+		want, err := spectrum.ReadList([]byte(text), spectrum.H1)
 		if err != nil {
 			p.t.Fatalf("service rejects notation example %q: %v", text, err)
 		}
@@ -93,7 +93,7 @@ func testClientParsers(p *page) {
 		}
 		comparePeaks(p.t, text, "page table", g.Rows, want.Peaks)
 		// What the table writes, the service reads as the same peaks.
-		back, err := ranker.ParsePeaks(g.Text)
+		back, err := spectrum.ReadList([]byte(g.Text), spectrum.H1)
 		if err != nil {
 			p.t.Errorf("service rejects the table's text %q (from %q): %v", g.Text, text, err)
 			continue
@@ -151,7 +151,7 @@ func testTableTextRandom(p *page) {
 	var texts []string
 	p.eval(fmt.Sprintf(`import("/static/chem.js").then(m => %s.map(r => m.formatPeaks([{shift: r.Shift, mult: r.Mult, j: r.J, integral: r.Integral}])))`, in), &texts)
 	for i, text := range texts {
-		got, err := ranker.ParsePeaks(text)
+		got, err := spectrum.ReadList([]byte(text), spectrum.H1)
 		if err != nil {
 			p.t.Errorf("service rejects the table's text %q for row %+v: %v", text, rows[i], err)
 			continue
@@ -167,7 +167,7 @@ func deref(p *int) any {
 	return *p
 }
 
-func comparePeaks(t *testing.T, text, who string, rows []jsRow, want []ranker.Peak) {
+func comparePeaks(t *testing.T, text, who string, rows []jsRow, want []spectrum.Peak) {
 	t.Helper()
 	if len(rows) != len(want) {
 		t.Errorf("%q: %s has %d peaks, service %d", text, who, len(rows), len(want))
@@ -179,8 +179,8 @@ func comparePeaks(t *testing.T, text, who string, rows []jsRow, want []ranker.Pe
 		if err != nil || math.Abs(hi-w.ShiftHi) > 1e-9 || math.Abs(lo-w.ShiftLo) > 1e-9 {
 			t.Errorf("%q peak %d: %s δ %q, service %v–%v", text, k+1, who, r.Shift, w.ShiftHi, w.ShiftLo)
 		}
-		if r.Mult != w.Multiplicity {
-			t.Errorf("%q peak %d: %s multiplicity %q, service %q", text, k+1, who, r.Mult, w.Multiplicity)
+		if r.Mult != w.Multiplicity.Code() {
+			t.Errorf("%q peak %d: %s multiplicity %q, service %q", text, k+1, who, r.Mult, w.Multiplicity.Code())
 		}
 		var j []float64
 		for _, f := range strings.FieldsFunc(r.J, func(c rune) bool { return c == ',' || c == ' ' }) {

@@ -1,4 +1,4 @@
-package ranker
+package spectrum
 
 import (
 	"errors"
@@ -35,7 +35,7 @@ func TestScaleIntegrals(t *testing.T) {
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			pl, err := ParsePeaks(c.peaks)
+			pl, err := parse1H(c.peaks)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -75,7 +75,7 @@ func TestScaleIntegrals(t *testing.T) {
 
 func TestScaleIntegralsErrors(t *testing.T) {
 	in := "δ 7.3 (s, 1H), 5.0 (s, 1H), 3.0 (s, 1H), 2.0 (s, 1H), 1.0 (s, 1H)"
-	pl, err := ParsePeaks(in)
+	pl, err := parse1H(in)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -88,7 +88,7 @@ func TestScaleIntegralsErrors(t *testing.T) {
 		t.Errorf("error = %+v, want field integral at the fifth peak", pe)
 	}
 	// Equal peaks far beyond the H count: still an error, never NaN.
-	many, _ := ParsePeaks("δ 5 (1H), 4 (1H), 3 (1H), 2 (1H), 1 (1H)")
+	many, _ := parse1H("δ 5 (1H), 4 (1H), 3 (1H), 2 (1H), 1 (1H)")
 	if _, _, err := ScaleIntegrals(many, 1); err == nil {
 		t.Error("ScaleIntegrals(5 equal peaks, 1 H) gave no error")
 	}

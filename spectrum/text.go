@@ -1,49 +1,58 @@
-package ranker
+package spectrum
 
 import (
+	"fmt"
+	"math"
 	"strconv"
 	"strings"
 	"unicode"
 	"unicode/utf8"
 )
 
-// ParsePeaks reads a 1H peak list in the journal notation chemists paste
+// ParseText reads the peak lists of journal text, as chemists paste it
 // from an experimental section:
 //
-//	1H NMR (400 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H).
+//	1H NMR (400 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H);
+//	13C NMR (101 MHz, CDCl3) δ 171.1 (C), 60.4 (CH2), 21.0 (CH3), 14.2 (CH3).
 //
-// The header is optional and free in order ("1H NMR (CDCl3, 400 MHz):",
-// "δH", "δ (ppm)", "500 MHz, DMSO-d6"); the field in MHz and the solvent
-// (any spelling CanonicalSolvent accepts) are taken from it. A header for
-// another nucleus ("13C NMR") is an error.
+// It returns one PeakList per 1H or 13C section, in input order. A section
+// starts with a header naming the nucleus ("1H NMR", "¹H-NMR", "13C{1H}
+// NMR", "¹³C NMR", "δC"); the header is free in order ("1H NMR (CDCl3,
+// 400 MHz):", "δH", "δ (ppm)", "500 MHz, DMSO-d6") and gives the
+// spectrometer frequency in MHz and the solvent (any spelling
+// CanonicalSolvent accepts). Text without a header is one 1H list.
+// Sections for other nuclei ("19F NMR ...") are skipped, and a following
+// section for another technique ("HRMS ...", "IR ...") ends the reading.
 //
 // Each peak is a shift in ppm, or a range in either order joined by a
 // hyphen, en or em dash or minus sign ("7.35–7.20"), optionally followed
 // by a parenthesised description whose comma-separated items may come in
-// any order: a multiplicity (see NormalizeMultiplicity); coupling
-// constants ("J = 8.0, 2.1 Hz", "J1 = 8.0 Hz, J2 = 2.1 Hz",
-// "J = 7.1 and 1.2 Hz", "3J = 7.1 Hz", also "8.0 Hz" or a bare number
-// right after a split multiplicity); an integral ("2H", "2 H", "2.04H");
-// and free assignment notes ("OCH2", "H-3", "2 × CH3", "H-2,6") kept as
+// any order: a multiplicity (see ParseMultiplicity); coupling constants
+// ("J = 8.0, 2.1 Hz", "J1 = 8.0 Hz, J2 = 2.1 Hz", "J = 7.1 and 1.2 Hz",
+// "3J = 7.1 Hz", "JC–F = 245 Hz", also "8.0 Hz" or a bare number right
+// after a split multiplicity); in a 1H list an integral ("2H", "2 H",
+// "2.04H"); in a 13C list a carbon count ("2C", "2 C") and a DEPT class
+// ("CH3", "CH2", "CH", "C", "Cq"; also "2 × CH" for both); and free
+// assignment notes ("OCH2", "H-3", "2 × CH3", "H-2,6", "C=O") kept as
 // Label. Peaks are separated by commas, semicolons or line breaks; a final
-// "." or ";" is allowed, and a following section for another nucleus or
-// technique ("13C NMR ...", "HRMS ...") ends the list. White space may
-// include line breaks and non-breaking or thin spaces; full-width
-// punctuation ("（s，3H）") and δ written as "d" (PDF symbol fonts) are
-// accepted. Positions always refer to the input as given.
+// "." or ";" is allowed. White space may include line breaks and
+// non-breaking or thin spaces; full-width punctuation ("（s，3H）") and δ
+// written as "d" (PDF symbol fonts) are accepted. Positions always refer
+// to the input as given.
 //
-// Errors are *PeakError naming the token and its byte position: malformed
-// numbers, a decimal comma ("4,12"), a shift outside MinShift..MaxShift,
-// an unknown multiplicity code, a negative or zero integral, a bare
-// number where an integral belongs, J on a singlet, a J outside 0 to MaxJ
-// Hz, unbalanced parentheses, no peaks at all, or input longer than
-// MaxPeakInput bytes or with more than MaxPeaks peaks or MaxJValues J
-// values on one peak; JSON or JCAMP-DX input gets an error saying so.
-func ParsePeaks(s string) (PeakList, error) {
-	var pl PeakList
+// Errors are *PeakError naming the token, its byte position and its line:
+// malformed numbers, a decimal comma ("4,12"), a shift outside the
+// nucleus's range (Nucleus.ShiftRange), an unknown multiplicity code, a
+// negative or zero integral or count, a bare number where an integral
+// belongs, an integral in a 13C list, J on a singlet, a J outside 0 to
+// the nucleus's MaxJ, unbalanced parentheses, a section without peaks,
+// no peaks at all, or input longer than MaxPeakInput bytes or with more
+// than MaxPeaks peaks in a list or MaxJValues J values on one peak; JSON
+// or JCAMP-DX input gets an error saying so.
+func ParseText(s string) ([]PeakList, error) {
 	p := &journal{in: s}
 	if len(s) > MaxPeakInput {
-		return pl, p.errAt(0, s[:40], "", "input longer than 1 MiB")
+		return nil, p.errAt(0, s[:40], "", "input longer than 1 MiB")
 	}
 	if !utf8.ValidString(s) {
 		i := 0
@@ -54,30 +63,63 @@ func ParsePeaks(s string) (PeakList, error) {
 			}
 			i += n
 		}
-		return pl, p.errAt(i, s[i:i+1], "", "invalid UTF-8")
+		return nil, p.errAt(i, s[i:i+1], "", "invalid UTF-8")
 	}
 	p.fold()
 	p.skipSpace()
 	switch {
 	case strings.HasPrefix(p.in[p.i:], "##"):
-		return pl, p.errAt(p.i, p.word(), "", "this is a JCAMP-DX file, not journal text")
+		return nil, p.errAt(p.i, p.word(), "", "this is a JCAMP-DX file, not journal text")
 	case strings.HasPrefix(p.in[p.i:], "[") || strings.HasPrefix(p.in[p.i:], "{"):
-		return pl, p.errAt(p.i, p.in[p.i:p.i+1], "", "this is JSON, not journal text")
+		return nil, p.errAt(p.i, p.in[p.i:p.i+1], "", "this is JSON, not journal text")
 	}
-	if err := p.header(&pl); err != nil {
-		return PeakList{}, err
+	var lists []PeakList
+	sections := 0
+	for {
+		p.skipSpace()
+		if p.eof() || sections > 0 && p.atTechnique() {
+			break
+		}
+		pl, skipped, err := p.section()
+		if err != nil {
+			return nil, err
+		}
+		sections++
+		if !skipped {
+			lists = append(lists, pl)
+		}
 	}
+	if len(lists) == 0 {
+		return nil, p.errAt(p.i, p.word(), "shift", "no peaks found")
+	}
+	return lists, nil
+}
+
+// section reads one section: a header and its peaks. skipped is true for
+// a section of a nucleus other than 1H and 13C, which is passed over.
+func (p *journal) section() (pl PeakList, skipped bool, err error) {
+	start := p.i
+	other, err := p.header(&pl)
+	if err != nil {
+		return PeakList{}, false, err
+	}
+	pl.Pos, _ = p.origSpan(start, start)
+	if other {
+		p.skipSection()
+		return PeakList{}, true, nil
+	}
+	p.nuc = pl.Nucleus
 	for {
 		p.skipSpace()
 		if p.eof() || p.atNextSection() {
 			break
 		}
 		if len(pl.Peaks) == MaxPeaks {
-			return PeakList{}, p.errAt(p.i, p.word(), "shift", "more than 1000 peaks")
+			return PeakList{}, false, p.errAt(p.i, p.word(), "shift", "more than 1000 peaks")
 		}
 		pk, err := p.peak()
 		if err != nil {
-			return PeakList{}, err
+			return PeakList{}, false, err
 		}
 		pl.Peaks = append(pl.Peaks, pk)
 		p.skipSpace()
@@ -96,27 +138,46 @@ func ParsePeaks(s string) (PeakList, error) {
 			p.i += n
 			p.skipSpace()
 			if !p.eof() && !p.atNextSection() {
-				return PeakList{}, p.errAt(p.i, p.word(), "", "unexpected text after the final '.'")
+				return PeakList{}, false, p.errAt(p.i, p.word(), "", "unexpected text after the final '.'")
 			}
 		case p.atNumber():
 			// A line break or space alone between peaks.
 		default:
-			return PeakList{}, p.errAt(p.i, p.word(), "", "expected ',' between peaks")
+			return PeakList{}, false, p.errAt(p.i, p.word(), "", "expected ',' between peaks")
 		}
 	}
 	if len(pl.Peaks) == 0 {
-		return PeakList{}, p.errAt(p.i, p.word(), "shift", "no peaks found")
+		return PeakList{}, false, p.errAt(p.i, p.word(), "shift", "no peaks found")
 	}
-	return pl, nil
+	return pl, false, nil
 }
 
-// journal is the state of ParsePeaks: the text being read, a byte
-// offset in it, and the original input when the text is a folded copy.
+// skipSection passes over the body of a section for another nucleus, up
+// to the next section header, technique name or the end of the text.
+func (p *journal) skipSection() {
+	for !p.eof() {
+		if p.i > 0 {
+			prev, _ := utf8.DecodeLastRuneInString(p.in[:p.i])
+			if unicode.IsSpace(prev) || prev == ';' || prev == '.' || prev == ',' {
+				if p.atSectionHeader() || p.atTechnique() {
+					return
+				}
+			}
+		}
+		_, n := p.peek()
+		p.i += n
+	}
+}
+
+// journal is the state of ParseText: the text being read, a byte offset
+// in it, the original input when the text is a folded copy, and the
+// nucleus of the section being read.
 type journal struct {
 	in   string
 	i    int
-	orig string // the input as given
-	offs []int  // offs[k]: offset in orig of byte k of in; nil when in == orig
+	orig string  // the input as given
+	offs []int   // offs[k]: offset in orig of byte k of in; nil when in == orig
+	nuc  Nucleus // nucleus of the current section
 }
 
 // fold replaces full-width forms (U+FF01–U+FF5E, as pasted from CJK
@@ -169,7 +230,7 @@ func (p *journal) errAt(pos int, tok, field, msg string) error {
 	if in == "" {
 		in = p.in
 	}
-	return &PeakError{Input: in, Pos: pos, Token: tok, Field: field, Msg: msg}
+	return newPeakError(in, pos, tok, field, msg)
 }
 
 func (p *journal) eof() bool { return p.i >= len(p.in) }
@@ -265,15 +326,17 @@ func scanNumber(s string, i int) (v float64, tok string, end int, ok bool) {
 		j++
 	}
 	// A final '.' not followed by a digit ends a sentence, not the number.
+	sentence := false
 	if j > i && s[j-1] == '.' && j-1 > i {
 		j--
+		sentence = true
 	}
 	digits := s[i:j]
 	tok = s[start:j]
 	if digits == "" || digits == "." || strings.Count(digits, ".") > 1 {
 		return 0, peakWordAt(s, start), j, false
 	}
-	if j < len(s) && s[j] == '.' {
+	if j < len(s) && s[j] == '.' && !sentence {
 		// "4.1.2" or "4..1"
 		return 0, peakWordAt(s, start), j, false
 	}
@@ -346,18 +409,29 @@ func nucleusAt(s string, i int) (tok string, end int) {
 	return s[i:k], k
 }
 
-func isProton(nucleus string) bool { return nucleus == "1H" || nucleus == "¹H" }
-
-// sectionWords start the text that follows a 1H list in an experimental
-// section (common practice); ParsePeaks stops there.
+// sectionWords start the text of another technique in an experimental
+// section (common practice); ParseText stops there.
 var sectionWords = []string{"HRMS", "HR-MS", "LRMS", "MS", "IR", "FT-IR", "FTIR", "Anal", "mp", "Mp", "Rf", "ESI", "EI", "UV", "Elemental", "[α]"}
 
 // atNextSection reports whether the cursor is at the start of another
-// section: a nucleus header ("13C NMR") or a technique name.
+// section: a nucleus token ("13C NMR") or a technique name.
 func (p *journal) atNextSection() bool {
 	if tok, _ := nucleusAt(p.in, p.i); tok != "" {
 		return true
 	}
+	if r, n := p.peek(); deltaRune(r) {
+		// "δC 128.5, ..." after a 1H list given as "δH ...".
+		rest := strings.TrimPrefix(p.in[p.i+n:], "_")
+		if (strings.HasPrefix(rest, "C") || strings.HasPrefix(rest, "H")) && !letterAt(rest, 1) {
+			return true
+		}
+	}
+	return p.atTechnique()
+}
+
+// atTechnique reports whether the cursor is at the name of another
+// technique ("HRMS", "IR", "mp").
+func (p *journal) atTechnique() bool {
 	rest := p.in[p.i:]
 	for _, w := range sectionWords {
 		if strings.HasPrefix(rest, w) {
@@ -370,41 +444,82 @@ func (p *journal) atNextSection() bool {
 	return false
 }
 
+// atSectionHeader reports whether an NMR section header starts at the
+// cursor: a nucleus token, an optional decoupling note in braces, and
+// "NMR" ("13C NMR", "¹³C{¹H}-NMR").
+func (p *journal) atSectionHeader() bool {
+	tok, end := nucleusAt(p.in, p.i)
+	if tok == "" {
+		return false
+	}
+	if end < len(p.in) && p.in[end] == '{' {
+		k := strings.IndexByte(p.in[end:], '}')
+		if k < 0 {
+			return false
+		}
+		end += k + 1
+	}
+	for end < len(p.in) && (p.in[end] == ' ' || p.in[end] == '-' || p.in[end] == '\t') {
+		end++
+	}
+	return hasPrefixFold(p.in[end:], "nmr")
+}
+
 // headerWords may appear in a header without making it one (they carry no
 // information we need).
 var headerWords = map[string]bool{
 	"nmr": true, "ppm": true, "in": true, "at": true, "h": true, "spectrum": true,
 	"proton": true, "data": true, "delta": true, "(ppm)": true, "1h-nmr": true,
 	// Text copied from a PDF often has δ turned into "d" by a symbol font.
-	"d": true, "dh": true,
+	"d": true, "dh": true, "dc": true,
 }
 
-// header reads an optional header up to the first peak, filling MHz and
-// Solvent.
-func (p *journal) header(pl *PeakList) error {
-	seen := false // a header marker (nucleus, NMR, δ, group) has been read
+// header reads an optional header up to the first peak, filling Nucleus,
+// MHz and Solvent. other is true when the header names a nucleus other
+// than 1H and 13C; the cursor is then just past that nucleus.
+func (p *journal) header(pl *PeakList) (other bool, err error) {
+	seen := false   // a header marker (nucleus, NMR, δ, group) has been read
+	named := false  // the nucleus has been named by a token
+	deltaC := false // "δC": a 13C list unless a token says otherwise
+	defer func() {
+		if !named && deltaC {
+			pl.Nucleus = C13
+		}
+	}()
 	for {
 		p.skipSpace()
 		if p.eof() {
-			return nil
+			return false, nil
 		}
 		r, n := p.peek()
 		start := p.i
 		if tok, end := nucleusAt(p.in, p.i); tok != "" {
-			if !isProton(tok) {
-				return p.errAt(start, tok, "header", "not a 1H peak list")
-			}
 			p.i, seen = end, true
+			if named {
+				continue // "1H, 13C" or a second mention
+			}
+			nuc, err := ParseNucleus(tok)
+			if err != nil {
+				return true, nil
+			}
+			pl.Nucleus, named = nuc, true
 			continue
 		}
 		switch {
+		case r == '{':
+			// "13C{1H}": the decoupled nucleus.
+			end := strings.IndexByte(p.in[p.i:], '}')
+			if end < 0 {
+				return false, p.errAt(start, "{", "header", "unclosed '{'")
+			}
+			p.i += end + 1
 		case r == '(':
 			end := matchParen(p.in, p.i)
 			if end < 0 {
-				return p.errAt(start, "(", "header", "unclosed '('")
+				return false, p.errAt(start, "(", "header", "unclosed '('")
 			}
 			if err := p.headerGroup(pl, p.i+1, end); err != nil {
-				return err
+				return false, err
 			}
 			p.i, seen = end+1, true
 		case deltaRune(r) || hasPrefixFold(p.in[p.i:], "delta"):
@@ -413,11 +528,14 @@ func (p *journal) header(pl *PeakList) error {
 			} else {
 				p.i += len("delta")
 			}
-			// δH, δ_H, δ(H)
-			if strings.HasPrefix(p.in[p.i:], "_H") {
-				p.i += 2
-			} else if strings.HasPrefix(p.in[p.i:], "H") {
+			// δH, δ_H, δC, δ_C
+			p.i += len(p.in[p.i:]) - len(strings.TrimPrefix(p.in[p.i:], "_"))
+			switch {
+			case strings.HasPrefix(p.in[p.i:], "H") && !letterAt(p.in, p.i+1):
 				p.i++
+			case strings.HasPrefix(p.in[p.i:], "C") && !letterAt(p.in, p.i+1):
+				p.i++
+				deltaC = true
 			}
 			seen = true
 		case r == ':' || r == ',' || r == ';' || r == '=' || r == '/' || r == '-' && !p.atNumber():
@@ -430,16 +548,16 @@ func (p *journal) header(pl *PeakList) error {
 			}
 			if ok && hasPrefixFold(p.in[k:], "mhz") {
 				if err := p.setMHz(pl, v, start, p.in[start:k+3]); err != nil {
-					return err
+					return false, err
 				}
 				p.i, seen = k+3, true
 				continue
 			}
-			return nil // the first peak
+			return false, nil // the first peak
 		default:
 			w := headerWord(p.in, p.i)
 			if w == "" {
-				return p.errAt(start, p.word(), "shift", "expected a chemical shift")
+				return false, p.errAt(start, p.word(), "shift", "expected a chemical shift")
 			}
 			if c, ok := CanonicalSolvent(w); ok {
 				if pl.Solvent == "" {
@@ -449,7 +567,7 @@ func (p *journal) header(pl *PeakList) error {
 			} else if strings.EqualFold(w, "NMR") || strings.EqualFold(w, "1H-NMR") {
 				seen = true
 			} else if !seen && !headerWords[strings.ToLower(w)] {
-				return p.errAt(start, w, "shift", "expected a chemical shift")
+				return false, p.errAt(start, w, "shift", "expected a chemical shift")
 			}
 			p.i += len(w)
 		}
@@ -629,8 +747,9 @@ func (p *journal) peak() (Peak, error) {
 	if err != nil {
 		return pk, err
 	}
-	if a < MinShift || a > MaxShift {
-		return pk, p.errAt(start, tokA, "shift", "shift outside -1 to 16 ppm")
+	lo, hi := p.nuc.ShiftRange()
+	if a < lo || a > hi {
+		return pk, p.errAt(start, tokA, "shift", shiftRangeMsg(p.nuc, a))
 	}
 	if p.i+1 < len(p.in) && p.in[p.i] == ',' && p.in[p.i+1] >= '0' && p.in[p.i+1] <= '9' && !strings.Contains(tokA, ".") {
 		// "4,12": a decimal comma would silently give two peaks.
@@ -650,8 +769,8 @@ func (p *journal) peak() (Peak, error) {
 		if b, tokB, err = p.number("shift"); err != nil {
 			return pk, err
 		}
-		if b < MinShift || b > MaxShift {
-			return pk, p.errAt(bpos, tokB, "shift", "shift outside -1 to 16 ppm")
+		if b < lo || b > hi {
+			return pk, p.errAt(bpos, tokB, "shift", shiftRangeMsg(p.nuc, b))
 		}
 	} else {
 		p.i = save
@@ -679,7 +798,7 @@ func (p *journal) peak() (Peak, error) {
 		p.i = save
 	}
 	pk.Pos, pk.Text = p.origSpan(start, p.i)
-	if field, msg := checkPeak(pk); msg != "" {
+	if field, msg := checkPeak(p.nuc, pk); msg != "" {
 		return pk, p.errAt(start, pk.Text, field, msg)
 	}
 	return pk, nil
@@ -736,6 +855,15 @@ func (p *journal) describe(pk *Peak, from, to int) error {
 		lastJ = false
 		afterLabel := lastLabel
 		lastLabel = false
+		if p.nuc == C13 {
+			done, err := p.carbonItem(pk, it, afterLabel)
+			if err != nil {
+				return err
+			}
+			if done {
+				continue
+			}
+		}
 		if !afterLabel && !isIntegral(text) && isJList(text) {
 			// Numbers that are neither J nor an integral ("(s, 3)"): most
 			// likely an integral without its H. (After a note they continue
@@ -771,35 +899,139 @@ func (p *journal) describe(pk *Peak, from, to int) error {
 			}
 			continue
 		}
-		if code, app, ok := NormalizeMultiplicity(text); ok {
+		if m, ok := parseMultiplicity(text); ok {
 			switch {
-			case pk.Multiplicity == "":
-				pk.Multiplicity, pk.Apparent = code, app
+			case !pk.Multiplicity.IsReported():
+				pk.Multiplicity = m
 				brOnly = isBareBroad(text)
-				lastMult = !isSinglet(code)
+				lastMult = !m.IsSinglet()
 			case brOnly:
 				// "(br, s)": the broad flag came first.
-				base, _ := SplitMultiplicity(code)
-				pk.Multiplicity, pk.Apparent, brOnly = "br "+base, pk.Apparent || app, false
-			case isBareBroad(text) && !strings.HasPrefix(pk.Multiplicity, "br "):
+				pk.Multiplicity, brOnly = m.WithBroad(true).WithApparent(m.Apparent() || pk.Multiplicity.Apparent()), false
+			case isBareBroad(text) && !pk.Multiplicity.Broad():
 				// "(s, br)"
-				pk.Multiplicity = "br " + pk.Multiplicity
+				pk.Multiplicity = pk.Multiplicity.WithBroad(true)
 			default:
 				return p.errAt(it.pos, text, "multiplicity", "second multiplicity for one peak")
 			}
 			continue
 		}
-		if pk.Multiplicity == "" && looksLikeCode(text) {
+		if !pk.Multiplicity.IsReported() && looksLikeCode(text) {
 			return p.errAt(it.pos, text, "multiplicity", "unknown multiplicity")
 		}
 		labels = append(labels, text)
 		lastLabel = true
 	}
 	pk.Label = strings.Join(labels, ", ")
-	if len(pk.J) > 0 && isSinglet(pk.Multiplicity) {
+	if len(pk.J) > 0 && pk.Multiplicity.IsSinglet() {
 		return p.errAt(jPos, jTok, "j", "J given for a singlet")
 	}
 	return nil
+}
+
+// carbonItem reads an item of a 13C peak description: a carbon count
+// ("2C"), a DEPT class ("CH2", "Cq") or both ("2 × CH"). done is false for
+// an item it leaves to the other readers (multiplicity, note).
+func (p *journal) carbonItem(pk *Peak, it posText, afterLabel bool) (done bool, err error) {
+	text := it.text
+	if isIntegral(text) {
+		return false, p.errAt(it.pos, text, "integral", "an integral in a 13C list: give the number of carbons, such as 2C")
+	}
+	count, class, ok := countAndClass(text)
+	if !ok {
+		if !afterLabel && isJList(text) {
+			return false, p.errAt(it.pos, text, "count", "expected a carbon count such as 2C")
+		}
+		return false, nil
+	}
+	if count != 0 {
+		switch {
+		case count < 1 || count > MaxCount:
+			return false, p.errAt(it.pos, text, "count", fmt.Sprintf("carbon count outside 1 to %d", MaxCount))
+		case pk.Count != 0:
+			return false, p.errAt(it.pos, text, "count", "second carbon count for one peak")
+		}
+		pk.Count = count
+	}
+	if class != DEPTUnknown {
+		if pk.DEPT != DEPTUnknown {
+			return false, p.errAt(it.pos, text, "dept", "second DEPT class for one peak")
+		}
+		pk.DEPT = class
+	}
+	return true, nil
+}
+
+// countAndClass reads "2C", "2 C", "CH2", "Cq", "2 × CH", "2x CH3", "CH × 2":
+// a count (0 when absent; −1 when written but not a whole number from 1) and a
+// DEPT class (DEPTUnknown when absent). ok is false for anything else.
+func countAndClass(s string) (count int, class DEPT, ok bool) {
+	s = strings.TrimSpace(s)
+	if d, ok := deptWord(s); ok {
+		return 0, d, true
+	}
+	if !numberAt(s, 0) {
+		// "CH × 2"
+		for _, sep := range []string{"×", "x", "X", "*"} {
+			if k := strings.LastIndex(s, sep); k > 0 {
+				if d, ok := deptWord(s[:k]); ok {
+					if n, ok := wholeNumber(s[k+len(sep):]); ok {
+						return n, d, true
+					}
+				}
+			}
+		}
+		return 0, DEPTUnknown, false
+	}
+	v, _, end, numOK := scanNumber(s, 0)
+	if !numOK {
+		return 0, DEPTUnknown, false
+	}
+	rest := strings.TrimSpace(s[end:])
+	for _, sep := range []string{"×", "x", "X", "*"} {
+		if r, ok := strings.CutPrefix(rest, sep); ok {
+			rest = strings.TrimSpace(r)
+			break
+		}
+	}
+	n := -1 // written, but not a count
+	if v == math.Trunc(v) && v >= 1 && v <= math.MaxInt32 {
+		n = int(v)
+	}
+	if rest == "C" {
+		// "2C": a number of carbons, whatever their class.
+		return n, DEPTUnknown, true
+	}
+	if d, ok := deptWord(rest); ok {
+		// "2 × CH", "2CH", "2 CH3"
+		return n, d, true
+	}
+	return 0, DEPTUnknown, false
+}
+
+// deptWord reads a DEPT class written as chemists do beside a 13C shift:
+// it starts with a capital C ("CH3", "Cq", "C") or with "quat".
+func deptWord(s string) (DEPT, bool) {
+	s = strings.TrimSpace(s)
+	if !strings.HasPrefix(s, "C") && !hasPrefixFold(s, "quat") {
+		return DEPTUnknown, false
+	}
+	d, ok := deptNames[deptKey(s)]
+	return d, ok
+}
+
+// wholeNumber reads a count written as digits, surrounding space
+// allowed; a count below 1 is returned as −1.
+func wholeNumber(s string) (int, bool) {
+	s = strings.TrimSpace(s)
+	n, err := strconv.Atoi(s)
+	if err != nil || strings.ContainsAny(s, "+-") {
+		return 0, false
+	}
+	if n < 1 {
+		n = -1
+	}
+	return n, true
 }
 
 func isBareBroad(s string) bool {
@@ -926,8 +1158,8 @@ func (p *journal) jValues(s string, base int) ([]float64, error) {
 		if !ok || end != len(t) {
 			return nil, p.errAt(w.pos, w.text, "j", "malformed J value")
 		}
-		if !(v > 0) || v > MaxJ {
-			return nil, p.errAt(w.pos, w.text, "j", "J outside 0 to 100 Hz")
+		if !(v > 0) || v > p.nuc.MaxJ() {
+			return nil, p.errAt(w.pos, w.text, "j", fmt.Sprintf("J outside 0 to %g Hz", p.nuc.MaxJ()))
 		}
 		out = append(out, v)
 	}

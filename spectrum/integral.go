@@ -1,4 +1,4 @@
-package ranker
+package spectrum
 
 import (
 	"fmt"
@@ -52,11 +52,16 @@ const (
 // peaks without an integral, a poor fit (rms above 0.15 H), and minor
 // peaks. If no peak has an integral, implied is all zeros with a warning.
 //
-// It returns a *PeakError (Field "integral") when the formula cannot hold
+// It returns a *PeakError (Field "nucleus") for a list that is not 1H, and
+// (Field "integral") when the formula cannot hold
 // the peaks: more peaks of at least about 1 H than hTotal. The error names
 // the first peak in excess with its Pos and Text from the original input
 // (Input is empty). hTotal < 1 is an error too.
 func ScaleIntegrals(pl PeakList, hTotal int) (implied []float64, warnings []string, err error) {
+	if pl.Nucleus != H1 {
+		return nil, nil, &PeakError{Token: pl.Nucleus.String(), Field: "nucleus",
+			Msg: "integrals are scaled for 1H lists only"}
+	}
 	implied = make([]float64, len(pl.Peaks))
 	if hTotal < 1 {
 		return nil, nil, &PeakError{Token: fmt.Sprint(hTotal), Field: "integral",

@@ -1,4 +1,4 @@
-package ranker
+package spectrum
 
 import (
 	"fmt"
@@ -9,55 +9,58 @@ import (
 	"unicode/utf8"
 )
 
-// ParseJCAMP reads the 1H peak list of a JCAMP-DX file (IUPAC JCAMP-DX
-// 4.24 and 5.01: McDonald and Wilks, Appl. Spectrosc. 1988, 42, 151; NMR
-// labels: Davies and Lampen, Appl. Spectrosc. 1993, 47, 1093).
+// ParseJCAMP reads the 1H and 13C peak lists of a JCAMP-DX file (IUPAC
+// JCAMP-DX 4.24 and 5.01: McDonald and Wilks, Appl. Spectrosc. 1988, 42,
+// 151; NMR labels: Davies and Lampen, Appl. Spectrosc. 1993, 47, 1093).
 //
 // The file is a sequence of labelled data records "##LABEL= value" whose
 // value runs to the next "##"; "$$" starts a comment to the end of the
 // line; labels are compared ignoring case, spaces, hyphens, slashes and
-// underscores. A block runs from ##TITLE= to ##END=; in a compound file
-// (##BLOCKS=) the first block that carries a peak table and whose
-// ##.OBSERVE NUCLEUS= is ^1H (or, without that label, whose ##DATA TYPE=
-// mentions NMR) is used.
+// underscores. A block runs from ##TITLE= to ##END=; a compound file
+// (##BLOCKS=) nests blocks. Every block that carries a peak table gives
+// one PeakList, in file order, when its ##.OBSERVE NUCLEUS= is ^1H or
+// ^13C (or, without that label, when its ##DATA TYPE= mentions NMR: then
+// it is read as 1H). Blocks of other nuclei and techniques are skipped.
 //
-// Within the block:
+// Within a block:
 //   - ##PEAK ASSIGNMENTS= (XYA), (XYMA), (XYWA) or (XYMWA), one
 //     parenthesised entry per signal, "(4.12, 35.0, q, <OCH2>)": each
-//     entry is a peak; M is a multiplicity (NormalizeMultiplicity) and A
+//     entry is a peak; M is a multiplicity (ParseMultiplicity) and A
 //     the assignment, kept as Label. Used when present.
 //   - otherwise ##PEAK TABLE= (XY..XY), (XYW..XYW) or (XYM..XYM): entries
 //     "x,y" separated by spaces or semicolons. With an M column each entry
-//     is a signal. Without one the entries are taken as the lines of a
-//     peak-picked spectrum and grouped into signals: lines closer than
-//     lineGapHz belong to one signal, whose shift is the
-//     intensity-weighted centre and whose range spans its lines; a group
-//     whose spacings and intensities follow the n+1 rule (1:1, 1:2:1,
-//     1:3:3:1, ...) or a doublet of doublets (1:1:1:1) gets that
-//     multiplicity and its J, any other group is "m".
+//     is a signal. Without one, in a 13C block each entry is a peak (a
+//     proton-decoupled spectrum has one line per carbon), and in a 1H
+//     block the entries are taken as the lines of a peak-picked spectrum
+//     and grouped into signals: lines closer than lineGapHz belong to one
+//     signal, whose shift is the intensity-weighted centre and whose range
+//     spans its lines; a group whose spacings and intensities follow the
+//     n+1 rule (1:1, 1:2:1, 1:3:3:1, ...) or a doublet of doublets
+//     (1:1:1:1) gets that multiplicity and its J, any other group is "m".
 //   - ##XUNITS= PPM or HZ; Hz values are converted with
 //     ##.OBSERVE FREQUENCY= (MHz, also stored as PeakList.MHz) and referenced
 //     by ##.SHIFT REFERENCE= (type, compound, point, ppm) when present:
 //     the point's X is ##FIRSTX + (point−1)·##DELTAX when both are given,
 //     otherwise 0 Hz.
-//   - Y is a peak height: the standard has no integral column, so
+//   - Y is a peak height: the standard has no integral column, so a 1H
 //     Integral is left 0 (not given) except where a W (width) column is
 //     given, where it is Y·W summed over the signal's lines (the area of
 //     Lorentzian lines up to a constant factor). ScaleIntegrals only needs
-//     relative areas.
+//     relative areas. 13C heights are not read: 13C intensities do not
+//     count carbons.
 //   - ##.SOLVENT NAME= gives PeakList.Solvent (CanonicalSolvent; ""
 //     when not recognised).
 //
-// Errors are *PeakError with Field the label concerned and Pos the byte
-// offset: a file not starting with ##TITLE=, a missing ##JCAMP-DX=,
-// ##XUNITS= or ##END=, Hz without an observe frequency, malformed numbers
-// or entries, unknown multiplicities, shifts outside MinShift..MaxShift,
-// or no 1H peak table at all (a spectrum of ##XYDATA= alone is not peak
-// picked here).
-func ParseJCAMP(b []byte) (PeakList, error) {
+// Errors are *PeakError with Field the label concerned, Pos the byte
+// offset and Line its line: a file not starting with ##TITLE=, a missing
+// ##JCAMP-DX=, ##XUNITS= or ##END=, Hz without an observe frequency,
+// malformed numbers or entries, unknown multiplicities, shifts outside the
+// nucleus's range, or no 1H or 13C peak table at all (a spectrum of
+// ##XYDATA= alone is not peak picked here).
+func ParseJCAMP(b []byte) ([]PeakList, error) {
 	in := string(b)
 	if len(b) > MaxPeakInput {
-		return PeakList{}, &PeakError{Input: "", Pos: 0, Field: "", Msg: "input longer than 1 MiB"}
+		return nil, &PeakError{Msg: "input longer than 1 MiB"}
 	}
 	if !utf8.Valid(b) {
 		// JCAMP-DX is ASCII; Latin-1 bytes in titles are common, so read
@@ -70,13 +73,21 @@ func ParseJCAMP(b []byte) (PeakList, error) {
 	jc := &jcamp{in: in}
 	root, err := jc.blocks()
 	if err != nil {
-		return PeakList{}, err
+		return nil, err
 	}
-	blk, err := jc.pick(root)
+	picked, err := jc.pick(root)
 	if err != nil {
-		return PeakList{}, err
+		return nil, err
 	}
-	return jc.peakList(blk)
+	lists := make([]PeakList, 0, len(picked))
+	for _, pb := range picked {
+		pl, err := jc.peakList(pb.block, pb.nuc)
+		if err != nil {
+			return nil, err
+		}
+		lists = append(lists, pl)
+	}
+	return lists, nil
 }
 
 // lineGapHz is the largest gap between neighbouring lines of one multiplet
@@ -89,7 +100,8 @@ const lineGapHz = 20.0
 const defaultGroupMHz = 400.0
 
 type jcamp struct {
-	in string
+	in  string
+	nuc Nucleus // nucleus of the block being read
 }
 
 // ldr is one labelled data record.
@@ -116,7 +128,7 @@ func (b *jblock) get(label string) (ldr, bool) {
 }
 
 func (jc *jcamp) errAt(pos int, tok, field, msg string) error {
-	return &PeakError{Input: jc.in, Pos: pos, Token: tok, Field: field, Msg: msg}
+	return newPeakError(jc.in, pos, tok, field, msg)
 }
 
 func normLabel(s string) string {
@@ -255,8 +267,14 @@ func (jc *jcamp) blocks() (*jblock, error) {
 	return root, nil
 }
 
-// pick returns the block holding the 1H peak table.
-func (jc *jcamp) pick(root *jblock) (*jblock, error) {
+// pickedBlock is a block with a peak table of a nucleus shiftrank reads.
+type pickedBlock struct {
+	block *jblock
+	nuc   Nucleus
+}
+
+// pick returns the blocks holding 1H or 13C peak tables, in file order.
+func (jc *jcamp) pick(root *jblock) ([]pickedBlock, error) {
 	var found []*jblock
 	var walk func(b *jblock)
 	walk = func(b *jblock) {
@@ -266,6 +284,7 @@ func (jc *jcamp) pick(root *jblock) (*jblock, error) {
 		}
 	}
 	walk(root)
+	var picked []pickedBlock
 	var other string
 	for _, b := range found {
 		_, pt := b.get("PEAKTABLE")
@@ -274,22 +293,25 @@ func (jc *jcamp) pick(root *jblock) (*jblock, error) {
 			continue
 		}
 		if nuc, ok := b.get(".OBSERVENUCLEUS"); ok {
-			n := strings.ToUpper(strings.TrimSpace(nuc.value))
-			n = strings.TrimPrefix(n, "^")
-			if n != "1H" && n != "H1" && n != "PROTON" {
+			n, err := ParseNucleus(nuc.value)
+			if err != nil {
 				other = strings.TrimSpace(nuc.value)
 				continue
 			}
-			return b, nil
+			picked = append(picked, pickedBlock{b, n})
+			continue
 		}
 		if dt, ok := b.get("DATATYPE"); ok && !strings.Contains(strings.ToUpper(dt.value), "NMR") {
 			other = strings.TrimSpace(dt.value)
 			continue
 		}
-		return b, nil
+		picked = append(picked, pickedBlock{b, H1})
 	}
-	if other != "" {
-		return nil, jc.errAt(0, other, "PEAK TABLE", "no 1H NMR peak table (found "+other+")")
+	switch {
+	case len(picked) > 0:
+		return picked, nil
+	case other != "":
+		return nil, jc.errAt(0, other, "PEAK TABLE", "no 1H or 13C NMR peak table (found "+other+")")
 	}
 	return nil, jc.errAt(0, "", "PEAK TABLE", "no ##PEAK TABLE= or ##PEAK ASSIGNMENTS= in the file")
 }
@@ -344,8 +366,10 @@ func (a axis) ppm(x float64) float64 {
 // 0.0001 ppm, well below what a 1H shift means.
 func roundPPM(x float64) float64 { return math.Round(x*1e4) / 1e4 }
 
-func (jc *jcamp) peakList(b *jblock) (PeakList, error) {
-	var pl PeakList
+// peakList reads the peak table of block b, whose nucleus is nuc.
+func (jc *jcamp) peakList(b *jblock, nuc Nucleus) (PeakList, error) {
+	pl := PeakList{Nucleus: nuc, Pos: b.ldrs[0].pos}
+	jc.nuc = nuc
 	mhz, hasMHz, err := jc.numberLDR(b, ".OBSERVEFREQUENCY")
 	if err != nil {
 		return pl, err
@@ -528,7 +552,7 @@ func (jc *jcamp) assignments(r ldr, ax axis) ([]Peak, error) {
 		if err != nil {
 			return nil, err
 		}
-		if w := strings.IndexByte(vars, 'W'); w >= 0 {
+		if w := strings.IndexByte(vars, 'W'); w >= 0 && jc.nuc == H1 {
 			// Height times width: the area of a Lorentzian line up to a
 			// constant factor.
 			y, okY := jnum(fields[1].text)
@@ -591,11 +615,11 @@ func (jc *jcamp) entry(r ldr, vars string, fields []jfield, ax axis, pos int, te
 			if f.text == "" || f.text == "?" {
 				continue
 			}
-			code, app, ok := NormalizeMultiplicity(f.text)
+			m, ok := parseMultiplicity(f.text)
 			if !ok {
 				return pk, jc.errAt(f.pos, trimTok(f.text), r.raw, "unknown multiplicity")
 			}
-			pk.Multiplicity, pk.Apparent = code, app
+			pk.Multiplicity = m
 		case 'A':
 			a := strings.TrimSpace(f.text)
 			a = strings.TrimSuffix(strings.TrimPrefix(a, "<"), ">")
@@ -603,7 +627,7 @@ func (jc *jcamp) entry(r ldr, vars string, fields []jfield, ax axis, pos int, te
 		}
 	}
 	pk.Pos, pk.Text = pos, strings.TrimSpace(text)
-	if _, msg := checkPeak(pk); msg != "" {
+	if _, msg := checkPeak(jc.nuc, pk); msg != "" {
 		return pk, jc.errAt(pos, trimTok(text), r.raw, msg)
 	}
 	return pk, nil
@@ -638,7 +662,7 @@ func (jc *jcamp) table(r ldr, ax axis, groupMHz float64) ([]Peak, error) {
 		if err != nil {
 			return nil, err
 		}
-		if hasM {
+		if hasM || jc.nuc == C13 {
 			peaks = append(peaks, pk)
 			continue
 		}
@@ -649,7 +673,7 @@ func (jc *jcamp) table(r ldr, ax axis, groupMHz float64) ([]Peak, error) {
 		}
 		lines = append(lines, jline{ppm: pk.Shift, y: y, w: w, pos: e.pos, text: pk.Text})
 	}
-	if hasM {
+	if hasM || jc.nuc == C13 {
 		if len(peaks) > MaxPeaks {
 			return nil, jc.errAt(r.vpos, trimTok(r.value), r.raw, "more than 1000 peaks")
 		}
@@ -723,8 +747,6 @@ var binomial = [][]float64{
 	{1, 5, 10, 10, 5, 1}, {1, 6, 15, 20, 15, 6, 1},
 }
 
-var binomialCode = []string{"", "s", "d", "t", "q", "quint", "sext", "sept"}
-
 // multiplet builds one signal from its lines (sorted high to low ppm).
 func multiplet(ls []jline, mhz float64, hasW bool) Peak {
 	var pk Peak
@@ -741,7 +763,7 @@ func multiplet(ls []jline, mhz float64, hasW bool) Peak {
 		centre = sumXY / sumY
 	}
 	pk.Multiplicity, pk.J = firstOrder(ls, mhz)
-	if pk.Multiplicity == "m" {
+	if pk.Multiplicity.IsMultiplet() {
 		// A multiplet is reported as the range of its lines.
 		pk.ShiftLo, pk.ShiftHi, pk.Shift = lo, hi, (lo+hi)/2
 	} else {
@@ -763,10 +785,10 @@ func multiplet(ls []jline, mhz float64, hasW bool) Peak {
 // firstOrder recognises n+1-rule patterns and doublets of doublets in a
 // group of lines: spacings equal within 0.5 Hz (or 10 %), intensities
 // within 30 % of the pattern. Anything else is "m".
-func firstOrder(ls []jline, mhz float64) (string, []float64) {
+func firstOrder(ls []jline, mhz float64) (Multiplicity, []float64) {
 	n := len(ls)
 	if n == 1 {
-		return "s", nil
+		return Singlet(), nil
 	}
 	sp := make([]float64, n-1)
 	for i := range sp {
@@ -791,13 +813,13 @@ func firstOrder(ls []jline, mhz float64) (string, []float64) {
 		}
 		mean = roundJ(mean / float64(len(sp)))
 		if equal && mean > 0 && (n == 2 || intensitiesFit(y, binomial[n])) {
-			return binomialCode[n], []float64{mean}
+			return Split(n), []float64{mean}
 		}
 	}
 	if n == 4 && roundJ(sp[0]) > 0 && near(sp[0], sp[2]) && !near(sp[0], sp[1]) && intensitiesFit(y, []float64{1, 1, 1, 1}) {
-		return "dd", []float64{roundJ(sp[0] + sp[1]), roundJ(sp[0])}
+		return Split(2, 2), []float64{roundJ(sp[0] + sp[1]), roundJ(sp[0])}
 	}
-	return "m", nil
+	return Multiplet(), nil
 }
 
 func intensitiesFit(y, want []float64) bool {

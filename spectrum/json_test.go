@@ -1,4 +1,4 @@
-package ranker
+package spectrum
 
 import (
 	"encoding/json"
@@ -17,31 +17,31 @@ func readJSON(t *testing.T, path string, v any) {
 	}
 }
 
-func TestParsePeaksJSON(t *testing.T) {
+func TestParseJSON(t *testing.T) {
 	for _, c := range loadCases(t, "json.json") {
 		t.Run(c.Name, func(t *testing.T) {
-			pl, err := ParsePeaksJSON([]byte(c.Input))
+			lists, err := ParseJSON([]byte(c.Input))
 			if c.Err != nil {
 				if err == nil {
-					t.Fatalf("ParsePeaksJSON(%s) = %v, want an error", c.Input, pl)
+					t.Fatalf("ParseJSON(%s) = %v, want an error", c.Input, lists)
 				}
 				checkErr(t, c.Name, err, *c.Err)
 				return
 			}
 			if err != nil {
-				t.Fatalf("ParsePeaksJSON(%s): %v", c.Input, err)
+				t.Fatalf("ParseJSON(%s): %v", c.Input, err)
 			}
-			checkList(t, c.Name, pl, *c.Want)
-			b, err := json.Marshal(pl)
+			checkLists(t, c.Name, lists, c.wantLists())
+			b, err := json.Marshal(lists)
 			if err != nil {
 				t.Fatal(err)
 			}
-			again, err := ParsePeaksJSON(b)
+			again, err := ParseJSON(b)
 			if err != nil {
-				t.Fatalf("ParsePeaksJSON(Marshal = %s): %v", b, err)
+				t.Fatalf("ParseJSON(Marshal = %s): %v", b, err)
 			}
-			if !samePeaks(pl, again) {
-				t.Errorf("JSON round trip:\n got %v\nwant %v", again, pl)
+			if !sameLists(lists, again) {
+				t.Errorf("JSON round trip:\n got %v\nwant %v", again, lists)
 			}
 		})
 	}

@@ -1,8 +1,11 @@
-package ranker
+package spectrum
 
 import (
 	"math"
 	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
 )
 
 // gottlieb1997 restates the residual and water signals of Gottlieb,
@@ -26,7 +29,7 @@ var gottlieb1997 = []struct {
 
 func TestSolventPeaks(t *testing.T) {
 	for _, c := range gottlieb1997 {
-		sigs := SolventPeaks(c.solvent)
+		sigs := SolventPeaks(c.solvent, H1)
 		if len(sigs) == 0 {
 			t.Errorf("SolventPeaks(%q) = none", c.solvent)
 			continue
@@ -51,7 +54,7 @@ func TestSolventPeaks(t *testing.T) {
 			t.Errorf("SolventPeaks(%q) reference = %v, want 0.00 (TMS/DSS by definition)", c.solvent, ref)
 		}
 	}
-	if SolventPeaks("CCl4") != nil {
+	if SolventPeaks("CCl4", H1) != nil {
 		t.Error("SolventPeaks(CCl4) should be nil: not a known deuterated solvent")
 	}
 }
@@ -84,7 +87,7 @@ func TestFlagSolvent(t *testing.T) {
 	// Ethyl acetate in CDCl3 (Gottlieb et al. 1997, from memory) with the
 	// residual CHCl3, water and TMS signals as a peak-picking export lists
 	// them, and a phenyl multiplet that spans 7.26.
-	pl, err := ParsePeaks("1H NMR (400 MHz, CDCl3) δ 7.35–7.20 (m, 5H), 7.26 (s), 4.12 (q, J = 7.1 Hz, 2H), " +
+	pl, err := parse1H("1H NMR (400 MHz, CDCl3) δ 7.35–7.20 (m, 5H), 7.26 (s), 4.12 (q, J = 7.1 Hz, 2H), " +
 		"2.05 (s, 3H), 1.60 (br s), 1.26 (t, J = 7.1 Hz, 3H), 0.00 (s)")
 	if err != nil {
 		t.Fatal(err)
@@ -117,12 +120,12 @@ func TestFlagSolvent(t *testing.T) {
 	}
 	// A methoxy singlet 0.05 ppm from the water signal of DMSO-d6 is
 	// flagged but kept; a broad one there is water.
-	pl3, _ := ParsePeaks("1H NMR (DMSO-d6) δ 3.28 (s, 3H), 3.38 (br s, 2H)")
+	pl3, _ := parse1H("1H NMR (DMSO-d6) δ 3.28 (s, 3H), 3.38 (br s, 2H)")
 	if f := FlagSolvent(pl3, ""); len(f) != 2 || f[0].Exclude || !f[1].Exclude {
 		t.Errorf("FlagSolvent(DMSO-d6 3.28 s 3H, 3.38 br s) = %+v, want the first kept, the second excluded", f)
 	}
 	// A compound's triplet at the water shift is not water.
-	pl2, _ := ParsePeaks("δ 1.56 (t, J = 7 Hz, 3H)")
+	pl2, _ := parse1H("δ 1.56 (t, J = 7 Hz, 3H)")
 	if f := FlagSolvent(pl2, "CDCl3"); len(f) != 1 || f[0].Exclude {
 		t.Errorf("FlagSolvent(triplet at 1.56) = %+v, want one non-excluding flag", f)
 	}
@@ -131,5 +134,69 @@ func TestFlagSolvent(t *testing.T) {
 	}
 	if f := FlagSolvent(PeakList{Peaks: pl.Peaks}, ""); f != nil {
 		t.Errorf("FlagSolvent without a solvent = %+v, want nil", f)
+	}
+}
+
+// gottlieb1997Carbon restates the 13C solvent signals of Gottlieb,
+// Kotlyar, Nudelman, J. Org. Chem. 1997, 62, 7512, Table 2, and for CD2Cl2
+// of Fulmer et al., Organometallics 2010, 29, 2176, Table 2 (values from
+// memory); lines is the number of lines of the C–D multiplet (2n + 1 for n
+// deuterons, common practice).
+var gottlieb1997Carbon = []struct {
+	solvent string
+	shift   float64
+	lines   int
+}{
+	{"CDCl3", 77.16, 3},
+	{"DMSO-d6", 39.52, 7},
+	{"acetone-d6", 29.84, 7},
+	{"acetone-d6", 206.26, 1},
+	{"CD3OD", 49.00, 7},
+	{"C6D6", 128.06, 3},
+	{"CD3CN", 1.32, 7},
+	{"CD3CN", 118.26, 1},
+	{"CD2Cl2", 53.84, 5},
+}
+
+func TestCarbonSolventPeaks(t *testing.T) {
+	for _, c := range gottlieb1997Carbon {
+		t.Run(c.solvent, func(t *testing.T) {
+			var found *SolventSignal
+			for _, s := range SolventPeaks(c.solvent, C13) {
+				assert.Equal(t, C13, s.Nucleus)
+				if s.Kind == "residual" && math.Abs(s.Shift-c.shift) < 0.005 {
+					found = &s
+				}
+			}
+			require.NotNil(t, found, "SolventPeaks(%q, 13C) has no signal at %.2f ppm (Gottlieb et al. 1997)", c.solvent, c.shift)
+			lines := 1
+			if found.Multiplicity.NumFactors() == 1 {
+				lines = found.Multiplicity.Factor(0)
+			}
+			assert.Equal(t, c.lines, lines, "SolventPeaks(%q, 13C) %.2f ppm lines", c.solvent, c.shift)
+		})
+	}
+	assert.Empty(t, SolventPeaks("D2O", C13), "D2O has no carbon")
+	assert.Nil(t, SolventPeaks("CCl4", C13), "not a known deuterated solvent")
+}
+
+// TestFlagSolventCarbon flags the CDCl3 signal in a 13C list of ethyl
+// acetate (Gottlieb et al. 1997, Table 2; from memory), whether referenced
+// at 77.16 or at the older 77.0 (common practice), and nothing else.
+func TestFlagSolventCarbon(t *testing.T) {
+	for _, in := range []string{
+		"13C NMR (101 MHz, CDCl3) δ 171.36, 77.16, 60.49, 21.04, 14.19",
+		"13C NMR (101 MHz, CDCl3) δ 171.36, 77.0, 60.49, 21.04, 14.19",
+	} {
+		pl, err := ReadList([]byte(in), C13)
+		require.NoError(t, err)
+		flags := FlagSolvent(pl, "")
+		require.Len(t, flags, 1, "%s: flags %v", in, flags)
+		assert.Equal(t, 1, flags[0].Peak)
+		assert.Equal(t, "CDCl3", flags[0].Signal.Name)
+		assert.True(t, flags[0].Exclude)
+		kept, idx := ExcludeFlagged(pl, flags)
+		assert.Equal(t, C13, kept.Nucleus)
+		assert.Equal(t, []int{0, 2, 3, 4}, idx)
 	}
 }

@@ -1,4 +1,4 @@
-package ranker
+package spectrum
 
 import (
 	"math"
@@ -78,14 +78,16 @@ func CanonicalSolvent(name string) (string, bool) {
 }
 
 // SolventSignal is a known signal of an NMR solvent: the residual
-// protio-solvent peak, dissolved water, or the TMS reference.
+// protio-solvent peak (1H) or the solvent's own carbons (13C), dissolved
+// water (1H), or the TMS reference.
 type SolventSignal struct {
-	Solvent      string  // canonical solvent name
-	Kind         string  // "residual", "water" or "reference"
-	Name         string  // the species: "CHCl3", "H2O", "HOD", "TMS", ...
-	Shift        float64 // ppm
-	Multiplicity string  // as observed: "s", "quint" (CHD2 groups), "br s"
-	Tolerance    float64 // ppm: a peak this close to Shift is flagged
+	Solvent      string       // canonical solvent name
+	Nucleus      Nucleus      // 1H or 13C
+	Kind         string       // "residual", "water" or "reference"
+	Name         string       // the species: "CHCl3", "H2O", "HOD", "TMS", ...
+	Shift        float64      // ppm
+	Multiplicity Multiplicity // as observed: s, quint (CHD2 groups), br s; 13C: the C–D splitting
+	Tolerance    float64      // ppm: a peak this close to Shift is flagged
 }
 
 // Tolerances for FlagSolvent, ppm. The residual and TMS signals are sharp
@@ -93,9 +95,14 @@ type SolventSignal struct {
 // concentration, temperature and hydrogen bonding by up to about 0.1 ppm
 // (Gottlieb, Kotlyar, Nudelman, J. Org. Chem. 1997, 62, 7512, discussion
 // of the water signal; from memory).
+//
+// 13C solvent signals are referenced inconsistently: CDCl3 is set to
+// 77.16 (Gottlieb et al. 1997) or to the older 77.0 (common practice), so
+// a 13C solvent peak is flagged within 0.2 ppm.
 const (
-	residualTolerance = 0.03
-	waterTolerance    = 0.10
+	residualTolerance      = 0.03
+	waterTolerance         = 0.10
+	carbonSolventTolerance = 0.2
 )
 
 // solventTable lists the residual and water signals of each solvent:
@@ -106,45 +113,88 @@ const (
 // at 0.00 (common practice).
 var solventTable = map[string][]SolventSignal{
 	SolventCDCl3: {
-		{Kind: "residual", Name: "CHCl3", Shift: 7.26, Multiplicity: "s"},
-		{Kind: "water", Name: "H2O", Shift: 1.56, Multiplicity: "s"},
-		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+		{Kind: "residual", Name: "CHCl3", Shift: 7.26, Multiplicity: Singlet()},
+		{Kind: "water", Name: "H2O", Shift: 1.56, Multiplicity: Singlet()},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
 	},
 	SolventDMSO: {
-		{Kind: "residual", Name: "DMSO-d5", Shift: 2.50, Multiplicity: "quint"},
-		{Kind: "water", Name: "H2O", Shift: 3.33, Multiplicity: "s"},
-		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+		{Kind: "residual", Name: "DMSO-d5", Shift: 2.50, Multiplicity: Split(5)},
+		{Kind: "water", Name: "H2O", Shift: 3.33, Multiplicity: Singlet()},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
 	},
 	SolventAcetone: {
-		{Kind: "residual", Name: "acetone-d5", Shift: 2.05, Multiplicity: "quint"},
-		{Kind: "water", Name: "H2O", Shift: 2.84, Multiplicity: "s"},
-		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+		{Kind: "residual", Name: "acetone-d5", Shift: 2.05, Multiplicity: Split(5)},
+		{Kind: "water", Name: "H2O", Shift: 2.84, Multiplicity: Singlet()},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
 	},
 	SolventCD3OD: {
-		{Kind: "residual", Name: "CHD2OD", Shift: 3.31, Multiplicity: "quint"},
+		{Kind: "residual", Name: "CHD2OD", Shift: 3.31, Multiplicity: Split(5)},
 		// The solvent OH (CD3OH/HOD exchange) and dissolved water give one
 		// signal at 4.87.
-		{Kind: "water", Name: "H2O/OH", Shift: 4.87, Multiplicity: "s"},
-		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+		{Kind: "water", Name: "H2O/OH", Shift: 4.87, Multiplicity: Singlet()},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
 	},
 	SolventD2O: {
-		{Kind: "water", Name: "HOD", Shift: 4.79, Multiplicity: "s"},
-		{Kind: "reference", Name: "DSS", Shift: 0.00, Multiplicity: "s"},
+		{Kind: "water", Name: "HOD", Shift: 4.79, Multiplicity: Singlet()},
+		{Kind: "reference", Name: "DSS", Shift: 0.00, Multiplicity: Singlet()},
 	},
 	SolventC6D6: {
-		{Kind: "residual", Name: "C6D5H", Shift: 7.16, Multiplicity: "s"},
-		{Kind: "water", Name: "H2O", Shift: 0.40, Multiplicity: "s"},
-		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+		{Kind: "residual", Name: "C6D5H", Shift: 7.16, Multiplicity: Singlet()},
+		{Kind: "water", Name: "H2O", Shift: 0.40, Multiplicity: Singlet()},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
 	},
 	SolventCD3CN: {
-		{Kind: "residual", Name: "CHD2CN", Shift: 1.94, Multiplicity: "quint"},
-		{Kind: "water", Name: "H2O", Shift: 2.13, Multiplicity: "s"},
-		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+		{Kind: "residual", Name: "CHD2CN", Shift: 1.94, Multiplicity: Split(5)},
+		{Kind: "water", Name: "H2O", Shift: 2.13, Multiplicity: Singlet()},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
 	},
 	SolventCD2Cl2: {
-		{Kind: "residual", Name: "CHDCl2", Shift: 5.32, Multiplicity: "t"},
-		{Kind: "water", Name: "H2O", Shift: 1.52, Multiplicity: "s"},
-		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: "s"},
+		{Kind: "residual", Name: "CHDCl2", Shift: 5.32, Multiplicity: Split(3)},
+		{Kind: "water", Name: "H2O", Shift: 1.52, Multiplicity: Singlet()},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
+	},
+}
+
+// carbonSolventTable lists the 13C signals of each solvent: Gottlieb,
+// Kotlyar, Nudelman, J. Org. Chem. 1997, 62, 7512, Table 2 (13C), and for
+// CD2Cl2 Fulmer, Miller, Sherden, Gottlieb, Nudelman, Stoltz, Bercaw,
+// Goldberg, Organometallics 2010, 29, 2176, Table 2. Values from memory.
+// The splitting is by deuterium (spin 1: 2n + 1 lines for n equivalent D):
+// CDCl3 and C6D6 triplets, CD2Cl2 a quintet, CD3 groups septets; the
+// carbonyl of acetone-d6 and the nitrile carbon of CD3CN show no resolved
+// splitting. D2O has no carbon. TMS is at 0.00 by definition in the
+// organic solvents (common practice).
+var carbonSolventTable = map[string][]SolventSignal{
+	SolventCDCl3: {
+		{Kind: "residual", Name: "CDCl3", Shift: 77.16, Multiplicity: Split(3)},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
+	},
+	SolventDMSO: {
+		{Kind: "residual", Name: "DMSO-d6", Shift: 39.52, Multiplicity: Split(7)},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
+	},
+	SolventAcetone: {
+		{Kind: "residual", Name: "acetone-d6 CO", Shift: 206.26, Multiplicity: Singlet()},
+		{Kind: "residual", Name: "acetone-d6 CD3", Shift: 29.84, Multiplicity: Split(7)},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
+	},
+	SolventCD3OD: {
+		{Kind: "residual", Name: "CD3OD", Shift: 49.00, Multiplicity: Split(7)},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
+	},
+	SolventD2O: {},
+	SolventC6D6: {
+		{Kind: "residual", Name: "C6D6", Shift: 128.06, Multiplicity: Split(3)},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
+	},
+	SolventCD3CN: {
+		{Kind: "residual", Name: "CD3CN CN", Shift: 118.26, Multiplicity: Singlet()},
+		{Kind: "residual", Name: "CD3CN CD3", Shift: 1.32, Multiplicity: Split(7)},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
+	},
+	SolventCD2Cl2: {
+		{Kind: "residual", Name: "CD2Cl2", Shift: 53.84, Multiplicity: Split(5)},
+		{Kind: "reference", Name: "TMS", Shift: 0.00, Multiplicity: Singlet()},
 	},
 }
 
@@ -159,22 +209,32 @@ func Solvents() []string {
 	return names
 }
 
-// SolventPeaks returns the residual, water and reference signals of a
-// solvent (any spelling CanonicalSolvent accepts), from Gottlieb, Kotlyar,
-// Nudelman, J. Org. Chem. 1997, 62, 7512 (values from memory). It returns
-// nil for an unknown solvent. The result is a fresh slice.
-func SolventPeaks(solvent string) []SolventSignal {
+// SolventPeaks returns the signals of a solvent (any spelling
+// CanonicalSolvent accepts) in spectra of nucleus n: for 1H the residual,
+// water and reference signals (Gottlieb, Kotlyar, Nudelman, J. Org. Chem.
+// 1997, 62, 7512, Table 1), for 13C the solvent and reference signals
+// (Table 2 there; Fulmer et al., Organometallics 2010, 29, 2176 for
+// CD2Cl2); values from memory. It returns nil for an unknown solvent and
+// an empty slice for a solvent without signals of n (D2O in 13C). The
+// result is a fresh slice.
+func SolventPeaks(solvent string, n Nucleus) []SolventSignal {
 	c, ok := CanonicalSolvent(solvent)
 	if !ok {
 		return nil
 	}
 	src := solventTable[c]
+	if n == C13 {
+		src = carbonSolventTable[c]
+	}
 	out := make([]SolventSignal, len(src))
 	for i, s := range src {
-		s.Solvent = c
-		if s.Kind == "water" {
+		s.Solvent, s.Nucleus = c, n
+		switch {
+		case n == C13:
+			s.Tolerance = carbonSolventTolerance
+		case s.Kind == "water":
 			s.Tolerance = waterTolerance
-		} else {
+		default:
 			s.Tolerance = residualTolerance
 		}
 		out[i] = s
@@ -200,7 +260,7 @@ type PeakFlag struct {
 
 // FlagSolvent returns a flag for each peak of pl that matches a residual,
 // water or reference signal of solvent (any spelling CanonicalSolvent
-// accepts; "" means pl.Solvent). A peak is flagged for the closest
+// accepts; "" means pl.Solvent) for the list's nucleus. A peak is flagged for the closest
 // matching signal only. The result is nil for an unknown or empty
 // solvent, and ordered by peak index. Scoring leaves out the peaks whose
 // flag has Exclude set unless the user keeps them.
@@ -208,7 +268,7 @@ func FlagSolvent(pl PeakList, solvent string) []PeakFlag {
 	if solvent == "" {
 		solvent = pl.Solvent
 	}
-	signals := SolventPeaks(solvent)
+	signals := SolventPeaks(solvent, pl.Nucleus)
 	var flags []PeakFlag
 	for i, p := range pl.Peaks {
 		best := -1
@@ -222,7 +282,7 @@ func FlagSolvent(pl PeakList, solvent string) []PeakFlag {
 				// the compound's (a methoxy group near water in DMSO-d6):
 				// flag it without leaving it out.
 				f.Exclude = sig.Kind != "water" || math.Abs(f.Delta) <= residualTolerance ||
-					p.Integral == 0 || p.Multiplicity != "s"
+					p.Integral == 0 || p.Multiplicity.Code() != "s"
 			case p.ShiftLo-sig.Tolerance <= sig.Shift && sig.Shift <= p.ShiftHi+sig.Tolerance:
 				// Inside a range, or near a peak of another multiplicity.
 			default:
@@ -247,14 +307,14 @@ func FlagSolvent(pl PeakList, solvent string) []PeakFlag {
 // fitsSignal reports whether an observed multiplicity is consistent with a
 // solvent signal: not reported, a singlet (residual CHD2 quintets are
 // often reported as s or m at low resolution), or the signal's own pattern.
-func fitsSignal(mult string, sig SolventSignal) bool {
-	switch mult {
+func fitsSignal(m Multiplicity, sig SolventSignal) bool {
+	switch code := m.Code(); code {
 	case "", "s", "br s":
 		return true
-	case sig.Multiplicity:
+	case sig.Multiplicity.Code():
 		return true
 	case "m":
-		return sig.Kind == "residual" && sig.Multiplicity != "s"
+		return sig.Kind == "residual" && !sig.Multiplicity.IsSinglet()
 	}
 	return false
 }
@@ -268,7 +328,7 @@ func ExcludeFlagged(pl PeakList, flags []PeakFlag) (PeakList, []int) {
 			drop[f.Peak] = true
 		}
 	}
-	out := PeakList{MHz: pl.MHz, Solvent: pl.Solvent}
+	out := PeakList{Nucleus: pl.Nucleus, MHz: pl.MHz, Solvent: pl.Solvent, Pos: pl.Pos}
 	var idx []int
 	for i, p := range pl.Peaks {
 		if !drop[i] {

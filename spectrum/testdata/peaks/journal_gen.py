@@ -1,4 +1,4 @@
-# Generates ranker/testdata/peaks/journal.json: positions computed here, independently of the Go parser.
+# Generates spectrum/testdata/peaks/journal.json: positions computed here, independently of the Go parser.
 import json
 cases = []
 def ok(name, inp, mhz=0, solvent="", peaks=(), source=""):
@@ -10,7 +10,19 @@ def bad(name, inp, token, field, occurrence=1, msg="", pos=None):
         pos = -1
         for _ in range(occurrence):
             pos = b.index(t, pos + 1)
-    cases.append({"name": name, "input": inp, "err": {"pos": pos, "token": token, "field": field, "msg": msg}})
+    line = b[:pos].count(b"\n") + 1
+    cases.append({"name": name, "input": inp, "err": {"pos": pos, "line": line, "token": token, "field": field, "msg": msg}})
+def lists(name, inp, ls, source=""):
+    cases.append({"name": name, "source": source, "input": inp, "lists": ls})
+def L(nucleus, peaks, mhz=0, solvent=""):
+    d = {"mhz": mhz, "solvent": solvent, "peaks": list(peaks)}
+    if nucleus != "1H": d["nucleus"] = nucleus
+    return d
+def C(shift=None, rng=None, m="", j=None, count=0, dept="", label=""):
+    d = P(shift, rng, m, j, 0, label)
+    if count: d["count"] = count
+    if dept: d["dept"] = dept
+    return d
 def P(shift=None, rng=None, m="", j=None, i=0, label="", app=False):
     d = {}
     if shift is not None: d["shift"] = shift
@@ -73,7 +85,8 @@ ok("peak without description", "δ 7.26, 2.05 (s)", peaks=[P(7.26), P(2.05, m="s
 ok("full-word multiplicities", "δ 7.80 (doublet of doublets, J = 8.0, 2.1 Hz, 1H), 1.26 (triplet, 3H), 2.05 (singlet, 3H)",
    peaks=[P(7.80, m="dd", j=[8.0, 2.1], i=1), P(1.26, m="t", i=3), P(2.05, m="s", i=3)])
 ok("AB quartet read as multiplet", "δ 4.55 (ABq, J = 12.0 Hz, 2H)", peaks=[P(4.55, m="m", j=[12.0], i=2)])
-ok("following 13C section ends the list", "1H NMR (400 MHz, CDCl3) δ 2.05 (s, 3H); 13C NMR (101 MHz, CDCl3) δ 171.1, 21.0.", 400, "CDCl3", [P(2.05, m="s", i=3)])
+lists("1H and 13C sections", "1H NMR (400 MHz, CDCl3) δ 2.05 (s, 3H); 13C NMR (101 MHz, CDCl3) δ 171.1, 21.0.",
+      [L("1H", [P(2.05, m="s", i=3)], 400, "CDCl3"), L("13C", [C(171.1), C(21.0)], 101, "CDCl3")])
 ok("following HRMS ends the list", "δ 2.05 (s, 3H). HRMS (ESI) m/z calcd for C4H8O2", peaks=[P(2.05, m="s", i=3)])
 ok("ppm after the list", "δ 2.05 (s, 3H), 1.26 (t, 3H) ppm.", peaks=[P(2.05, m="s", i=3), P(1.26, m="t", i=3)])
 ok("ppm after shift", "δ 2.05 ppm (s, 3H)", peaks=[P(2.05, m="s", i=3)])
@@ -108,7 +121,6 @@ bad("malformed shift", "δ 4.12 (q, 2H), 2.0.5 (s, 3H)", "2.0.5", "shift")
 bad("malformed J", "δ 4.12 (q, J = 7.x Hz, 2H)", "7.x", "j")
 bad("J out of range", "δ 4.12 (q, J = 170 Hz, 2H)", "170", "j")
 bad("unclosed parenthesis", "δ 4.12 (q, J = 7.1 Hz, 2H, 2.05 (s, 3H)", "(q", "peak")
-bad("13C list", "13C NMR (101 MHz, CDCl3) δ 171.1, 60.4, 21.0, 14.2", "13C", "header")
 bad("no peaks", "1H NMR (400 MHz, CDCl3) δ", "", "shift", pos=len("1H NMR (400 MHz, CDCl3) δ".encode()))
 bad("garbage", "hello world", "hello", "shift")
 bad("two multiplicities", "δ 4.12 (q, t, 2H)", "t", "multiplicity", occurrence=1)
@@ -118,4 +130,49 @@ bad("text after the final period", "δ 4.12 (q, 2H). and more", "and", "")
 bad("field out of range", "1H NMR (4000 MHz) δ 2.05 (s)", "4000 MHz", "mhz")
 bad("bare number item", "δ 4.12 (q, 2H, 2)", "2", "integral", occurrence=3)
 bad("bare number after a singlet", "δ 4.12 (s, 3)", "3", "integral")
+
+# 13C lists. Ethyl acetate and toluene in CDCl3: Gottlieb, Kotlyar, Nudelman,
+# J. Org. Chem. 1997, 62, 7512, Table 2 (from memory).
+GOT13 = "Gottlieb, Kotlyar, Nudelman, J. Org. Chem. 1997, 62, 7512, Table 2 (from memory)"
+EA13 = [C(171.36), C(60.49), C(21.04), C(14.19)]
+lists("13C list alone", "13C NMR (101 MHz, CDCl3) δ 171.36, 60.49, 21.04, 14.19", [L("13C", EA13, 101, "CDCl3")], GOT13)
+lists("13C{1H} header, DEPT classes, final period", "13C{1H} NMR (126 MHz, CDCl3) δ 171.36 (C), 60.49 (CH2), 21.04 (CH3), 14.19 (CH3).",
+      [L("13C", [C(171.36, dept="C"), C(60.49, dept="CH2"), C(21.04, dept="CH3"), C(14.19, dept="CH3")], 126, "CDCl3")], GOT13)
+lists("superscripts, hyphen, counts and classes", "¹³C-NMR (CDCl3): δ 137.89 (Cq), 129.07 (2 × CH), 128.26 (2C, CH), 125.33 (CH), 21.46 (CH3)",
+      [L("13C", [C(137.89, dept="C"), C(129.07, count=2, dept="CH"), C(128.26, count=2, dept="CH"), C(125.33, dept="CH"), C(21.46, dept="CH3")], 0, "CDCl3")], GOT13)
+lists("count spellings", "13C NMR δ 129.07 (2 C), 128.26 (CH, 2C), 125.33 (1C), 128.5 (CH × 2), 127.9 (3CH)",
+      [L("13C", [C(129.07, count=2), C(128.26, count=2, dept="CH"), C(125.33, count=1), C(128.5, count=2, dept="CH"), C(127.9, count=3, dept="CH")])])
+lists("class spellings", "13C NMR δ 171.4 (quaternary), 137.9 (C_q), 21.5 (CH₃), 60.5 (CH₂)",
+      [L("13C", [C(171.4, dept="C"), C(137.9, dept="C"), C(21.5, dept="CH3"), C(60.5, dept="CH2")])])
+lists("labels in a 13C list", "13C NMR δ 171.4 (C=O), 60.5 (OCH2, CH2), 14.2 (C-2)",
+      [L("13C", [C(171.4, label="C=O"), C(60.5, dept="CH2", label="OCH2"), C(14.2, label="C-2")])])
+# Fluorobenzene-like C–F doublets: notation example (1J(C,F) about 245 Hz and
+# 2J about 21 Hz are common practice; Pretsch et al., from memory).
+lists("C–F couplings in a 13C list", "13C NMR (101 MHz, CDCl3) δ 162.9 (d, J = 245.3 Hz, C), 115.4 (d, JC–F = 21.2 Hz, 2C, CH)",
+      [L("13C", [C(162.9, m="d", j=[245.3], dept="C"), C(115.4, m="d", j=[21.2], count=2, dept="CH")], 101, "CDCl3")])
+lists("delta C header", "δC (CDCl3) 171.4, 60.5", [L("13C", [C(171.4), C(60.5)], 0, "CDCl3")])
+lists("delta H then delta C", "δH (CDCl3) 2.05 (s, 3H); δC 171.4, 21.0",
+      [L("1H", [P(2.05, m="s", i=3)], 0, "CDCl3"), L("13C", [C(171.4), C(21.0)])])
+lists("1H, 13C and HRMS", "1H NMR (400 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H); 13C NMR (101 MHz, CDCl3) δ 171.36, 60.49, 21.04, 14.19; HRMS (ESI) calcd for C4H9O2 [M+H]+ 89.0597, found 89.0598.",
+      [L("1H", EA, 400, "CDCl3"), L("13C", EA13, 101, "CDCl3")], GOT13)
+lists("sections on separate lines", "1H NMR (400 MHz, CDCl3) δ 2.05 (s, 3H)\n13C NMR (101 MHz, CDCl3) δ 171.1, 21.0\n",
+      [L("1H", [P(2.05, m="s", i=3)], 400, "CDCl3"), L("13C", [C(171.1), C(21.0)], 101, "CDCl3")])
+lists("19F section skipped", "1H NMR (400 MHz, CDCl3) δ 7.05 (m, 4H); 19F NMR (376 MHz, CDCl3) δ −117.5 (m, 1F); 13C NMR (101 MHz, CDCl3) δ 162.9 (d, J = 245 Hz)",
+      [L("1H", [P(7.05, m="m", i=4)], 400, "CDCl3"), L("13C", [C(162.9, m="d", j=[245])], 101, "CDCl3")])
+lists("two 1H lists", "1H NMR (CDCl3) δ 2.05 (s, 3H); 1H NMR (DMSO-d6) δ 1.99 (s, 3H)",
+      [L("1H", [P(2.05, m="s", i=3)], 0, "CDCl3"), L("1H", [P(1.99, m="s", i=3)], 0, "DMSO-d6")])
+lists("iodomethane-range 13C shift", "13C NMR δ -20.7", [L("13C", [C(-20.7)])])
+bad("13C shift out of range", "13C NMR δ 171.4, 270.5", "270.5", "shift")
+bad("13C shift too low", "13C NMR δ 171.4, -70", "-70", "shift")
+bad("13C list without header", "δ 171.4, 60.5", "171.4", "shift")
+bad("integral in a 13C list", "13C NMR δ 171.4 (2H)", "2H", "integral")
+bad("zero count", "13C NMR δ 128.5 (0C)", "0C", "count")
+bad("fractional count", "13C NMR δ 128.5 (1.5C)", "1.5C", "count")
+bad("two counts", "13C NMR δ 128.5 (2C, 3C)", "3C", "count", occurrence=2)
+bad("two DEPT classes", "13C NMR δ 128.5 (CH, CH2)", "CH2", "dept")
+bad("bare number in a 13C list", "13C NMR δ 128.5 (2)", "2", "count", occurrence=2)
+bad("J above the 13C limit", "13C NMR δ 120.1 (d, J = 450 Hz)", "450", "j")
+bad("empty 13C section", "1H NMR δ 2.05 (s, 3H); 13C NMR (101 MHz, CDCl3) δ", "", "shift", pos=len("1H NMR δ 2.05 (s, 3H); 13C NMR (101 MHz, CDCl3) δ".encode()))
+bad("error on the second line", "1H NMR δ 2.05 (s, 3H)\n13C NMR δ 171.4 (xq)", "xq", "multiplicity")
+bad("unclosed brace in a header", "13C{1H NMR δ 171.4", "{", "header")
 print(json.dumps(cases, ensure_ascii=False, indent=1))
