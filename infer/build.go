@@ -3,8 +3,8 @@ package infer
 import (
 	"cmp"
 	"fmt"
-	"slices"
 	"math"
+	"slices"
 	"sort"
 	"strings"
 
