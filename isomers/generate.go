@@ -653,7 +653,16 @@ func (r *runner) budgeted(ctx context.Context, nw int, limit int64, yield func(i
 		}
 		g := graphs[w]
 		off := 0
+		released := 0
+		defer func() {
+			if res.count > 0 {
+				st.Fraction += res.covered * float64(released) / float64(res.count)
+			} else if !stopped {
+				st.Fraction += res.covered
+			}
+		}()
 		for i := 0; i < res.count && !stopped; i++ {
+			released++
 			off = decode(res.data, off, g)
 			if r.seen != nil {
 				var k [16]byte
@@ -733,8 +742,6 @@ func (r *runner) budgeted(ctx context.Context, nw int, limit int64, yield func(i
 			used += results[ti].nodes
 			if results[ti].truncated {
 				again = append(again, ti)
-			} else {
-				st.Fraction += r.tasks[ti].weight
 			}
 		}
 		st.Nodes = used
@@ -749,7 +756,6 @@ func (r *runner) budgeted(ctx context.Context, nw int, limit int64, yield func(i
 			for _, ti := range pending {
 				res := &results[ti]
 				st.Truncated++
-				st.Fraction += res.covered
 				if !stopped {
 					release(0, res)
 				}

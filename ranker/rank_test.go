@@ -114,7 +114,7 @@ func TestRankCarbonListNotScored(t *testing.T) {
 func TestRankEthylAcetate(t *testing.T) {
 	r := New(Options{})
 	var calls atomic.Int64
-	res, err := r.Rank(context.Background(), Request{Formula: "C4H8O2", Peaks: mustPeaks(t, ethylAcetate), TopK: 5},
+	res, err := r.Rank(context.Background(), Request{Formula: "C4H8O2", Peaks: mustPeaks(t, ethylAcetate), TopK: 5, Unconstrained: true},
 		func(Progress) { calls.Add(1) })
 	if err != nil {
 		t.Fatal(err)
@@ -224,7 +224,7 @@ func TestRankDeterministic(t *testing.T) {
 
 func TestRankBudgetIsNotSilent(t *testing.T) {
 	req := Request{Formula: "C8H16O2", Peaks: mustPeaks(t, "4.12 (q, 2H), 2.28 (t, 2H), 1.64 (m, 2H), 1.30 (m, 4H), 1.25 (t, 3H), 0.94 (t, 3H)"),
-		MaxCandidates: 500, TopK: 3}
+		MaxCandidates: 500, TopK: 3, Unconstrained: true}
 	res, err := New(Options{}).Rank(context.Background(), req, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -236,7 +236,7 @@ func TestRankBudgetIsNotSilent(t *testing.T) {
 		t.Errorf("IsomersTotal = %d (estimated %v), generated %d: want an estimate above what was generated", res.IsomersTotal, res.IsomersEstimated, res.Generated)
 	}
 	w := strings.Join(res.Warnings, "\n")
-	for _, want := range []string{"incomplete", "candidate limit", "scored", "fragment"} {
+	for _, want := range []string{"Stopped early", "candidate limit", "scored", "constraints"} {
 		if !strings.Contains(w, want) {
 			t.Errorf("warnings lack %q:\n%s", want, w)
 		}
@@ -324,12 +324,12 @@ func TestResultJSONFieldNames(t *testing.T) {
 
 func TestRankFragmentConstraints(t *testing.T) {
 	pl := mustPeaks(t, ethylAcetate)
-	all, err := New(Options{}).Rank(context.Background(), Request{Formula: "C4H8O2", Peaks: pl, TopK: 3}, nil)
+	all, err := New(Options{}).Rank(context.Background(), Request{Formula: "C4H8O2", Peaks: pl, TopK: 3, Unconstrained: true}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
 	// Esters only: an O–C(=O) fragment (a substructure query).
-	res, err := New(Options{}).Rank(context.Background(), Request{Formula: "C4H8O2", Peaks: pl, TopK: 50, Require: []string{"OC=O"}, Forbid: []string{"[OH]"}}, nil)
+	res, err := New(Options{}).Rank(context.Background(), Request{Formula: "C4H8O2", Peaks: pl, TopK: 50, Require: []string{"OC=O"}, Forbid: []string{"[OH]"}, Unconstrained: true}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -361,7 +361,7 @@ func TestRankFragmentConstraints(t *testing.T) {
 // expected value is the ranking's own final isomer count (a consistency
 // check; the count itself is checked against published values in isomers).
 func TestRankProgressEstimatesTotal(t *testing.T) {
-	req := Request{Formula: "C9H18O2", Peaks: mustPeaks(t, "4.05 (t, J = 6.7 Hz, 2H), 2.29 (t, J = 7.5 Hz, 2H), 1.62 (m, 4H), 1.30 (m, 4H), 0.90 (t, J = 7.0 Hz, 6H)"), TopK: 1}
+	req := Request{Formula: "C9H18O2", Peaks: mustPeaks(t, "4.05 (t, J = 6.7 Hz, 2H), 2.29 (t, J = 7.5 Hz, 2H), 1.62 (m, 4H), 1.30 (m, 4H), 0.90 (t, J = 7.0 Hz, 6H)"), TopK: 1, Unconstrained: true}
 	var mu atomic.Int64
 	var early atomic.Int64 // a TotalEstimate seen before scoring ended
 	res, err := New(Options{ProgressInterval: 5 * time.Millisecond}).Rank(context.Background(), req, func(p Progress) {

@@ -47,11 +47,13 @@ func TestRealRankingEthanol(t *testing.T) {
 			} `json:"candidates"`
 		}
 		c.do("GET", "/v1/jobs/"+j.ID+"/candidates", nil).decode(t, &cl)
-		if cl.IsomersTotal != 2 || !cl.Complete || len(cl.Candidates) != 2 {
-			t.Fatalf("C2H6O ranking: %d isomers (complete %v), %d candidates; want 2 of each", cl.IsomersTotal, cl.Complete, len(cl.Candidates))
+		// The spectrum's readings (a CH3 triplet next to a CH2 quartet on
+		// O) leave ethanol alone of the two C2H6O isomers (common practice).
+		if cl.IsomersTotal != 1 || !cl.Complete || len(cl.Candidates) != 1 {
+			t.Fatalf("C2H6O ranking: %d structures (complete %v), %d candidates; want 1 of each", cl.IsomersTotal, cl.Complete, len(cl.Candidates))
 		}
 		ethanol := canonical(t, "CCO")
-		if top := cl.Candidates[0]; canonical(t, top.SMILES) != ethanol || top.Rank != 1 || top.Probability <= cl.Candidates[1].Probability || len(top.Assignments) == 0 {
+		if top := cl.Candidates[0]; canonical(t, top.SMILES) != ethanol || top.Rank != 1 || len(top.Assignments) == 0 {
 			t.Errorf("rank 1 = %+v, want ethanol with the higher probability and assignments", top)
 		}
 		// The ranking's summary and the peaks as the ranker read them.
@@ -71,8 +73,8 @@ func TestRealRankingEthanol(t *testing.T) {
 			} `json:"peaks"`
 		}
 		c.do("GET", "/v1/jobs/"+j.ID+"/candidates?limit=1", nil).decode(t, &sum)
-		if sum.Formula != "C2H6O" || sum.DBE == nil || *sum.DBE != 0 || sum.Scored != 2 || sum.Warnings == nil {
-			t.Errorf("summary: formula %q, dbe %v, scored %d, warnings %v; want C2H6O, 0, 2, a list", sum.Formula, sum.DBE, sum.Scored, sum.Warnings)
+		if sum.Formula != "C2H6O" || sum.DBE == nil || *sum.DBE != 0 || sum.Scored != 1 || sum.Warnings == nil {
+			t.Errorf("summary: formula %q, dbe %v, scored %d, warnings %v; want C2H6O, 0, 1, a list", sum.Formula, sum.DBE, sum.Scored, sum.Warnings)
 		}
 		wantPeaks := []struct {
 			shift, h float64
@@ -112,9 +114,9 @@ func TestRealRankingEthanol(t *testing.T) {
 			Rank   int    `json:"rank"`
 			SMILES string `json:"smiles"`
 		}
-		c.do("GET", "/v1/jobs/"+j.ID+"/candidates/2", nil).decode(t, &one)
-		if canonical(t, one.SMILES) != canonical(t, "COC") {
-			t.Errorf("rank 2 = %+v, want dimethyl ether", one)
+		c.do("GET", "/v1/jobs/"+j.ID+"/candidates/1", nil).decode(t, &one)
+		if canonical(t, one.SMILES) != canonical(t, "CCO") {
+			t.Errorf("rank 1 = %+v, want ethanol", one)
 		}
 	})
 }
