@@ -264,7 +264,11 @@ func (a *analysis) build(parts []part, v variant, relaxed bool) (*isomers.Spec, 
 		if left[e] == 0 {
 			continue
 		}
-		s.Classes = append(s.Classes, isomers.Class{Name: e.String() + " without H", Element: e, H: 0, Count: left[e]})
+		c := isomers.Class{Name: e.String() + " without H", Element: e, H: 0, Count: left[e]}
+		if e == molecule.C && !relaxed {
+			c.Slots = a.carbonSlots(parts, left[e], ids)
+		}
+		s.Classes = append(s.Classes, c)
 	}
 	var out []string
 	for id := range ids {

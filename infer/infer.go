@@ -69,8 +69,12 @@ type Analysis struct {
 type Options struct {
 	// Disabled lists constraint IDs the user switched off.
 	Disabled []string
-	// MaxReadings bounds the number of readings (default 24).
+	// MaxReadings bounds the number of readings (default
+	// DefaultMaxReadings).
 	MaxReadings int
+	// Carbon is the observed 13C list, if any: DEPT classes fix the
+	// carbons' hydrogen counts, and shifts the kind of carbons without H.
+	Carbon []CarbonPeak
 }
 
 // DefaultMaxReadings is the default bound on the readings returned.
@@ -150,6 +154,7 @@ type analysis struct {
 	constraints map[string]*Constraint
 	order       []string
 	notes       []string
+	carbon      *carbonInfo
 }
 
 // Infer reads peaks (the scored 1H signals of an unknown with formula f)
@@ -166,6 +171,7 @@ func Infer(f molecule.Formula, peaks []Peak, opts Options) *Analysis {
 		maxR = DefaultMaxReadings
 	}
 	out := &Analysis{Readings: []Reading{}, Constraints: []Constraint{}}
+	a.readCarbon(opts.Carbon)
 	readings := a.run(maxR)
 	for _, id := range a.order {
 		out.Constraints = append(out.Constraints, *a.constraints[id])
@@ -793,7 +799,7 @@ func (a *analysis) decompositions(units []unit, max int) []decomposition {
 				parts = append(parts, pt)
 			}
 		}
-		if a.feasible(parts) {
+		if a.feasible(parts) && a.carbonFits(parts) {
 			out = append(out, decomposition{parts: parts, logp: c.logp})
 		}
 		for k := range c.idx {

@@ -326,7 +326,7 @@ func (r *Ranker) whyExcluded(j *job, g *molecule.Graph, res *Result) string {
 	if res.Search.Scope != ScopeConstrained {
 		return "not reached before the search stopped"
 	}
-	an := infer.Infer(j.formula, j.inferPeaks(), infer.Options{Disabled: j.req.Disable})
+	an := infer.Infer(j.formula, j.inferPeaks(), infer.Options{Disabled: j.req.Disable, Carbon: j.inferCarbon()})
 	for k, rd := range an.Readings {
 		if ok, _ := rd.Spec.Explain(g); ok {
 			state := ReadingSkipped

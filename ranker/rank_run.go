@@ -352,7 +352,7 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 
 	var an *infer.Analysis
 	if !j.req.Unconstrained {
-		an = infer.Infer(j.formula, j.inferPeaks(), infer.Options{Disabled: j.req.Disable})
+		an = infer.Infer(j.formula, j.inferPeaks(), infer.Options{Disabled: j.req.Disable, Carbon: j.inferCarbon()})
 	}
 	constrained := an != nil && len(an.Readings) > 0
 	readingsTotal.Store(int64(max(len(readingsOf(an)), 1)))
@@ -467,40 +467,39 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 	} else {
 		search.Scope = ScopeConstrained
 		seen := isomers.NewSeen()
-		complete := true
-		stats.Complete = true
-		for k := range an.Readings {
-			rd := &an.Readings[k]
-			rep := ReadingReport{Name: rd.Name, Weight: rd.Weight, Relaxed: rd.Relaxed, Constraints: rd.Constraints, State: ReadingSkipped}
-			if nodesLeft <= 0 || candLeft <= 0 || gctx.Err() != nil {
-				complete = false
-				search.Readings = append(search.Readings, rep)
-				continue
-			}
-			// each reading may take half of what is left, the last one
-			// all of it
-			share := nodesLeft / 2
-			if k == len(an.Readings)-1 {
-				share = nodesLeft
+		readings := an.Readings
+		reps := make([]ReadingReport, len(readings))
+		for k := range readings {
+			rd := &readings[k]
+			reps[k] = ReadingReport{Name: rd.Name, Weight: rd.Weight, Relaxed: rd.Relaxed, Constraints: rd.Constraints, State: ReadingSkipped}
+		}
+		// run searches reading k within a node cap; a reading run again
+		// with a larger cap starts over, and the structures it already
+		// gave are not scored twice (seen).
+		run := func(k int, cap int64) {
+			if cap <= 0 || candLeft <= 0 || gctx.Err() != nil || gerr != nil {
+				return
 			}
 			opts := base
-			opts.Spec, opts.Seen, opts.Limit, opts.NodeLimit = &rd.Spec, seen, candLeft, max(share, 1)
+			opts.Spec, opts.Seen, opts.Limit, opts.NodeLimit = &readings[k].Spec, seen, candLeft, cap
 			st, err := isomers.GenerateConcurrent(gctx, j.formula, opts, yield)
-			if err != nil && !errors.Is(err, context.DeadlineExceeded) && !errors.Is(err, context.Canceled) {
-				var se *isomers.SpecError
-				if errors.As(err, &se) {
-					rep.State = ReadingSkipped
-					search.Readings = append(search.Readings, rep)
-					continue
-				}
-				gerr = err
-				break
-			}
 			if err != nil {
-				gerr = err
+				var se *isomers.SpecError
+				switch {
+				case errors.As(err, &se):
+					return
+				case errors.Is(err, context.DeadlineExceeded) || errors.Is(err, context.Canceled):
+				default:
+					gerr = err
+					return
+				}
 			}
-			searched.Add(1)
-			rep.Nodes, rep.Structures = st.Nodes, st.Emitted
+			rep := &reps[k]
+			if rep.State == ReadingSkipped {
+				searched.Add(1)
+			}
+			rep.Nodes += st.Nodes
+			rep.Structures += st.Emitted
 			nodesLeft -= st.Nodes
 			candLeft -= st.Emitted
 			search.Nodes += st.Nodes
@@ -512,24 +511,83 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 				}
 				stats.Removed[rule] += n
 			}
-			switch {
-			case st.Complete:
+			rep.State = ReadingPartly
+			if st.Complete && err == nil {
 				rep.State = ReadingComplete
-			default:
-				rep.State = ReadingPartly
-				complete = false
-				switch {
-				case candLeft <= 0:
-					stopReason = fmt.Sprintf("the candidate limit of %d", j.maxCand)
-				case st.Truncated > 0:
-					stopReason = fmt.Sprintf("the work budget of %d search nodes", j.maxNodes)
+			}
+		}
+		var strict, relaxed []int
+		for k := range readings {
+			if readings[k].Relaxed {
+				relaxed = append(relaxed, k)
+			} else {
+				strict = append(strict, k)
+			}
+		}
+		// Pass 1: every strict reading gets an equal share of half the
+		// budget, so that small readings are searched completely whatever
+		// the large ones need. Pass 2: the readings cut short start over,
+		// most plausible first, each with half of what is left (the last
+		// with all of it).
+		if len(strict) > 0 {
+			first := max(nodesLeft/int64(2*len(strict)), 1)
+			for _, k := range strict {
+				run(k, min(first, nodesLeft))
+			}
+			var cut []int
+			for _, k := range strict {
+				if reps[k].State != ReadingComplete {
+					cut = append(cut, k)
 				}
 			}
-			search.Readings = append(search.Readings, rep)
+			for i, k := range cut {
+				share := nodesLeft / 2
+				if i == len(cut)-1 {
+					share = nodesLeft
+				}
+				if share > first {
+					run(k, share)
+				}
+			}
 		}
+		// The relaxed readings widen the search only when the strict ones
+		// leave the spectrum poorly explained (or explain nothing).
+		strictDone := true
+		for _, k := range strict {
+			strictDone = strictDone && reps[k].State == ReadingComplete
+		}
+		best, found := bestScore(workers)
+		widen := !found || best < poorFitPerPeak*float64(len(j.obs))
+		for i, k := range relaxed {
+			switch {
+			case !widen:
+				reps[k].State = ReadingNotNeeded
+			default:
+				share := nodesLeft / 2
+				if i == len(relaxed)-1 {
+					share = nodesLeft
+				}
+				run(k, share)
+			}
+		}
+		complete := true
+		for _, k := range strict {
+			complete = complete && reps[k].State == ReadingComplete
+		}
+		if widen {
+			for _, k := range relaxed {
+				complete = complete && reps[k].State == ReadingComplete
+			}
+		}
+		_ = strictDone
+		search.Readings = reps
 		stats.Complete = complete
 		stats.Fraction = 1
-		if stopReason == "" && !complete {
+		switch {
+		case complete:
+		case candLeft <= 0:
+			stopReason = fmt.Sprintf("the candidate limit of %d", j.maxCand)
+		default:
 			stopReason = fmt.Sprintf("the work budget of %d search nodes", j.maxNodes)
 		}
 	}
@@ -680,4 +738,23 @@ func readingsOf(an *infer.Analysis) []infer.Reading {
 		return nil
 	}
 	return an.Readings
+}
+
+// poorFitPerPeak is the score per scored peak (nats) below which the best
+// candidate of the strict readings leaves the spectrum poorly explained,
+// so the relaxed readings are searched too: about a 2.5σ shift miss or a
+// contradicted multiplicity on every peak (see Model).
+const poorFitPerPeak = -2.5
+
+// bestScore returns the best score kept by any worker.
+func bestScore(workers []worker) (float64, bool) {
+	best, found := math.Inf(-1), false
+	for w := range workers {
+		for _, it := range workers[w].top.items {
+			if it.score > best {
+				best, found = it.score, true
+			}
+		}
+	}
+	return best, found
 }

@@ -1,6 +1,9 @@
 package ranker
 
-import "shiftrank/infer"
+import (
+	"shiftrank/infer"
+	"shiftrank/spectrum"
+)
 
 // inferPeaks converts the scored peaks for infer.
 func (j *job) inferPeaks() []infer.Peak {
@@ -21,6 +24,26 @@ func (j *job) inferPeaks() []infer.Peak {
 			pk.Pattern.Kind = infer.Unreported
 		}
 		out = append(out, pk)
+	}
+	return out
+}
+
+// inferCarbon converts the 13C list for infer.
+func (j *job) inferCarbon() []infer.CarbonPeak {
+	var out []infer.CarbonPeak
+	for i, p := range j.req.Carbon.Peaks {
+		h := -1
+		switch p.DEPT {
+		case spectrum.CH3:
+			h = 3
+		case spectrum.CH2:
+			h = 2
+		case spectrum.CH:
+			h = 1
+		case spectrum.Cq:
+			h = 0
+		}
+		out = append(out, infer.CarbonPeak{Number: i + 1, Shift: p.Shift, Count: max(p.Count, 1), H: h})
 	}
 	return out
 }

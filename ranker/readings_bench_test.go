@@ -43,3 +43,26 @@ func BenchmarkReadingAcetonaphthone(b *testing.B) {
 		b.ReportMetric(float64(st.Duplicates), "dups")
 	}
 }
+
+func BenchmarkReadingDEET(b *testing.B) {
+	if os.Getenv("SHIFTRANK_DIAG") == "" {
+		b.Skip("diagnostic")
+	}
+	r := New(Options{})
+	j, err := r.prepare(Request{Formula: "C12H17NO", Peaks: mustPeaks(b, "1H NMR (400 MHz, CDCl3) δ 7.28–7.24 (m, 1H), 7.20–7.12 (m, 3H), 3.53 (br s, 2H), 3.25 (br s, 2H), 2.36 (s, 3H), 1.24 (br s, 3H), 1.10 (br s, 3H)")})
+	if err != nil {
+		b.Fatal(err)
+	}
+	an := infer.Infer(j.formula, j.inferPeaks(), infer.Options{})
+	for i, c := range an.Readings[0].Spec.Classes {
+		b.Logf("class %d: %v slots=%d vic=%v bonds=%v nbr=%v sum=%v", i, c, len(c.Slots), c.Vicinal, c.Bonds, c.Neighbours, c.Sum != nil)
+		for _, s := range c.Slots {
+			b.Logf("   slot %+v", s)
+		}
+	}
+	for b.Loop() {
+		st, _ := isomers.Count(context.Background(), j.formula, isomers.Options{Spec: &an.Readings[0].Spec, Workers: 1, NodeLimit: 300_000})
+		b.ReportMetric(float64(st.Nodes), "nodes")
+		b.ReportMetric(float64(st.Emitted), "structures")
+	}
+}

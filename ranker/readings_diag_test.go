@@ -33,13 +33,21 @@ func TestReadingsDiag(t *testing.T) {
 		if only != "" && !strings.Contains(only, c.Name) {
 			continue
 		}
-		j, err := r.prepare(Request{Formula: c.Formula, Peaks: diagPeaks(t, c.Peaks)})
+		req := Request{Formula: c.Formula, Peaks: diagPeaks(t, c.Peaks)}
+		if os.Getenv("SHIFTRANK_DIAG_CARBON") != "" && c.Carbon != "" {
+			cl, err := spectrum.ReadList([]byte(c.Carbon), spectrum.C13)
+			if err != nil {
+				t.Fatal(err)
+			}
+			req.Carbon = cl
+		}
+		j, err := r.prepare(req)
 		if err != nil {
 			t.Errorf("%s: %v", c.Name, err)
 			continue
 		}
 		g, _ := molecule.ParseSMILES(c.SMILES)
-		an := infer.Infer(j.formula, j.inferPeaks(), infer.Options{})
+		an := infer.Infer(j.formula, j.inferPeaks(), infer.Options{Carbon: j.inferCarbon()})
 		hit := -1
 		var why []string
 		for k, rd := range an.Readings {

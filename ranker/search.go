@@ -27,6 +27,9 @@ const (
 	ReadingComplete = "searched completely"
 	ReadingPartly   = "searched partly"
 	ReadingSkipped  = "not searched"
+	// ReadingNotNeeded: a relaxed reading left out because the strict
+	// readings explained the spectrum well.
+	ReadingNotNeeded = "not needed"
 )
 
 // DefaultMaxNodes is the default search budget in generator nodes (about
@@ -79,7 +82,19 @@ func (s *SearchReport) summary(res *Result) string {
 	case StatusComplete:
 		fmt.Fprintf(&b, "Complete search over all %d plausible isomers of %s", res.IsomersTotal, res.Formula)
 	case StatusCompleteWithin:
-		fmt.Fprintf(&b, "Complete within the constraints read from the spectrum: %d structures in %d reading(s) of %s; isomers outside these readings were not searched", res.Scored, len(s.Readings), res.Formula)
+		n, skipped := 0, 0
+		for _, r := range s.Readings {
+			switch r.State {
+			case ReadingComplete:
+				n++
+			case ReadingNotNeeded:
+				skipped++
+			}
+		}
+		fmt.Fprintf(&b, "Complete within the constraints read from the spectrum: %d structures in %d reading(s) of %s; isomers outside these readings were not searched", res.Scored, n, res.Formula)
+		if skipped > 0 {
+			fmt.Fprintf(&b, " (%d relaxed reading(s) were not needed: the strict ones explain the spectrum)", skipped)
+		}
 	default:
 		done, part := 0, 0
 		for _, r := range s.Readings {
