@@ -25,7 +25,7 @@ import (
 type testStore interface {
 	server.JobStore
 	CreateAPIKey(ctx context.Context, name string) (string, store.APIKey, error)
-	RevokeAPIKey(ctx context.Context, idOrName string) error
+	RevokeAPIKey(ctx context.Context, idOrName string) (int, error)
 	History(ctx context.Context, owner, id string) ([]store.StatusChange, error)
 	Deliveries(ctx context.Context, jobID string) ([]store.Delivery, error)
 	Close()
@@ -77,6 +77,11 @@ type fakeRanker struct {
 }
 
 func (f *fakeRanker) Rank(ctx context.Context, req ranker.Request, progress func(ranker.Progress)) (*ranker.Result, error) {
+	if err := ctx.Err(); err != nil {
+		// The server checks a request at submission with a cancelled
+		// context; like the real ranker, a valid one answers ctx.Err().
+		return nil, err
+	}
 	f.mu.Lock()
 	f.calls++
 	f.reqs = append(f.reqs, req)
@@ -136,7 +141,21 @@ func fastConfig(cfg server.Config) server.Config {
 	cfg.IdleMin = 10 * time.Millisecond
 	cfg.IdleMax = 50 * time.Millisecond
 	cfg.CallbackBackoff = 20 * time.Millisecond
+	if cfg.CallbackAllow.String() == "" {
+		// The tests' callback receivers listen on loopback, which the
+		// callback rules refuse unless the operator allows it.
+		cfg.CallbackAllow = loopbackAllowed
+	}
 	return cfg
+}
+
+// loopbackAllowed allows callbacks to the loopback addresses.
+var loopbackAllowed, _ = server.ParseCallbackAllow([]string{"127.0.0.0/8", "::1"})
+
+// signedBy reports whether the callback request r with body carries a
+// valid, current signature under secret.
+func signedBy(secret []byte, r *http.Request, body []byte) bool {
+	return server.VerifySignature(secret, body, r.Header.Get(server.TimestampHeader), r.Header.Get(server.SignatureHeader), time.Now(), 0) == nil
 }
 
 // startServer serves the API over loopback HTTP with its workers running.
