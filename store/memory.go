@@ -1,11 +1,14 @@
 package store
 
 import (
+	"bytes"
+	"compress/flate"
 	"context"
 	"crypto/subtle"
 	"encoding/hex"
 	"encoding/json"
 	"fmt"
+	"io"
 	"slices"
 	"sort"
 	"strings"
@@ -40,7 +43,7 @@ type Memory struct {
 type memJob struct {
 	job        Job
 	history    []StatusChange
-	result     *Result
+	result     *packedResult
 	deliveries []Delivery
 
 	// The callback claim (ClaimCallback): holder and end.
@@ -357,28 +360,79 @@ func (m *Memory) FinishJob(ctx context.Context, id, workerID string, status Stat
 	if err := checkFinish(id, status, result); err != nil {
 		return err
 	}
+	packed := packResult(result) // outside the lock: it compresses
 	m.mu.Lock()
 	defer m.mu.Unlock()
 	mj, err := m.held(id, workerID)
 	if err != nil {
 		return fmt.Errorf("finish: %w", err)
 	}
-	m.finishLocked(mj, now(), status, cleanText(errMsg), workerID, result)
+	m.finishLocked(mj, now(), status, cleanText(errMsg), workerID, packed)
 	return nil
 }
 
+// packedResult is a result as the memory store keeps it: a body longer
+// than compressAbove is DEFLATE-compressed (RFC 1951), which shrinks the
+// JSON of a ranking about six times, so that the finished jobs the store
+// keeps cost little memory.
+type packedResult struct {
+	isomersTotal int64
+	body         []byte // immutable once stored
+	compressed   bool
+}
+
+// compressAbove is the body length from which results are compressed.
+const compressAbove = 1024
+
+func packResult(r *Result) *packedResult {
+	if r == nil {
+		return nil
+	}
+	p := &packedResult{isomersTotal: r.IsomersTotal}
+	if len(r.Body) <= compressAbove {
+		p.body = append([]byte(nil), r.Body...)
+		return p
+	}
+	var buf bytes.Buffer
+	w, err := flate.NewWriter(&buf, flate.BestSpeed)
+	if err == nil {
+		_, err = w.Write(r.Body)
+	}
+	if err == nil {
+		err = w.Close()
+	}
+	if err != nil { // not for a valid level and a bytes.Buffer; keep it plain
+		p.body = append([]byte(nil), r.Body...)
+		return p
+	}
+	p.body, p.compressed = bytes.Clone(buf.Bytes()), true
+	return p
+}
+
+// unpack returns the result of job id.
+func (p *packedResult) unpack(id string) (Result, error) {
+	r := Result{JobID: id, IsomersTotal: p.isomersTotal}
+	if !p.compressed {
+		r.Body = append(json.RawMessage(nil), p.body...)
+		return r, nil
+	}
+	body, err := io.ReadAll(flate.NewReader(bytes.NewReader(p.body)))
+	if err != nil {
+		return Result{}, fmt.Errorf("get result %s: decompress: %w", id, err)
+	}
+	r.Body = body
+	return r, nil
+}
+
 // finishLocked moves mj to a terminal status. Callers hold m.mu.
-func (m *Memory) finishLocked(mj *memJob, t time.Time, status Status, errMsg, worker string, result *Result) {
+func (m *Memory) finishLocked(mj *memJob, t time.Time, status Status, errMsg, worker string, result *packedResult) {
 	j := &mj.job
 	j.Status = status
 	j.Error = errMsg
 	j.FinishedAt = t
 	j.LeaseUntil = time.Time{}
 	if result != nil {
-		r := *result
-		r.JobID = j.ID
-		r.Body = append(json.RawMessage(nil), result.Body...)
-		mj.result = &r
+		mj.result = result
 	}
 	note := string(status)
 	if errMsg != "" {
@@ -538,17 +592,19 @@ func (m *Memory) GetResult(ctx context.Context, owner, id string) (Result, error
 		return Result{}, fmt.Errorf("get result %s: %w", id, err)
 	}
 	m.mu.Lock()
-	defer m.mu.Unlock()
 	mj, err := m.owned(owner, id)
+	var res *packedResult
+	if err == nil {
+		res = mj.result
+	}
+	m.mu.Unlock()
 	if err != nil {
 		return Result{}, fmt.Errorf("get result: %w", err)
 	}
-	if mj.result == nil {
+	if res == nil {
 		return Result{}, fmt.Errorf("get result: job %s has no result: %w", id, ErrNotFound)
 	}
-	r := *mj.result
-	r.Body = append(json.RawMessage(nil), r.Body...)
-	return r, nil
+	return res.unpack(id) // outside the lock: it decompresses
 }
 
 // History returns the status changes of owner's job id, oldest first.

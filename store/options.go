@@ -10,10 +10,9 @@ const DefaultMaxAttempts = 5
 type Option func(*options)
 
 type options struct {
-	maxAttempts   int
-	maxRunning    int // per owner; 0 = no limit
-	maxFinished   int // Memory only; 0 = no limit
-	compressAbove int // Memory only: result bodies longer than this are kept compressed
+	maxAttempts int
+	maxRunning  int // per owner; 0 = no limit
+	maxFinished int // Memory only; 0 = no limit
 }
 
 // DefaultMaxFinished is how many finished jobs the memory store keeps by
@@ -21,7 +20,7 @@ type options struct {
 const DefaultMaxFinished = 1000
 
 func buildOptions(opts []Option) options {
-	o := options{maxAttempts: DefaultMaxAttempts, maxFinished: DefaultMaxFinished, compressAbove: 1024}
+	o := options{maxAttempts: DefaultMaxAttempts, maxFinished: DefaultMaxFinished}
 	for _, opt := range opts {
 		opt(&o)
 	}

@@ -334,3 +334,30 @@ func testStorableText(t *testing.T, s Store) {
 		t.Errorf("a refused input reads as an unavailable store")
 	}
 }
+
+// testLargeResult: a result of many kilobytes (kept compressed by the
+// memory store) comes back as stored.
+func testLargeResult(t *testing.T, s Store) {
+	ctx := context.Background()
+	j := mustCreate(t, s, newJob("k1", 1))
+	mustClaim(t, s, "w1", time.Minute)
+	var b strings.Builder
+	b.WriteString(`{"candidates":[`)
+	for i := range 400 {
+		if i > 0 {
+			b.WriteString(",")
+		}
+		fmt.Fprintf(&b, `{"rank":%d,"smiles":"CC(=O)OCC","score":%d.5,"note":"é ✓ %d"}`, i+1, -i, i)
+	}
+	b.WriteString(`]}`)
+	body := json.RawMessage(b.String())
+	if err := s.FinishJob(ctx, j.ID, "w1", store.StatusSucceeded, "", &store.Result{IsomersTotal: 56, Body: body}); err != nil {
+		t.Fatal(err)
+	}
+	for range 2 { // reading does not consume it
+		r, err := s.GetResult(ctx, "k1", j.ID)
+		if err != nil || r.IsomersTotal != 56 || !sameJSON(r.Body, body) {
+			t.Fatalf("GetResult of a %d-byte result = %d bytes, isomers %d, %v; want it back unchanged", len(body), len(r.Body), r.IsomersTotal, err)
+		}
+	}
+}

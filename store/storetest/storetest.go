@@ -99,6 +99,7 @@ func Run(t *testing.T, newStore func(t *testing.T) Store) {
 		{"RotateSecret", testRotateSecret},
 		{"PurgeFinished", testPurgeFinished},
 		{"StorableText", testStorableText},
+		{"LargeResult", testLargeResult},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
