@@ -48,10 +48,10 @@ func TestRefusedAddr(t *testing.T) {
 		{"255.255.255.255", "broadcast"},
 		{"240.0.0.1", "reserved"},
 		{"::127.0.0.1", "IPv4-compatible"},
-		{"64:ff9b::a9fe:a9fe", "NAT64"},        // 169.254.169.254 through NAT64
-		{"64:ff9b::7f00:1", "NAT64"},           // 127.0.0.1 through NAT64
-		{"2002:7f00:1::1", "6to4"},             // 127.0.0.1 through 6to4
-		{"2002:c0a8:101::1", "6to4"},           // 192.168.1.1 through 6to4
+		{"64:ff9b::a9fe:a9fe", "NAT64"}, // 169.254.169.254 through NAT64
+		{"64:ff9b::7f00:1", "NAT64"},    // 127.0.0.1 through NAT64
+		{"2002:7f00:1::1", "6to4"},      // 127.0.0.1 through 6to4
+		{"2002:c0a8:101::1", "6to4"},    // 192.168.1.1 through 6to4
 		{"2001:0:4136:e378:8000:63bf:3fff:fdd2", "Teredo"},
 		{"fec0::1", "site-local"},
 		{"9.9.9.9", ""},
