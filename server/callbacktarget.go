@@ -67,6 +67,11 @@ func ParseCallbackAllow(entries []string) (CallbackAllow, error) {
 			continue
 		}
 		name := normalizeHost(e)
+		if ip, err := netip.ParseAddr(name); err == nil { // "10.0.0.1." is an address too
+			ip = ip.WithZone("").Unmap()
+			a.prefixes = append(a.prefixes, netip.PrefixFrom(ip, ip.BitLen()))
+			continue
+		}
 		wild := strings.HasPrefix(name, "*.")
 		if !validHostName(strings.TrimPrefix(name, "*.")) {
 			return CallbackAllow{}, fmt.Errorf("callback allow entry %q is not a host name, *.domain, IP address or CIDR range", e)

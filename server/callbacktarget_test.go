@@ -152,3 +152,24 @@ func TestCheckCallbackURLSyntax(t *testing.T) {
 		}
 	}
 }
+
+// FuzzParseCallbackAllow: any entry list parses or fails with an error, and
+// a parsed list written out with String parses back to the same list.
+func FuzzParseCallbackAllow(f *testing.F) {
+	for _, s := range []string{"eln.lab.internal", "*.nmr.internal", "10.20.0.0/16", "[fd00::1]", "192.168.7.7", "::ffff:10.0.0.1/104", "a..b", "*.", " ", "ELN.Lab."} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		a, err := ParseCallbackAllow(strings.Split(s, ","))
+		if err != nil {
+			return
+		}
+		b, err := ParseCallbackAllow(strings.Split(a.String(), ","))
+		if err != nil {
+			t.Fatalf("ParseCallbackAllow(%q).String() = %q does not parse: %v", s, a.String(), err)
+		}
+		if b.String() != a.String() {
+			t.Fatalf("ParseCallbackAllow(%q): %q reads back as %q", s, a.String(), b.String())
+		}
+	})
+}
