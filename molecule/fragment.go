@@ -30,13 +30,14 @@ const (
 // and the charge it writes ([OH], [CH3], [CH0], [O-], [N+]) and leaves
 // unwritten ones free, organic-subset atoms match any hydrogen count and
 // charge. A bond written without a symbol matches a single or
-// an aromatic bond (an aromatic one between two lowercase atoms); '-' a
+// an aromatic bond, also between two lowercase atoms (so c1ccccc1c1ccccc1
+// finds biphenyl, whose ring-joining bond is single, as in SMARTS); '-' a
 // single non-aromatic bond, '=' a double and '#' a triple bond outside
 // aromatic rings, ':' an aromatic bond. Aromaticity of the target is
 // perceived with AromaticBonds, so the query c1ccccc1 finds a benzene ring
-// in any Kekulé structure, and C=C does not match inside it. Rings of the
-// query that are themselves aromatic by that rule count as written in
-// lowercase: C1=CC=CC=C1 is the same query as c1ccccc1 (unlike SMARTS).
+// in any Kekulé structure, and C=C does not match inside it. Rings written
+// in Kekulé form that are aromatic by that rule count as aromatic query
+// atoms and bonds: C1=CC=CC=C1 finds what c1ccccc1 finds (unlike SMARTS).
 //
 // Errors are *SMILESError as for ParseSMILES; valences are not checked.
 func ParseFragment(s string) (*Fragment, error) {
@@ -49,7 +50,7 @@ func ParseFragment(s string) (*Fragment, error) {
 	for _, a := range q.Atoms {
 		f.counts[a.Element]++
 	}
-	for i, b := range q.Bonds {
+	for i := range q.Bonds {
 		var k fragBond
 		switch p.bondSym[i] {
 		case '-', '/', '\\':
@@ -61,21 +62,21 @@ func ParseFragment(s string) (*Fragment, error) {
 		case ':':
 			k = fragAromatic
 		default:
+			// Also between two lowercase atoms: the bond joining the
+			// rings of biphenyl (c1ccccc1c1ccccc1) is single, not aromatic.
 			k = fragSingleOrAromatic
-			if b.Order == Aromatic {
-				k = fragAromatic
-			}
 		}
 		f.bond = append(f.bond, k)
 	}
 	// Rings written in Kekulé form that are aromatic by Hückel's rule
-	// become aromatic query atoms and bonds, so C1=CC=CC=C1 means the same
-	// as c1ccccc1 (the query read as a molecule, when it is one, with the
-	// atom and bond numbering of the query).
+	// become aromatic query atoms and bonds, so C1=CC=CC=C1 finds what
+	// c1ccccc1 finds (the query read as a molecule, when it is one, with
+	// the atom and bond numbering of the query). Bonds written between
+	// lowercase atoms keep their meaning.
 	if mol, err := ParseSMILES(s); err == nil && len(mol.Bonds) == len(q.Bonds) {
 		for i, ar := range AromaticBonds(mol) {
-			if ar {
-				b := q.Bonds[i]
+			b := q.Bonds[i]
+			if ar && b.Order != Aromatic {
 				f.bond[i] = fragAromatic
 				f.atomArom[b.A], f.atomArom[b.B] = true, true
 			}

@@ -32,8 +32,8 @@ const maxSMILESAtoms = 1000
 // S 2, 4, 6; halogens 1), bracket atoms with hydrogen counts and charges
 // ([NH4+], [SiH4], [PH3], [S], [O-]), branches, ring closures (digits and
 // %nn), the bond symbols - = # and : (/ and \ are accepted and read as
-// single bonds: shiftrank does not handle stereochemistry; @ marks are
-// ignored likewise), atom classes ([CH3:1], ignored) and aromatic atoms
+// single bonds: shiftrank does not handle stereochemistry; the chirality
+// marks of OpenSMILES, @ @@ @TH1 ... @OH30, are ignored likewise), atom classes ([CH3:1], ignored) and aromatic atoms
 // b c n o p s, which are kekulised (an error if no Kekulé structure
 // exists). Explicit hydrogen atoms [H] bonded to one heavy atom are
 // folded into that atom's hydrogen count ([H]C([H])([H])O is methanol); the
@@ -45,6 +45,7 @@ const maxSMILESAtoms = 1000
 // on B C N O P S and halogens), valences not allowed for the element and
 // charge (C(C)(C)(C)(C)C; bracket atoms are taken as written, so [CH2] and
 // [S] are accepted with open valences, but not with too many bonds),
+// chirality marks that OpenSMILES does not define ([C@@@H], [C@TH3H]),
 // unbalanced branches and ring closures, and
 // more than 1000 atoms. ParseSMILES never panics.
 func ParseSMILES(s string) (*Graph, error) {
@@ -438,11 +439,17 @@ func (p *smilesParser) bracketAtom() (int, error) {
 	default:
 		return 0, p.errAt(p.i, 1, "expected an element symbol")
 	}
-	// Chirality marks are accepted and ignored (no stereochemistry).
+	// Chirality marks are checked and ignored (no stereochemistry).
 	if p.i < end && s[p.i] == '@' {
-		for p.i < end && (s[p.i] == '@' || s[p.i] >= 'A' && s[p.i] <= 'Z' && s[p.i] != 'H' || isDigit(s[p.i])) {
-			p.i++
+		n := chiralityLen(s[p.i:end])
+		if n == 0 {
+			j := p.i + 1
+			for j < end && (s[j] == '@' || s[j] >= 'A' && s[j] <= 'Z' && s[j] != 'H' || isDigit(s[j])) {
+				j++
+			}
+			return 0, p.errAt(p.i, j-p.i, "invalid chirality mark (OpenSMILES allows @, @@, @TH1-2, @AL1-2, @SP1-3, @TB1-20, @OH1-30)")
 		}
+		p.i += n
 	}
 	h := 0
 	var written uint8
@@ -503,6 +510,47 @@ func (p *smilesParser) bracketAtom() (int, error) {
 		return 0, p.errAt(open, tok, fmt.Sprintf("charge %+d is not supported on %s", charge, e))
 	}
 	return p.newAtom(e, h, charge, arom, true, written, open, tok), nil
+}
+
+// chiralityLen returns the length of the OpenSMILES chirality mark at the
+// start of s ("@", "@@", "@TH1", "@TH2", "@AL1", "@AL2", "@SP1"–"@SP3",
+// "@TB1"–"@TB20", "@OH1"–"@OH30"), or 0 if s does not start with a valid
+// one. "@@@" and "@TH3" are not chirality marks.
+func chiralityLen(s string) int {
+	if len(s) >= 2 && s[1] == '@' {
+		if len(s) > 2 && s[2] == '@' {
+			return 0
+		}
+		return 2
+	}
+	if len(s) < 3 {
+		return 1
+	}
+	var hi int
+	switch s[1:3] {
+	case "TH", "AL":
+		hi = 2
+	case "SP":
+		hi = 3
+	case "TB":
+		hi = 20
+	case "OH":
+		hi = 30
+	default:
+		if s[1] >= 'A' && s[1] <= 'Z' && s[1] != 'H' {
+			return 0 // an unknown chirality class
+		}
+		return 1
+	}
+	n, j := 0, 3
+	for j < len(s) && isDigit(s[j]) && j < 5 {
+		n = n*10 + int(s[j]-'0')
+		j++
+	}
+	if j == 3 || n < 1 || n > hi || j < len(s) && isDigit(s[j]) || s[3] == '0' {
+		return 0
+	}
+	return j
 }
 
 // allowedValences returns the valences (bond-order sum plus hydrogens)

@@ -2,12 +2,16 @@ package server_test
 
 import (
 	"context"
+	"crypto/hmac"
+	"crypto/sha256"
+	"encoding/hex"
 	"encoding/json"
 	"fmt"
 	"io"
 	"net/http"
 	"net/http/httptest"
 	"slices"
+	"strconv"
 	"strings"
 	"sync"
 	"testing"
@@ -227,7 +231,7 @@ func TestAuthAndIsolation(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if err := st.RevokeAPIKey(ctx, "eln-c"); err != nil {
+		if _, err := st.RevokeAPIKey(ctx, "eln-c"); err != nil {
 			t.Fatal(err)
 		}
 		_, hs := startServer(t, st, &fakeRanker{}, server.Config{})
@@ -361,7 +365,7 @@ func TestCancelQueued(t *testing.T) {
 	got := make(chan server.CallbackPayload, 1)
 	recv := httptest.NewServer(http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
 		body, _ := io.ReadAll(r.Body)
-		if !server.VerifySignature(secret, body, r.Header.Get(server.SignatureHeader)) {
+		if !signedBy(secret, r, body) {
 			http.Error(w, "bad signature", http.StatusUnauthorized)
 			return
 		}
@@ -407,7 +411,7 @@ func TestCallbackSigned(t *testing.T) {
 			body, _ := io.ReadAll(r.Body)
 			mu.Lock()
 			defer mu.Unlock()
-			if !server.VerifySignature(k.Secret, body, r.Header.Get(server.SignatureHeader)) {
+			if !signedBy(k.Secret, r, body) {
 				badSig++
 				http.Error(w, "bad signature", http.StatusUnauthorized)
 				return
@@ -462,15 +466,46 @@ func TestCallbackSigned(t *testing.T) {
 }
 
 func TestSignature(t *testing.T) {
-	// RFC 4231 test case 2: HMAC-SHA256 with key "Jefe".
-	got := server.Sign([]byte("Jefe"), []byte("what do ya want for nothing?"))
-	want := "sha256=5bdcc146bf60754e6a042426089575c75a003f089d2739839dec58b964ec3843"
-	if got != want {
-		t.Errorf("Sign = %s, want %s (RFC 4231 case 2)", got, want)
+	// The MAC is HMAC-SHA256 (RFC 2104; the standard library's, checked here
+	// against RFC 4231 test case 2) of the timestamp, a full stop and the
+	// body.
+	mac := hmac.New(sha256.New, []byte("Jefe"))
+	mac.Write([]byte("what do ya want for nothing?"))
+	if want := "5bdcc146bf60754e6a042426089575c75a003f089d2739839dec58b964ec3843"; hex.EncodeToString(mac.Sum(nil)) != want {
+		t.Fatalf("HMAC-SHA256 differs from RFC 4231 test case 2")
 	}
-	if !server.VerifySignature([]byte("Jefe"), []byte("what do ya want for nothing?"), want) ||
-		server.VerifySignature([]byte("Jefe"), []byte("what do ya want for nothing!"), want) {
-		t.Error("VerifySignature accepts the wrong body or rejects the right one")
+	mac = hmac.New(sha256.New, []byte("Jefe"))
+	mac.Write([]byte("1764616166.what do ya want for nothing?"))
+	if got, want := server.Sign([]byte("Jefe"), "1764616166", []byte("what do ya want for nothing?")), "sha256="+hex.EncodeToString(mac.Sum(nil)); got != want {
+		t.Errorf("Sign = %s, want HMAC-SHA256 of timestamp, '.', body: %s", got, want)
+	}
+
+	secret := []byte("callback-secret-of-eln-lab-7")
+	now := time.Date(2026, 12, 1, 19, 9, 26, 0, time.UTC)
+	ts := strconv.FormatInt(now.Unix(), 10)
+	body := []byte(`{"event":"job.finished"}`)
+	sig := server.Sign(secret, ts, body)
+	for _, tc := range []struct {
+		name    string
+		body    []byte
+		ts, sig string
+		at      time.Time
+		maxAge  time.Duration
+		want    error
+	}{
+		{"as sent", body, ts, sig, now, 0, nil},
+		{"four minutes later", body, ts, sig, now.Add(4 * time.Minute), 0, nil},
+		{"replayed an hour later", body, ts, sig, now.Add(time.Hour), 0, server.ErrStale},
+		{"from the future", body, ts, sig, now.Add(-10 * time.Minute), 0, server.ErrStale},
+		{"replayed within a short window", body, ts, sig, now.Add(2 * time.Minute), time.Minute, server.ErrStale},
+		{"other body", []byte(`{"event":"job.finished "}`), ts, sig, now, 0, server.ErrBadSignature},
+		{"other timestamp", body, strconv.FormatInt(now.Unix()+1, 10), sig, now, 0, server.ErrBadSignature},
+		{"no timestamp", body, "", sig, now, 0, server.ErrStale},
+		{"other secret", body, ts, server.Sign([]byte("another"), ts, body), now, 0, server.ErrBadSignature},
+	} {
+		if err := server.VerifySignature(secret, tc.body, tc.ts, tc.sig, tc.at, tc.maxAge); err != tc.want {
+			t.Errorf("%s: VerifySignature = %v, want %v", tc.name, err, tc.want)
+		}
 	}
 }
 
@@ -524,7 +559,7 @@ func TestRoutingAndProblems(t *testing.T) {
 	}{
 		// chi treats ':' as an ordinary character: the literal route matches
 		// and its neighbours do not.
-		{"POST", "/v1/isomers:count", http.StatusBadRequest}, // empty body reaches the handler
+		{"POST", "/v1/isomers:count", http.StatusUnsupportedMediaType}, // reaches the handler, which wants a JSON body
 		{"GET", "/v1/isomers:count", http.StatusMethodNotAllowed},
 		{"POST", "/v1/isomers", http.StatusNotFound},
 		{"POST", "/v1/isomers:counts", http.StatusNotFound},
@@ -565,7 +600,7 @@ func (downStore) Ping(context.Context) error { return fmt.Errorf("connection ref
 func TestPanicAndReadiness(t *testing.T) {
 	_, hs := startServer(t, panicStore{store.NewMemory()}, &fakeRanker{}, server.Config{AllowAnonymous: true, Workers: -1})
 	c := client{t: t, base: hs.URL}
-	r := c.do("GET", "/v1/jobs/abc", nil)
+	r := c.do("GET", "/v1/jobs/"+strings.Repeat("a", 26), nil)
 	if p := problemOf(t, r); r.status != 500 || p.Code != server.CodeInternal || strings.Contains(string(r.body), "boom") {
 		t.Errorf("panicking handler = %d %s, want a 500 problem that does not leak the panic", r.status, r.body)
 	}

@@ -13,15 +13,28 @@ import (
 	"log/slog"
 	"math/rand/v2"
 	"net/http"
+	"strconv"
 	"time"
 
 	"shiftrank/store"
 )
 
-// SignatureHeader carries the callback signature: "sha256=" followed by
-// the lower-case hex HMAC-SHA256 of the exact request body, keyed with the
-// API key's callback secret.
-const SignatureHeader = "X-Shiftrank-Signature"
+// Callback headers. The signature covers the timestamp and the exact body,
+// so a receiver can refuse a replayed callback by its age.
+const (
+	// SignatureHeader carries "sha256=" followed by the lower-case hex
+	// HMAC-SHA256 of TimestampHeader's value, a full stop, and the exact
+	// request body, keyed with the API key's callback secret (the secret's
+	// bytes: decode the hex that apikey create prints).
+	SignatureHeader = "X-Shiftrank-Signature"
+	// TimestampHeader carries the time of sending as Unix seconds.
+	TimestampHeader = "X-Shiftrank-Timestamp"
+)
+
+// DefaultSignatureMaxAge is how old a callback VerifySignature accepts by
+// default: it allows for clock skew and a slow network, and is short enough
+// that a captured callback cannot be replayed later.
+const DefaultSignatureMaxAge = 5 * time.Minute
 
 // CallbackPayload is the body POSTed to a job's callback_url when the job
 // ends. Attempt counts deliveries from 1.
@@ -32,20 +45,50 @@ type CallbackPayload struct {
 	Job     JobView   `json:"job"`
 }
 
-// Sign returns the SignatureHeader value for body under secret.
-func Sign(secret, body []byte) string {
+// Sign returns the SignatureHeader value for body sent with the
+// TimestampHeader value timestamp, under secret.
+func Sign(secret []byte, timestamp string, body []byte) string {
 	m := hmac.New(sha256.New, secret)
+	m.Write([]byte(timestamp))
+	m.Write([]byte{'.'})
 	m.Write(body)
 	return "sha256=" + hex.EncodeToString(m.Sum(nil))
 }
 
-// VerifySignature reports whether header is the signature of body under
-// secret, comparing in constant time.
-func VerifySignature(secret, body []byte, header string) bool {
-	return hmac.Equal([]byte(Sign(secret, body)), []byte(header))
+// Errors of VerifySignature.
+var (
+	ErrBadSignature = errors.New("callback signature does not match")
+	ErrStale        = errors.New("callback timestamp missing, malformed or too far from now")
+)
+
+// VerifySignature checks a received callback: signature must be Sign of
+// body and timestamp under secret (compared in constant time), and
+// timestamp within maxAge of now either way (0 means
+// DefaultSignatureMaxAge). It returns nil, ErrStale or ErrBadSignature. A
+// receiver that also remembers the signatures it accepted within maxAge
+// refuses every replay.
+func VerifySignature(secret, body []byte, timestamp, signature string, now time.Time, maxAge time.Duration) error {
+	if maxAge <= 0 {
+		maxAge = DefaultSignatureMaxAge
+	}
+	sec, err := strconv.ParseInt(timestamp, 10, 64)
+	if err != nil {
+		return ErrStale
+	}
+	if d := now.Sub(time.Unix(sec, 0)); d > maxAge || d < -maxAge {
+		return ErrStale
+	}
+	if !hmac.Equal([]byte(Sign(secret, timestamp, body)), []byte(signature)) {
+		return ErrBadSignature
+	}
+	return nil
 }
 
-// callbackSecret finds the secret that signs job's callbacks.
+// errKeyRevoked: the job's API key was revoked; its callbacks are not sent.
+var errKeyRevoked = errors.New("the job's API key is revoked")
+
+// callbackSecret finds the secret that signs job's callbacks: errKeyRevoked
+// for a revoked key, store.ErrNotFound for one that no longer exists.
 func (s *Server) callbackSecret(ctx context.Context, owner string) ([]byte, error) {
 	if owner == "" {
 		return s.cfg.AnonymousSecret, nil
@@ -53,6 +96,9 @@ func (s *Server) callbackSecret(ctx context.Context, owner string) ([]byte, erro
 	k, err := s.st.GetAPIKey(ctx, owner)
 	if err != nil {
 		return nil, fmt.Errorf("callback secret: %w", err)
+	}
+	if k.Revoked() {
+		return nil, errKeyRevoked
 	}
 	return k.Secret, nil
 }
@@ -155,23 +201,28 @@ func (s *Server) deliver(ctx context.Context, job store.Job) {
 		return
 	}
 
-	secret, err := s.callbackSecret(ctx, job.Owner)
-	switch {
-	case errors.Is(err, store.ErrNotFound):
-		s.settleCallback(ctx, log, job.ID, "callback not sent: the job's API key no longer exists")
-		return
-	case err != nil:
-		log.Error("callback: signing secret", "err", err)
-		return
-	case len(secret) == 0:
-		// Another process may have the anonymous secret; leave it to that one.
-		log.Warn("callback not sent: this process has no secret for anonymous callbacks (SHIFTRANK_CALLBACK_SECRET)")
-		return
-	}
 	view := s.jobView(job)
 	view.Request = nil
 
 	for ; attempt <= s.cfg.CallbackAttempts; attempt++ {
+		// The secret is read before every attempt: a key revoked (or a
+		// secret rotated) between attempts takes effect at once.
+		secret, err := s.callbackSecret(ctx, job.Owner)
+		switch {
+		case errors.Is(err, errKeyRevoked):
+			s.settleCallback(ctx, log, job.ID, "callback not sent: the job's API key is revoked")
+			return
+		case errors.Is(err, store.ErrNotFound):
+			s.settleCallback(ctx, log, job.ID, "callback not sent: the job's API key no longer exists")
+			return
+		case err != nil:
+			log.Error("callback: signing secret", "err", err)
+			return
+		case len(secret) == 0:
+			// Another process may have the anonymous secret; leave it to that one.
+			log.Warn("callback not sent: this process has no secret for anonymous callbacks (SHIFTRANK_CALLBACK_SECRET)")
+			return
+		}
 		var wait time.Duration
 		if attempt > 1 && !last.IsZero() {
 			wait = max(0, time.Until(last.Add(s.backoff(attempt-1))))
@@ -207,7 +258,7 @@ func (s *Server) deliver(ctx context.Context, job store.Job) {
 		}
 		actx, cancel := context.WithTimeout(ctx, s.cfg.CallbackTimeout)
 		code, err := s.post(actx, job.CallbackURL, secret, CallbackPayload{
-			Event: "job.finished", Attempt: attempt, SentAt: time.Now().UTC(), Job: view,
+			Event: "job.finished", Attempt: attempt, SentAt: s.cfg.Now().UTC(), Job: view,
 		})
 		cancel()
 		if ctx.Err() != nil {
@@ -224,9 +275,15 @@ func (s *Server) deliver(ctx context.Context, job store.Job) {
 			log.Error("record callback delivery", "err", rerr)
 		}
 		rcancel()
+		var te *TargetError
 		switch {
 		case err == nil && code >= 200 && code < 300:
 			s.settleCallback(ctx, log, job.ID, "callback delivered", "attempt", attempt, "status", code)
+			return
+		case errors.As(err, &te):
+			// The host now resolves to an address the rules refuse: a
+			// later attempt would not be allowed either.
+			s.settleCallback(ctx, log, job.ID, "callback refused by the target rules; not retried", "attempt", attempt, "reason", te.Error())
 			return
 		case callbackSettled(code, err != nil):
 			s.settleCallback(ctx, log, job.ID, "callback refused; not retried", "attempt", attempt, "status", code)
@@ -322,9 +379,11 @@ func (s *Server) post(ctx context.Context, url string, secret []byte, p Callback
 	if err != nil {
 		return 0, fmt.Errorf("build request: %w", err)
 	}
+	ts := strconv.FormatInt(s.cfg.Now().Unix(), 10)
 	req.Header.Set("Content-Type", "application/json")
 	req.Header.Set("User-Agent", "shiftrank-callback/1")
-	req.Header.Set(SignatureHeader, Sign(secret, body))
+	req.Header.Set(TimestampHeader, ts)
+	req.Header.Set(SignatureHeader, Sign(secret, ts, body))
 	req.Header.Set("X-Shiftrank-Job", p.Job.ID)
 	req.Header.Set("X-Shiftrank-Attempt", fmt.Sprint(p.Attempt))
 	resp, err := s.cfg.CallbackClient.Do(req)

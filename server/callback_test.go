@@ -36,7 +36,7 @@ func (rc *switchReceiver) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 		rc.dropped++
 		panic(http.ErrAbortHandler) // the connection closes with no response
 	}
-	if !server.VerifySignature(rc.secret, body, r.Header.Get(server.SignatureHeader)) {
+	if !signedBy(rc.secret, r, body) {
 		rc.badSig++
 		http.Error(w, "bad signature", http.StatusUnauthorized)
 		return

@@ -102,7 +102,7 @@ func TestPredict(t *testing.T) {
 // TestSyncRequestsBounded: with MaxSyncRequests 1, a second synchronous
 // request while one runs gets 503 with Retry-After; after it, one is served.
 func TestSyncRequestsBounded(t *testing.T) {
-	_, hs := startServer(t, store.NewMemory(), &fakeRanker{}, server.Config{AllowAnonymous: true, Workers: -1, MaxSyncRequests: 1})
+	_, hs := startServer(t, store.NewMemory(), &fakeRanker{}, server.Config{AllowAnonymous: true, Workers: -1, MaxSyncRequests: 1, MaxSyncPerKey: -1})
 	// The first request holds its slot while the server waits for its body.
 	pr, pw := io.Pipe()
 	first := make(chan int, 1)

@@ -6,13 +6,18 @@ import (
 	"encoding/json"
 	"io"
 	"log/slog"
+	"net"
 	"net/http"
 	"net/http/httptest"
+	"net/netip"
+	"net/url"
 	"os"
 	"strings"
 	"sync"
 	"testing"
 	"time"
+
+	"github.com/stretchr/testify/require"
 
 	"shiftrank/ranker"
 	"shiftrank/server"
@@ -25,9 +30,10 @@ import (
 type testStore interface {
 	server.JobStore
 	CreateAPIKey(ctx context.Context, name string) (string, store.APIKey, error)
-	RevokeAPIKey(ctx context.Context, idOrName string) error
+	RevokeAPIKey(ctx context.Context, idOrName string) (int, error)
 	History(ctx context.Context, owner, id string) ([]store.StatusChange, error)
 	Deliveries(ctx context.Context, jobID string) ([]store.Delivery, error)
+	RotateAPIKeySecret(ctx context.Context, idOrName string) (store.APIKey, error)
 	Close()
 }
 
@@ -77,6 +83,11 @@ type fakeRanker struct {
 }
 
 func (f *fakeRanker) Rank(ctx context.Context, req ranker.Request, progress func(ranker.Progress)) (*ranker.Result, error) {
+	if err := ctx.Err(); err != nil {
+		// The server checks a request at submission with a cancelled
+		// context; like the real ranker, a valid one answers ctx.Err().
+		return nil, err
+	}
 	f.mu.Lock()
 	f.calls++
 	f.reqs = append(f.reqs, req)
@@ -136,7 +147,21 @@ func fastConfig(cfg server.Config) server.Config {
 	cfg.IdleMin = 10 * time.Millisecond
 	cfg.IdleMax = 50 * time.Millisecond
 	cfg.CallbackBackoff = 20 * time.Millisecond
+	if cfg.CallbackAllow.String() == "" {
+		// The tests' callback receivers listen on loopback, which the
+		// callback rules refuse unless the operator allows it.
+		cfg.CallbackAllow = loopbackAllowed
+	}
 	return cfg
+}
+
+// loopbackAllowed allows callbacks to the loopback addresses.
+var loopbackAllowed, _ = server.ParseCallbackAllow([]string{"127.0.0.0/8", "::1"})
+
+// signedBy reports whether the callback request r with body carries a
+// valid, current signature under secret.
+func signedBy(secret []byte, r *http.Request, body []byte) bool {
+	return server.VerifySignature(secret, body, r.Header.Get(server.TimestampHeader), r.Header.Get(server.SignatureHeader), time.Now(), 0) == nil
 }
 
 // startServer serves the API over loopback HTTP with its workers running.
@@ -261,4 +286,198 @@ func httptestRecorder(h http.Handler, method, path string) *httptest.ResponseRec
 	rec := httptest.NewRecorder()
 	h.ServeHTTP(rec, httptest.NewRequest(method, path, nil))
 	return rec
+}
+
+// fakeResolver answers callback host lookups from a table: each host has a
+// list of answers, given in turn, the last one repeating; a host not in the
+// table does not exist, and one mapped to nil answers a temporary failure.
+type fakeResolver struct {
+	mu      sync.Mutex
+	answers map[string][][]netip.Addr
+	calls   map[string]int
+}
+
+func newFakeResolver(answers map[string][]string) *fakeResolver {
+	f := &fakeResolver{answers: map[string][][]netip.Addr{}, calls: map[string]int{}}
+	for host, addrs := range answers {
+		f.add(host, addrs...)
+	}
+	return f
+}
+
+// add appends one answer for host (nil addrs: a temporary failure).
+func (f *fakeResolver) add(host string, addrs ...string) {
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	var ans []netip.Addr
+	for _, a := range addrs {
+		ans = append(ans, netip.MustParseAddr(a))
+	}
+	f.answers[host] = append(f.answers[host], ans)
+}
+
+func (f *fakeResolver) LookupNetIP(ctx context.Context, network, host string) ([]netip.Addr, error) {
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	list, ok := f.answers[host]
+	if !ok {
+		return nil, &net.DNSError{Err: "no such host", Name: host, IsNotFound: true}
+	}
+	n := f.calls[host]
+	f.calls[host]++
+	ans := list[min(n, len(list)-1)]
+	if ans == nil {
+		return nil, &net.DNSError{Err: "server misbehaving", Name: host, IsTemporary: true}
+	}
+	return ans, nil
+}
+
+// mustAllow parses callback-allow entries.
+func mustAllow(t testing.TB, entries ...string) server.CallbackAllow {
+	t.Helper()
+	a, err := server.ParseCallbackAllow(entries)
+	require.NoError(t, err)
+	return a
+}
+
+// serve sends one request to h in process (no network, so that it works
+// inside a testing/synctest bubble) and returns the reply.
+func serve(h http.Handler, method, path string, body any, header ...string) reply {
+	var rd io.Reader
+	switch b := body.(type) {
+	case nil:
+	case string:
+		rd = strings.NewReader(b)
+	case []byte:
+		rd = bytes.NewReader(b)
+	case io.Reader:
+		rd = b
+	default:
+		j, err := json.Marshal(b)
+		if err != nil {
+			panic(err)
+		}
+		rd = bytes.NewReader(j)
+	}
+	req := httptest.NewRequest(method, "http://127.0.0.1:8080"+path, rd)
+	if rd != nil {
+		req.Header.Set("Content-Type", "application/json")
+	}
+	for i := 0; i+1 < len(header); i += 2 {
+		if header[i+1] == "" {
+			req.Header.Del(header[i])
+			continue
+		}
+		if header[i] == "Host" {
+			req.Host = header[i+1]
+			continue
+		}
+		req.Header.Set(header[i], header[i+1])
+	}
+	rec := httptest.NewRecorder()
+	h.ServeHTTP(rec, req)
+	return reply{status: rec.Code, header: rec.Header(), body: rec.Body.Bytes()}
+}
+
+// receiver counts the callbacks it gets.
+type receiver struct {
+	mu     sync.Mutex
+	bodies [][]byte
+	reqs   []*http.Request
+}
+
+func (rc *receiver) ServeHTTP(w http.ResponseWriter, r *http.Request) {
+	body, _ := io.ReadAll(r.Body)
+	rc.mu.Lock()
+	rc.bodies = append(rc.bodies, body)
+	rc.reqs = append(rc.reqs, r)
+	rc.mu.Unlock()
+	w.WriteHeader(http.StatusNoContent)
+}
+
+func (rc *receiver) count() int {
+	rc.mu.Lock()
+	defer rc.mu.Unlock()
+	return len(rc.bodies)
+}
+
+// eventually polls cond every 20 ms until it holds. It sets no time limit
+// of its own (the machine may be loaded): a hang ends with go test's
+// -timeout, whose report names the waiting test.
+func eventually(t *testing.T, what string, cond func() bool) {
+	t.Helper()
+	start := time.Now()
+	next := 30 * time.Second
+	for !cond() {
+		time.Sleep(20 * time.Millisecond)
+		if d := time.Since(start); d > next {
+			t.Logf("still waiting: %s (%v)", what, d.Round(time.Second))
+			next *= 2
+		}
+	}
+}
+
+// tcpProxy forwards connections to a target address until cut.
+type tcpProxy struct {
+	ln     net.Listener
+	target string
+	mu     sync.Mutex
+	conns  []net.Conn
+	closed bool
+}
+
+// postgresBehindProxy returns a URL of a fresh test schema reached through
+// a TCP proxy, and the proxy, whose cut makes the database unreachable.
+func postgresBehindProxy(t *testing.T) (string, *tcpProxy) {
+	t.Helper()
+	base, schema := pgtest.Schema(t)
+	dsn := pgtest.WithSearchPath(t, base, schema)
+	u, err := url.Parse(dsn)
+	require.NoError(t, err, "the proxy test needs TEST_DATABASE_URL as a postgres:// URL")
+	ln, err := net.Listen("tcp", "127.0.0.1:0")
+	require.NoError(t, err)
+	p := &tcpProxy{ln: ln, target: u.Host}
+	go p.accept()
+	t.Cleanup(p.cut)
+	u.Host = ln.Addr().String()
+	return u.String(), p
+}
+
+func (p *tcpProxy) accept() {
+	for {
+		c, err := p.ln.Accept()
+		if err != nil {
+			return
+		}
+		up, err := net.Dial("tcp", p.target)
+		if err != nil {
+			c.Close()
+			continue
+		}
+		p.mu.Lock()
+		if p.closed {
+			p.mu.Unlock()
+			c.Close()
+			up.Close()
+			return
+		}
+		p.conns = append(p.conns, c, up)
+		p.mu.Unlock()
+		go func() { _, _ = io.Copy(up, c); up.Close() }()
+		go func() { _, _ = io.Copy(c, up); c.Close() }()
+	}
+}
+
+// cut closes the listener and every forwarded connection.
+func (p *tcpProxy) cut() {
+	p.mu.Lock()
+	defer p.mu.Unlock()
+	if p.closed {
+		return
+	}
+	p.closed = true
+	p.ln.Close()
+	for _, c := range p.conns {
+		c.Close()
+	}
 }

@@ -255,7 +255,7 @@ func checkCallbackURL(s string) error {
 	if u.User != nil {
 		return errors.New("must not carry user information")
 	}
-	return nil
+	return checkURLHostPort(u)
 }
 
 // canonical returns the request as compact JSON with a fixed member order,
@@ -264,11 +264,11 @@ func (jr JobRequest) canonical() (json.RawMessage, string, error) {
 	c := jr
 	c.Formula = strings.TrimSpace(c.Formula)
 	c.Solvent = strings.TrimSpace(c.Solvent)
-	var buf bytes.Buffer
-	if err := json.Compact(&buf, c.Peaks); err != nil {
-		return nil, "", fmt.Errorf("compact peaks: %w", err)
+	peaks, err := normalizedPeaks(c.Peaks)
+	if err != nil {
+		return nil, "", err
 	}
-	c.Peaks = buf.Bytes()
+	c.Peaks = peaks
 	b, err := json.Marshal(c)
 	if err != nil {
 		return nil, "", fmt.Errorf("encode request: %w", err)

@@ -94,7 +94,10 @@ func (s *Server) limits() limits {
 	return limits{maxHeavyAtoms: s.cfg.MaxHeavyAtoms, maxCandidates: s.cfg.MaxCandidates, timeBudget: s.cfg.TimeBudget}
 }
 
-const maxIdempotencyKeyLen = 255
+const (
+	maxIdempotencyKeyLen = 255
+	maxCursorLen         = 200 // a cursor is about 60 characters
+)
 
 func (s *Server) handleCreateJob(w http.ResponseWriter, r *http.Request) {
 	c := callerFrom(r.Context())
@@ -109,7 +112,7 @@ func (s *Server) handleCreateJob(w http.ResponseWriter, r *http.Request) {
 		s.writeError(w, r, err)
 		return
 	}
-	jr, _, err := decodeJobRequest(raw, s.limits())
+	jr, rr, err := decodeJobRequest(raw, s.limits())
 	if err != nil {
 		var ae *Error
 		if errors.As(err, &ae) && jr.CallbackURL != "" && c.secret == nil {
@@ -122,12 +125,22 @@ func (s *Server) handleCreateJob(w http.ResponseWriter, r *http.Request) {
 		s.writeError(w, r, invalidFields([]FieldError{anonymousCallbackField()}))
 		return
 	}
+	if fields := s.feasibilityFields(jr, rr); len(fields) > 0 {
+		s.writeError(w, r, invalidFields(fields))
+		return
+	}
+	if jr.CallbackURL != "" {
+		if err := s.checkCallbackTarget(r.Context(), jr.CallbackURL); err != nil {
+			s.writeError(w, r, err)
+			return
+		}
+	}
 	canon, hash, err := jr.canonical()
 	if err != nil {
 		s.writeError(w, r, internal(err))
 		return
 	}
-	job, created, err := s.st.CreateJob(r.Context(), store.Job{
+	job, created, err := s.st.SubmitJob(r.Context(), store.Job{
 		Owner:          c.owner,
 		Status:         store.StatusQueued,
 		Request:        canon,
@@ -135,12 +148,21 @@ func (s *Server) handleCreateJob(w http.ResponseWriter, r *http.Request) {
 		CallbackURL:    jr.CallbackURL,
 		IdempotencyKey: idem,
 		RequestHash:    hash,
-	})
+	}, s.cfg.MaxQueuedPerKey)
 	switch {
 	case errors.Is(err, store.ErrConflict):
 		s.writeError(w, r, &Error{Code: CodeConflict,
 			Detail: "this Idempotency-Key was already used with a different request body",
 			Fields: []FieldError{{Field: "Idempotency-Key", Detail: "already used with a different body"}}})
+		return
+	case errors.Is(err, store.ErrLimit):
+		s.throttle.warn(s.log, "queue-share:"+c.owner, "job refused: the key's queue is full", "key", ownerName(c.owner), "limit", s.cfg.MaxQueuedPerKey)
+		s.writeError(w, r, &Error{Code: CodeRateLimited, RetryAfter: queueRetryAfter,
+			Detail: fmt.Sprintf("this API key already has %d jobs waiting, its share of the queue; submit more when some have started", s.cfg.MaxQueuedPerKey)})
+		return
+	case errors.Is(err, store.ErrInvalid):
+		// The checks above keep such text out; this is the last guard.
+		s.writeError(w, r, &Error{Code: CodeInvalid, Detail: "the request holds text that cannot be stored (a NUL character or invalid UTF-8)", Err: err})
 		return
 	case err != nil:
 		s.writeError(w, r, internal(fmt.Errorf("create job: %w", err)))
@@ -172,6 +194,9 @@ func (s *Server) handleGetJob(w http.ResponseWriter, r *http.Request) {
 }
 
 func (s *Server) getJob(r *http.Request, id string) (store.Job, error) {
+	if !store.ValidJobID(id) {
+		return store.Job{}, errorf(CodeNotFound, "no job %q", truncate(id, 40))
+	}
 	job, err := s.st.GetJob(r.Context(), callerFrom(r.Context()).owner, id)
 	if errors.Is(err, store.ErrNotFound) {
 		return job, errorf(CodeNotFound, "no job %q", id)
@@ -196,6 +221,11 @@ func (s *Server) handleListJobs(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	cursor := q.Get("cursor")
+	if len(cursor) > maxCursorLen {
+		s.writeError(w, r, &Error{Code: CodeInvalid, Detail: "bad cursor",
+			Fields: []FieldError{{Field: "cursor", Detail: "not a cursor this server returned"}}})
+		return
+	}
 	jobs, next, err := s.st.ListJobs(r.Context(), callerFrom(r.Context()).owner, limit, cursor)
 	if err != nil {
 		if errors.Is(err, store.ErrInvalid) {
@@ -231,6 +261,10 @@ func queryInt(s, name string, def, lo, hi int) (int, error) {
 func (s *Server) handleCancel(w http.ResponseWriter, r *http.Request) {
 	id := chi.URLParam(r, "id")
 	owner := callerFrom(r.Context()).owner
+	if !store.ValidJobID(id) {
+		s.writeError(w, r, errorf(CodeNotFound, "no job %q", truncate(id, 40)))
+		return
+	}
 	before, _ := s.st.GetJob(r.Context(), owner, id)
 	job, err := s.st.CancelJob(r.Context(), owner, id)
 	switch {
@@ -298,6 +332,9 @@ type CandidateList struct {
 
 func (s *Server) loadResult(r *http.Request, id string) (resultBody, error) {
 	owner := callerFrom(r.Context()).owner
+	if !store.ValidJobID(id) {
+		return resultBody{}, errorf(CodeNotFound, "no job %q", truncate(id, 40))
+	}
 	res, err := s.st.GetResult(r.Context(), owner, id)
 	if errors.Is(err, store.ErrNotFound) {
 		job, err := s.getJob(r, id)

@@ -72,7 +72,7 @@ func TestLoad(t *testing.T) {
 		now := time.Now()
 		mu.Lock()
 		defer mu.Unlock()
-		if !server.VerifySignature(k.Secret, body, r.Header.Get(server.SignatureHeader)) {
+		if !signedBy(k.Secret, r, body) {
 			badSig++
 			w.WriteHeader(http.StatusUnauthorized)
 			return
@@ -91,7 +91,9 @@ func TestLoad(t *testing.T) {
 	}))
 	defer recv.Close()
 
-	args := []string{"--workers", "2", "--time-budget", "20s"}
+	// The receiver is on loopback; one key submits every job, so its queue
+	// is not bounded here.
+	args := []string{"--workers", "2", "--time-budget", "20s", "--callback-allow", "127.0.0.1", "--max-queued-per-key", "-1"}
 	procs := []*serveProc{
 		startServe(t, bin, dsn, "serve A", args...),
 		startServe(t, bin, dsn, "serve B", args...),

@@ -98,6 +98,10 @@ func (s *Server) authenticate(next http.Handler) http.Handler {
 				s.writeError(w, r, errorf(CodeUnauthorized, "this server requires an API key: send Authorization: Bearer KEY"))
 				return
 			}
+			if err := s.checkLocalRequest(r); err != nil {
+				s.writeError(w, r, err)
+				return
+			}
 			c := caller{owner: "", secret: s.cfg.AnonymousSecret}
 			next.ServeHTTP(w, r.WithContext(context.WithValue(r.Context(), ownerKey, c)))
 			return
@@ -122,19 +126,60 @@ func (s *Server) authenticate(next http.Handler) http.Handler {
 	})
 }
 
-// limitSync admits a synchronous computation only while fewer than
-// Config.MaxSyncRequests run; others get 503 with Retry-After at once
-// rather than queueing behind them.
+// syncRetryAfter is the Retry-After of a refused synchronous request: such
+// requests last about a second.
+const syncRetryAfter = time.Second
+
+// limitSync admits a synchronous computation only while the caller runs
+// fewer than Config.MaxSyncPerKey of them (else 429: its share is used)
+// and fewer than Config.MaxSyncRequests run in all (else 503: the server is
+// busy). Both answer at once with Retry-After rather than queueing.
 func (s *Server) limitSync(next http.Handler) http.Handler {
 	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
+		owner := callerFrom(r.Context()).owner
+		if !s.takeSyncShare(owner) {
+			s.throttle.warn(s.log, "sync-share:"+owner, "synchronous request refused: the key is at its share", "key", ownerName(owner), "limit", s.cfg.MaxSyncPerKey)
+			s.writeError(w, r, &Error{Code: CodeRateLimited, RetryAfter: syncRetryAfter,
+				Detail: fmt.Sprintf("this API key already runs %d synchronous requests, its share; retry in a moment, or submit a job", s.cfg.MaxSyncPerKey)})
+			return
+		}
+		defer s.releaseSyncShare(owner)
 		select {
 		case s.syncSlots <- struct{}{}:
 		default:
-			w.Header().Set("Retry-After", "1")
-			s.writeError(w, r, errorf(CodeUnavailable, "the server is busy with other synchronous requests; retry in a moment, or submit a job"))
+			s.writeError(w, r, &Error{Code: CodeUnavailable, RetryAfter: syncRetryAfter,
+				Detail: "the server is busy with other synchronous requests; retry in a moment, or submit a job"})
 			return
 		}
 		defer func() { <-s.syncSlots }()
 		next.ServeHTTP(w, r)
 	})
+}
+
+// takeSyncShare counts one more synchronous request of owner, unless owner
+// is at Config.MaxSyncPerKey.
+func (s *Server) takeSyncShare(owner string) bool {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if s.cfg.MaxSyncPerKey > 0 && s.syncByKey[owner] >= s.cfg.MaxSyncPerKey {
+		return false
+	}
+	s.syncByKey[owner]++
+	return true
+}
+
+func (s *Server) releaseSyncShare(owner string) {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if s.syncByKey[owner]--; s.syncByKey[owner] <= 0 {
+		delete(s.syncByKey, owner)
+	}
+}
+
+// ownerName names an owner in the log: its key ID, or "anonymous".
+func ownerName(owner string) string {
+	if owner == "" {
+		return "anonymous"
+	}
+	return owner
 }

@@ -70,7 +70,7 @@ func TestOpenAPICoversEveryRoute(t *testing.T) {
 	if len(routes) < 11 {
 		t.Errorf("walked only %d routes: %v", len(routes), routes)
 	}
-	for _, want := range []string{"hypothesis", "authentic sample", "forensic, clinical or safety", server.SignatureHeader, "Bearer"} {
+	for _, want := range []string{"hypothesis", "authentic sample", "forensic, clinical or safety", server.SignatureHeader, server.TimestampHeader, "Bearer", "429"} {
 		if !strings.Contains(doc.Info.Description, want) {
 			t.Errorf("API description lacks %q", want)
 		}

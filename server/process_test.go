@@ -351,7 +351,7 @@ func TestKilledProcessCallbackDeliveredByAnother(t *testing.T) {
 
 	// Retry window: 4 × 500 ms timeouts + 300 + 600 + 1200 ms of back-off.
 	args := []string{"--workers", "1", "--callback-attempts", "4", "--callback-backoff", "300ms",
-		"--callback-timeout", "500ms", "--callback-sweep", "200ms"}
+		"--callback-timeout", "500ms", "--callback-sweep", "200ms", "--callback-allow", "127.0.0.1"}
 	a := startServe(t, bin, dsn, "serve A", args...)
 	job := ethanolJob()
 	job["callback_url"] = recv.URL + "/eln/hook"

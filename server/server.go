@@ -6,6 +6,7 @@ import (
 	"encoding/hex"
 	"fmt"
 	"log/slog"
+	"net"
 	"net/http"
 	"os"
 	"runtime"
@@ -42,6 +43,42 @@ type Config struct {
 	// request beyond it gets 503 with Retry-After, so that they cannot crowd
 	// out the job workers.
 	MaxSyncRequests int
+	// MaxSyncPerKey bounds the synchronous computations one API key (or the
+	// anonymous owner) runs at once (default half of MaxSyncRequests, at
+	// least 1); a request beyond it gets 429 with Retry-After, so that one
+	// key cannot take every slot from the others. Negative: no per-key
+	// bound.
+	MaxSyncPerKey int
+	// MaxQueuedPerKey bounds the jobs one API key (or the anonymous owner)
+	// has waiting in the queue (default 100); a submission beyond it gets
+	// 429 with Retry-After. Negative: no bound. Jobs are picked fairly
+	// between keys whatever this is (see store.Memory.ClaimJob); a bound on
+	// running jobs per key is a store option (store.WithMaxRunningPerOwner).
+	MaxQueuedPerKey int
+	// Retention is how long finished jobs are kept (default 7 days; their
+	// callbacks must be settled too); a sweep every RetentionSweep (default
+	// 10 minutes) deletes older ones. Negative: keep them forever. The
+	// memory store also bounds their number (store.WithMaxFinished).
+	Retention      time.Duration
+	RetentionSweep time.Duration
+	// CallbackAllow lists callback targets allowed besides public addresses
+	// on ports 80 and 443 (see CallbackAllow).
+	CallbackAllow CallbackAllow
+	// Resolver looks up callback hosts (default net.DefaultResolver).
+	Resolver Resolver
+	// AllowedHosts, when set, are the only Host header values (host:port,
+	// as a browser sends them) accepted on anonymous requests, and the only
+	// origins (their host:port) an anonymous request's Origin header may
+	// name: a page of another site, or a name rebound to a loopback address,
+	// cannot use the anonymous API. Empty: no check.
+	AllowedHosts []string
+	// ThrottleLogEvery is how often one kind of refusal (a busy server, a
+	// key over its share, an unreachable store) is logged at most
+	// (default 1 minute); the others are counted.
+	ThrottleLogEvery time.Duration
+	// Now is the clock (default time.Now), for callback timestamps and
+	// throttled logging.
+	Now func() time.Time
 	// BaseURL is the public base URL (scheme and host, optional path
 	// prefix, no trailing slash) used for Location headers and in callback
 	// payloads. "" means relative Locations.
@@ -76,7 +113,8 @@ type Config struct {
 	// 30 s; negative: never). See Server.RetryWindow.
 	CallbackSweep time.Duration
 	// CallbackClient sends callbacks (default: a client that follows no
-	// redirects).
+	// redirects and connects only to the targets the callback rules allow;
+	// see CallbackAllow). A client given here is used as it is.
 	CallbackClient *http.Client
 	// WorkerID names this process's workers in leases and status history
 	// (default host-pid-random).
@@ -108,6 +146,27 @@ func (c Config) withDefaults() Config {
 	if c.MaxSyncRequests <= 0 {
 		c.MaxSyncRequests = runtime.NumCPU()
 	}
+	if c.MaxSyncPerKey == 0 {
+		c.MaxSyncPerKey = max(1, c.MaxSyncRequests/2)
+	}
+	if c.MaxQueuedPerKey == 0 {
+		c.MaxQueuedPerKey = DefaultMaxQueuedPerKey
+	}
+	if c.Retention == 0 {
+		c.Retention = DefaultRetention
+	}
+	if c.RetentionSweep <= 0 {
+		c.RetentionSweep = 10 * time.Minute
+	}
+	if c.Resolver == nil {
+		c.Resolver = net.DefaultResolver
+	}
+	if c.ThrottleLogEvery <= 0 {
+		c.ThrottleLogEvery = time.Minute
+	}
+	if c.Now == nil {
+		c.Now = time.Now
+	}
 	c.BaseURL = strings.TrimRight(c.BaseURL, "/")
 	if c.Lease == 0 {
 		c.Lease = 30 * time.Second
@@ -136,14 +195,7 @@ func (c Config) withDefaults() Config {
 	if c.CallbackSweep == 0 {
 		c.CallbackSweep = 30 * time.Second
 	}
-	if c.CallbackClient == nil {
-		c.CallbackClient = &http.Client{
-			Timeout: c.CallbackTimeout,
-			// A redirect is answered as a failed delivery, not followed:
-			// the signed body goes only where the client asked.
-			CheckRedirect: func(*http.Request, []*http.Request) error { return http.ErrUseLastResponse },
-		}
-	}
+
 	if c.WorkerID == "" {
 		host, _ := os.Hostname()
 		var b [4]byte
@@ -180,9 +232,19 @@ type Server struct {
 	delivering map[string]bool
 	// resumeSlots bounds the callbacks resumed by sweeps at once.
 	resumeSlots chan struct{}
-	// syncSlots bounds the synchronous computations run at once.
+	// syncSlots bounds the synchronous computations run at once;
+	// syncByKey counts them per caller (under mu).
 	syncSlots chan struct{}
+	syncByKey map[string]int
+	// throttle limits repeated warnings in the log.
+	throttle *logThrottle
 }
+
+// Defaults of the fair-sharing and retention settings.
+const (
+	DefaultMaxQueuedPerKey = 100
+	DefaultRetention       = 7 * 24 * time.Hour
+)
 
 // New returns a server using st for jobs and rk for rankings. It does not
 // start workers; call Start.
@@ -198,6 +260,17 @@ func New(logger *slog.Logger, st JobStore, rk Ranker, cfg Config) *Server {
 		resumeSlots: make(chan struct{}, maxResumed),
 	}
 	s.syncSlots = make(chan struct{}, s.cfg.MaxSyncRequests)
+	s.syncByKey = make(map[string]int)
+	s.throttle = newLogThrottle(s.cfg.ThrottleLogEvery, s.cfg.Now)
+	if s.cfg.CallbackClient == nil {
+		s.cfg.CallbackClient = &http.Client{
+			Timeout:   s.cfg.CallbackTimeout,
+			Transport: s.callbackTransport(),
+			// A redirect is answered as a failed delivery, not followed:
+			// the signed body goes only where the client asked.
+			CheckRedirect: func(*http.Request, []*http.Request) error { return http.ErrUseLastResponse },
+		}
+	}
 	s.bgCtx, s.bgCancel = context.WithCancel(context.Background())
 	s.openapi, s.openapiErr = openAPIDoc(s.cfg.BaseURL)
 	s.router = s.routes()
@@ -215,6 +288,10 @@ func (s *Server) Router() chi.Routes { return s.router }
 func (s *Server) routes() chi.Router {
 	r := chi.NewRouter()
 	r.Use(s.recoverer, s.logRequests)
+	// Every error is a problem document, also for paths and methods no
+	// route knows (an unknown method never reaches the subrouters).
+	r.NotFound(s.apiNotFound)
+	r.MethodNotAllowed(s.apiMethodNotAllowed)
 	r.Get("/healthz", s.handleHealthz)
 	r.Get("/readyz", s.handleReadyz)
 	r.Route("/v1", func(r chi.Router) {
@@ -237,13 +314,56 @@ func (s *Server) routes() chi.Router {
 	if web == nil {
 		web = http.HandlerFunc(plainPage)
 	}
-	r.Handle("/*", web)
+	r.Handle("/*", s.problemErrors(web))
 	return r
 }
 
 func (s *Server) apiNotFound(w http.ResponseWriter, r *http.Request) {
 	s.writeError(w, r, errorf(CodeNotFound, "no such endpoint; see /v1/openapi.json"))
 }
+
+// problemErrors turns the error answers of h (the web page: a missing
+// file, a POST to the page) into problem documents, so that every error
+// of the service has one form.
+func (s *Server) problemErrors(h http.Handler) http.Handler {
+	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
+		h.ServeHTTP(&problemWriter{ResponseWriter: w, s: s, r: r}, r)
+	})
+}
+
+// problemWriter replaces an error status written by a handler, and the
+// body that follows it, with a problem document.
+type problemWriter struct {
+	http.ResponseWriter
+	s        *Server
+	r        *http.Request
+	replaced bool
+}
+
+func (pw *problemWriter) WriteHeader(code int) {
+	if code < 400 || pw.replaced {
+		pw.ResponseWriter.WriteHeader(code)
+		return
+	}
+	pw.replaced = true
+	detail := http.StatusText(code)
+	switch code {
+	case http.StatusNotFound:
+		detail = "no such page or endpoint; the API is under /v1 (see /v1/openapi.json)"
+	case http.StatusMethodNotAllowed:
+		detail = fmt.Sprintf("method %s is not allowed here", pw.r.Method)
+	}
+	pw.s.writeProblem(pw.ResponseWriter, pw.r, Problem{Status: code, Code: statusCode(code), Detail: detail})
+}
+
+func (pw *problemWriter) Write(b []byte) (int, error) {
+	if pw.replaced {
+		return len(b), nil // the handler's own error text
+	}
+	return pw.ResponseWriter.Write(b)
+}
+
+func (pw *problemWriter) Unwrap() http.ResponseWriter { return pw.ResponseWriter }
 
 func (s *Server) apiMethodNotAllowed(w http.ResponseWriter, r *http.Request) {
 	s.writeError(w, r, errorf(CodeMethod, "method %s is not allowed here; see /v1/openapi.json", r.Method))
@@ -252,6 +372,11 @@ func (s *Server) apiMethodNotAllowed(w http.ResponseWriter, r *http.Request) {
 func plainPage(w http.ResponseWriter, r *http.Request) {
 	if r.URL.Path != "/" {
 		http.NotFound(w, r)
+		return
+	}
+	if r.Method != http.MethodGet && r.Method != http.MethodHead {
+		w.Header().Set("Allow", "GET, HEAD")
+		w.WriteHeader(http.StatusMethodNotAllowed)
 		return
 	}
 	w.Header().Set("Content-Type", "text/plain; charset=utf-8")

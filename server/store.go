@@ -12,7 +12,7 @@ import (
 // store.Postgres implement it; see package store for the semantics
 // (owner isolation, idempotency, leases).
 type JobStore interface {
-	CreateJob(ctx context.Context, j store.Job) (store.Job, bool, error)
+	SubmitJob(ctx context.Context, j store.Job, maxQueued int) (store.Job, bool, error)
 	GetJob(ctx context.Context, owner, id string) (store.Job, error)
 	ListJobs(ctx context.Context, owner string, limit int, cursor string) ([]store.Job, string, error)
 	CancelJob(ctx context.Context, owner, id string) (store.Job, error)
@@ -32,6 +32,7 @@ type JobStore interface {
 	ClaimCallback(ctx context.Context, id, workerID string, lease time.Duration) (bool, error)
 	MarkCallbackDone(ctx context.Context, id string) error
 	PendingCallbacks(ctx context.Context, olderThan time.Duration, limit int) ([]store.Job, error)
+	PurgeFinished(ctx context.Context, olderThan time.Duration, limit int) (int, error)
 
 	Ping(ctx context.Context) error
 }

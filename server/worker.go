@@ -34,10 +34,14 @@ func (s *Server) Start() {
 	s.started = true
 	runCtx, hardStop := context.WithCancelCause(context.Background())
 	s.hardStop = hardStop
-	s.workers.Add(1)
+	s.workers.Add(2)
 	go func() {
 		defer s.workers.Done()
 		s.sweepLoop(runCtx)
+	}()
+	go func() {
+		defer s.workers.Done()
+		s.retentionLoop(runCtx)
 	}()
 	for i := 0; i < s.cfg.Workers; i++ {
 		s.workers.Add(1)
@@ -109,7 +113,11 @@ func (s *Server) workLoop(ctx context.Context, workerID string) {
 			if ctx.Err() != nil {
 				return
 			}
-			s.log.Error("claim job", "worker", workerID, "err", err)
+			if store.IsUnavailable(err) {
+				s.throttle.warn(s.log, "claim-unavailable", "claim job: the store cannot be reached", "err", err)
+			} else {
+				s.log.Error("claim job", "worker", workerID, "err", err)
+			}
 		}
 		// Jitter keeps the workers of many processes from polling in step.
 		wait := idle/2 + rand.N(idle/2+1)
@@ -352,4 +360,51 @@ func (s *Server) background(f func(ctx context.Context)) {
 		defer s.bg.Done()
 		f(s.bgCtx)
 	}()
+}
+
+// retentionLoop deletes, every RetentionSweep, the finished jobs older than
+// Retention whose callbacks are settled, until Shutdown.
+func (s *Server) retentionLoop(ctx context.Context) {
+	if s.cfg.Retention < 0 {
+		return
+	}
+	for {
+		s.purgeFinished(ctx)
+		t := time.NewTimer(s.cfg.RetentionSweep*3/4 + rand.N(s.cfg.RetentionSweep/2+1))
+		select {
+		case <-s.stopping:
+			t.Stop()
+			return
+		case <-t.C:
+		}
+	}
+}
+
+// purgeBatch is how many finished jobs one delete removes.
+const purgeBatch = 500
+
+// purgeFinished deletes the finished jobs older than Retention, in batches.
+func (s *Server) purgeFinished(ctx context.Context) {
+	total := 0
+	for {
+		n, err := s.st.PurgeFinished(ctx, s.cfg.Retention, purgeBatch)
+		if err != nil {
+			if ctx.Err() == nil {
+				s.throttle.warn(s.log, "purge", "delete old finished jobs", "err", err)
+			}
+			break
+		}
+		total += n
+		if n < purgeBatch {
+			break
+		}
+		select {
+		case <-s.stopping:
+			return
+		default:
+		}
+	}
+	if total > 0 {
+		s.log.Info("deleted old finished jobs", "jobs", total, "older_than", s.cfg.Retention)
+	}
 }

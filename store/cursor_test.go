@@ -11,10 +11,9 @@ func TestCursorRoundTrip(t *testing.T) {
 		name string
 		job  Job
 	}{
-		{"epoch", Job{ID: "a", CreatedAt: time.Unix(0, 0).UTC()}},
+		{"epoch", Job{ID: newJobID(), CreatedAt: time.Unix(0, 0).UTC()}},
 		{"now", Job{ID: newJobID(), CreatedAt: now()}},
-		{"before epoch", Job{ID: "z9", CreatedAt: time.Date(1969, 7, 20, 20, 17, 40, 123000, time.UTC)}},
-		{"dot in id", Job{ID: "a.b", CreatedAt: time.Date(2026, 1, 2, 3, 4, 5, 6000, time.UTC)}},
+		{"before epoch", Job{ID: newJobID(), CreatedAt: time.Date(1969, 7, 20, 20, 17, 40, 123000, time.UTC)}},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -26,6 +25,12 @@ func TestCursorRoundTrip(t *testing.T) {
 	}
 	if _, ok, err := decodeCursor(""); ok || err != nil {
 		t.Errorf(`decodeCursor("") = %v, %v; want first page`, ok, err)
+	}
+	// A cursor must name a job ID: not "a.b", not one with a NUL.
+	for _, id := range []string{"a.b", "z9", newJobID() + "\x00", "\x00"} {
+		if _, _, err := decodeCursor(encodeCursor(Job{ID: id, CreatedAt: now()})); !errors.Is(err, ErrInvalid) {
+			t.Errorf("decodeCursor of a cursor naming %q: %v, want ErrInvalid", id, err)
+		}
 	}
 }
 

@@ -23,8 +23,12 @@
 // so several serve processes on one database share the queue; the database is
 // the only shared part and its clock is the one leases are measured against.
 //
-// ClaimJob prefers jobs abandoned by a dead worker (expired lease), then takes
-// queued jobs oldest first. A job found abandoned after it has been claimed
+// ClaimJob prefers jobs abandoned by a dead worker (expired lease), then picks
+// a queued job fairly between owners: the owner with the fewest running
+// jobs, then the one served longest ago, gets its oldest queued job, so one
+// API key's flood delays another's job by at most one job per worker.
+// WithMaxRunningPerOwner caps an owner's running jobs; SubmitJob bounds an
+// owner's queue (ErrLimit). A job found abandoned after it has been claimed
 // DefaultMaxAttempts times (see WithMaxAttempts) is failed instead of being
 // run again, so a job that kills its worker cannot cycle forever.
 //
@@ -50,6 +54,26 @@
 // a delivery worker takes the callback with ClaimCallback, a short lease like
 // a job's: of several processes resuming one callback, one sends it.
 //
+// # Retention
+//
+// PurgeFinished deletes finished jobs older than a given age (with their
+// results, history and deliveries) once their callbacks are settled. The
+// memory store also keeps at most WithMaxFinished finished jobs
+// (DefaultMaxFinished), forgetting those that finished longest ago.
+//
+// # API keys
+//
+// Only a key's SHA-256 hash is stored, beside its callback-signing secret
+// (RotateAPIKeySecret replaces it). RevokeAPIKey also cancels the key's
+// queued jobs, asks its running jobs to stop and settles all its callbacks.
+//
+// # Text
+//
+// Both stores accept exactly the text PostgreSQL can keep: strings and JSON
+// with a NUL character, invalid UTF-8 or an unpaired surrogate escape are
+// ErrInvalid, and an ID that is not of the form the store hands out is
+// simply not found (ValidJobID).
+//
 // # Ownership
 //
 // Every job has an Owner: the ID of the API key that created it, or "" for
@@ -59,7 +83,8 @@
 // # Errors
 //
 // Errors wrap one of ErrNotFound, ErrConflict, ErrNoJob, ErrLeaseLost,
-// ErrCancelRequested, ErrUnauthorized or ErrInvalid; test them with
-// errors.Is. Any other error is an internal (database) failure. A method that
+// ErrCancelRequested, ErrUnauthorized, ErrInvalid or ErrLimit; test them
+// with errors.Is. Any other error is a database failure; IsUnavailable tells
+// the ones that mean the database could not be reached. A method that
 // returns an error has changed nothing.
 package store

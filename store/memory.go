@@ -1,11 +1,14 @@
 package store
 
 import (
+	"bytes"
+	"compress/flate"
 	"context"
 	"crypto/subtle"
 	"encoding/hex"
 	"encoding/json"
 	"fmt"
+	"io"
 	"slices"
 	"sort"
 	"strings"
@@ -25,17 +28,22 @@ type Memory struct {
 	jobs     map[string]*memJob
 	byOwner  map[string][]string // job IDs per owner, in creation order
 	pending  []string            // non-terminal job IDs, in creation order
+	finished []string            // terminal job IDs, in the order they finished
 	idem     map[idemKey]string  // (owner, idempotency key) -> job ID
 	keys     map[string]*APIKey  // by ID
 	keyHash  map[string]string   // hex hash -> key ID
 	keyName  map[string]string   // name -> key ID
 	lastTime time.Time           // last creation time handed out
+	// turns counts claims of queued jobs; lastTurn[owner] is the count at
+	// the owner's latest one (fair picking, see ClaimJob).
+	turns    uint64
+	lastTurn map[string]uint64
 }
 
 type memJob struct {
 	job        Job
 	history    []StatusChange
-	result     *Result
+	result     *packedResult
 	deliveries []Delivery
 
 	// The callback claim (ClaimCallback): holder and end.
@@ -48,13 +56,14 @@ type idemKey struct{ owner, key string }
 // NewMemory returns an empty in-memory store.
 func NewMemory(opts ...Option) *Memory {
 	return &Memory{
-		opts:    buildOptions(opts),
-		jobs:    make(map[string]*memJob),
-		byOwner: make(map[string][]string),
-		idem:    make(map[idemKey]string),
-		keys:    make(map[string]*APIKey),
-		keyHash: make(map[string]string),
-		keyName: make(map[string]string),
+		opts:     buildOptions(opts),
+		jobs:     make(map[string]*memJob),
+		byOwner:  make(map[string][]string),
+		idem:     make(map[idemKey]string),
+		keys:     make(map[string]*APIKey),
+		keyHash:  make(map[string]string),
+		keyName:  make(map[string]string),
+		lastTurn: make(map[string]uint64),
 	}
 }
 
@@ -93,6 +102,14 @@ func (mj *memJob) record(status Status, at time.Time, worker, note string) {
 // RequestHash matches, and ErrConflict when it differs. A Request that is not
 // valid JSON gives ErrInvalid.
 func (m *Memory) CreateJob(ctx context.Context, j Job) (Job, bool, error) {
+	return m.SubmitJob(ctx, j, 0)
+}
+
+// SubmitJob is CreateJob with a bound on the owner's queue: when j.Owner
+// already has maxQueued jobs queued (not yet running), it creates nothing
+// and returns ErrLimit. A repeat of an earlier submission with the same
+// idempotency key still returns that job. maxQueued <= 0 means no bound.
+func (m *Memory) SubmitJob(ctx context.Context, j Job, maxQueued int) (Job, bool, error) {
 	if err := ctx.Err(); err != nil {
 		return Job{}, false, fmt.Errorf("create job: %w", err)
 	}
@@ -109,6 +126,17 @@ func (m *Memory) CreateJob(ctx context.Context, j Job) (Job, bool, error) {
 				return Job{}, false, fmt.Errorf("create job: idempotency key %q used with a different request: %w", j.IdempotencyKey, ErrConflict)
 			}
 			return copyJob(old), false, nil
+		}
+	}
+	if maxQueued > 0 {
+		queued := 0
+		for _, id := range m.pending {
+			if mj := m.jobs[id]; mj.job.Owner == j.Owner && mj.job.Status == StatusQueued {
+				queued++
+			}
+		}
+		if queued >= maxQueued {
+			return Job{}, false, fmt.Errorf("create job: %d jobs of this owner are queued: %w", queued, ErrLimit)
 		}
 	}
 	j.CreatedAt = m.creationTime()
@@ -179,11 +207,16 @@ func (m *Memory) ListJobs(ctx context.Context, owner string, limit int, cur stri
 }
 
 // ClaimJob hands a job to workerID for lease: a running job whose lease has
-// expired (the longest expired first), else the oldest queued job. The job
-// becomes running, its lease owner workerID, its lease end now+lease, and
-// Attempts grows by one. An expired job whose owner asked for cancellation
-// is finished as cancelled instead of being handed out. ErrNoJob if nothing
-// is available.
+// expired (the longest expired first), else a queued job picked fairly
+// between owners: of the owners with queued jobs (and, under
+// WithMaxRunningPerOwner, fewer running jobs than the limit), the one with
+// the fewest running jobs, then the one whose last claimed job was claimed
+// longest ago (or never), gets its oldest queued job. One owner's flood
+// therefore delays another owner's job by at most one job per worker. The
+// job becomes running, its lease owner workerID, its lease end now+lease,
+// and Attempts grows by one. An expired job whose owner asked for
+// cancellation is finished as cancelled instead of being handed out.
+// ErrNoJob if nothing is available.
 func (m *Memory) ClaimJob(ctx context.Context, workerID string, lease time.Duration) (Job, error) {
 	if err := ctx.Err(); err != nil {
 		return Job{}, fmt.Errorf("claim job: %w", err)
@@ -212,6 +245,10 @@ func (m *Memory) ClaimJob(ctx context.Context, workerID string, lease time.Durat
 			}
 			note = fmt.Sprintf("reclaimed after lease of %s expired (attempt %d)", j.LeaseOwner, j.Attempts+1)
 		}
+		if j.Status == StatusQueued {
+			m.turns++
+			m.lastTurn[j.Owner] = m.turns
+		}
 		j.Status = StatusRunning
 		j.LeaseOwner = workerID
 		j.LeaseUntil = t.Add(lease).Truncate(time.Microsecond)
@@ -227,22 +264,40 @@ func (m *Memory) ClaimJob(ctx context.Context, workerID string, lease time.Durat
 // nextLocked picks the job ClaimJob hands out at time t, or nil. Callers
 // hold m.mu.
 func (m *Memory) nextLocked(t time.Time) *memJob {
-	var expired, queued *memJob
+	var expired *memJob
+	running := map[string]int{}
+	var heads []*memJob // each owner's oldest queued job, oldest first
+	seen := map[string]bool{}
 	for _, id := range m.pending { // creation order
 		mj := m.jobs[id]
-		switch j := mj.job; {
-		case j.Status == StatusRunning && j.LeaseUntil.Before(t):
-			if expired == nil || j.LeaseUntil.Before(expired.job.LeaseUntil) {
+		switch j := mj.job; j.Status {
+		case StatusRunning:
+			running[j.Owner]++
+			if j.LeaseUntil.Before(t) && (expired == nil || j.LeaseUntil.Before(expired.job.LeaseUntil)) {
 				expired = mj
 			}
-		case j.Status == StatusQueued && queued == nil:
-			queued = mj
+		case StatusQueued:
+			if !seen[j.Owner] {
+				seen[j.Owner] = true
+				heads = append(heads, mj)
+			}
 		}
 	}
 	if expired != nil {
 		return expired
 	}
-	return queued
+	var best *memJob
+	for _, mj := range heads {
+		o := mj.job.Owner
+		if m.opts.maxRunning > 0 && running[o] >= m.opts.maxRunning {
+			continue
+		}
+		if best == nil || running[o] < running[best.job.Owner] ||
+			running[o] == running[best.job.Owner] && m.lastTurn[o] < m.lastTurn[best.job.Owner] {
+			best = mj
+		}
+	}
+	return best
 }
 
 // held returns job id if workerID holds its lease, else ErrLeaseLost (or
@@ -305,28 +360,79 @@ func (m *Memory) FinishJob(ctx context.Context, id, workerID string, status Stat
 	if err := checkFinish(id, status, result); err != nil {
 		return err
 	}
+	packed := packResult(result) // outside the lock: it compresses
 	m.mu.Lock()
 	defer m.mu.Unlock()
 	mj, err := m.held(id, workerID)
 	if err != nil {
 		return fmt.Errorf("finish: %w", err)
 	}
-	m.finishLocked(mj, now(), status, errMsg, workerID, result)
+	m.finishLocked(mj, now(), status, cleanText(errMsg), workerID, packed)
 	return nil
 }
 
+// packedResult is a result as the memory store keeps it: a body longer
+// than compressAbove is DEFLATE-compressed (RFC 1951), which shrinks the
+// JSON of a ranking about six times, so that the finished jobs the store
+// keeps cost little memory.
+type packedResult struct {
+	isomersTotal int64
+	body         []byte // immutable once stored
+	compressed   bool
+}
+
+// compressAbove is the body length from which results are compressed.
+const compressAbove = 1024
+
+func packResult(r *Result) *packedResult {
+	if r == nil {
+		return nil
+	}
+	p := &packedResult{isomersTotal: r.IsomersTotal}
+	if len(r.Body) <= compressAbove {
+		p.body = append([]byte(nil), r.Body...)
+		return p
+	}
+	var buf bytes.Buffer
+	w, err := flate.NewWriter(&buf, flate.BestSpeed)
+	if err == nil {
+		_, err = w.Write(r.Body)
+	}
+	if err == nil {
+		err = w.Close()
+	}
+	if err != nil { // not for a valid level and a bytes.Buffer; keep it plain
+		p.body = append([]byte(nil), r.Body...)
+		return p
+	}
+	p.body, p.compressed = bytes.Clone(buf.Bytes()), true
+	return p
+}
+
+// unpack returns the result of job id.
+func (p *packedResult) unpack(id string) (Result, error) {
+	r := Result{JobID: id, IsomersTotal: p.isomersTotal}
+	if !p.compressed {
+		r.Body = append(json.RawMessage(nil), p.body...)
+		return r, nil
+	}
+	body, err := io.ReadAll(flate.NewReader(bytes.NewReader(p.body)))
+	if err != nil {
+		return Result{}, fmt.Errorf("get result %s: decompress: %w", id, err)
+	}
+	r.Body = body
+	return r, nil
+}
+
 // finishLocked moves mj to a terminal status. Callers hold m.mu.
-func (m *Memory) finishLocked(mj *memJob, t time.Time, status Status, errMsg, worker string, result *Result) {
+func (m *Memory) finishLocked(mj *memJob, t time.Time, status Status, errMsg, worker string, result *packedResult) {
 	j := &mj.job
 	j.Status = status
 	j.Error = errMsg
 	j.FinishedAt = t
 	j.LeaseUntil = time.Time{}
 	if result != nil {
-		r := *result
-		r.JobID = j.ID
-		r.Body = append(json.RawMessage(nil), result.Body...)
-		mj.result = &r
+		mj.result = result
 	}
 	note := string(status)
 	if errMsg != "" {
@@ -336,6 +442,83 @@ func (m *Memory) finishLocked(mj *memJob, t time.Time, status Status, errMsg, wo
 	if i := slices.Index(m.pending, j.ID); i >= 0 {
 		m.pending = slices.Delete(m.pending, i, i+1)
 	}
+	m.finished = append(m.finished, j.ID)
+	m.evictLocked()
+}
+
+// settled reports whether nothing remains to be done for a finished job:
+// it has no callback, or its callback is settled.
+func (mj *memJob) settled() bool {
+	return mj.job.CallbackURL == "" || mj.job.CallbackDone
+}
+
+// evictLocked forgets the finished jobs beyond WithMaxFinished, those that
+// finished longest ago first, passing over jobs whose callback is not
+// settled. Callers hold m.mu.
+func (m *Memory) evictLocked() {
+	excess := len(m.finished) - m.opts.maxFinished
+	if m.opts.maxFinished <= 0 || excess <= 0 {
+		return
+	}
+	kept := m.finished[:0]
+	for _, id := range m.finished {
+		if mj := m.jobs[id]; excess > 0 && mj.settled() {
+			m.dropLocked(mj)
+			excess--
+			continue
+		}
+		kept = append(kept, id)
+	}
+	clear(m.finished[len(kept):])
+	m.finished = kept
+}
+
+// dropLocked forgets the finished job mj entirely (but not its place in
+// m.finished, which the caller removes). Callers hold m.mu.
+func (m *Memory) dropLocked(mj *memJob) {
+	j := mj.job
+	delete(m.jobs, j.ID)
+	ids := m.byOwner[j.Owner]
+	if i := slices.Index(ids, j.ID); i >= 0 {
+		ids = slices.Delete(ids, i, i+1)
+	}
+	if len(ids) == 0 {
+		delete(m.byOwner, j.Owner)
+	} else {
+		m.byOwner[j.Owner] = ids
+	}
+	k := idemKey{j.Owner, j.IdempotencyKey}
+	if j.IdempotencyKey != "" && m.idem[k] == j.ID {
+		delete(m.idem, k)
+	}
+}
+
+// PurgeFinished deletes up to limit jobs that finished more than olderThan
+// ago and whose callback, if any, is settled, oldest first, with their
+// results, status history and delivery records, and returns how many it
+// deleted. Their idempotency keys are forgotten with them. limit <= 0 means
+// DefaultListLimit; it is capped at MaxListLimit.
+func (m *Memory) PurgeFinished(ctx context.Context, olderThan time.Duration, limit int) (int, error) {
+	if err := ctx.Err(); err != nil {
+		return 0, fmt.Errorf("purge finished jobs: %w", err)
+	}
+	limit = clampLimit(limit)
+	cutoff := now().Add(-olderThan)
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	n := 0
+	kept := m.finished[:0]
+	for _, id := range m.finished {
+		if mj := m.jobs[id]; n < limit && mj.job.FinishedAt.Before(cutoff) && mj.settled() {
+			m.dropLocked(mj)
+			n++
+			continue
+		}
+		kept = append(kept, id)
+	}
+	clear(m.finished[len(kept):])
+	m.finished = kept
+	return n, nil
 }
 
 // ReleaseJob hands job id back to the queue (status queued, lease cleared),
@@ -409,17 +592,19 @@ func (m *Memory) GetResult(ctx context.Context, owner, id string) (Result, error
 		return Result{}, fmt.Errorf("get result %s: %w", id, err)
 	}
 	m.mu.Lock()
-	defer m.mu.Unlock()
 	mj, err := m.owned(owner, id)
+	var res *packedResult
+	if err == nil {
+		res = mj.result
+	}
+	m.mu.Unlock()
 	if err != nil {
 		return Result{}, fmt.Errorf("get result: %w", err)
 	}
-	if mj.result == nil {
+	if res == nil {
 		return Result{}, fmt.Errorf("get result: job %s has no result: %w", id, ErrNotFound)
 	}
-	r := *mj.result
-	r.Body = append(json.RawMessage(nil), r.Body...)
-	return r, nil
+	return res.unpack(id) // outside the lock: it decompresses
 }
 
 // History returns the status changes of owner's job id, oldest first.
@@ -453,7 +638,7 @@ func (m *Memory) CreateAPIKey(ctx context.Context, name string) (string, APIKey,
 		return "", APIKey{}, err
 	}
 	key, hash := newAPIKey()
-	k := APIKey{ID: newKeyID(), Name: name, Hash: hash, Secret: randomBytes(32), CreatedAt: now()}
+	k := APIKey{ID: newKeyID(), Name: name, Hash: hash, Secret: newSecret(), CreatedAt: now()}
 	m.mu.Lock()
 	defer m.mu.Unlock()
 	if _, ok := m.keyName[name]; ok {
@@ -496,22 +681,63 @@ func (m *Memory) keyByIDOrName(idOrName string) (*APIKey, bool) {
 	return nil, false
 }
 
-// RevokeAPIKey revokes the key with that ID or name. Revoking a revoked key
-// is a no-op; ErrNotFound if there is no such key.
-func (m *Memory) RevokeAPIKey(ctx context.Context, idOrName string) error {
+// RevokeAPIKey revokes the key with that ID or name and stops its work: its
+// queued jobs are cancelled (with RevokedMessage as their error), its
+// running jobs get a cancel request, and the callbacks of all its jobs are
+// marked settled, so none is sent any more. It returns the number of queued
+// jobs it cancelled. Revoking a revoked key changes nothing more;
+// ErrNotFound if there is no such key.
+func (m *Memory) RevokeAPIKey(ctx context.Context, idOrName string) (int, error) {
 	if err := ctx.Err(); err != nil {
-		return fmt.Errorf("revoke api key: %w", err)
+		return 0, fmt.Errorf("revoke api key: %w", err)
 	}
 	m.mu.Lock()
 	defer m.mu.Unlock()
 	k, ok := m.keyByIDOrName(idOrName)
 	if !ok {
-		return fmt.Errorf("revoke api key %q: %w", idOrName, ErrNotFound)
+		return 0, fmt.Errorf("revoke api key %q: %w", idOrName, ErrNotFound)
 	}
 	if k.RevokedAt.IsZero() {
 		k.RevokedAt = now()
 	}
-	return nil
+	t := now()
+	var queued []*memJob
+	for _, id := range m.byOwner[k.ID] {
+		mj := m.jobs[id]
+		mj.job.CallbackDone = true
+		switch mj.job.Status {
+		case StatusQueued:
+			queued = append(queued, mj)
+		case StatusRunning:
+			mj.job.CancelRequested = true
+		}
+	}
+	for _, mj := range queued {
+		m.finishLocked(mj, t, StatusCancelled, RevokedMessage, "", nil)
+	}
+	m.evictLocked()
+	return len(queued), nil
+}
+
+// RotateAPIKeySecret gives the key with that ID or name a new callback
+// secret and returns the key with it; callbacks are signed with the new
+// secret from then on. ErrNotFound if there is no such key, ErrConflict if
+// it is revoked.
+func (m *Memory) RotateAPIKeySecret(ctx context.Context, idOrName string) (APIKey, error) {
+	if err := ctx.Err(); err != nil {
+		return APIKey{}, fmt.Errorf("rotate api key secret: %w", err)
+	}
+	m.mu.Lock()
+	defer m.mu.Unlock()
+	k, ok := m.keyByIDOrName(idOrName)
+	if !ok {
+		return APIKey{}, fmt.Errorf("rotate api key secret %q: %w", idOrName, ErrNotFound)
+	}
+	if k.Revoked() {
+		return APIKey{}, fmt.Errorf("rotate api key secret %q: the key is revoked: %w", idOrName, ErrConflict)
+	}
+	k.Secret = newSecret()
+	return copyKey(*k), nil
 }
 
 // GetAPIKey returns the key with that ID (revoked or not), e.g. to find the
@@ -559,6 +785,7 @@ func (m *Memory) RecordDelivery(ctx context.Context, d Delivery) error {
 		d.At = now()
 	}
 	d.At = d.At.UTC().Truncate(time.Microsecond)
+	d.URL, d.Error = cleanText(d.URL), cleanText(d.Error)
 	m.mu.Lock()
 	defer m.mu.Unlock()
 	mj, ok := m.jobs[d.JobID]
@@ -600,6 +827,7 @@ func (m *Memory) MarkCallbackDone(ctx context.Context, id string) error {
 		return fmt.Errorf("mark callback done: job %s: %w", id, ErrNotFound)
 	}
 	mj.job.CallbackDone = true
+	m.evictLocked()
 	return nil
 }
 

@@ -223,6 +223,26 @@ func addHistory(ctx context.Context, tx pgx.Tx, id string, status Status, worker
 // with one key create one job. A Request that is not valid JSON gives
 // ErrInvalid.
 func (p *Postgres) CreateJob(ctx context.Context, j Job) (Job, bool, error) {
+	return p.SubmitJob(ctx, j, 0)
+}
+
+// Advisory lock keys (the two-key form, whose space is apart from the
+// one-key locks of the migrations): lockOwnerSpace with an owner's hash
+// serialises the submissions of that owner, lockClaimSpace all claims of
+// queued jobs, so that queue bounds, per-owner running limits and the fair order
+// hold across processes.
+const (
+	lockClaimSpace = 0x53524b51 // "SRKQ", with key 0
+	lockOwnerSpace = 0x53524b4f // "SRKO", with the owner's hashtext
+)
+
+// SubmitJob is CreateJob with a bound on the owner's queue: when j.Owner
+// already has maxQueued jobs queued (not yet running), it creates nothing
+// and returns ErrLimit. A repeat of an earlier submission with the same
+// idempotency key still returns that job. maxQueued <= 0 means no bound.
+// Submissions of one owner are serialised by an advisory lock, so
+// concurrent ones cannot overrun the bound.
+func (p *Postgres) SubmitJob(ctx context.Context, j Job, maxQueued int) (Job, bool, error) {
 	j, err := prepareJob(j)
 	if err != nil {
 		return Job{}, false, err
@@ -232,6 +252,32 @@ func (p *Postgres) CreateJob(ctx context.Context, j Job) (Job, bool, error) {
 		created bool
 	)
 	err = pgx.BeginFunc(ctx, p.pool, func(tx pgx.Tx) error {
+		if maxQueued > 0 {
+			if _, err := tx.Exec(ctx, `SELECT pg_advisory_xact_lock($1, hashtext($2))`, lockOwnerSpace, j.Owner); err != nil {
+				return err
+			}
+			if j.IdempotencyKey != "" {
+				prev, err := scanJob(tx.QueryRow(ctx, `SELECT `+jobColumns+` FROM jobs
+					WHERE owner = $1 AND idempotency_key = $2`, j.Owner, j.IdempotencyKey))
+				if err == nil {
+					if prev.RequestHash != j.RequestHash {
+						return fmt.Errorf("idempotency key %q used with a different request: %w", j.IdempotencyKey, ErrConflict)
+					}
+					out = prev
+					return nil
+				}
+				if !errors.Is(err, pgx.ErrNoRows) {
+					return err
+				}
+			}
+			var queued int
+			if err := tx.QueryRow(ctx, `SELECT count(*) FROM jobs WHERE owner = $1 AND status = 'queued'`, j.Owner).Scan(&queued); err != nil {
+				return err
+			}
+			if queued >= maxQueued {
+				return fmt.Errorf("%d jobs of this owner are queued: %w", queued, ErrLimit)
+			}
+		}
 		row := tx.QueryRow(ctx, `INSERT INTO jobs
 			(id, owner, status, request, reference, callback_url, idempotency_key, request_hash, created_at)
 			VALUES ($1, $2, 'queued', $3, $4, $5, NULLIF($6, ''), $7, clock_timestamp())
@@ -266,6 +312,9 @@ func (p *Postgres) CreateJob(ctx context.Context, j Job) (Job, bool, error) {
 // GetJob returns owner's job id; ErrNotFound if it does not exist or belongs
 // to another owner.
 func (p *Postgres) GetJob(ctx context.Context, owner, id string) (Job, error) {
+	if !ValidJobID(id) {
+		return Job{}, fmt.Errorf("get job %q: %w", id, ErrNotFound)
+	}
 	j, err := scanJob(p.pool.QueryRow(ctx, `SELECT `+jobColumns+` FROM jobs WHERE id = $1 AND owner = $2`, id, owner))
 	if errors.Is(err, pgx.ErrNoRows) {
 		return Job{}, fmt.Errorf("get job %s: %w", id, ErrNotFound)
@@ -311,11 +360,15 @@ func (p *Postgres) ListJobs(ctx context.Context, owner string, limit int, cur st
 }
 
 // ClaimJob hands a job to workerID for lease: a running job whose lease has
-// expired (the longest expired first), else the oldest queued job. The job
-// becomes running, its lease owner workerID, its lease end now+lease
-// (database clock), and
-// Attempts grows by one. The row is taken with FOR UPDATE SKIP LOCKED, so
-// concurrent claimers in any number of processes never get the same job. An
+// expired (the longest expired first), else a queued job picked fairly
+// between owners: of the owners with queued jobs (and, under
+// WithMaxRunningPerOwner, fewer running jobs than the limit), the one with
+// the fewest running jobs, then the one whose last claimed job was claimed
+// longest ago (or never), gets its oldest queued job. The job becomes
+// running, its lease owner workerID, its lease end now+lease (database
+// clock), and Attempts grows by one. Claims are serialised by an advisory
+// lock and the row is locked, so concurrent claimers in any number of
+// processes never get the same job and the fair order holds across them. An
 // expired job whose owner asked for cancellation is finished as cancelled
 // instead of being handed out, and one that has used up its attempts
 // (WithMaxAttempts) as failed. ErrNoJob if nothing is available.
@@ -341,10 +394,16 @@ func (p *Postgres) ClaimJob(ctx context.Context, workerID string, lease time.Dur
 				ORDER BY lease_until, id LIMIT 1
 				FOR UPDATE SKIP LOCKED`).Scan(&id, &status, &cancel, &prevOwner, &attempts)
 			if errors.Is(err, pgx.ErrNoRows) {
+				id, err = p.pickQueued(ctx, tx)
+				if err != nil {
+					return err
+				}
 				err = tx.QueryRow(ctx, `SELECT id, status, cancel_requested, lease_owner, attempts FROM jobs
-					WHERE status = 'queued'
-					ORDER BY created_at, id LIMIT 1
-					FOR UPDATE SKIP LOCKED`).Scan(&id, &status, &cancel, &prevOwner, &attempts)
+					WHERE id = $1 AND status = 'queued'
+					FOR UPDATE`, id).Scan(&id, &status, &cancel, &prevOwner, &attempts)
+				if errors.Is(err, pgx.ErrNoRows) {
+					return errRetryClaim // cancelled since it was picked
+				}
 			}
 			if errors.Is(err, pgx.ErrNoRows) {
 				return ErrNoJob
@@ -373,6 +432,13 @@ func (p *Postgres) ClaimJob(ctx context.Context, workerID string, lease time.Dur
 			note := fmt.Sprintf("claimed (attempt %d)", attempts+1)
 			if Status(status) == StatusRunning {
 				note = fmt.Sprintf("reclaimed after lease of %s expired (attempt %d)", prevOwner, attempts+1)
+			} else {
+				_, err := tx.Exec(ctx, `INSERT INTO owner_claims (owner, last_claim)
+					SELECT owner, clock_timestamp() FROM jobs WHERE id = $1
+					ON CONFLICT (owner) DO UPDATE SET last_claim = excluded.last_claim`, id)
+				if err != nil {
+					return err
+				}
 			}
 			j, err = scanJob(tx.QueryRow(ctx, `UPDATE jobs SET status = 'running', lease_owner = $2,
 				lease_until = clock_timestamp() + $3 * interval '1 microsecond',
@@ -384,6 +450,9 @@ func (p *Postgres) ClaimJob(ctx context.Context, workerID string, lease time.Dur
 			claimed = true
 			return addHistory(ctx, tx, id, StatusRunning, workerID, note)
 		})
+		if errors.Is(err, errRetryClaim) {
+			continue
+		}
 		if err != nil {
 			return Job{}, fmt.Errorf("claim job: %w", err)
 		}
@@ -391,6 +460,32 @@ func (p *Postgres) ClaimJob(ctx context.Context, workerID string, lease time.Dur
 			return j, nil
 		}
 	}
+}
+
+// errRetryClaim: the job picked was taken out of the queue before it could
+// be locked; ClaimJob picks again.
+var errRetryClaim = errors.New("picked job left the queue")
+
+// pickQueued takes the claim lock and returns the ID of the queued job
+// ClaimJob hands out next (see ClaimJob for the order), or ErrNoJob.
+func (p *Postgres) pickQueued(ctx context.Context, tx pgx.Tx) (string, error) {
+	if _, err := tx.Exec(ctx, `SELECT pg_advisory_xact_lock($1, 0)`, lockClaimSpace); err != nil {
+		return "", err
+	}
+	var id string
+	err := tx.QueryRow(ctx, `SELECT q.id FROM (
+			SELECT DISTINCT ON (owner) owner, id, created_at FROM jobs
+			WHERE status = 'queued' ORDER BY owner, created_at, id
+		) q
+		LEFT JOIN (SELECT owner, count(*) AS n FROM jobs WHERE status = 'running' GROUP BY owner) r ON r.owner = q.owner
+		LEFT JOIN owner_claims c ON c.owner = q.owner
+		WHERE $1 <= 0 OR coalesce(r.n, 0) < $1
+		ORDER BY coalesce(r.n, 0), c.last_claim NULLS FIRST, q.created_at, q.id
+		LIMIT 1`, p.opts.maxRunning).Scan(&id)
+	if errors.Is(err, pgx.ErrNoRows) {
+		return "", ErrNoJob
+	}
+	return id, err
 }
 
 // leaseError tells ErrNotFound from ErrLeaseLost after an update by lease
@@ -452,6 +547,7 @@ func (p *Postgres) FinishJob(ctx context.Context, id, workerID string, status St
 	if err := checkFinish(id, status, result); err != nil {
 		return err
 	}
+	errMsg = cleanText(errMsg)
 	err := pgx.BeginFunc(ctx, p.pool, func(tx pgx.Tx) error {
 		tag, err := tx.Exec(ctx, `UPDATE jobs SET status = $3, error = $4,
 			finished_at = clock_timestamp(), lease_until = NULL
@@ -519,6 +615,9 @@ func (p *Postgres) ReleaseJob(ctx context.Context, id, workerID string) error {
 // already in a terminal state is returned unchanged. ErrNotFound for another
 // owner's job.
 func (p *Postgres) CancelJob(ctx context.Context, owner, id string) (Job, error) {
+	if !ValidJobID(id) {
+		return Job{}, fmt.Errorf("cancel job %q: %w", id, ErrNotFound)
+	}
 	var j Job
 	err := pgx.BeginFunc(ctx, p.pool, func(tx pgx.Tx) error {
 		var status string
@@ -556,6 +655,9 @@ func (p *Postgres) CancelJob(ctx context.Context, owner, id string) (Job, error)
 // was running. ErrNotFound for an unknown ID. It takes no owner: it is for
 // workers.
 func (p *Postgres) CancelRequested(ctx context.Context, id string) (bool, error) {
+	if !ValidJobID(id) {
+		return false, fmt.Errorf("cancel requested: job %q: %w", id, ErrNotFound)
+	}
 	var cancel bool
 	err := p.pool.QueryRow(ctx, `SELECT cancel_requested FROM jobs WHERE id = $1`, id).Scan(&cancel)
 	if errors.Is(err, pgx.ErrNoRows) {
@@ -570,6 +672,9 @@ func (p *Postgres) CancelRequested(ctx context.Context, id string) (bool, error)
 // GetResult returns the result of owner's job id; ErrNotFound if the job is
 // missing, another owner's, or has no result (yet).
 func (p *Postgres) GetResult(ctx context.Context, owner, id string) (Result, error) {
+	if !ValidJobID(id) {
+		return Result{}, fmt.Errorf("get result: job %q: %w", id, ErrNotFound)
+	}
 	var (
 		total *int64
 		body  []byte
@@ -591,6 +696,9 @@ func (p *Postgres) GetResult(ctx context.Context, owner, id string) (Result, err
 
 // History returns the status changes of owner's job id, oldest first.
 func (p *Postgres) History(ctx context.Context, owner, id string) ([]StatusChange, error) {
+	if !ValidJobID(id) {
+		return nil, fmt.Errorf("history: job %q: %w", id, ErrNotFound)
+	}
 	rows, err := p.pool.Query(ctx, `SELECT h.status, h.at, h.worker, h.note
 		FROM job_status_history h JOIN jobs j ON j.id = h.job_id
 		WHERE j.id = $1 AND j.owner = $2 ORDER BY h.id`, id, owner)
@@ -641,7 +749,7 @@ func (p *Postgres) CreateAPIKey(ctx context.Context, name string) (string, APIKe
 	}
 	key, hash := newAPIKey()
 	k, err := scanKey(p.pool.QueryRow(ctx, `INSERT INTO api_keys (id, name, hash, secret)
-		VALUES ($1, $2, $3, $4) RETURNING `+keyColumns, newKeyID(), name, hash, randomBytes(32)))
+		VALUES ($1, $2, $3, $4) RETURNING `+keyColumns, newKeyID(), name, hash, newSecret()))
 	var pgErr *pgconn.PgError
 	if errors.As(err, &pgErr) && pgErr.Code == "23505" {
 		return "", APIKey{}, fmt.Errorf("create api key %q: name taken: %w", name, ErrConflict)
@@ -665,23 +773,111 @@ func (p *Postgres) ListAPIKeys(ctx context.Context) ([]APIKey, error) {
 	return keys, nil
 }
 
-// RevokeAPIKey revokes the key with that ID or, failing that, that name.
-// Revoking a revoked key is a no-op; ErrNotFound if there is no such key.
-func (p *Postgres) RevokeAPIKey(ctx context.Context, idOrName string) error {
-	tag, err := p.pool.Exec(ctx, `UPDATE api_keys SET revoked_at = coalesce(revoked_at, clock_timestamp())
-		WHERE id = (SELECT id FROM api_keys WHERE id = $1 OR name = $1 ORDER BY id = $1 DESC LIMIT 1)`, idOrName)
+// RevokeAPIKey revokes the key with that ID or, failing that, that name,
+// and stops its work in the same transaction: its queued jobs are cancelled
+// (with RevokedMessage as their error), its running jobs get a cancel
+// request, and the callbacks of all its jobs are marked settled, so none is
+// sent any more. It returns the number of queued jobs it cancelled.
+// Revoking a revoked key changes nothing more; ErrNotFound if there is no
+// such key.
+func (p *Postgres) RevokeAPIKey(ctx context.Context, idOrName string) (int, error) {
+	if !storableText(idOrName) {
+		return 0, fmt.Errorf("revoke api key %q: %w", idOrName, ErrNotFound)
+	}
+	var cancelled int
+	err := pgx.BeginFunc(ctx, p.pool, func(tx pgx.Tx) error {
+		var id string
+		err := tx.QueryRow(ctx, `UPDATE api_keys SET revoked_at = coalesce(revoked_at, clock_timestamp())
+			WHERE id = (SELECT id FROM api_keys WHERE id = $1 OR name = $1 ORDER BY id = $1 DESC LIMIT 1)
+			RETURNING id`, idOrName).Scan(&id)
+		if errors.Is(err, pgx.ErrNoRows) {
+			return ErrNotFound
+		}
+		if err != nil {
+			return err
+		}
+		rows, err := tx.Query(ctx, `UPDATE jobs SET status = 'cancelled', error = $2,
+				finished_at = clock_timestamp(), callback_done = true
+			WHERE owner = $1 AND status = 'queued' RETURNING id`, id, RevokedMessage)
+		if err != nil {
+			return err
+		}
+		ids, err := pgx.CollectRows(rows, pgx.RowTo[string])
+		if err != nil {
+			return err
+		}
+		for _, jid := range ids {
+			if err := addHistory(ctx, tx, jid, StatusCancelled, "", string(StatusCancelled)+": "+RevokedMessage); err != nil {
+				return err
+			}
+		}
+		cancelled = len(ids)
+		if _, err := tx.Exec(ctx, `UPDATE jobs SET cancel_requested = true WHERE owner = $1 AND status = 'running'`, id); err != nil {
+			return err
+		}
+		_, err = tx.Exec(ctx, `UPDATE jobs SET callback_done = true WHERE owner = $1 AND callback_url <> '' AND NOT callback_done`, id)
+		return err
+	})
 	if err != nil {
-		return fmt.Errorf("revoke api key %q: %w", idOrName, err)
+		return 0, fmt.Errorf("revoke api key %q: %w", idOrName, err)
 	}
-	if tag.RowsAffected() == 0 {
-		return fmt.Errorf("revoke api key %q: %w", idOrName, ErrNotFound)
+	return cancelled, nil
+}
+
+// RotateAPIKeySecret gives the key with that ID or name a new callback
+// secret and returns the key with it; callbacks are signed with the new
+// secret from then on. ErrNotFound if there is no such key, ErrConflict if
+// it is revoked.
+func (p *Postgres) RotateAPIKeySecret(ctx context.Context, idOrName string) (APIKey, error) {
+	if !storableText(idOrName) {
+		return APIKey{}, fmt.Errorf("rotate api key secret %q: %w", idOrName, ErrNotFound)
 	}
-	return nil
+	var k APIKey
+	err := pgx.BeginFunc(ctx, p.pool, func(tx pgx.Tx) error {
+		var err error
+		k, err = scanKey(tx.QueryRow(ctx, `SELECT `+keyColumns+` FROM api_keys
+			WHERE id = $1 OR name = $1 ORDER BY id = $1 DESC LIMIT 1 FOR UPDATE`, idOrName))
+		if errors.Is(err, pgx.ErrNoRows) {
+			return ErrNotFound
+		}
+		if err != nil {
+			return err
+		}
+		if k.Revoked() {
+			return fmt.Errorf("the key is revoked: %w", ErrConflict)
+		}
+		k, err = scanKey(tx.QueryRow(ctx, `UPDATE api_keys SET secret = $2 WHERE id = $1 RETURNING `+keyColumns, k.ID, newSecret()))
+		return err
+	})
+	if err != nil {
+		return APIKey{}, fmt.Errorf("rotate api key secret %q: %w", idOrName, err)
+	}
+	return k, nil
+}
+
+// PurgeFinished deletes up to limit jobs that finished more than olderThan
+// ago (database clock) and whose callback, if any, is settled, oldest
+// first, with their results, status history and delivery records, and
+// returns how many it deleted. Their idempotency keys are forgotten with
+// them. limit <= 0 means DefaultListLimit; it is capped at MaxListLimit.
+func (p *Postgres) PurgeFinished(ctx context.Context, olderThan time.Duration, limit int) (int, error) {
+	tag, err := p.pool.Exec(ctx, `DELETE FROM jobs WHERE id IN (
+			SELECT id FROM jobs
+			WHERE finished_at < clock_timestamp() - $1 * interval '1 microsecond'
+				AND (callback_url = '' OR callback_done)
+			ORDER BY finished_at, id LIMIT $2)`, micros(olderThan), clampLimit(limit))
+	if err != nil {
+		return 0, fmt.Errorf("purge finished jobs: %w", err)
+	}
+	return int(tag.RowsAffected()), nil
 }
 
 // GetAPIKey returns the key with that ID (revoked or not), e.g. to find the
 // callback secret of a job's owner. ErrNotFound if there is none.
 func (p *Postgres) GetAPIKey(ctx context.Context, id string) (APIKey, error) {
+	if !storableText(id) {
+		return APIKey{}, fmt.Errorf("get api key %q: %w", id, ErrNotFound)
+	}
 	k, err := scanKey(p.pool.QueryRow(ctx, `SELECT `+keyColumns+` FROM api_keys WHERE id = $1`, id))
 	if errors.Is(err, pgx.ErrNoRows) {
 		return APIKey{}, fmt.Errorf("get api key %s: %w", id, ErrNotFound)
@@ -711,6 +907,10 @@ func (p *Postgres) LookupAPIKey(ctx context.Context, key string) (APIKey, error)
 // RecordDelivery stores one callback delivery attempt for d.JobID
 // (ErrNotFound for an unknown job). A zero d.At is set to now.
 func (p *Postgres) RecordDelivery(ctx context.Context, d Delivery) error {
+	if !ValidJobID(d.JobID) {
+		return fmt.Errorf("record delivery: job %q: %w", d.JobID, ErrNotFound)
+	}
+	d.URL, d.Error = cleanText(d.URL), cleanText(d.Error)
 	var at *time.Time
 	if !d.At.IsZero() {
 		at = &d.At
@@ -732,6 +932,9 @@ func (p *Postgres) RecordDelivery(ctx context.Context, d Delivery) error {
 // recorded (empty for a job with none, ErrNotFound for an unknown job). It
 // takes no owner: it is for the delivery worker and operators.
 func (p *Postgres) Deliveries(ctx context.Context, jobID string) ([]Delivery, error) {
+	if !ValidJobID(jobID) {
+		return nil, fmt.Errorf("deliveries: job %q: %w", jobID, ErrNotFound)
+	}
 	rows, err := p.pool.Query(ctx, `SELECT job_id, attempt, url, status_code, error, at
 		FROM callback_deliveries WHERE job_id = $1 ORDER BY id`, jobID)
 	if err != nil {
@@ -763,6 +966,9 @@ func (p *Postgres) Deliveries(ctx context.Context, jobID string) ([]Delivery, er
 // returns it. ErrNotFound for an unknown job. It takes no owner: it is for
 // the delivery worker.
 func (p *Postgres) MarkCallbackDone(ctx context.Context, id string) error {
+	if !ValidJobID(id) {
+		return fmt.Errorf("mark callback done: job %q: %w", id, ErrNotFound)
+	}
 	tag, err := p.pool.Exec(ctx, `UPDATE jobs SET callback_done = true WHERE id = $1`, id)
 	if err != nil {
 		return fmt.Errorf("mark callback done: job %s: %w", id, err)
@@ -784,6 +990,9 @@ func (p *Postgres) MarkCallbackDone(ctx context.Context, id string) error {
 // lock, so of two processes claiming at once exactly one wins. It takes no
 // owner: it is for the delivery worker.
 func (p *Postgres) ClaimCallback(ctx context.Context, id, workerID string, lease time.Duration) (bool, error) {
+	if !ValidJobID(id) {
+		return false, fmt.Errorf("claim callback: job %q: %w", id, ErrNotFound)
+	}
 	tag, err := p.pool.Exec(ctx, `UPDATE jobs
 		SET callback_claim_owner = $2, callback_claim_until = clock_timestamp() + $3 * interval '1 microsecond'
 		WHERE id = $1 AND callback_url <> '' AND NOT callback_done AND finished_at IS NOT NULL

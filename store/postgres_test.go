@@ -40,6 +40,17 @@ func TestPostgres(t *testing.T) {
 	storetest.Run(t, func(t *testing.T) storetest.Store { return openPostgres(t) })
 }
 
+func TestPostgresLimits(t *testing.T) {
+	pgtest.BaseURL(t)
+	storetest.RunLimits(t, func(t *testing.T, opts ...store.Option) storetest.Store {
+		p, err := store.Open(context.Background(), pgtest.URL(t), opts...)
+		if err != nil {
+			t.Fatalf("Open: %v", err)
+		}
+		return p
+	})
+}
+
 func TestPostgresAttemptLimit(t *testing.T) {
 	pgtest.BaseURL(t)
 	testAttemptLimit(t, func(t *testing.T, opts ...store.Option) storetest.Store {
@@ -52,14 +63,25 @@ func TestPostgresAttemptLimit(t *testing.T) {
 }
 
 // TestPostgresFinishRollsBack checks that FinishJob is one transaction: when
-// the result insert fails inside the database (jsonb rejects \u0000, which
-// Go's JSON validation accepts), the status update and history row written
-// before it are rolled back too.
+// the result insert fails inside the database (a CHECK constraint the test
+// adds refuses it), the status update and history row written before it
+// are rolled back too.
 func TestPostgresFinishRollsBack(t *testing.T) {
-	pgtest.BaseURL(t)
+	base, schema := pgtest.Schema(t)
 	ctx := context.Background()
-	p := openPostgres(t)
+	p, err := store.OpenSchema(ctx, base, schema)
+	if err != nil {
+		t.Fatal(err)
+	}
 	defer p.Close()
+	conn, err := pgx.Connect(ctx, pgtest.WithSearchPath(t, base, schema))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer conn.Close(ctx)
+	if _, err := conn.Exec(ctx, `ALTER TABLE job_results ADD CONSTRAINT test_refuse CHECK (NOT result ? 'refuse')`); err != nil {
+		t.Fatal(err)
+	}
 	j, _, err := p.CreateJob(ctx, store.Job{Owner: "k1", Request: json.RawMessage(`{"formula":"CH4O"}`)})
 	if err != nil {
 		t.Fatal(err)
@@ -68,7 +90,7 @@ func TestPostgresFinishRollsBack(t *testing.T) {
 		t.Fatal(err)
 	}
 	hist, _ := p.History(ctx, "k1", j.ID)
-	err = p.FinishJob(ctx, j.ID, "w1", store.StatusSucceeded, "", &store.Result{Body: json.RawMessage(`{"note":"\u0000"}`)})
+	err = p.FinishJob(ctx, j.ID, "w1", store.StatusSucceeded, "", &store.Result{Body: json.RawMessage(`{"refuse":true}`)})
 	if err == nil {
 		t.Fatalf("FinishJob with a result jsonb rejects: no error")
 	}

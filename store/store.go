@@ -1,6 +1,7 @@
 package store
 
 import (
+	"bytes"
 	"crypto/rand"
 	"crypto/sha256"
 	"encoding/base32"
@@ -12,6 +13,8 @@ import (
 	"strconv"
 	"strings"
 	"time"
+	"unicode"
+	"unicode/utf8"
 )
 
 // Status is the state of a job. A job starts StatusQueued, becomes
@@ -59,9 +62,16 @@ var (
 	// ErrUnauthorized: LookupAPIKey got an unknown or revoked key.
 	ErrUnauthorized = errors.New("unauthorized")
 	// ErrInvalid: an argument the store cannot accept (malformed cursor,
-	// request that is not JSON, non-terminal status for FinishJob, empty
-	// key name, ...).
+	// request that is not JSON, text with a NUL character or invalid UTF-8,
+	// non-terminal status for FinishJob, empty key name, ...).
 	ErrInvalid = errors.New("invalid argument")
+	// ErrLimit: SubmitJob found the owner's queue full (see SubmitJob).
+	ErrLimit = errors.New("limit reached")
+	// ErrUnavailable: the database cannot be reached (connection refused or
+	// lost, server shutting down or out of connections). Test for it with
+	// IsUnavailable, which also recognises the driver's own errors; a
+	// retry later may succeed.
+	ErrUnavailable = errors.New("store unavailable")
 )
 
 // Progress counts a running job's work. TotalEstimate is the ranker's
@@ -165,6 +175,13 @@ func randomBytes(n int) []byte {
 	return b
 }
 
+// RevokedMessage is the error of a queued job cancelled because its API
+// key was revoked.
+const RevokedMessage = "cancelled: the API key was revoked"
+
+// newSecret returns a new callback-signing secret: 32 random bytes.
+func newSecret() []byte { return randomBytes(32) }
+
 // newJobID returns a random job ID: 16 bytes as 26 lowercase base32 characters.
 func newJobID() string {
 	return strings.ToLower(idEncoding.EncodeToString(randomBytes(16)))
@@ -203,9 +220,23 @@ func now() time.Time {
 }
 
 // prepareJob validates j for CreateJob and fills the fields the store owns.
+// Both stores accept exactly the text PostgreSQL can keep: no NUL
+// characters, valid UTF-8, and JSON without \u0000 or unpaired surrogate
+// escapes.
 func prepareJob(j Job) (Job, error) {
 	if len(j.Request) == 0 || !json.Valid(j.Request) {
 		return Job{}, fmt.Errorf("create job: request is not valid JSON: %w", ErrInvalid)
+	}
+	if !storableJSON(j.Request) {
+		return Job{}, fmt.Errorf("create job: request has a NUL character, an unpaired surrogate or invalid UTF-8: %w", ErrInvalid)
+	}
+	for _, f := range []struct{ name, v string }{
+		{"owner", j.Owner}, {"reference", j.Reference}, {"callback URL", j.CallbackURL},
+		{"idempotency key", j.IdempotencyKey}, {"request hash", j.RequestHash},
+	} {
+		if !storableText(f.v) {
+			return Job{}, fmt.Errorf("create job: %s has a NUL character or invalid UTF-8: %w", f.name, ErrInvalid)
+		}
 	}
 	if j.RequestHash == "" {
 		j.RequestHash = HashRequest(j.Request)
@@ -228,8 +259,8 @@ func checkFinish(id string, status Status, result *Result) error {
 	if !status.Terminal() {
 		return fmt.Errorf("finish job %s: status %q is not terminal: %w", id, status, ErrInvalid)
 	}
-	if result != nil && (len(result.Body) == 0 || !json.Valid(result.Body)) {
-		return fmt.Errorf("finish job %s: result body is not valid JSON: %w", id, ErrInvalid)
+	if result != nil && (len(result.Body) == 0 || !json.Valid(result.Body) || !storableJSON(result.Body)) {
+		return fmt.Errorf("finish job %s: result body is not storable JSON: %w", id, ErrInvalid)
 	}
 	return nil
 }
@@ -242,8 +273,100 @@ func checkKeyName(name string) error {
 	if len(name) > maxNameLen {
 		return fmt.Errorf("create api key: name longer than %d bytes: %w", maxNameLen, ErrInvalid)
 	}
+	if !utf8.ValidString(name) || strings.ContainsFunc(name, unicode.IsControl) {
+		return fmt.Errorf("create api key: name has a control character or invalid UTF-8: %w", ErrInvalid)
+	}
 	return nil
 }
+
+// storableText reports whether s can be kept in a PostgreSQL text column:
+// valid UTF-8 without NUL (SQLSTATE 22021 and 22P05 otherwise).
+func storableText(s string) bool {
+	return utf8.ValidString(s) && strings.IndexByte(s, 0) < 0
+}
+
+// cleanText makes s storable, for text the store is handed by its own
+// callers (error messages, notes): invalid UTF-8 and NUL become U+FFFD.
+func cleanText(s string) string {
+	if storableText(s) {
+		return s
+	}
+	return strings.ReplaceAll(strings.ToValidUTF8(s, "\uFFFD"), "\x00", "\uFFFD")
+}
+
+// storableJSON reports whether the valid JSON text b can be kept as
+// PostgreSQL jsonb: valid UTF-8, no NUL byte, no \u0000 escape and no
+// unpaired UTF-16 surrogate escape. Outside strings valid JSON has no
+// backslash, so scanning the escapes is enough.
+func storableJSON(b []byte) bool {
+	if !utf8.Valid(b) || bytes.IndexByte(b, 0) >= 0 {
+		return false
+	}
+	pendingHigh := false // the previous escape was a high surrogate
+	for i := 0; i < len(b); i++ {
+		if b[i] != '\\' {
+			if pendingHigh {
+				return false
+			}
+			continue
+		}
+		if i+1 >= len(b) {
+			return false
+		}
+		if b[i+1] != 'u' {
+			if pendingHigh {
+				return false
+			}
+			i++
+			continue
+		}
+		if i+6 > len(b) {
+			return false
+		}
+		v, err := strconv.ParseUint(string(b[i+2:i+6]), 16, 16)
+		if err != nil {
+			return false
+		}
+		switch {
+		case v == 0:
+			return false
+		case v >= 0xD800 && v <= 0xDBFF:
+			if pendingHigh {
+				return false
+			}
+			pendingHigh = true
+		case v >= 0xDC00 && v <= 0xDFFF:
+			if !pendingHigh {
+				return false
+			}
+			pendingHigh = false
+		default:
+			if pendingHigh {
+				return false
+			}
+		}
+		i += 5
+	}
+	return !pendingHigh
+}
+
+// ValidJobID reports whether id has the form of a job ID this store hands
+// out (26 characters of lowercase base32). Methods given any other ID
+// answer ErrNotFound without asking the database.
+func ValidJobID(id string) bool {
+	if len(id) != jobIDLen {
+		return false
+	}
+	for i := 0; i < len(id); i++ {
+		if c := id[i]; !(c >= 'a' && c <= 'z' || c >= '2' && c <= '7') {
+			return false
+		}
+	}
+	return true
+}
+
+// jobIDLen is the length of a job ID: 16 random bytes in unpadded base32.
+const jobIDLen = 26
 
 // clampLimit applies DefaultListLimit and MaxListLimit.
 func clampLimit(limit int) int {
@@ -284,7 +407,7 @@ func decodeCursor(s string) (cursor, bool, error) {
 		return cursor{}, false, fmt.Errorf("list jobs: malformed cursor: %w", ErrInvalid)
 	}
 	us, err := strconv.ParseInt(micros, 10, 64)
-	if err != nil {
+	if err != nil || !ValidJobID(id) {
 		return cursor{}, false, fmt.Errorf("list jobs: malformed cursor: %w", ErrInvalid)
 	}
 	return cursor{at: time.UnixMicro(us).UTC(), id: id}, true, nil

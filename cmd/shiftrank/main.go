@@ -8,7 +8,7 @@
 //	rank     --formula --peaks  rank isomers against an observed peak list
 //	bench    FILE               accuracy benchmark over a reference set
 //	serve                       run the HTTP service and web page
-//	apikey   create|list|revoke manage API keys (needs DATABASE_URL)
+//	apikey   create|list|revoke|rotate-secret  manage API keys (needs DATABASE_URL)
 //
 // Run "shiftrank help" or "shiftrank COMMAND --help" for the flags.
 package main
@@ -51,7 +51,7 @@ func commands() map[string]command {
 		"rank":    {"rank the isomers of a formula against an observed 1H peak list", runRank},
 		"bench":   {"accuracy benchmark of the ranking over a reference file", runBench},
 		"serve":   {"run the HTTP service and web page", runServe},
-		"apikey":  {"create, list or revoke API keys (needs DATABASE_URL)", runAPIKey},
+		"apikey":  {"create, list, revoke API keys or rotate their callback secrets (needs DATABASE_URL)", runAPIKey},
 	}
 }
 

@@ -9,7 +9,9 @@ import (
 	"log/slog"
 	"net"
 	"net/http"
+	"net/url"
 	"runtime"
+	"strconv"
 	"strings"
 	"sync"
 	"time"
@@ -48,6 +50,12 @@ func runServe(ctx context.Context, args []string, e env) error {
 	cbBackoff := fs.Duration("callback-backoff", time.Second, "delay before the second callback delivery, doubled before each further one")
 	cbTimeout := fs.Duration("callback-timeout", 10*time.Second, "time allowed for one callback delivery")
 	cbSweep := fs.Duration("callback-sweep", 30*time.Second, "how often to resume callbacks that a stopped or dead process left undelivered")
+	cbAllow := fs.String("callback-allow", "", "comma-separated host names (*.domain), IP addresses and CIDR ranges that callbacks may reach although not public, on any port (an ELN on the internal network)")
+	maxQueued := fs.Int("max-queued-per-key", server.DefaultMaxQueuedPerKey, "most jobs one API key may have waiting; more get 429 (-1: no limit)")
+	maxRunning := fs.Int("max-running-per-key", 0, "most jobs of one API key running at once across all processes (0: no limit; jobs are picked fairly between keys either way)")
+	maxSyncKey := fs.Int("max-sync-per-key", 0, "synchronous requests one API key may run at once; more get 429 (0 = half of --max-sync-requests, -1: no limit)")
+	retention := fs.Duration("retention", server.DefaultRetention, "finished jobs older than this are deleted with their results (0: keep them)")
+	maxFinished := fs.Int("max-finished", store.DefaultMaxFinished, "in-memory store only: most finished jobs kept; the oldest are forgotten (0: no limit)")
 	fs.Usage = func() {
 		fmt.Fprintln(e.stderr, "usage: shiftrank serve [flags]")
 		fmt.Fprintln(e.stderr)
@@ -92,6 +100,24 @@ func runServe(ctx context.Context, args []string, e env) error {
 		return badInputf("serve: --callback-attempts must be at least 1")
 	case *cbBackoff <= 0 || *cbTimeout <= 0 || *cbSweep <= 0:
 		return badInputf("serve: --callback-backoff, --callback-timeout and --callback-sweep must be positive")
+	case *maxQueued < -1 || *maxQueued == 0:
+		return badInputf("serve: --max-queued-per-key must be at least 1, or -1 for no limit")
+	case *maxRunning < 0:
+		return badInputf("serve: --max-running-per-key must not be negative")
+	case *maxSyncKey < -1:
+		return badInputf("serve: --max-sync-per-key must be at least 0, or -1 for no limit")
+	case *retention < 0:
+		return badInputf("serve: --retention must not be negative")
+	case *maxFinished < 0:
+		return badInputf("serve: --max-finished must not be negative")
+	}
+	allow, err := server.ParseCallbackAllow(strings.Split(*cbAllow, ","))
+	if err != nil {
+		return badInputf("serve: --callback-allow: %v", err)
+	}
+	keep := *retention
+	if keep == 0 {
+		keep = -1 // the server's "keep forever"
 	}
 	if *baseURL != "" && !strings.HasPrefix(*baseURL, "http://") && !strings.HasPrefix(*baseURL, "https://") {
 		return badInputf("serve: --base-url %q must start with http:// or https://", *baseURL)
@@ -101,16 +127,16 @@ func runServe(ctx context.Context, args []string, e env) error {
 	var st serveStore
 	memory := false
 	if dsn := e.getenv("DATABASE_URL"); dsn != "" {
-		pg, err := store.Open(ctx, dsn)
+		pg, err := store.Open(ctx, dsn, store.WithMaxRunningPerOwner(*maxRunning))
 		if err != nil {
 			return fmt.Errorf("serve: %w", err)
 		}
 		st = pg
 		log.Info("store: PostgreSQL; migrations applied")
 	} else {
-		st = store.NewMemory()
+		st = store.NewMemory(store.WithMaxRunningPerOwner(*maxRunning), store.WithMaxFinished(*maxFinished))
 		memory = true
-		log.Info("store: in memory; jobs will not survive a restart (set DATABASE_URL to keep them in PostgreSQL)")
+		log.Info("store: in memory; jobs will not survive a restart (set DATABASE_URL to keep them in PostgreSQL)", "max_finished", *maxFinished)
 	}
 	defer st.Close()
 
@@ -136,6 +162,10 @@ func runServe(ctx context.Context, args []string, e env) error {
 	if public == "" {
 		public = "http://" + ln.Addr().String()
 	}
+	var allowedHosts []string
+	if allowAnon && isLoopback(host) {
+		allowedHosts = localHosts(ln.Addr().(*net.TCPAddr).Port, *baseURL)
+	}
 
 	// Jobs run side by side share the cores: each ranking gets its part.
 	nw := *workers
@@ -150,14 +180,19 @@ func runServe(ctx context.Context, args []string, e env) error {
 		TimeBudget:       *budget,
 		MaxBodyBytes:     *maxBody,
 		MaxSyncRequests:  *maxSync,
+		MaxSyncPerKey:    *maxSyncKey,
+		MaxQueuedPerKey:  *maxQueued,
+		Retention:        keep,
 		BaseURL:          public,
 		AllowAnonymous:   allowAnon,
 		AnonymousSecret:  anonSecret,
+		AllowedHosts:     allowedHosts,
 		Lease:            *lease,
 		CallbackAttempts: *cbAttempts,
 		CallbackBackoff:  *cbBackoff,
 		CallbackTimeout:  *cbTimeout,
 		CallbackSweep:    *cbSweep,
+		CallbackAllow:    allow,
 		Web:              web.Handler(),
 	})
 	srv.Start()
@@ -168,8 +203,11 @@ func runServe(ctx context.Context, args []string, e env) error {
 		IdleTimeout:       2 * time.Minute,
 		ErrorLog:          slog.NewLogLogger(log.Handler(), slog.LevelWarn),
 	}
+	if a := allow.String(); a != "" {
+		log.Info("callbacks may also reach these non-public targets, on any port", "callback_allow", a)
+	}
 	if allowAnon {
-		log.Info("requests without an API key are accepted (anonymous)")
+		log.Info("requests without an API key are accepted (anonymous)", "hosts", strings.Join(allowedHosts, ","))
 	} else {
 		log.Info("every request needs an API key (shiftrank apikey create --name NAME)")
 	}
@@ -204,6 +242,26 @@ func shutdownPool(srv *server.Server, grace time.Duration) {
 	ctx, cancel := context.WithTimeout(context.Background(), grace)
 	defer cancel()
 	_ = srv.Shutdown(ctx)
+}
+
+// localHosts lists the Host values an anonymous request to a loopback
+// listener may carry: the loopback names with the port, and the host of
+// the public base URL if one is set.
+func localHosts(port int, baseURL string) []string {
+	p := strconv.Itoa(port)
+	hosts := []string{"127.0.0.1:" + p, "localhost:" + p, "[::1]:" + p}
+	if u, err := url.Parse(baseURL); err == nil && u.Host != "" {
+		h := u.Host
+		if u.Port() == "" {
+			if u.Scheme == "https" {
+				h = net.JoinHostPort(u.Hostname(), "443")
+			} else {
+				h = net.JoinHostPort(u.Hostname(), "80")
+			}
+		}
+		hosts = append(hosts, h)
+	}
+	return hosts
 }
 
 // isLoopback reports whether a listen host is a loopback address only

@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"context"
+	"encoding/hex"
 	"errors"
 	"net/http"
 	"regexp"
@@ -11,6 +12,7 @@ import (
 	"testing"
 	"time"
 
+	"shiftrank/store"
 	"shiftrank/store/pgtest"
 )
 
@@ -54,6 +56,10 @@ func TestServeFlagErrors(t *testing.T) {
 		{[]string{"--time-budget", "0s"}, nil},
 		{[]string{"--base-url", "ftp://x"}, nil},
 		{[]string{"extra"}, nil},
+		{[]string{"--callback-allow", "eln lab"}, nil},
+		{[]string{"--max-queued-per-key", "0"}, nil},
+		{[]string{"--retention", "-1h"}, nil},
+		{nil, map[string]string{"SHIFTRANK_CALLBACK_ALLOW": "10.0.0.0/40"}},
 		{nil, map[string]string{"SHIFTRANK_WORKERS": "many"}},
 	} {
 		var out, errb syncBuffer
@@ -92,6 +98,17 @@ func TestServeRunsAndStopsOnCancel(t *testing.T) {
 	resp.Body.Close()
 	if resp.StatusCode != http.StatusOK {
 		t.Errorf("anonymous GET /v1/jobs on the local default = %d, want 200", resp.StatusCode)
+	}
+	// A name rebound to the loopback address (DNS rebinding) is refused.
+	req, _ := http.NewRequest("GET", "http://"+addr+"/v1/jobs", nil)
+	req.Host = "attacker.example:" + addr[strings.LastIndex(addr, ":")+1:]
+	if resp, err := http.DefaultClient.Do(req); err != nil {
+		t.Fatal(err)
+	} else {
+		resp.Body.Close()
+		if resp.StatusCode != http.StatusForbidden {
+			t.Errorf("anonymous GET with Host %s = %d, want 403", req.Host, resp.StatusCode)
+		}
 	}
 	cancel()
 	select {
@@ -145,6 +162,27 @@ func TestAPIKeyCommands(t *testing.T) {
 	if !strings.HasPrefix(key, "sr_") || strings.Contains(key, " ") {
 		t.Fatalf("apikey create output %q: want the key alone on the last line", out.String())
 	}
+	secret := regexp.MustCompile(`callback secret .*: ([0-9a-f]{64})\n`).FindStringSubmatch(out.String())
+	if secret == nil {
+		t.Fatalf("apikey create output %q: want the callback secret in hex", out.String())
+	}
+	st, err := store.Open(context.Background(), dsn)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer st.Close()
+	k, err := st.LookupAPIKey(context.Background(), key)
+	if err != nil || hex.EncodeToString(k.Secret) != secret[1] {
+		t.Errorf("printed secret %s is not the key's callback secret (%v)", secret[1], err)
+	}
+	var rot syncBuffer
+	if err := runAPIKey(context.Background(), []string{"rotate-secret", "eln-test"}, testEnv(vars, &rot, &errb)); err != nil {
+		t.Fatalf("apikey rotate-secret: %v", err)
+	}
+	rlines := strings.Split(strings.TrimSpace(rot.String()), "\n")
+	if k, err := st.LookupAPIKey(context.Background(), key); err != nil || hex.EncodeToString(k.Secret) != rlines[len(rlines)-1] || rlines[len(rlines)-1] == secret[1] {
+		t.Errorf("rotate-secret printed %q; want the key's new secret on the last line (%v)", rot.String(), err)
+	}
 	var dup syncBuffer
 	if err := runAPIKey(context.Background(), []string{"create", "--name", "eln-test"}, testEnv(vars, &dup, &errb)); err == nil {
 		t.Error("second key with the same name: no error")
@@ -159,6 +197,12 @@ func TestAPIKeyCommands(t *testing.T) {
 	var rev syncBuffer
 	if err := runAPIKey(context.Background(), []string{"revoke", "eln-test"}, testEnv(vars, &rev, &errb)); err != nil {
 		t.Fatal(err)
+	}
+	if !strings.Contains(rev.String(), "0 queued jobs cancelled") {
+		t.Errorf("apikey revoke printed %q; want the number of cancelled jobs", rev.String())
+	}
+	if err := runAPIKey(context.Background(), []string{"rotate-secret", "eln-test"}, testEnv(vars, &rev, &errb)); err == nil {
+		t.Error("rotating a revoked key's secret: no error")
 	}
 	if err := runAPIKey(context.Background(), []string{"revoke", "no-such-key"}, testEnv(vars, &rev, &errb)); err == nil {
 		t.Error("revoking an unknown key: no error")

@@ -26,6 +26,7 @@ import (
 // Store is the method set the suite exercises: the whole store API.
 type Store interface {
 	CreateJob(ctx context.Context, j store.Job) (store.Job, bool, error)
+	SubmitJob(ctx context.Context, j store.Job, maxQueued int) (store.Job, bool, error)
 	GetJob(ctx context.Context, owner, id string) (store.Job, error)
 	ListJobs(ctx context.Context, owner string, limit int, cursor string) ([]store.Job, string, error)
 	ClaimJob(ctx context.Context, workerID string, lease time.Duration) (store.Job, error)
@@ -37,10 +38,12 @@ type Store interface {
 	CancelRequested(ctx context.Context, id string) (bool, error)
 	GetResult(ctx context.Context, owner, id string) (store.Result, error)
 	History(ctx context.Context, owner, id string) ([]store.StatusChange, error)
+	PurgeFinished(ctx context.Context, olderThan time.Duration, limit int) (int, error)
 
 	CreateAPIKey(ctx context.Context, name string) (string, store.APIKey, error)
 	ListAPIKeys(ctx context.Context) ([]store.APIKey, error)
-	RevokeAPIKey(ctx context.Context, idOrName string) error
+	RevokeAPIKey(ctx context.Context, idOrName string) (int, error)
+	RotateAPIKeySecret(ctx context.Context, idOrName string) (store.APIKey, error)
 	GetAPIKey(ctx context.Context, id string) (store.APIKey, error)
 	LookupAPIKey(ctx context.Context, key string) (store.APIKey, error)
 
@@ -89,6 +92,14 @@ func Run(t *testing.T, newStore func(t *testing.T) Store) {
 		{"ClaimCallback", testClaimCallback},
 		{"ClaimCallbackConcurrent", testClaimCallbackConcurrent},
 		{"Ping", testPing},
+		{"SubmitLimit", testSubmitLimit},
+		{"FairClaim", testFairClaim},
+		{"FairClaimOneWorker", testFairClaimOneWorker},
+		{"RevokeStopsWork", testRevokeStopsWork},
+		{"RotateSecret", testRotateSecret},
+		{"PurgeFinished", testPurgeFinished},
+		{"StorableText", testStorableText},
+		{"LargeResult", testLargeResult},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -755,20 +766,21 @@ func testAPIKeys(t *testing.T, s Store) {
 		}
 	}
 
-	if err := s.RevokeAPIKey(ctx, "eln-lab-7"); err != nil {
+	if _, err := s.RevokeAPIKey(ctx, "eln-lab-7"); err != nil {
 		t.Fatalf("RevokeAPIKey(name): %v", err)
 	}
 	_, err = s.LookupAPIKey(ctx, key)
 	wantErr(t, "LookupAPIKey of a revoked key", err, store.ErrUnauthorized)
-	if err := s.RevokeAPIKey(ctx, k.ID); err != nil {
+	if _, err := s.RevokeAPIKey(ctx, k.ID); err != nil {
 		t.Errorf("RevokeAPIKey twice: %v", err)
 	}
-	if err := s.RevokeAPIKey(ctx, k2.ID); err != nil {
+	if _, err := s.RevokeAPIKey(ctx, k2.ID); err != nil {
 		t.Fatalf("RevokeAPIKey(id): %v", err)
 	}
 	_, err = s.LookupAPIKey(ctx, key2)
 	wantErr(t, "LookupAPIKey of a key revoked by ID", err, store.ErrUnauthorized)
-	wantErr(t, "RevokeAPIKey unknown", s.RevokeAPIKey(ctx, "nosuchkey"), store.ErrNotFound)
+	_, err = s.RevokeAPIKey(ctx, "nosuchkey")
+	wantErr(t, "RevokeAPIKey unknown", err, store.ErrNotFound)
 	keys, err = s.ListAPIKeys(ctx)
 	if err != nil || len(keys) != 2 || !keys[0].Revoked() || !keys[1].Revoked() {
 		t.Errorf("ListAPIKeys after revoking = %+v, %v; want both listed, revoked", keys, err)
@@ -847,8 +859,6 @@ func testPendingCallbacks(t *testing.T, s Store) {
 	plain := newJob("k1", 2)
 	plain.CallbackURL = ""
 	silent := mustCreate(t, s, plain)
-	cancelled := mustCreate(t, s, newJob("k2", 3))
-	waiting := mustCreate(t, s, newJob("k1", 4))
 	for _, id := range []string{hooked.ID, silent.ID} {
 		c := mustClaim(t, s, "w1", time.Minute)
 		if c.ID != id {
@@ -858,6 +868,8 @@ func testPendingCallbacks(t *testing.T, s Store) {
 			t.Fatal(err)
 		}
 	}
+	cancelled := mustCreate(t, s, newJob("k2", 3))
+	waiting := mustCreate(t, s, newJob("k1", 4))
 	time.Sleep(2 * time.Millisecond)
 	if _, err := s.CancelJob(ctx, "k2", cancelled.ID); err != nil {
 		t.Fatal(err)
