@@ -337,6 +337,9 @@ const probeTolerance = 1e-9
 
 // run is Rank after validation.
 func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *probe) (*Result, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
 	start := time.Now()
 	gctx, cancel := context.WithTimeoutCause(ctx, j.budget, errBudget)
 	defer cancel()

@@ -20,6 +20,7 @@ import (
 
 	"shiftrank/ranker"
 	"shiftrank/server"
+	"shiftrank/spectrum"
 	"shiftrank/store"
 )
 
@@ -210,7 +211,7 @@ func TestMemoryBound(t *testing.T) {
 	if testing.Short() {
 		t.Skip("runs 5,000 jobs; skipped with -short")
 	}
-	pl, err := ranker.ParsePeaks("4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H)")
+	pl, err := spectrum.ReadList([]byte("4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H)"), spectrum.H1)
 	require.NoError(t, err)
 	res, err := ranker.New(ranker.Options{Workers: 1}).Rank(context.Background(), ranker.Request{Formula: "C4H8O2", Peaks: pl, TopK: 10}, nil)
 	require.NoError(t, err)
