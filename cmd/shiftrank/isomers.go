@@ -30,6 +30,7 @@ func runIsomers(ctx context.Context, args []string, e env) error {
 	limit := fs.Int64("limit", 0, "stop after N structures (0 = no limit)")
 	maxHeavy := fs.Int("max-heavy", molecule.DefaultMaxHeavyAtoms, "refuse formulas with more than N heavy atoms")
 	listRules := fs.Bool("rules", false, "list the filter rules with their reasons and exit")
+	charged := fs.Bool("charge-separated", false, "also make the charge-separated groups: "+isomers.ChargeSeparatedGroups)
 	fs.Usage = func() {
 		fmt.Fprintln(e.stderr, "usage: shiftrank isomers FORMULA [--count] [--filter=plausible|none|EDITS] [--limit N] [--max-heavy N]")
 		fmt.Fprintln(e.stderr, "       shiftrank isomers --rules")
@@ -67,7 +68,7 @@ func runIsomers(ctx context.Context, args []string, e env) error {
 	if err != nil {
 		return badInput(err)
 	}
-	opts := isomers.Options{Filter: filter, Limit: *limit}
+	opts := isomers.Options{Filter: filter, Limit: *limit, ChargeSeparated: *charged}
 
 	var progress *progressLine
 	if e.stderrTTY {
