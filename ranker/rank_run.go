@@ -357,6 +357,9 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 	if !j.req.Unconstrained {
 		an = infer.Infer(j.formula, j.inferPeaks(), infer.Options{Disabled: j.req.Disable, Carbon: j.inferCarbon()})
 	}
+	if an != nil {
+		j.warnUnknownDisabled(an)
+	}
 	constrained := an != nil && len(an.Readings) > 0
 	readingsTotal.Store(int64(max(len(readingsOf(an)), 1)))
 
@@ -760,4 +763,19 @@ func bestScore(workers []worker) (float64, bool) {
 		}
 	}
 	return best, found
+}
+
+// warnUnknownDisabled warns about each ID in Request.Disable that names no
+// constraint read from this spectrum: IDs depend on the peaks, so an ID
+// from another spectrum's report does nothing, and the user must know.
+func (j *job) warnUnknownDisabled(an *infer.Analysis) {
+	known := make(map[string]bool, len(an.Constraints))
+	for _, c := range an.Constraints {
+		known[c.ID] = true
+	}
+	for _, id := range j.req.Disable {
+		if !known[id] {
+			j.warnings = append(j.warnings, fmt.Sprintf("disable: no constraint %q was read from this spectrum; nothing was switched off for it", id))
+		}
+	}
 }

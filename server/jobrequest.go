@@ -54,6 +54,18 @@ type JobOptions struct {
 	Require          []string `json:"require,omitempty"`            // SMILES fragments every candidate must contain
 	Forbid           []string `json:"forbid,omitempty"`             // SMILES fragments no candidate may contain
 	KeepSolventPeaks bool     `json:"keep_solvent_peaks,omitempty"` // do not drop residual solvent and water peaks
+	// AllIsomers searches every plausible isomer of the formula instead of
+	// only those fitting what the spectrum says (the readings).
+	AllIsomers bool `json:"all_isomers,omitempty"`
+	// Disable lists IDs of constraints read from the spectrum to switch
+	// off (the "constraints" of a result's "search" report).
+	Disable []string `json:"disable,omitempty"`
+	// MaxNodes is the search budget in generator nodes; 0 means the
+	// default (ranker.DefaultMaxNodes), at most maxNodesLimit.
+	MaxNodes int64 `json:"max_nodes,omitempty"`
+	// Neutral leaves out charge-separated groups (nitro, N-oxide, azide,
+	// diazo, isonitrile).
+	Neutral bool `json:"neutral,omitempty"`
 }
 
 // Request limits that do not depend on the configuration.
@@ -63,6 +75,9 @@ const (
 	maxFragments    = 20
 	maxFragmentLen  = 200
 	maxURLLen       = 2000
+	maxDisable      = 100
+	maxDisableLen   = 100
+	maxNodesLimit   = 10 * ranker.DefaultMaxNodes
 	minMHz, maxMHz  = 20, 2000
 )
 
@@ -104,6 +119,10 @@ func (jr JobRequest) rankerRequest(lim limits) (ranker.Request, []FieldError) {
 		MaxCandidates:    lim.maxCandidates,
 		KeepSolventPeaks: jr.Options.KeepSolventPeaks,
 		MaxHeavyAtoms:    lim.maxHeavyAtoms,
+		Unconstrained:    jr.Options.AllIsomers,
+		Disable:          jr.Options.Disable,
+		MaxNodes:         jr.Options.MaxNodes,
+		Neutral:          jr.Options.Neutral,
 	}
 	rr.TimeBudget = lim.timeBudget
 
@@ -135,6 +154,10 @@ func (jr JobRequest) rankerRequest(lim limits) (ranker.Request, []FieldError) {
 			fields = append(fields, filterField("/options/filter", err))
 		}
 	}
+	if jr.Options.MaxNodes < 0 || jr.Options.MaxNodes > maxNodesLimit {
+		bad("/options/max_nodes", fmt.Sprintf("must be between 1 and %d (0 or absent means %d)", int64(maxNodesLimit), int64(ranker.DefaultMaxNodes)))
+	}
+	fields = append(fields, disableFields(jr.Options.Disable)...)
 	fields = append(fields, fragmentFields("/options/require", jr.Options.Require)...)
 	fields = append(fields, fragmentFields("/options/forbid", jr.Options.Forbid)...)
 	if utf8.RuneCountInString(jr.Reference) > maxReferenceLen {
@@ -210,6 +233,35 @@ func parsePeaksField(raw json.RawMessage) (h, c spectrum.PeakList, _ []FieldErro
 		return h, c, []FieldError{{Field: "/peaks", Detail: err.Error()}}
 	}
 	return h, c, nil
+}
+
+// disableFields checks the constraint IDs of options.disable: short,
+// printable and at most maxDisable of them. Whether an ID names a
+// constraint depends on the spectrum; the ranking warns about one that
+// does not.
+func disableFields(ids []string) []FieldError {
+	if len(ids) > maxDisable {
+		return []FieldError{{Field: "/options/disable", Detail: fmt.Sprintf("at most %d constraint IDs", maxDisable)}}
+	}
+	var fields []FieldError
+	for i, id := range ids {
+		field := fmt.Sprintf("/options/disable/%d", i)
+		switch {
+		case strings.TrimSpace(id) == "":
+			fields = append(fields, FieldError{Field: field, Detail: "empty constraint ID"})
+		case len(id) > maxDisableLen:
+			fields = append(fields, FieldError{Field: field, Detail: fmt.Sprintf("longer than %d characters", maxDisableLen)})
+		default:
+			for k, r := range id {
+				if r < 0x20 || r == 0x7f || r == utf8.RuneError {
+					pos := k
+					fields = append(fields, FieldError{Field: field, Detail: "control character in a constraint ID", Position: &pos, Token: fmt.Sprintf("%q", r)})
+					break
+				}
+			}
+		}
+	}
+	return fields
 }
 
 func fragmentFields(base string, frags []string) []FieldError {

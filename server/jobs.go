@@ -298,8 +298,10 @@ type resultBody struct {
 	MHz              float64           `json:"mhz"`
 	Solvent          string            `json:"solvent"`
 	Peaks            []json.RawMessage `json:"peaks"`
+	CarbonPeaks      []json.RawMessage `json:"carbon_peaks"`
 	Warnings         []string          `json:"warnings"`
 	Candidates       []json.RawMessage `json:"candidates"`
+	Search           json.RawMessage   `json:"search"`
 }
 
 // CandidateList is the response of GET /v1/jobs/{id}/candidates: the
@@ -322,12 +324,20 @@ type CandidateList struct {
 	MHz              float64           `json:"mhz,omitempty"`
 	Solvent          string            `json:"solvent,omitempty"`
 	Peaks            []json.RawMessage `json:"peaks"`
-	Warnings         []string          `json:"warnings"`
-	Total            int               `json:"total"`
-	Offset           int               `json:"offset"`
-	Limit            int               `json:"limit"`
-	Candidates       []json.RawMessage `json:"candidates"`
-	Caution          string            `json:"caution"`
+	// CarbonPeaks are the observed 13C peaks, when the request had them.
+	CarbonPeaks []json.RawMessage `json:"carbon_peaks,omitempty"`
+	Warnings    []string          `json:"warnings"`
+	// Search says what was searched (ranker.SearchReport): all isomers or
+	// only those fitting the constraints read from the spectrum, whether
+	// the search was complete or stopped early and why, and every
+	// constraint and reading. A ranking from a search that stopped early
+	// or ran inside inferred constraints says so here.
+	Search     json.RawMessage   `json:"search,omitempty"`
+	Total      int               `json:"total"`
+	Offset     int               `json:"offset"`
+	Limit      int               `json:"limit"`
+	Candidates []json.RawMessage `json:"candidates"`
+	Caution    string            `json:"caution"`
 }
 
 func (s *Server) loadResult(r *http.Request, id string) (resultBody, error) {
@@ -396,6 +406,8 @@ func (s *Server) handleCandidates(w http.ResponseWriter, r *http.Request) {
 		MHz:              body.MHz,
 		Solvent:          body.Solvent,
 		Peaks:            body.Peaks,
+		CarbonPeaks:      body.CarbonPeaks,
+		Search:           body.Search,
 		Warnings:         body.Warnings,
 		Total:            len(body.Candidates),
 		Offset:           offset,

@@ -151,12 +151,14 @@ func (p *serveProc) kill(t *testing.T) {
 	<-p.done
 }
 
-// longJob is a ranking that runs until its time budget: C9H10O2 has tens
-// of millions of isomers, far more than a few seconds of scoring.
+// longJob is a ranking that runs until its time budget: it searches all
+// isomers (not only those fitting the spectrum), and C9H10O2 has millions
+// of them, far more than a few seconds of scoring.
 func longJob() map[string]any {
 	return map[string]any{
 		"formula":   "C9H10O2",
 		"peaks":     "7.35 (m, 5H), 5.10 (s, 2H), 2.09 (s, 3H)",
+		"options":   map[string]any{"all_isomers": true},
 		"reference": "KILL-1",
 	}
 }

@@ -319,7 +319,8 @@ func testManyCandidates(p *page) {
 		chromedp.SendKeys(chromedp.ID("formula"), "C7H8"),
 		chromedp.SendKeys(chromedp.ID("peaks-text"), "7.30–7.10 (m, 5H), 2.35 (s, 3H)"),
 		chromedp.Evaluate[chromedp.Void](`document.querySelector("details.options").open = true;
-			document.querySelector("#top-k").value = "120"`),
+			document.querySelector("#top-k").value = "120";
+			document.querySelector("#all-isomers").checked = true`),
 		chromedp.Click(chromedp.ID("submit")))
 	id := jobIDFromURL(p)
 	p.waitFor("job done", `document.querySelector("#job-status").dataset.status === "succeeded" &&

@@ -256,6 +256,7 @@ function buildRequest() {
       require: lines($("require").value),
       forbid: lines($("forbid").value),
       keep_solvent_peaks: $("keep-solvent").checked || undefined,
+      all_isomers: $("all-isomers").checked || undefined,
     },
   };
   const ref = $("reference").value.trim();
@@ -266,8 +267,9 @@ function buildRequest() {
 const FIELD_SLOTS = {
   formula: "formula", peaks: "peaks", mhz: "mhz", solvent: "solvent", reference: "reference",
   top_k: "top_k", filter: "filter", require: "require", forbid: "forbid", keep_solvent_peaks: "keep_solvent_peaks",
+  all_isomers: "all_isomers",
 };
-const SLOT_INPUT = { top_k: "top-k", peaks: "peaks-text", keep_solvent_peaks: "keep-solvent" };
+const SLOT_INPUT = { top_k: "top-k", peaks: "peaks-text", keep_solvent_peaks: "keep-solvent", all_isomers: "all-isomers" };
 
 function slotFor(field) {
   const base = String(field || "").replace(/^\/+/, "").replace(/^(body|request)[./]/, "")
@@ -386,6 +388,7 @@ function loadExample() {
   $("require").value = "";
   $("forbid").value = "";
   $("keep-solvent").checked = false;
+  $("all-isomers").checked = false;
   updateDBE();
   syncRowsFromText();
   $("formula").focus();
@@ -415,6 +418,7 @@ function fillForm(req) {
   $("require").value = (o.require || []).join("\n");
   $("forbid").value = (o.forbid || []).join("\n");
   $("keep-solvent").checked = !!o.keep_solvent_peaks;
+  $("all-isomers").checked = !!o.all_isomers;
   updateDBE();
   syncRowsFromText();
   $("formula").focus();
