@@ -201,6 +201,12 @@ func (p *Predictor) predict(m *mol, w *work) *Spectrum {
 				}
 			}
 		}
+		if why := m.geminalGroupsDiffer(env.Atoms); why != "" && rep.split == 0 && rep.syn+rep.anti == 0 {
+			env.Diastereotopic = true
+			if p.opts.Explain {
+				env.Reasons = append(env.Reasons, "two equal groups on one atom that are not equivalent in space ("+why+"): they may give two signals")
+			}
+		}
 		if p.opts.Explain {
 			if len(env.Atoms) > 1 {
 				env.Reasons = append(env.Reasons, "equivalent by symmetry: atoms "+intList(env.Atoms))
@@ -401,4 +407,72 @@ func (p *Predictor) markAmideSides(m *mol, groups []hgroup) {
 // substituents besides the acyl carbon.
 func (m *mol) tertiaryAmide(n int) bool {
 	return m.amideCarbon(n) >= 0 && m.g.Degree(n) == 3
+}
+
+// geminalGroupsDiffer reports why the two CH3 groups of an environment,
+// equivalent in the constitution and bonded to one atom x, are not
+// equivalent in space, or "" when they are (common practice; the usual
+// case is the terpene (CH3)2C=CH– unit, whose methyls give two singlets,
+// and an isopropyl group in a chiral molecule, whose methyls give two
+// doublets):
+//   - x is double-bonded (not aromatic) to an atom whose two other
+//     positions (substituents, H or a lone pair) differ: one methyl is cis
+//     and the other trans to the same group;
+//   - x is sp3, its two other positions differ, and the molecule has a
+//     stereocentre: the methyls are diastereotopic.
+func (m *mol) geminalGroupsDiffer(atoms []int) string {
+	g := m.g
+	if len(atoms) != 2 {
+		return ""
+	}
+	a, b := atoms[0], atoms[1]
+	if g.Atoms[a].Element != molecule.C || g.Atoms[a].HCount != 3 || g.Atoms[b].HCount != 3 || g.Degree(a) != 1 || g.Degree(b) != 1 {
+		return ""
+	}
+	x := g.Neighbors(a)[0].Atom
+	if g.Neighbors(b)[0].Atom != x || m.arom[x] {
+		return ""
+	}
+	// others lists the orbits of the positions of atom y other than
+	// atom skip: each neighbour's orbit, -1 for each H.
+	others := func(y, skip int) []int {
+		var out []int
+		for _, nb := range g.Neighbors(y) {
+			if nb.Atom != skip {
+				out = append(out, m.orbit[nb.Atom])
+			}
+		}
+		for k := 0; k < g.Atoms[y].HCount; k++ {
+			out = append(out, -1)
+		}
+		return out
+	}
+	for _, nb := range g.Neighbors(x) {
+		if nb.Order != molecule.Double || m.arom[nb.Atom] {
+			continue
+		}
+		o := others(nb.Atom, x)
+		switch {
+		case len(o) == 2 && o[0] != o[1]:
+			return "cis and trans to different groups across the double bond"
+		case len(o) == 1 && g.Atoms[nb.Atom].Element == molecule.N:
+			return "cis and trans to the substituent on the C=N nitrogen"
+		}
+		return ""
+	}
+	if m.stereo && m.multi[x] == 0 {
+		var rest []int
+		for _, nb := range g.Neighbors(x) {
+			if nb.Atom != a && nb.Atom != b {
+				rest = append(rest, m.orbit[nb.Atom])
+			}
+		}
+		for k := 0; k < g.Atoms[x].HCount; k++ {
+			rest = append(rest, -1)
+		}
+		if len(rest) == 2 && rest[0] != rest[1] {
+			return "diastereotopic: a stereocentre in the molecule"
+		}
+	}
+	return ""
 }

@@ -284,3 +284,38 @@ func TestDiastereotopic(t *testing.T) {
 		}
 	}
 }
+
+// TestGeminalMethylsInSpace checks the flag on two constitutionally
+// equivalent CH3 groups on one atom that are not equivalent in space
+// (common practice: cis/trans across a double bond; diastereotopic in a
+// chiral molecule), on handbook cases where the two methyls give two
+// signals, and on cases where they give one.
+func TestGeminalMethylsInSpace(t *testing.T) {
+	p := New(Options{})
+	for _, tc := range []struct {
+		name   string
+		smiles string
+		atom   int
+		want   bool
+		source string
+	}{
+		{"prenol (CH3)2C=", "CC(C)=CCO", 0, true, "3-methylbut-2-en-1-ol: 1.73 and 1.68 (2 s, 3H each); Pretsch et al., from memory"},
+		{"2-methylbut-2-ene (CH3)2C=", "CC=C(C)C", 3, true, "two methyl singlets on C2 (1.67, 1.58); common practice, from memory"},
+		{"acetone oxime (CH3)2C=N", "CC(C)=NO", 0, true, "1.89 and 1.86 (2 s); Silverstein et al., from memory"},
+		{"menthol isopropyl CH3", "CC(C)C1CCC(C)CC1O", 0, true, "0.93 and 0.81 (2 d, J 7.0 Hz); Pretsch et al., from memory"},
+		{"isobutylene (CH3)2C=CH2", "CC(C)=C", 0, false, "the partner carbon carries two H; common practice"},
+		{"acetone (CH3)2C=O", "CC(C)=O", 0, false, "one 6H singlet at 2.17; Gottlieb et al. 1997"},
+		{"isobutanol (CH3)2CH", "CC(C)CO", 0, false, "no stereocentre: one 6H doublet at 0.92; common practice, from memory"},
+		{"mesityl oxide (CH3)2C=CH", "CC(C)=CC(C)=O", 0, true, "2.14 and 1.88 (2 s) for the two =C(CH3)2 methyls; Silverstein et al., from memory"},
+	} {
+		sp := predictSMILES(t, p, tc.smiles)
+		es := envOn(sp, tc.atom)
+		if len(es) != 1 {
+			t.Errorf("%s (%s): %d environments on atom %d, want 1", tc.name, tc.smiles, len(es), tc.atom)
+			continue
+		}
+		if es[0].Diastereotopic != tc.want {
+			t.Errorf("Predict(%q) atom %d Diastereotopic = %v, want %v (source: %s)", tc.smiles, tc.atom, es[0].Diastereotopic, tc.want, tc.source)
+		}
+	}
+}

@@ -131,6 +131,11 @@ type Environment struct {
 	// interchangeable by symmetry (a stereocentre in the molecule, a
 	// ring whose faces differ, or a prochiral centre that replacing either
 	// H turns into a second stereocentre); they may appear as two signals.
+	// It is also set for an environment of two CH3 groups on one atom that
+	// are not equivalent in space: on an alkene carbon, cis and trans to
+	// different groups ((CH3)2C=CH–), or an isopropyl group in a molecule
+	// with a stereocentre. The ranker may then put each group on its own
+	// peak.
 	Diastereotopic bool
 	// Breakdown is the shift's derivation: base value and increments in
 	// ppm that sum to Shift (Options.Explain only).

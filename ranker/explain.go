@@ -205,7 +205,9 @@ func multiplicityReason(sp *predict.Spectrum, e *predict.Environment, half bool,
 		fmt.Fprintf(&b, "env %d: ", e.ID)
 	}
 	if half {
-		if e.H > 2 {
+		if e.H == 6 && len(e.Atoms) == 2 {
+			b.WriteString("one of two CH3 groups on one atom that are not equivalent in space; ")
+		} else if e.H > 2 {
 			b.WriteString("one H of each diastereotopic CH2; ")
 		} else {
 			b.WriteString("one H of a diastereotopic CH2; ")

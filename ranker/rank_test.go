@@ -380,3 +380,26 @@ func TestRankProgressEstimatesTotal(t *testing.T) {
 		t.Errorf("progress TotalEstimate = %d while running, final isomers_total = %d", got, res.IsomersTotal)
 	}
 }
+
+// TestRankGeminalMethylsTwoSignals ranks unknowns whose two methyls on one
+// atom give two signals (cis and trans on an alkene carbon, or
+// diastereotopic in a chiral molecule) over the whole isomer space: the
+// true structure must come first, which needs the 6H environment to be
+// allowed onto two 3H peaks.
+func TestRankGeminalMethylsTwoSignals(t *testing.T) {
+	for _, tc := range []struct {
+		name, formula, peaks, want, source string
+	}{
+		{"prenol", "C5H10O", "5.41 (t, J = 7.0 Hz, 1H), 4.14 (d, J = 7.0 Hz, 2H), 1.74 (s, 3H), 1.68 (s, 3H), 1.45 (br s, 1H)",
+			"CC(C)=CCO", "3-methylbut-2-en-1-ol in CDCl3; Pretsch, Bühlmann, Badertscher, Structure Determination of Organic Compounds, from memory"},
+		{"mesityl oxide", "C6H10O", "6.08 (s, 1H), 2.16 (s, 3H), 2.14 (s, 3H), 1.89 (s, 3H)",
+			"CC(C)=CC(C)=O", "4-methylpent-3-en-2-one in CDCl3; Silverstein, Webster, Kiemle, Spectrometric Identification of Organic Compounds, from memory"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			res, err := New(Options{}).Rank(context.Background(), Request{Formula: tc.formula, Peaks: mustPeaks(t, tc.peaks), TopK: 3, Unconstrained: true}, nil)
+			require.NoError(t, err)
+			require.NotEmpty(t, res.Candidates)
+			assert.Equal(t, tc.want, res.Candidates[0].SMILES, "source: %s", tc.source)
+		})
+	}
+}
