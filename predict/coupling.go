@@ -441,6 +441,7 @@ func (p *Predictor) couple(m *mol, w *work, groups []hgroup, reps, order []int, 
 	defer func() { w.jbuf = buf[:0] }()
 	for id := range envs {
 		e := &envs[id]
+		e.SlowExchangeH = slowExchangeH(m, groups[reps[order[id]]].atom, e.Exchangeable, envs, groups)
 		if e.Exchangeable || broad[id] {
 			continue
 		}
@@ -760,4 +761,32 @@ func (p *Predictor) spinTable(m *mol, groups []hgroup, envs []Environment, broad
 		}
 	}
 	return st
+}
+
+// slowExchangeH counts the hydrogens three bonds from the hydrogens of atom
+// a that couple only under slow exchange (see
+// Environment.SlowExchangeH): for a C–H atom, the H of exchangeable
+// groups on its neighbours; for an exchangeable one, the H on its
+// neighbouring carbons.
+func slowExchangeH(m *mol, a int, exchangeable bool, envs []Environment, groups []hgroup) int {
+	g := m.g
+	n := 0
+	for _, nb := range g.Neighbors(a) {
+		x := nb.Atom
+		if g.Atoms[x].HCount == 0 {
+			continue
+		}
+		if exchangeable {
+			if g.Atoms[x].Element == molecule.C {
+				n += g.Atoms[x].HCount
+			}
+			continue
+		}
+		for k := range groups {
+			if groups[k].atom == x && envs[groups[k].env].Exchangeable {
+				n += groups[k].h
+			}
+		}
+	}
+	return n
 }

@@ -319,3 +319,35 @@ func TestGeminalMethylsInSpace(t *testing.T) {
 		}
 	}
 }
+
+// TestSlowExchangeH counts the hydrogens that couple only under slow
+// exchange (common practice: H–N–C–H and H–O–C–H couplings are seen for
+// amide N–H and for O–H in dry solvents).
+func TestSlowExchangeH(t *testing.T) {
+	p := New(Options{})
+	for _, tc := range []struct {
+		name   string
+		smiles string
+		atom   int
+		want   int
+	}{
+		{"N-benzylacetamide NCH2", "CC(=O)NCc1ccccc1", 4, 1},
+		{"N-benzylacetamide NH", "CC(=O)NCc1ccccc1", 3, 2},
+		{"N-benzylacetamide CH3", "CC(=O)NCc1ccccc1", 0, 0},
+		{"ethanol CH2", "CCO", 1, 1},
+		{"ethanol OH", "CCO", 2, 2},
+		{"methylamine CH3", "CN", 0, 2},
+		{"tert-butanol OH", "CC(C)(C)O", 4, 0},
+		{"ethyl acetate OCH2", "CCOC(C)=O", 1, 0},
+	} {
+		sp := predictSMILES(t, p, tc.smiles)
+		es := envOn(sp, tc.atom)
+		if len(es) != 1 {
+			t.Errorf("%s: %d environments on atom %d", tc.name, len(es), tc.atom)
+			continue
+		}
+		if es[0].SlowExchangeH != tc.want {
+			t.Errorf("%s (%s) atom %d: SlowExchangeH = %d, want %d", tc.name, tc.smiles, tc.atom, es[0].SlowExchangeH, tc.want)
+		}
+	}
+}

@@ -137,6 +137,15 @@ type Environment struct {
 	// with a stereocentre. The ranker may then put each group on its own
 	// peak.
 	Diastereotopic bool
+	// SlowExchangeH counts the hydrogens three bonds away that couple with
+	// this environment only when exchange is slow: for a C–H, the N–H, O–H
+	// or S–H hydrogens on its neighbouring atoms; for an exchangeable
+	// hydrogen, the C–H hydrogens on the atoms next to its own. Such
+	// couplings are left out of Multiplicity (fast exchange, the n+1 rule's
+	// usual exception), but an amide N–H or an O–H in dry CDCl3 often
+	// shows them (common practice), so an observed extra splitting by up
+	// to this many hydrogens is compatible.
+	SlowExchangeH int
 	// Breakdown is the shift's derivation: base value and increments in
 	// ppm that sum to Shift (Options.Explain only).
 	Breakdown []Term

@@ -27,22 +27,24 @@ type Report struct {
 // signal: shift and sigma in ppm, J in Hz. Neighbours lists the
 // environments it is resolved-coupled to; Couplings every coupling.
 type ReportEnvironment struct {
-	ID             int              `json:"id"`
-	Atoms          []int            `json:"atoms"`
-	H              int              `json:"h"`
-	Kind           string           `json:"kind"`
-	Shift          float64          `json:"shift"`
-	Sigma          float64          `json:"sigma"`
-	ShiftMin       float64          `json:"shift_min"`
-	ShiftMax       float64          `json:"shift_max"`
-	Multiplicity   string           `json:"multiplicity"`
-	J              []float64        `json:"j"`
-	Exchangeable   bool             `json:"exchangeable"`
-	Diastereotopic bool             `json:"diastereotopic"`
-	Neighbours     []int            `json:"neighbours"`
-	Couplings      []ReportCoupling `json:"couplings"`
-	Breakdown      []Term           `json:"breakdown"`
-	Reasons        []string         `json:"reasons"`
+	ID             int       `json:"id"`
+	Atoms          []int     `json:"atoms"`
+	H              int       `json:"h"`
+	Kind           string    `json:"kind"`
+	Shift          float64   `json:"shift"`
+	Sigma          float64   `json:"sigma"`
+	ShiftMin       float64   `json:"shift_min"`
+	ShiftMax       float64   `json:"shift_max"`
+	Multiplicity   string    `json:"multiplicity"`
+	J              []float64 `json:"j"`
+	Exchangeable   bool      `json:"exchangeable"`
+	Diastereotopic bool      `json:"diastereotopic"`
+	// SlowExchangeH: see Environment.SlowExchangeH.
+	SlowExchangeH int              `json:"slow_exchange_h,omitempty"`
+	Neighbours    []int            `json:"neighbours"`
+	Couplings     []ReportCoupling `json:"couplings"`
+	Breakdown     []Term           `json:"breakdown"`
+	Reasons       []string         `json:"reasons"`
 }
 
 // ReportCoupling is one coupling of an environment's hydrogen: Env is the
@@ -74,7 +76,7 @@ func NewReport(smiles string, g *molecule.Graph, mhz float64, s *Spectrum) Repor
 		re := ReportEnvironment{
 			ID: e.ID, Atoms: e.Atoms, H: e.H, Kind: e.Kind,
 			Shift: e.Shift, Sigma: e.Sigma, ShiftMin: e.ShiftMin, ShiftMax: e.ShiftMax,
-			Multiplicity: e.Multiplicity, J: e.J, Exchangeable: e.Exchangeable, Diastereotopic: e.Diastereotopic,
+			Multiplicity: e.Multiplicity, J: e.J, Exchangeable: e.Exchangeable, Diastereotopic: e.Diastereotopic, SlowExchangeH: e.SlowExchangeH,
 			Neighbours: []int{}, Couplings: []ReportCoupling{}, Breakdown: e.Breakdown, Reasons: e.Reasons,
 		}
 		if re.J == nil {

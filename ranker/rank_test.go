@@ -403,3 +403,17 @@ func TestRankGeminalMethylsTwoSignals(t *testing.T) {
 		})
 	}
 }
+
+// TestRankSlowExchangeCoupling: an amide N–CH2 reported as a doublet
+// (coupled to the N–H, as secondary amides show in CDCl3) is compatible
+// with the amide, so the amide ranks first.
+func TestRankSlowExchangeCoupling(t *testing.T) {
+	// N-benzylacetamide in CDCl3: 7.36–7.24 (m, 5H), 5.85 (br s, NH),
+	// 4.42 (d, J = 5.7 Hz, 2H), 2.02 (s, 3H); Pretsch, Bühlmann,
+	// Badertscher, Structure Determination of Organic Compounds, from memory.
+	res, err := New(Options{}).Rank(context.Background(), Request{Formula: "C9H11NO", TopK: 3,
+		Peaks: mustPeaks(t, "7.36–7.24 (m, 5H), 5.85 (br s, 1H), 4.42 (d, J = 5.7 Hz, 2H), 2.02 (s, 3H)")}, nil)
+	require.NoError(t, err)
+	require.NotEmpty(t, res.Candidates)
+	assert.Equal(t, "CC(=O)NCc1ccccc1", res.Candidates[0].SMILES)
+}

@@ -165,6 +165,9 @@ type predEnv struct {
 	j              []float64 // Hz, largest first
 	exchangeable   bool
 	diastereotopic bool
+	// slow counts hydrogens that couple with this environment only under
+	// slow exchange (predict.Environment.SlowExchangeH).
+	slow int
 }
 
 // obsPeak is the part of an observed peak the likelihood reads.
@@ -233,7 +236,7 @@ func (s *scorer) pairTerms(e *predEnv, p *obsPeak) terms {
 	shift := logTRel(d, s.m.Nu) - math.Log(width+sg/s.t0)
 	return terms{
 		shift: shift,
-		mult:  multiplicityLogP(p.mult, e.mult, e.exchangeable),
+		mult:  multiplicityLogP(p.mult, e.mult, e.exchangeable, e.slow),
 		j:     s.jTerm(e.j, p.j),
 	}
 }
@@ -394,18 +397,25 @@ const (
 	pExchBroadS      = 0.50  // exchangeable H reported as br s
 	pExchS           = 0.35  // exchangeable H reported as s
 	pExchOther       = 0.05  // exchangeable H reported coupled or as m
+	// Couplings through an N–H or O–H are absent under fast exchange (the
+	// n+1 rule's heteroatom exception) but common for amide N–H and for
+	// O–H in dry CDCl3: a rule of thumb, not a law (common practice).
+	pSlowExchange = 0.12 // C–H reported split also by the X–H next to it
+	pExchCoupled  = 0.20 // exchangeable H reported split by the C–H next to it
 	pBroadSingletSeq = 0.15  // non-exchangeable singlet reported as br s
 )
 
 // multiplicityLogP returns log P(observed pattern | predicted pattern).
-func multiplicityLogP(obs, pred spectrum.Multiplicity, exchangeable bool) float64 {
-	p, _ := multiplicityJudge(obs, pred, exchangeable)
+func multiplicityLogP(obs, pred spectrum.Multiplicity, exchangeable bool, slow int) float64 {
+	p, _ := multiplicityJudge(obs, pred, exchangeable, slow)
 	return math.Log(p)
 }
 
 // multiplicityJudge returns P(observed | predicted) and a short verdict for
-// the explanation.
-func multiplicityJudge(obs, pred spectrum.Multiplicity, exchangeable bool) (float64, string) {
+// the explanation. slow is the number of hydrogens that couple only under
+// slow exchange (N–H or O–H next to a C–H): splitting by up to that many
+// more partners than predicted is compatible.
+func multiplicityJudge(obs, pred spectrum.Multiplicity, exchangeable bool, slow int) (float64, string) {
 	if !obs.IsReported() {
 		return 1, "not reported"
 	}
@@ -415,8 +425,19 @@ func multiplicityJudge(obs, pred spectrum.Multiplicity, exchangeable bool) (floa
 			return pExchBroadS, "as expected for exchangeable H"
 		case obs.IsSinglet():
 			return pExchS, "compatible: exchangeable H, often sharp in CDCl3"
+		case slow > 0 && !obs.IsMultiplet() && obs.Partners() <= slow:
+			return pExchCoupled, "compatible: the X–H couples to the C–H next to it (slow exchange)"
 		}
 		return pExchOther, "unusual for exchangeable H (usually a singlet)"
+	}
+	if slow > 0 && !obs.IsMultiplet() && !pred.IsMultiplet() && !obs.SamePattern(pred) {
+		if no, np := obs.Partners(), pred.Partners(); no > np && no <= np+slow {
+			p := pSlowExchange
+			if obs.Broad() {
+				p *= pBroadFactor
+			}
+			return p, "compatible: also coupled to the N–H/O–H next to it (slow exchange)"
+		}
 	}
 	if obs.IsMultiplet() {
 		switch {

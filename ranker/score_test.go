@@ -29,7 +29,7 @@ func TestMultiplicityTable(t *testing.T) {
 	// The table's order, not its values, is the check: exact beats
 	// compatible beats contradicting (common practice in reading spectra).
 	p := func(obs, pred string) float64 {
-		v, _ := multiplicityJudge(pat(obs), pat(pred), false)
+		v, _ := multiplicityJudge(pat(obs), pat(pred), false, 0)
 		return v
 	}
 	tests := []struct {
@@ -50,13 +50,13 @@ func TestMultiplicityTable(t *testing.T) {
 		}
 	}
 	// Exchangeable H: a broad singlet is the most likely report.
-	bs, _ := multiplicityJudge(pat("br s"), pat("br s"), true)
-	tt, _ := multiplicityJudge(pat("t"), pat("br s"), true)
+	bs, _ := multiplicityJudge(pat("br s"), pat("br s"), true, 0)
+	tt, _ := multiplicityJudge(pat("t"), pat("br s"), true, 0)
 	if !(bs > tt) {
 		t.Errorf("exchangeable: P(br s) = %.3f not above P(t) = %.3f", bs, tt)
 	}
 	// Not reported: no evidence either way.
-	if v, _ := multiplicityJudge(pat(""), pat("q"), false); v != 1 {
+	if v, _ := multiplicityJudge(pat(""), pat("q"), false, 0); v != 1 {
 		t.Errorf("unreported multiplicity: P = %v, want 1", v)
 	}
 }
@@ -193,12 +193,12 @@ func TestScoreDiastereotopicSplit(t *testing.T) {
 // pattern ("dd"): both were not resolved in the observation.
 func TestMultiplicityMIsNeutral(t *testing.T) {
 	m := pat("m")
-	a, _ := multiplicityJudge(m, pat("dd"), false)
-	b, _ := multiplicityJudge(m, pat("m"), false)
+	a, _ := multiplicityJudge(m, pat("dd"), false, 0)
+	b, _ := multiplicityJudge(m, pat("m"), false, 0)
 	if a != b {
 		t.Errorf("P(m | dd) = %.3f, P(m | m) = %.3f: want equal", a, b)
 	}
-	s, _ := multiplicityJudge(m, pat("s"), false)
+	s, _ := multiplicityJudge(m, pat("s"), false, 0)
 	if !(s < a) {
 		t.Errorf("P(m | s) = %.3f not below P(m | dd) = %.3f", s, a)
 	}
