@@ -380,29 +380,29 @@ func scoredPattern(m spectrum.Multiplicity) spectrum.Multiplicity {
 // order or strongly coupled): "m" says only that the lines were not
 // resolved, so it must not favour candidates whose prediction is vaguer.
 const (
-	pExact           = 0.70 // reported as predicted
-	pRegrouped       = 0.15 // same number of partners, grouped differently (dd ↔ t)
-	pApparent        = 0.50 // an "apparent" pattern with the predicted number of partners
-	pUnresolvedOne   = 0.10 // one coupling partner fewer than predicted (dt → t)
-	pUnresolvedMore  = 0.03 // two or more partners fewer
-	pExtraOne        = 0.02 // one partner more than predicted
-	pExtraMore       = 0.004
-	pSplitSinglet    = 0.005 // predicted singlet reported split
-	pObservedM       = 0.40  // any predicted splitting reported as m
-	pSingletAsM      = 0.03  // predicted singlet reported as m (overlap)
-	pPredMObservedM  = 0.40  // predicted m (strongly coupled) reported as m
-	pPredMObservedS  = 0.03  // predicted m reported as s
-	pPredMOther      = 0.12  // predicted m reported with a first-order pattern
-	pBroadFactor     = 0.7   // a "br" prefix on a non-exchangeable signal
-	pExchBroadS      = 0.50  // exchangeable H reported as br s
-	pExchS           = 0.35  // exchangeable H reported as s
-	pExchOther       = 0.05  // exchangeable H reported coupled or as m
+	pExact          = 0.70 // reported as predicted
+	pRegrouped      = 0.15 // same number of partners, grouped differently (dd ↔ t)
+	pApparent       = 0.50 // an "apparent" pattern with the predicted number of partners
+	pUnresolvedOne  = 0.10 // one coupling partner fewer than predicted (dt → t)
+	pUnresolvedMore = 0.03 // two or more partners fewer
+	pExtraOne       = 0.02 // one partner more than predicted
+	pExtraMore      = 0.004
+	pSplitSinglet   = 0.005 // predicted singlet reported split
+	pObservedM      = 0.40  // any predicted splitting reported as m
+	pSingletAsM     = 0.03  // predicted singlet reported as m (overlap)
+	pPredMObservedM = 0.40  // predicted m (strongly coupled) reported as m
+	pPredMObservedS = 0.03  // predicted m reported as s
+	pPredMOther     = 0.12  // predicted m reported with a first-order pattern
+	pBroadFactor    = 0.7   // a "br" prefix on a non-exchangeable signal
+	pExchBroadS     = 0.50  // exchangeable H reported as br s
+	pExchS          = 0.35  // exchangeable H reported as s
+	pExchOther      = 0.05  // exchangeable H reported coupled or as m
 	// Couplings through an N–H or O–H are absent under fast exchange (the
 	// n+1 rule's heteroatom exception) but common for amide N–H and for
 	// O–H in dry CDCl3: a rule of thumb, not a law (common practice).
-	pSlowExchange = 0.12 // C–H reported split also by the X–H next to it
-	pExchCoupled  = 0.20 // exchangeable H reported split by the C–H next to it
-	pBroadSingletSeq = 0.15  // non-exchangeable singlet reported as br s
+	pSlowExchange    = 0.12 // C–H reported split also by the X–H next to it
+	pExchCoupled     = 0.20 // exchangeable H reported split by the C–H next to it
+	pBroadSingletSeq = 0.15 // non-exchangeable singlet reported as br s
 )
 
 // multiplicityLogP returns log P(observed pattern | predicted pattern).
