@@ -442,6 +442,9 @@ func (p *Predictor) couple(m *mol, w *work, groups []hgroup, reps, order []int, 
 	for id := range envs {
 		e := &envs[id]
 		e.SlowExchangeH = slowExchangeH(m, groups[reps[order[id]]].atom, e.Exchangeable, envs, groups)
+		if !e.Exchangeable {
+			e.LongRangeH = allylicH(m, groups[reps[order[id]]].atom)
+		}
 		if e.Exchangeable || broad[id] {
 			continue
 		}
@@ -785,6 +788,40 @@ func slowExchangeH(m *mol, a int, exchangeable bool, envs []Environment, groups 
 		for k := range groups {
 			if groups[k].atom == x && envs[groups[k].env].Exchangeable {
 				n += groups[k].h
+			}
+		}
+	}
+	return n
+}
+
+// allylicH counts the hydrogens four bonds from those of carbon a across a
+// non-aromatic C=C bond (allylic ⁴J, H–C=C–C–H): from an alkene C–H, the
+// H on sp3 carbons bonded to its partner; from an sp3 C–H, the H on the
+// far carbon of each alkene next to it.
+func allylicH(m *mol, a int) int {
+	g := m.g
+	if g.Atoms[a].Element != molecule.C || m.arom[a] {
+		return 0
+	}
+	n := 0
+	for _, nb := range g.Neighbors(a) {
+		c := nb.Atom
+		if g.Atoms[c].Element != molecule.C || m.arom[c] {
+			continue
+		}
+		switch {
+		case nb.Order == molecule.Double:
+			for _, nb2 := range g.Neighbors(c) {
+				x := nb2.Atom
+				if x != a && nb2.Order == molecule.Single && g.Atoms[x].Element == molecule.C && m.multi[x] == 0 {
+					n += g.Atoms[x].HCount
+				}
+			}
+		case nb.Order == molecule.Single && m.multi[a] == 0:
+			for _, nb2 := range g.Neighbors(c) {
+				if nb2.Order == molecule.Double && g.Atoms[nb2.Atom].Element == molecule.C && !m.arom[nb2.Atom] {
+					n += g.Atoms[nb2.Atom].HCount
+				}
 			}
 		}
 	}

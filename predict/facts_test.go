@@ -351,3 +351,32 @@ func TestSlowExchangeH(t *testing.T) {
 		}
 	}
 }
+
+// TestLongRangeH counts allylic ⁴J partners (H–C=C–C–H, about 1–2 Hz;
+// common practice).
+func TestLongRangeH(t *testing.T) {
+	p := New(Options{})
+	for _, tc := range []struct {
+		name   string
+		smiles string
+		atom   int
+		want   int
+	}{
+		{"crotyl alcohol =CH next to CH2", "CC=CCO", 2, 3},
+		{"crotyl alcohol =CH next to CH3", "CC=CCO", 1, 2},
+		{"crotyl alcohol CH3", "CC=CCO", 0, 1},
+		{"crotyl alcohol CH2", "CC=CCO", 3, 1},
+		{"toluene CH3 (aromatic, not counted)", "Cc1ccccc1", 0, 0},
+		{"propane CH3", "CCC", 0, 0},
+	} {
+		sp := predictSMILES(t, p, tc.smiles)
+		es := envOn(sp, tc.atom)
+		if len(es) != 1 {
+			t.Errorf("%s: %d environments on atom %d", tc.name, len(es), tc.atom)
+			continue
+		}
+		if es[0].LongRangeH != tc.want {
+			t.Errorf("%s (%s) atom %d: LongRangeH = %d, want %d", tc.name, tc.smiles, tc.atom, es[0].LongRangeH, tc.want)
+		}
+	}
+}

@@ -146,6 +146,11 @@ type Environment struct {
 	// shows them (common practice), so an observed extra splitting by up
 	// to this many hydrogens is compatible.
 	SlowExchangeH int
+	// LongRangeH counts the hydrogens four bonds away across a C=C bond
+	// (allylic ⁴J, H–C=C–C–H, about 1–2 Hz; common practice): left out of
+	// Multiplicity because they are usually unresolved, but a resolved one
+	// (the q of a propenyl =CH reported "dq") is compatible.
+	LongRangeH int
 	// Breakdown is the shift's derivation: base value and increments in
 	// ppm that sum to Shift (Options.Explain only).
 	Breakdown []Term

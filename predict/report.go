@@ -40,11 +40,13 @@ type ReportEnvironment struct {
 	Exchangeable   bool      `json:"exchangeable"`
 	Diastereotopic bool      `json:"diastereotopic"`
 	// SlowExchangeH: see Environment.SlowExchangeH.
-	SlowExchangeH int              `json:"slow_exchange_h,omitempty"`
-	Neighbours    []int            `json:"neighbours"`
-	Couplings     []ReportCoupling `json:"couplings"`
-	Breakdown     []Term           `json:"breakdown"`
-	Reasons       []string         `json:"reasons"`
+	SlowExchangeH int `json:"slow_exchange_h,omitempty"`
+	// LongRangeH: see Environment.LongRangeH.
+	LongRangeH int              `json:"long_range_h,omitempty"`
+	Neighbours []int            `json:"neighbours"`
+	Couplings  []ReportCoupling `json:"couplings"`
+	Breakdown  []Term           `json:"breakdown"`
+	Reasons    []string         `json:"reasons"`
 }
 
 // ReportCoupling is one coupling of an environment's hydrogen: Env is the
@@ -76,7 +78,7 @@ func NewReport(smiles string, g *molecule.Graph, mhz float64, s *Spectrum) Repor
 		re := ReportEnvironment{
 			ID: e.ID, Atoms: e.Atoms, H: e.H, Kind: e.Kind,
 			Shift: e.Shift, Sigma: e.Sigma, ShiftMin: e.ShiftMin, ShiftMax: e.ShiftMax,
-			Multiplicity: e.Multiplicity, J: e.J, Exchangeable: e.Exchangeable, Diastereotopic: e.Diastereotopic, SlowExchangeH: e.SlowExchangeH,
+			Multiplicity: e.Multiplicity, J: e.J, Exchangeable: e.Exchangeable, Diastereotopic: e.Diastereotopic, SlowExchangeH: e.SlowExchangeH, LongRangeH: e.LongRangeH,
 			Neighbours: []int{}, Couplings: []ReportCoupling{}, Breakdown: e.Breakdown, Reasons: e.Reasons,
 		}
 		if re.J == nil {

@@ -156,7 +156,7 @@ func explainCandidate(sc *scorer, j *job, sp *predict.Spectrum, smi string) Cand
 				as.Breakdown = append(as.Breakdown, ShiftTerm{Term: t, PPM: b.PPM})
 			}
 			mults = append(mults, e.Multiplicity)
-			_, verdict := multiplicityJudge(p.mult, pe.mult, pe.exchangeable, pe.slow)
+			_, verdict := multiplicityJudge(p.mult, pe.mult, pe.exchangeable, pe.slow, pe.longRange)
 			reasons = append(reasons, multiplicityReason(sp, e, pt.half, verdict, len(parts) > 1))
 			as.Details = append(as.Details, EnvironmentDetail{
 				Environment: e.ID, Atoms: e.Atoms, H: h, Split: pt.half, Kind: e.Kind,

@@ -300,7 +300,7 @@ func toEnvs(sp *predict.Spectrum, buf []predEnv) []predEnv {
 		buf = append(buf, predEnv{
 			h: e.H, shift: e.Shift, lo: math.Min(lo, e.Shift), hi: math.Max(hi, e.Shift), sigma: e.Sigma,
 			mult: e.Pattern, j: e.J,
-			exchangeable: e.Exchangeable, diastereotopic: e.Diastereotopic, slow: e.SlowExchangeH,
+			exchangeable: e.Exchangeable, diastereotopic: e.Diastereotopic, slow: e.SlowExchangeH, longRange: e.LongRangeH,
 		})
 	}
 	return buf

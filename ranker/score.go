@@ -168,6 +168,9 @@ type predEnv struct {
 	// slow counts hydrogens that couple with this environment only under
 	// slow exchange (predict.Environment.SlowExchangeH).
 	slow int
+	// longRange counts hydrogens with a small long-range coupling
+	// (predict.Environment.LongRangeH).
+	longRange int
 }
 
 // obsPeak is the part of an observed peak the likelihood reads.
@@ -236,7 +239,7 @@ func (s *scorer) pairTerms(e *predEnv, p *obsPeak) terms {
 	shift := logTRel(d, s.m.Nu) - math.Log(width+sg/s.t0)
 	return terms{
 		shift: shift,
-		mult:  multiplicityLogP(p.mult, e.mult, e.exchangeable, e.slow),
+		mult:  multiplicityLogP(p.mult, e.mult, e.exchangeable, e.slow, e.longRange),
 		j:     s.jTerm(e.j, p.j),
 	}
 }
@@ -400,22 +403,26 @@ const (
 	// Couplings through an N–H or O–H are absent under fast exchange (the
 	// n+1 rule's heteroatom exception) but common for amide N–H and for
 	// O–H in dry CDCl3: a rule of thumb, not a law (common practice).
-	pSlowExchange    = 0.12 // C–H reported split also by the X–H next to it
-	pExchCoupled     = 0.20 // exchangeable H reported split by the C–H next to it
+	pSlowExchange = 0.12 // C–H reported split also by the X–H next to it
+	pExchCoupled  = 0.20 // exchangeable H reported split by the C–H next to it
+	// A small long-range coupling (allylic ⁴J ≈ 1–2 Hz) is often
+	// unresolved, but at 400 MHz and above it is often reported too.
+	pLongRange       = 0.15
 	pBroadSingletSeq = 0.15 // non-exchangeable singlet reported as br s
 )
 
 // multiplicityLogP returns log P(observed pattern | predicted pattern).
-func multiplicityLogP(obs, pred spectrum.Multiplicity, exchangeable bool, slow int) float64 {
-	p, _ := multiplicityJudge(obs, pred, exchangeable, slow)
+func multiplicityLogP(obs, pred spectrum.Multiplicity, exchangeable bool, slow, longRange int) float64 {
+	p, _ := multiplicityJudge(obs, pred, exchangeable, slow, longRange)
 	return math.Log(p)
 }
 
 // multiplicityJudge returns P(observed | predicted) and a short verdict for
 // the explanation. slow is the number of hydrogens that couple only under
-// slow exchange (N–H or O–H next to a C–H): splitting by up to that many
+// slow exchange (N–H or O–H next to a C–H), longRange the number with a
+// small long-range coupling (allylic ⁴J): splitting by up to that many
 // more partners than predicted is compatible.
-func multiplicityJudge(obs, pred spectrum.Multiplicity, exchangeable bool, slow int) (float64, string) {
+func multiplicityJudge(obs, pred spectrum.Multiplicity, exchangeable bool, slow, longRange int) (float64, string) {
 	if !obs.IsReported() {
 		return 1, "not reported"
 	}
@@ -430,13 +437,16 @@ func multiplicityJudge(obs, pred spectrum.Multiplicity, exchangeable bool, slow 
 		}
 		return pExchOther, "unusual for exchangeable H (usually a singlet)"
 	}
-	if slow > 0 && !obs.IsMultiplet() && !pred.IsMultiplet() && !obs.SamePattern(pred) {
-		if no, np := obs.Partners(), pred.Partners(); no > np && no <= np+slow {
-			p := pSlowExchange
+	if slow+longRange > 0 && !obs.IsMultiplet() && !pred.IsMultiplet() && !obs.SamePattern(pred) {
+		if no, np := obs.Partners(), pred.Partners(); no > np && no <= np+slow+longRange {
+			p, why := pSlowExchange, "compatible: also coupled to the N–H/O–H next to it (slow exchange)"
+			if no <= np+longRange {
+				p, why = pLongRange, "compatible: a small long-range coupling (allylic ⁴J) resolved"
+			}
 			if obs.Broad() {
 				p *= pBroadFactor
 			}
-			return p, "compatible: also coupled to the N–H/O–H next to it (slow exchange)"
+			return p, why
 		}
 	}
 	if obs.IsMultiplet() {

@@ -29,7 +29,7 @@ func TestMultiplicityTable(t *testing.T) {
 	// The table's order, not its values, is the check: exact beats
 	// compatible beats contradicting (common practice in reading spectra).
 	p := func(obs, pred string) float64 {
-		v, _ := multiplicityJudge(pat(obs), pat(pred), false, 0)
+		v, _ := multiplicityJudge(pat(obs), pat(pred), false, 0, 0)
 		return v
 	}
 	tests := []struct {
@@ -50,13 +50,13 @@ func TestMultiplicityTable(t *testing.T) {
 		}
 	}
 	// Exchangeable H: a broad singlet is the most likely report.
-	bs, _ := multiplicityJudge(pat("br s"), pat("br s"), true, 0)
-	tt, _ := multiplicityJudge(pat("t"), pat("br s"), true, 0)
+	bs, _ := multiplicityJudge(pat("br s"), pat("br s"), true, 0, 0)
+	tt, _ := multiplicityJudge(pat("t"), pat("br s"), true, 0, 0)
 	if !(bs > tt) {
 		t.Errorf("exchangeable: P(br s) = %.3f not above P(t) = %.3f", bs, tt)
 	}
 	// Not reported: no evidence either way.
-	if v, _ := multiplicityJudge(pat(""), pat("q"), false, 0); v != 1 {
+	if v, _ := multiplicityJudge(pat(""), pat("q"), false, 0, 0); v != 1 {
 		t.Errorf("unreported multiplicity: P = %v, want 1", v)
 	}
 }
@@ -193,13 +193,44 @@ func TestScoreDiastereotopicSplit(t *testing.T) {
 // pattern ("dd"): both were not resolved in the observation.
 func TestMultiplicityMIsNeutral(t *testing.T) {
 	m := pat("m")
-	a, _ := multiplicityJudge(m, pat("dd"), false, 0)
-	b, _ := multiplicityJudge(m, pat("m"), false, 0)
+	a, _ := multiplicityJudge(m, pat("dd"), false, 0, 0)
+	b, _ := multiplicityJudge(m, pat("m"), false, 0, 0)
 	if a != b {
 		t.Errorf("P(m | dd) = %.3f, P(m | m) = %.3f: want equal", a, b)
 	}
-	s, _ := multiplicityJudge(m, pat("s"), false, 0)
+	s, _ := multiplicityJudge(m, pat("s"), false, 0, 0)
 	if !(s < a) {
 		t.Errorf("P(m | s) = %.3f not below P(m | dd) = %.3f", s, a)
 	}
+}
+
+// TestMultiplicityOptionalCouplings: splitting by N–H/O–H (slow exchange)
+// or by a small allylic ⁴J is compatible, not a contradiction, but still
+// less likely than the predicted pattern (common practice).
+func TestMultiplicityOptionalCouplings(t *testing.T) {
+	for _, tc := range []struct {
+		name            string
+		obs, pred       string
+		slow, longRange int
+		wantCompatible  bool
+	}{
+		{"amide NCH2 d from the NH", "d", "s", 1, 0, true},
+		{"propenyl =CH dq", "dq", "d", 0, 3, true},
+		{"two more partners than the NH gives", "t", "s", 1, 0, false},
+		{"no optional partners", "d", "s", 0, 0, false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			p, why := multiplicityJudge(pat(tc.obs), pat(tc.pred), false, tc.slow, tc.longRange)
+			exact, _ := multiplicityJudge(pat(tc.pred), pat(tc.pred), false, tc.slow, tc.longRange)
+			assert.Less(t, p, exact, why)
+			if tc.wantCompatible {
+				assert.GreaterOrEqual(t, p, 0.1, why)
+			} else {
+				assert.Less(t, p, 0.03, why)
+			}
+		})
+	}
+	// The N–H itself reported as a triplet next to a CH2.
+	p, why := multiplicityJudge(pat("br t"), pat("br s"), true, 2, 0)
+	assert.Greater(t, p, pExchOther, why)
 }
