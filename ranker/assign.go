@@ -230,10 +230,66 @@ func (s *solver) solve(p *assignProblem) assignment {
 			s.runSearch()
 		}
 	}
+	proven := s.nodes < s.limit
+	if !proven {
+		s.improve()
+	}
 	clear(s.load)
 	cost := p.evaluateWith(s.bestP1, s.bestP2, s.load)
 	clear(s.load)
-	return assignment{first: s.bestP1, second: s.bestP2, cost: cost, proven: s.nodes < s.limit}
+	return assignment{first: s.bestP1, second: s.bestP2, cost: cost, proven: proven}
+}
+
+// improveRounds bounds the local search of an unproven assignment.
+const improveRounds = 64
+
+// improve polishes the incumbent of a search that ran out of nodes by
+// local search: moving one environment to another of its options, or
+// exchanging the peaks of two environments, as long as the total cost
+// drops. The result is still not proven optimal, but no single move or
+// exchange improves it, so an incumbent that piles many hydrogens on one
+// small peak while another peak stays empty cannot survive.
+func (s *solver) improve() {
+	p := s.p
+	n := p.nEnv
+	eval := func() float64 {
+		clear(s.load)
+		return p.evaluateWith(s.bestP1, s.bestP2, s.load)
+	}
+	cur := eval()
+	for round := 0; round < improveRounds; round++ {
+		improved := false
+		for d, i := range s.order {
+			for _, o := range s.opts[d] {
+				p1, p2 := s.bestP1[i], s.bestP2[i]
+				if o.p1 == p1 && o.p2 == p2 {
+					continue
+				}
+				s.bestP1[i], s.bestP2[i] = o.p1, o.p2
+				if c := eval(); c < cur-1e-12 {
+					cur, improved = c, true
+					continue
+				}
+				s.bestP1[i], s.bestP2[i] = p1, p2
+			}
+		}
+		for a := 0; a < n; a++ {
+			for b := a + 1; b < n; b++ {
+				if s.bestP2[a] >= 0 || s.bestP2[b] >= 0 || s.bestP1[a] == s.bestP1[b] {
+					continue
+				}
+				s.bestP1[a], s.bestP1[b] = s.bestP1[b], s.bestP1[a]
+				if c := eval(); c < cur-1e-12 {
+					cur, improved = c, true
+					continue
+				}
+				s.bestP1[a], s.bestP1[b] = s.bestP1[b], s.bestP1[a]
+			}
+		}
+		if !improved {
+			return
+		}
+	}
 }
 
 // quickNodes is the node budget of the first, price-free search.

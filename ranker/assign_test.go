@@ -1,6 +1,7 @@
 package ranker
 
 import (
+	"github.com/stretchr/testify/require"
 	"math"
 	"math/rand/v2"
 	"testing"
@@ -154,5 +155,35 @@ func BenchmarkSolve(b *testing.B) {
 	b.ResetTimer()
 	for i := 0; b.Loop(); i++ {
 		s.solve(probs[i%len(probs)])
+	}
+}
+
+// TestImproveReachesLocalOptimum: the local search that polishes an
+// unproven assignment starts from a poor incumbent (every environment on
+// peak 0) and must end no worse than it began, at a point where no single
+// move improves the cost, and never below the exact optimum.
+func TestImproveReachesLocalOptimum(t *testing.T) {
+	r := rand.New(rand.NewPCG(3, 4))
+	var s solver
+	for trial := 0; trial < 200; trial++ {
+		p := randomProblem(r, 2+r.IntN(5), 2+r.IntN(4))
+		exact := s.solve(p).cost
+		for i := range s.bestP1 {
+			s.bestP1[i], s.bestP2[i] = 0, -1
+		}
+		start := p.evaluate(s.bestP1, s.bestP2)
+		s.improve()
+		got := p.evaluate(s.bestP1, s.bestP2)
+		require.LessOrEqual(t, got, start+1e-9, "trial %d: local search made it worse", trial)
+		require.GreaterOrEqual(t, got, exact-1e-9, "trial %d: below the exact optimum", trial)
+		for d, i := range s.order {
+			for _, o := range s.opts[d] {
+				p1, p2 := s.bestP1[i], s.bestP2[i]
+				s.bestP1[i], s.bestP2[i] = o.p1, o.p2
+				c := p.evaluate(s.bestP1, s.bestP2)
+				s.bestP1[i], s.bestP2[i] = p1, p2
+				require.GreaterOrEqual(t, c, got-1e-9, "trial %d: a single move still improves", trial)
+			}
+		}
 	}
 }
