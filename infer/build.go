@@ -118,6 +118,9 @@ func (a *analysis) build(parts []part, v variant, relaxed bool) (*isomers.Spec, 
 			if use(pt.shiftID) {
 				c.Bonds = isomers.OneDouble
 			}
+			if !relaxed && pt.nextToN && use(pt.nextToNID) {
+				c.Neighbours = append(c.Neighbours, isomers.NeighbourRule{Elements: []molecule.Element{molecule.N}, Min: 1, Max: isomers.Unbounded})
+			}
 		case kFormyl:
 			if use(pt.shiftID) {
 				c.Bonds = isomers.OneDouble

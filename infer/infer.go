@@ -130,6 +130,10 @@ type part struct {
 	pairID string
 	tmpl   template
 	tmplID string
+	// nextToN requires a ring nitrogen next to an aromatic C–H (see
+	// withRingN), with its constraint
+	nextToN   bool
+	nextToNID string
 }
 
 // option is one way to read a unit, with its log prior.
@@ -436,6 +440,37 @@ func (a *analysis) withShift(pt part) part {
 	if a.constraint(id, "shift window", reason, pt.peaks, shiftWindowConfidence) {
 		pt.shiftID = id
 	}
+	if pt.kind == kSP2 && len(pt.peaks) == 1 {
+		pt = a.withRingN(pt)
+	}
+	return pt
+}
+
+// withRingN reads an aromatic C–H far downfield with a coupling of
+// 4.0–5.6 Hz as the C–H next to a ring nitrogen: pyridine and pyrimidine
+// H-2/H-6 lie at 8.4–8.8 ppm with J(2,3) ≈ 4.5–5.0 Hz, while benzene
+// ortho couplings are 7–9 Hz and meta 1–3 Hz (Pretsch, Bühlmann,
+// Badertscher, Structure Determination of Organic Compounds, coupling
+// tables; from memory).
+func (a *analysis) withRingN(pt part) part {
+	p := a.peaks[pt.peaks[0]]
+	if a.f.Count(molecule.N) == 0 || p.Lo < ringNMinShift || p.Hi > ringNMaxShift {
+		return pt
+	}
+	var jn float64
+	for _, j := range p.Pattern.J {
+		if j >= ringNJLo && j <= ringNJHi {
+			jn = j
+		}
+	}
+	if jn == 0 {
+		return pt
+	}
+	id := fmt.Sprintf("peak-%d-next-to-ring-n", p.Number)
+	reason := fmt.Sprintf("peak %d (δ %.2f, J = %.1f Hz): a heteroaromatic C–H next to a ring nitrogen (pyridine H-2/H-6 type: far downfield, J(2,3) of 4–5.5 Hz)", p.Number, p.Shift, jn)
+	if a.constraint(id, "fragment", reason, pt.peaks, ringNConfidence) {
+		pt.nextToN, pt.nextToNID = true, id
+	}
 	return pt
 }
 
@@ -578,7 +613,7 @@ func (a *analysis) peakOptions(i int) []option {
 	multi := pat.Kind != FirstOrder || pat.Apparent || broad
 	if multi && n >= 2 && kind != kSP2 {
 		// several environments may share the signal
-		for _, c := range compositions(n, kind) {
+		for _, c := range compositions(n, kind, p.Hi-p.Lo > methylMaxSpread) {
 			var parts []part
 			for _, hc := range c.groups {
 				parts = append(parts, a.withShift(a.basePart(i, molecule.C, hc[0], hc[1], kind)))
@@ -638,7 +673,7 @@ func (a *analysis) peakOptions(i int) []option {
 	}
 	if multi && n >= 2 && kind == kSP3 && (a.f.Count(molecule.O) > 0 || a.f.Count(molecule.N) > 0) {
 		// an O–H or N–H hidden in an aliphatic multiplet
-		for _, c := range compositions(n-1, kind) {
+		for _, c := range compositions(n-1, kind, p.Hi-p.Lo > methylMaxSpread) {
 			var parts []part
 			for _, hc := range c.groups {
 				parts = append(parts, a.withShift(a.basePart(i, molecule.C, hc[0], hc[1], kind)))
@@ -666,9 +701,13 @@ type composition struct {
 // CH3, CH2 and CH groups (sp3) or CH and =CH2 groups (others), the
 // likelier first: in an aliphatic multiplet CH2 groups are the rule,
 // methyls usually give their own resolved signal.
-func compositions(n int, kind partKind) []composition {
+func compositions(n int, kind partKind, spread bool) []composition {
 	w := map[int]float64{3: 0.3, 2: 1.0, 1: 0.6}
 	switch {
+	case spread:
+		// a signal reported over a range wider than a methyl's lines is
+		// rarely a methyl: the three H of a CH3 share one shift
+		w = map[int]float64{3: 0.1, 2: 1.0, 1: 0.6}
 	case kind != kSP3 && n == 2:
 		// a 2H signal at 4.5–6.3 is most often a terminal =CH2
 		w = map[int]float64{2: 1.0, 1: 0.8}

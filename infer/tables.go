@@ -149,3 +149,23 @@ const (
 	fragmentConfidence    = 0.9
 	shiftWindowConfidence = 0.98
 )
+
+// A C–H next to a ring nitrogen (see withRingN): the shift window, the
+// coupling window and the confidence of the reading. Pyridine H-2/H-6
+// 8.4–8.8 ppm, quinoline H-2 8.9, J(2,3) 4.2–5.5 Hz (Pretsch, Bühlmann,
+// Badertscher, Structure Determination of Organic Compounds; from
+// memory).
+const (
+	ringNMinShift   = 8.25
+	ringNMaxShift   = 9.4
+	ringNJLo        = 4.0
+	ringNJHi        = 5.6
+	ringNConfidence = 0.9
+)
+
+// methylMaxSpread, ppm: a peak reported as a range wider than this is
+// read as a methyl only with a low prior. A CH3 gives one signal whose
+// lines span at most J-sized couplings (under 0.05 ppm at 400 MHz), so a
+// range such as "2.00–1.65 (m, 3H)" holds several CH or CH2 hydrogens
+// (common practice).
+const methylMaxSpread = 0.1
