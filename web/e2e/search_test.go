@@ -175,6 +175,21 @@ func testConstrained(p *page) {
 	}
 	p.do("cancel the all-isomers run", chromedp.Click(chromedp.ID("cancel-job")))
 	p.waitFor("cancelled or done", `["cancelled", "succeeded"].includes(document.querySelector("#job-status").dataset.status)`, 60*time.Second)
+
+	// Editing the re-run as a new unknown keeps the constraint off, and
+	// says so, until it is switched on again.
+	p.open("/jobs/" + id2)
+	waitDone(p)
+	p.do("edit as a new unknown", chromedp.Click(chromedp.ID("resubmit")))
+	p.waitFor("form with the switched-off constraint", fmt.Sprintf(`location.pathname === "/" &&
+		!document.querySelector("#disable-row").hidden && document.querySelector("#disable-note").textContent.includes(%q)`, off), 10*time.Second)
+	var visible bool
+	p.eval(`(() => { const r = document.querySelector("#disable-row"); r.closest("details").open = true; return r.offsetParent !== null; })()`, &visible)
+	if !visible {
+		p.t.Errorf("the note on switched-off constraints is not displayed")
+	}
+	p.do("switch them on again", chromedp.Click(chromedp.ID("disable-clear")))
+	p.waitFor("note gone", `document.querySelector("#disable-row").offsetParent === null`, 5*time.Second)
 }
 
 func testStoppedEarly(p *page) {
