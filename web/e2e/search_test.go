@@ -313,6 +313,13 @@ func testCarbonField(p *page) {
 	if scored := len(cand.Candidates) > 0 && len(cand.Candidates[0].CarbonAssignments) > 0; scored != (predicted > 0) {
 		p.t.Errorf("13C plot draws %d predicted carbons; the service's top candidate has %d 13C assignments", predicted, len(cand.Candidates[0].CarbonAssignments))
 	}
+	if len(cand.Candidates) > 0 && len(cand.Candidates[0].CarbonAssignments) > 0 {
+		var rows int
+		p.eval(`document.querySelector("#carbon-explain").hidden ? -1 : document.querySelectorAll("#carbon-rows tr").length`, &rows)
+		if rows != len(cand.Candidates[0].CarbonAssignments) {
+			p.t.Errorf("13C table has %d rows, the service's top candidate %d 13C assignments", rows, len(cand.Candidates[0].CarbonAssignments))
+		}
+	}
 	p.shotOf("#carbon-figure", "carbon-plot")
 
 	dl := p.t.TempDir()
