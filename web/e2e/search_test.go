@@ -13,6 +13,7 @@ import (
 	"time"
 
 	"github.com/chromedp/cdproto/browser"
+	"github.com/chromedp/cdproto/emulation"
 	"github.com/chromedp/chromedp"
 )
 
@@ -229,6 +230,21 @@ func testStoppedEarly(p *page) {
 		p.t.Errorf("candidate list note %q, want it to say the search stopped early", got)
 	}
 	p.shot("stopped-early-1280")
+
+	// Printed, the result keeps the search status and the caution and
+	// drops the controls.
+	if _, err := chromedp.Call(p.ctx, emulation.SetEmulatedMedia, emulation.SetEmulatedMediaParams{Media: "print"}); err != nil {
+		p.t.Fatalf("emulate print: %v", err)
+	}
+	var printed struct{ Scope, Caution, Badge, Downloads bool }
+	p.eval(`(() => { const shown = (sel) => { const e = document.querySelector(sel); return !!e && e.offsetParent !== null; };
+		return {Scope: shown("#search-scope"), Caution: shown(".caution"), Badge: shown("#job-status"), Downloads: shown(".downloads")}; })()`, &printed)
+	if !printed.Scope || !printed.Caution || !printed.Badge || printed.Downloads {
+		p.t.Errorf("printed page shows %+v; want the search status, the caution and the badge, without the download buttons", printed)
+	}
+	if _, err := chromedp.Call(p.ctx, emulation.SetEmulatedMedia, emulation.SetEmulatedMediaParams{}); err != nil {
+		p.t.Fatalf("end print emulation: %v", err)
+	}
 
 	dl := p.t.TempDir()
 	if _, err := chromedp.CallBrowser(p.ctx, browser.SetDownloadBehavior, browser.SetDownloadBehaviorParams{

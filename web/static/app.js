@@ -470,11 +470,24 @@ function carbonText(v) {
   }).join(", ");
 }
 
+// readCarbon reads the 13C field's text as the page can: JSON peak
+// objects or journal text ({peaks} or {error, pos, token}); a JCAMP-DX file
+// is left to the service ({jcamp: true}).
+function readCarbon(t) {
+  const head = t.trimStart();
+  if (head.startsWith("##")) return { jcamp: true };
+  if (head.startsWith("[") || head.startsWith("{")) {
+    try { return parseCarbonText(carbonText(JSON.parse(t))); } catch (e) { return { error: "not valid JSON", pos: 0, token: "" }; }
+  }
+  return parseCarbonText(t);
+}
+
 function updateCarbonNote() {
   const t = $("carbon-text").value;
   const note = $("carbon-note");
   if (!t.trim()) { note.textContent = ""; note.classList.remove("bad"); return; }
-  const r = parseCarbonText(t);
+  const r = readCarbon(t);
+  if (r.jcamp) { note.textContent = "a JCAMP-DX file: the service reads its 13C peak table"; note.classList.remove("bad"); return; }
   note.classList.toggle("bad", !!r.error);
   note.textContent = r.error
     ? `Not read yet: ${r.error} at character ${r.pos + 1}${r.token ? ` (“${r.token}”)` : ""}; the service has the last word.`
@@ -585,8 +598,8 @@ function showJobState(job) {
     const cp = req.carbon_peaks;
     let nc = "";
     if (typeof cp === "string") {
-      const r = parseCarbonText(cp);
-      if (!r.error) nc = `${r.peaks.length} 13C peak${r.peaks.length === 1 ? "" : "s"}`;
+      const r = readCarbon(cp);
+      if (r.peaks) nc = `${r.peaks.length} 13C peak${r.peaks.length === 1 ? "" : "s"}`;
     } else if (cp) nc = "13C peaks";
     $("job-request").textContent = [req.formula, req.mhz ? `${req.mhz} MHz` : "", req.solvent || "", n, nc].filter(Boolean).join(" · ");
   }
@@ -810,9 +823,8 @@ function observedCarbon(data, req) {
   }
   const cp = req?.carbon_peaks;
   if (cp === undefined || cp === null) return [];
-  const text = typeof cp === "string" ? cp : carbonText(cp);
-  const r = parseCarbonText(text);
-  return r.error ? [] : r.peaks.map((p) => ({ ...p, hi: p.hi !== p.lo ? p.hi : undefined, lo: p.hi !== p.lo ? p.lo : undefined }));
+  const r = readCarbon(typeof cp === "string" ? cp : carbonText(cp));
+  return r.error || r.jcamp ? [] : r.peaks.map((p) => ({ ...p, hi: p.hi !== p.lo ? p.hi : undefined, lo: p.hi !== p.lo ? p.lo : undefined }));
 }
 
 let review = null; // {job, data, candidates, observed, mhz, selected, compare, peakSel, zoom}
