@@ -66,7 +66,11 @@ func (s *Server) feasibilityFields(jr JobRequest, rr ranker.Request) []FieldErro
 	_, err := s.rank(ctx, rr, func(ranker.Progress) {})
 	var re *ranker.RequestError
 	if errors.As(err, &re) {
-		return []FieldError{requestErrorField(re, structured)}
+		carbon := "/peaks"
+		if cp := bytes.TrimSpace(jr.CarbonPeaks); len(cp) > 0 && string(cp) != "null" {
+			carbon = "/carbon_peaks"
+		}
+		return []FieldError{requestErrorField(re, structured, carbon)}
 	}
 	return nil
 }
@@ -74,8 +78,9 @@ func (s *Server) feasibilityFields(jr JobRequest, rr ranker.Request) []FieldErro
 // requestErrorField maps a ranker.RequestError onto the request's JSON:
 // "formula" → /formula, "top" → /options/top_k, "require[2]" →
 // /options/require/2, "peaks[3].j" → /peaks/3/j for a structured peak list
-// (else /peaks, with the position in the text).
-func requestErrorField(re *ranker.RequestError, structured bool) FieldError {
+// (else /peaks, with the position in the text), "carbon..." → carbon, the
+// member the 13C list came from (/carbon_peaks or /peaks).
+func requestErrorField(re *ranker.RequestError, structured bool, carbon string) FieldError {
 	f := FieldError{Detail: re.Msg, Token: re.Token}
 	if re.Token != "" || re.Pos > 0 {
 		pos := re.Pos
@@ -97,6 +102,11 @@ func requestErrorField(re *ranker.RequestError, structured bool) FieldError {
 		if structured && strings.HasPrefix(name, "peaks[") {
 			f.Field = peakPathPointer(name)
 		} else if rest := strings.TrimPrefix(strings.TrimPrefix(name, "peaks"), "."); rest != "" {
+			f.Detail = rest + ": " + re.Msg
+		}
+	case name == "carbon" || strings.HasPrefix(name, "carbon."):
+		f.Field = carbon
+		if rest := strings.TrimPrefix(strings.TrimPrefix(name, "carbon"), "."); rest != "" {
 			f.Detail = rest + ": " + re.Msg
 		}
 	default:

@@ -29,8 +29,16 @@ type JobRequest struct {
 	// JCAMP-DX file (starting with ##TITLE= or ##JCAMP-DX=); or a JSON
 	// array of {"shift" or "range", "multiplicity", "j", "integral"}
 	// objects. All are read by spectrum.Read. A 1H list is required; a 13C
-	// list is checked and passed on, not scored yet.
+	// section is passed on to the ranking as CarbonPeaks would be.
 	Peaks json.RawMessage `json:"peaks"`
+	// CarbonPeaks is the observed 13C peak list, optional: journal text
+	// with or without a "13C NMR" header ("171.1 (C), 60.4 (CH2), 21.0
+	// (CH3)"), JCAMP-DX text, a JSON array of {"shift" or "range", "count",
+	// "dept"} objects or a list object {"nucleus", "mhz", "solvent",
+	// "peaks"}. A list that names no nucleus is read as 13C
+	// (spectrum.ReadAs). At most one of Peaks and CarbonPeaks may carry a
+	// 13C list.
+	CarbonPeaks json.RawMessage `json:"carbon_peaks,omitempty"`
 	// MHz is the spectrometer 1H frequency; 0 means the peak-list header's
 	// or 400.
 	MHz float64 `json:"mhz,omitempty"`
@@ -135,6 +143,18 @@ func (jr JobRequest) rankerRequest(lim limits) (ranker.Request, []FieldError) {
 	pl, carbon, fe := parsePeaksField(jr.Peaks)
 	fields = append(fields, fe...)
 	rr.Peaks, rr.Carbon = pl, carbon
+	if c, present, fe := parseCarbonField(jr.CarbonPeaks); present {
+		fields = append(fields, fe...)
+		switch {
+		case len(fe) > 0:
+		case len(carbon.Peaks) > 0:
+			pos := carbon.Pos
+			fields = append(fields, FieldError{Field: "/carbon_peaks", Token: "13C",
+				Detail: fmt.Sprintf("the peaks text already has a 13C list (at character %d of peaks): give the 13C list once, in carbon_peaks or in peaks", pos+1)})
+		default:
+			rr.Carbon = c
+		}
+	}
 
 	if jr.MHz != 0 && (jr.MHz < minMHz || jr.MHz > maxMHz) {
 		bad("/mhz", fmt.Sprintf("spectrometer frequency %g MHz is outside %d..%d", jr.MHz, minMHz, maxMHz))
@@ -184,55 +204,112 @@ func formulaField(err error) FieldError {
 // string of journal text or JCAMP-DX, or a JSON array of peak objects. It
 // returns the 1H list and the 13C list (empty when absent).
 func parsePeaksField(raw json.RawMessage) (h, c spectrum.PeakList, _ []FieldError) {
-	raw = bytes.TrimSpace(raw)
-	if len(raw) == 0 || string(raw) == "null" {
-		return h, c, []FieldError{{Field: "/peaks", Detail: "required: journal text such as \"3.69 (q, 2H), 1.22 (t, 3H)\", JCAMP-DX text or an array of peak objects"}}
+	lists, fe := readPeaksMember("/peaks", raw, spectrum.H1)
+	if fe != nil {
+		return h, c, fe
 	}
-	var input []byte
-	switch raw[0] {
-	case '"':
-		var text string
-		if err := json.Unmarshal(raw, &text); err != nil {
-			return h, c, []FieldError{{Field: "/peaks", Detail: "not a valid JSON string"}}
-		}
-		if strings.TrimSpace(text) == "" {
-			return h, c, []FieldError{{Field: "/peaks", Detail: "required: the peak list is empty"}}
-		}
-		input = []byte(text)
-	case '[':
-		input = raw
-	default:
-		return h, c, []FieldError{{Field: "/peaks", Detail: "must be a string of journal text or JCAMP-DX, or an array of peak objects"}}
-	}
-	lists, err := spectrum.Read(input)
-	if err == nil {
-		var found bool
-		if h, found, err = spectrum.Pick(lists, spectrum.H1); err == nil && !found {
-			return h, c, []FieldError{{Field: "/peaks", Detail: fmt.Sprintf("no 1H peak list (found %s): the ranking needs one", lists[0].Nucleus)}}
-		}
+	var found bool
+	h, found, err := spectrum.Pick(lists, spectrum.H1)
+	if err == nil && !found {
+		return h, c, []FieldError{{Field: "/peaks", Detail: fmt.Sprintf("no 1H peak list (found %s): the ranking needs one", lists[0].Nucleus)}}
 	}
 	if err == nil {
 		c, _, err = spectrum.Pick(lists, spectrum.C13)
 	}
 	if err != nil {
-		var pe *spectrum.PeakError
-		if errors.As(err, &pe) {
-			pos := pe.Pos
-			f := FieldError{Field: "/peaks", Detail: pe.Msg, Token: pe.Token, Position: &pos}
-			switch {
-			case raw[0] == '[' && pe.Field != "" && pe.Field != "nucleus":
-				f.Field = peakPathPointer(pe.Field)
-			case pe.Field != "":
-				f.Detail = pe.Field + ": " + pe.Msg
-			}
-			if pe.Line > 1 {
-				f.Detail = fmt.Sprintf("line %d: %s", pe.Line, f.Detail)
-			}
-			return h, c, []FieldError{f}
-		}
-		return h, c, []FieldError{{Field: "/peaks", Detail: err.Error()}}
+		return h, c, []FieldError{peakField("/peaks", raw, err)}
 	}
 	return h, c, nil
+}
+
+// parseCarbonField parses the "carbon_peaks" member with spectrum.ReadAs,
+// reading a list that names no nucleus as 13C. present is false when the
+// member is absent or null. A 1H list in it is an error: it belongs in
+// "peaks".
+func parseCarbonField(raw json.RawMessage) (c spectrum.PeakList, present bool, _ []FieldError) {
+	raw = bytes.TrimSpace(raw)
+	if len(raw) == 0 || string(raw) == "null" {
+		return c, false, nil
+	}
+	lists, fe := readPeaksMember("/carbon_peaks", raw, spectrum.C13)
+	if fe != nil {
+		return c, true, fe
+	}
+	for _, l := range lists {
+		if l.Nucleus != spectrum.C13 {
+			f := FieldError{Field: "/carbon_peaks", Token: l.Nucleus.String(),
+				Detail: fmt.Sprintf("a %s peak list: give it in peaks; carbon_peaks takes the 13C list", l.Nucleus)}
+			if raw[0] == '"' {
+				pos := l.Pos
+				f.Position = &pos
+			}
+			return c, true, []FieldError{f}
+		}
+	}
+	c, _, err := spectrum.Pick(lists, spectrum.C13)
+	if err != nil {
+		return c, true, []FieldError{peakField("/carbon_peaks", raw, err)}
+	}
+	return c, true, nil
+}
+
+// readPeaksMember reads a peak-list member (field is its JSON Pointer): a
+// JSON string of journal text or JCAMP-DX, a JSON array of peak objects
+// or of list objects, or (for a default nucleus other than 1H) a list
+// object. Lists naming no nucleus are read as def.
+func readPeaksMember(field string, raw json.RawMessage, def spectrum.Nucleus) ([]spectrum.PeakList, []FieldError) {
+	raw = bytes.TrimSpace(raw)
+	if len(raw) == 0 || string(raw) == "null" {
+		return nil, []FieldError{{Field: field, Detail: "required: journal text such as \"3.69 (q, 2H), 1.22 (t, 3H)\", JCAMP-DX text or an array of peak objects"}}
+	}
+	var input []byte
+	switch {
+	case raw[0] == '"':
+		var text string
+		if err := json.Unmarshal(raw, &text); err != nil {
+			return nil, []FieldError{{Field: field, Detail: "not a valid JSON string"}}
+		}
+		if strings.TrimSpace(text) == "" {
+			return nil, []FieldError{{Field: field, Detail: "required: the peak list is empty"}}
+		}
+		input = []byte(text)
+	case raw[0] == '[' || raw[0] == '{' && def != spectrum.H1:
+		input = raw
+	case def != spectrum.H1:
+		return nil, []FieldError{{Field: field, Detail: "must be a string of journal text or JCAMP-DX, an array of peak objects or a peak list object"}}
+	default:
+		return nil, []FieldError{{Field: field, Detail: "must be a string of journal text or JCAMP-DX, or an array of peak objects"}}
+	}
+	lists, err := spectrum.ReadAs(input, def)
+	if err != nil {
+		return nil, []FieldError{peakField(field, raw, err)}
+	}
+	return lists, nil
+}
+
+// peakField turns an error of the peak readers into a field error of the
+// member field whose raw JSON is raw: the path inside a structured list
+// becomes a JSON Pointer ("/peaks/1/j"); in text the token and its
+// position are kept.
+func peakField(field string, raw json.RawMessage, err error) FieldError {
+	var pe *spectrum.PeakError
+	if !errors.As(err, &pe) {
+		return FieldError{Field: field, Detail: err.Error()}
+	}
+	pos := pe.Pos
+	f := FieldError{Field: field, Detail: pe.Msg, Token: pe.Token, Position: &pos}
+	raw = bytes.TrimSpace(raw)
+	structured := len(raw) > 0 && raw[0] != '"'
+	switch {
+	case structured && pe.Field != "" && pe.Field != "nucleus":
+		f.Field = pathPointer(field, pe.Field, field == "/peaks")
+	case pe.Field != "":
+		f.Detail = pe.Field + ": " + pe.Msg
+	}
+	if pe.Line > 1 {
+		f.Detail = fmt.Sprintf("line %d: %s", pe.Line, f.Detail)
+	}
+	return f
 }
 
 // disableFields checks the constraint IDs of options.disable: short,
@@ -321,6 +398,11 @@ func (jr JobRequest) canonical() (json.RawMessage, string, error) {
 		return nil, "", err
 	}
 	c.Peaks = peaks
+	if cp := bytes.TrimSpace(c.CarbonPeaks); len(cp) == 0 || string(cp) == "null" {
+		c.CarbonPeaks = nil
+	} else if c.CarbonPeaks, err = normalizedPeaks(cp); err != nil {
+		return nil, "", err
+	}
 	b, err := json.Marshal(c)
 	if err != nil {
 		return nil, "", fmt.Errorf("encode request: %w", err)
@@ -340,10 +422,21 @@ func truncate(s string, n int) string {
 // peakPathPointer turns the peak parser's path of a structured peak list
 // ("peaks[1].j", "[0].color") into a JSON Pointer into the request
 // ("/peaks/1/j", "/peaks/0/color").
-func peakPathPointer(path string) string {
-	path = strings.TrimPrefix(path, "peaks")
+func peakPathPointer(path string) string { return pathPointer("/peaks", path, true) }
+
+// pathPointer turns the peak parser's path of a value inside the member
+// base ("[1].j", "peaks[0].dept") into a JSON Pointer ("/carbon_peaks/1/j",
+// "/carbon_peaks/peaks/0/dept"). With stripPeaks a leading "peaks" is the
+// member itself ("peaks[1].j" → "/peaks/1/j").
+func pathPointer(base, path string, stripPeaks bool) string {
+	if stripPeaks {
+		path = strings.TrimPrefix(path, "peaks")
+	}
 	var b strings.Builder
-	b.WriteString("/peaks")
+	b.WriteString(base)
+	if path != "" && path[0] != '[' && path[0] != '.' {
+		path = "." + path
+	}
 	for path != "" {
 		switch path[0] {
 		case '[':

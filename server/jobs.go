@@ -35,7 +35,13 @@ type JobView struct {
 	// CancelRequested is set while a running job is being stopped.
 	CancelRequested bool            `json:"cancel_requested"`
 	Request         json.RawMessage `json:"request,omitempty"`
-	Links           JobLinks        `json:"links"`
+	// SearchStatus is the search status of a succeeded job's ranking
+	// ("complete", "complete within the constraints", "stopped early"; see
+	// CandidateList.Search) and SearchStopReason what stopped a search
+	// that stopped early. Only GET /v1/jobs/{id} fills them.
+	SearchStatus     string   `json:"search_status,omitempty"`
+	SearchStopReason string   `json:"search_stop_reason,omitempty"`
+	Links            JobLinks `json:"links"`
 }
 
 // ProgressView is a running job's progress: structures generated, scored,
@@ -190,7 +196,39 @@ func (s *Server) handleGetJob(w http.ResponseWriter, r *http.Request) {
 		s.writeError(w, r, err)
 		return
 	}
-	s.writeJSON(w, http.StatusOK, s.jobView(job))
+	v := s.jobView(job)
+	if job.Status == store.StatusSucceeded {
+		v.SearchStatus, v.SearchStopReason = s.searchStatus(r, job.ID)
+	}
+	s.writeJSON(w, http.StatusOK, v)
+}
+
+// searchStatus reads the search status and stop reason from a succeeded
+// job's stored result. A result without a search report (one stored by an
+// older version) or one that cannot be read gives "": the job view does
+// not fail for it.
+func (s *Server) searchStatus(r *http.Request, id string) (status, reason string) {
+	res, err := s.st.GetResult(r.Context(), callerFrom(r.Context()).owner, id)
+	if err != nil {
+		if !errors.Is(err, store.ErrNotFound) {
+			s.log.Warn("job view: read result", "job", id, "err", err)
+		}
+		return "", ""
+	}
+	var body struct {
+		Search struct {
+			Status     string `json:"status"`
+			StopReason string `json:"stop_reason"`
+		} `json:"search"`
+	}
+	if err := json.Unmarshal(res.Body, &body); err != nil {
+		s.log.Warn("job view: decode result", "job", id, "err", err)
+		return "", ""
+	}
+	if body.Search.Status != ranker.StatusStopped {
+		body.Search.StopReason = ""
+	}
+	return body.Search.Status, body.Search.StopReason
 }
 
 func (s *Server) getJob(r *http.Request, id string) (store.Job, error) {

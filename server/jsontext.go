@@ -11,10 +11,10 @@ import (
 )
 
 // lineBreaksAllowed lists the string members whose text may hold tabs and
-// line breaks: the peak list, which may be pasted journal text or a
+// line breaks: the peak lists, which may be pasted journal text or a
 // JCAMP-DX file. No other string of a request may hold a control
 // character.
-var lineBreaksAllowed = map[string]bool{"/peaks": true}
+var lineBreaksAllowed = map[string]bool{"/peaks": true, "/carbon_peaks": true}
 
 // textFields walks a well-formed JSON value and returns a FieldError for
 // each object member that appears twice in its object (encoding/json would

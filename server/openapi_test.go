@@ -100,6 +100,8 @@ func TestOpenAPISchemasMatchTypes(t *testing.T) {
 		typ    any
 	}{
 		{"CandidateList", server.CandidateList{}},
+		{"JobRequest", server.JobRequest{}},
+		{"Job", server.JobView{}},
 		{"ObservedPeak", ranker.ObservedPeak{}},
 	} {
 		sc, ok := doc.Components.Schemas[tc.schema]

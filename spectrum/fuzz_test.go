@@ -200,3 +200,33 @@ func FuzzRead(f *testing.F) {
 		}
 	})
 }
+
+// FuzzReadAs: no panic; errors are positioned *PeakErrors; lists read with
+// a 13C default are valid, and when Read reads the same input too, both
+// find the same lists at the same positions (only the nucleus of a list
+// that names none may differ).
+func FuzzReadAs(f *testing.F) {
+	addCaseSeeds(f, "journal.json")
+	addCaseSeeds(f, "json.json")
+	f.Add("171.1 (C), 129.3 (2C, CH), 60.4 (CH2), 14.2")
+	f.Fuzz(func(t *testing.T, s string) {
+		lists, err := ReadAs([]byte(s), C13)
+		if err != nil {
+			checkParseError(t, err)
+			return
+		}
+		checkValid(t, lists)
+		h, err := Read([]byte(s))
+		if err != nil {
+			return
+		}
+		if len(h) != len(lists) {
+			t.Fatalf("ReadAs(%q, 13C) found %d lists, Read %d", s, len(lists), len(h))
+		}
+		for i := range h {
+			if h[i].Pos != lists[i].Pos || len(h[i].Peaks) != len(lists[i].Peaks) {
+				t.Fatalf("list %d of %q: ReadAs at %d with %d peaks, Read at %d with %d", i, s, lists[i].Pos, len(lists[i].Peaks), h[i].Pos, len(h[i].Peaks))
+			}
+		}
+	})
+}

@@ -57,7 +57,11 @@ import (
 // malformed numbers or entries, unknown multiplicities, shifts outside the
 // nucleus's range, or no 1H or 13C peak table at all (a spectrum of
 // ##XYDATA= alone is not peak picked here).
-func ParseJCAMP(b []byte) ([]PeakList, error) {
+func ParseJCAMP(b []byte) ([]PeakList, error) { return parseJCAMP(b, H1) }
+
+// parseJCAMP is ParseJCAMP with def the nucleus of an NMR block without
+// .OBSERVE NUCLEUS.
+func parseJCAMP(b []byte, def Nucleus) ([]PeakList, error) {
 	in := string(b)
 	if len(b) > MaxPeakInput {
 		return nil, &PeakError{Msg: "input longer than 1 MiB"}
@@ -70,7 +74,7 @@ func ParseJCAMP(b []byte) ([]PeakList, error) {
 	if strings.HasPrefix(in, "\ufeff") {
 		in = "   " + in[3:] // a byte-order mark, blanked to keep the offsets
 	}
-	jc := &jcamp{in: in}
+	jc := &jcamp{in: in, def: def}
 	root, err := jc.blocks()
 	if err != nil {
 		return nil, err
@@ -102,6 +106,7 @@ const defaultGroupMHz = 400.0
 type jcamp struct {
 	in  string
 	nuc Nucleus // nucleus of the block being read
+	def Nucleus // nucleus of a block that names none
 }
 
 // ldr is one labelled data record.
@@ -305,7 +310,7 @@ func (jc *jcamp) pick(root *jblock) ([]pickedBlock, error) {
 			other = strings.TrimSpace(dt.value)
 			continue
 		}
-		picked = append(picked, pickedBlock{b, H1})
+		picked = append(picked, pickedBlock{b, jc.def})
 	}
 	switch {
 	case len(picked) > 0:

@@ -31,8 +31,12 @@ import (
 // the nucleus, J on a singlet, ...) give a *PeakError whose Field is the
 // path of the offending value ("peaks[1].j", "[0].color",
 // "[1].peaks[0].dept") and whose Pos is its byte offset.
-func ParseJSON(b []byte) ([]PeakList, error) {
-	jp := &jsonPeaks{in: b, dec: json.NewDecoder(bytes.NewReader(b))}
+func ParseJSON(b []byte) ([]PeakList, error) { return parseJSON(b, H1) }
+
+// parseJSON is ParseJSON with def the nucleus of a bare array of peaks and
+// of a list object without "nucleus".
+func parseJSON(b []byte, def Nucleus) ([]PeakList, error) {
+	jp := &jsonPeaks{in: b, dec: json.NewDecoder(bytes.NewReader(b)), def: def}
 	jp.dec.UseNumber()
 	if len(b) > MaxPeakInput {
 		return nil, jp.errAt(0, "", "", "input longer than 1 MiB")
@@ -43,6 +47,7 @@ func ParseJSON(b []byte) ([]PeakList, error) {
 type jsonPeaks struct {
 	in  []byte
 	dec *json.Decoder
+	def Nucleus // nucleus of a list that names none
 }
 
 func (jp *jsonPeaks) errAt(pos int, tok, field, msg string) error {
@@ -199,7 +204,7 @@ func (jp *jsonPeaks) topArray(start int) ([]PeakList, error) {
 	if len(peaks) == 0 {
 		return nil, jp.errAt(start, string(jp.in[start:min(len(jp.in), start+40)]), "peaks", "no peaks")
 	}
-	pl := PeakList{Nucleus: H1, Pos: start}
+	pl := PeakList{Nucleus: jp.def, Pos: start}
 	if err := jp.finish(&pl, peaks); err != nil {
 		return nil, err
 	}
@@ -210,7 +215,7 @@ func (jp *jsonPeaks) topArray(start int) ([]PeakList, error) {
 // whose first member name k has been read (ok false: the object was
 // empty). path is the object's own path ("" at the top).
 func (jp *jsonPeaks) listBody(path string, start int, k key, ok bool) (PeakList, error) {
-	pl := PeakList{Pos: start}
+	pl := PeakList{Nucleus: jp.def, Pos: start}
 	prefix := path
 	if prefix != "" {
 		prefix += "."

@@ -57,18 +57,28 @@ func DetectFormat(input []byte) Format {
 // file (ParseJCAMP). The lists come in input order, each with its Nucleus;
 // there is at least one. Errors are those of the format's reader: a
 // *PeakError naming the field, the token, its byte position and line.
-func Read(input []byte) ([]PeakList, error) {
+func Read(input []byte) ([]PeakList, error) { return ReadAs(input, H1) }
+
+// ReadAs is Read for input whose lists are of nucleus def unless they say
+// otherwise: journal text whose first section has no header naming a
+// nucleus (a header-less "171.1, 60.4, 21.0" or "δ 171.1, ..."; "δH" and
+// "δC" still name one), a JSON array of peaks or a list object without
+// "nucleus", and a JCAMP-DX NMR block without ##.OBSERVE NUCLEUS= are
+// read as def. A list that names its nucleus keeps it, so a pasted
+// "1H NMR ..." section in a field meant for 13C still reads as 1H, and
+// the caller can tell. ReadAs(input, H1) is Read(input).
+func ReadAs(input []byte, def Nucleus) ([]PeakList, error) {
 	switch DetectFormat(input) {
 	case FormatJCAMP:
-		return ParseJCAMP(input)
+		return parseJCAMP(input, def)
 	case FormatJSON:
 		if bytes.HasPrefix(input, []byte("\ufeff")) {
 			// A byte-order mark, blanked to keep the offsets.
 			input = append([]byte("   "), input[3:]...)
 		}
-		return ParseJSON(input)
+		return parseJSON(input, def)
 	}
-	return ParseText(string(input))
+	return parseText(string(input), def)
 }
 
 // Pick returns the list of nucleus n among lists; found is false when

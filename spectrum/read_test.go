@@ -170,3 +170,66 @@ func TestCheck(t *testing.T) {
 		})
 	}
 }
+
+// TestReadAs reads 13C lists that do not name their nucleus, as pasted
+// into a field meant for 13C. The shifts are ethyl acetate's in CDCl3
+// (Gottlieb, Kotlyar, Nudelman, J. Org. Chem. 1997, 62, 7512, Table 2;
+// from memory).
+func TestReadAs(t *testing.T) {
+	want := []float64{171.36, 60.49, 21.04, 14.19}
+	cases := []struct {
+		name  string
+		in    string
+		nuc   Nucleus // of the first list
+		lists int
+	}{
+		{"bare text", "171.36, 60.49, 21.04, 14.19", C13, 1},
+		{"text with delta and DEPT", "δ 171.36 (C), 60.49 (CH2), 21.04 (CH3), 14.19 (CH3)", C13, 1},
+		{"text with a 13C header", "13C NMR (101 MHz, CDCl3) δ 171.36, 60.49, 21.04, 14.19", C13, 1},
+		{"deltaC header", "δC 171.36, 60.49, 21.04, 14.19", C13, 1},
+		{"JSON array of peaks", `[{"shift": 171.36, "dept": "C"}, {"shift": 60.49, "dept": "CH2"}, {"shift": 21.04}, {"shift": 14.19, "count": 1}]`, C13, 1},
+		{"JSON list object without nucleus", `{"mhz": 101, "peaks": [{"shift": 171.36}, {"shift": 60.49}, {"shift": 21.04}, {"shift": 14.19}]}`, C13, 1},
+		{"1H header keeps 1H", "1H NMR δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H)", H1, 1},
+		{"deltaH keeps 1H", "δH 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H)", H1, 1},
+		{"JSON list object naming 1H", `{"nucleus": "1H", "peaks": [{"shift": 2.05, "integral": 3}]}`, H1, 1},
+		{"bare text then a 1H section", "171.36, 60.49, 21.04, 14.19; 1H NMR δ 2.05 (s, 3H)", C13, 2},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			lists, err := ReadAs([]byte(c.in), C13)
+			require.NoError(t, err)
+			require.Len(t, lists, c.lists)
+			assert.Equal(t, c.nuc, lists[0].Nucleus)
+			if c.nuc != C13 {
+				return
+			}
+			require.Len(t, lists[0].Peaks, len(want))
+			for i, p := range lists[0].Peaks {
+				assert.InDelta(t, want[i], p.Shift, 1e-9, "peak %d (source: Gottlieb et al. 1997, Table 2)", i)
+			}
+		})
+	}
+	t.Run("same as Read for 1H", func(t *testing.T) {
+		in := []byte("4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H)")
+		a, err := Read(in)
+		require.NoError(t, err)
+		b, err := ReadAs(in, H1)
+		require.NoError(t, err)
+		assert.True(t, sameLists(a, b))
+	})
+	t.Run("integral in a header-less 13C list", func(t *testing.T) {
+		_, err := ReadAs([]byte("4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H)"), C13)
+		var pe *PeakError
+		require.ErrorAs(t, err, &pe)
+		assert.Equal(t, "2H", pe.Token)
+		assert.Positive(t, pe.Pos)
+	})
+	t.Run("JCAMP-DX block without a nucleus", func(t *testing.T) {
+		jdx := "##TITLE= invented sample\n##JCAMP-DX= 5.01\n##DATA TYPE= NMR PEAK TABLE\n##XUNITS= PPM\n##PEAK TABLE= (XY..XY)\n171.36, 1\n60.49, 1\n21.04, 1\n14.19, 1\n##END=\n"
+		lists, err := ReadAs([]byte(jdx), C13)
+		require.NoError(t, err)
+		require.Len(t, lists, 1)
+		assert.Equal(t, C13, lists[0].Nucleus)
+		assert.Len(t, lists[0].Peaks, 4)
+	})
+}

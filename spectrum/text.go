@@ -49,8 +49,12 @@ import (
 // no peaks at all, or input longer than MaxPeakInput bytes or with more
 // than MaxPeaks peaks in a list or MaxJValues J values on one peak; JSON
 // or JCAMP-DX input gets an error saying so.
-func ParseText(s string) ([]PeakList, error) {
-	p := &journal{in: s}
+func ParseText(s string) ([]PeakList, error) { return parseText(s, H1) }
+
+// parseText is ParseText with def the nucleus of a first section without
+// a header naming one.
+func parseText(s string, def Nucleus) ([]PeakList, error) {
+	p := &journal{in: s, def: def}
 	if len(s) > MaxPeakInput {
 		return nil, p.errAt(0, s[:40], "", "input longer than 1 MiB")
 	}
@@ -99,6 +103,7 @@ func ParseText(s string) ([]PeakList, error) {
 // a section of a nucleus other than 1H and 13C, which is passed over.
 func (p *journal) section() (pl PeakList, skipped bool, err error) {
 	start := p.i
+	pl.Nucleus = p.def
 	other, err := p.header(&pl)
 	if err != nil {
 		return PeakList{}, false, err
@@ -178,6 +183,7 @@ type journal struct {
 	orig string  // the input as given
 	offs []int   // offs[k]: offset in orig of byte k of in; nil when in == orig
 	nuc  Nucleus // nucleus of the current section
+	def  Nucleus // nucleus of a section whose header names none
 }
 
 // fold replaces full-width forms (U+FF01–U+FF5E, as pasted from CJK
@@ -481,9 +487,14 @@ func (p *journal) header(pl *PeakList) (other bool, err error) {
 	seen := false   // a header marker (nucleus, NMR, δ, group) has been read
 	named := false  // the nucleus has been named by a token
 	deltaC := false // "δC": a 13C list unless a token says otherwise
+	deltaH := false // "δH": a 1H list unless a token says otherwise
 	defer func() {
-		if !named && deltaC {
+		switch {
+		case named:
+		case deltaC:
 			pl.Nucleus = C13
+		case deltaH:
+			pl.Nucleus = H1
 		}
 	}()
 	for {
@@ -533,6 +544,7 @@ func (p *journal) header(pl *PeakList) (other bool, err error) {
 			switch {
 			case strings.HasPrefix(p.in[p.i:], "H") && !letterAt(p.in, p.i+1):
 				p.i++
+				deltaH = true
 			case strings.HasPrefix(p.in[p.i:], "C") && !letterAt(p.in, p.i+1):
 				p.i++
 				deltaC = true

@@ -2,9 +2,9 @@
 // review of ranked candidates. Routes on the path: "/" is the form,
 // "/jobs/{id}" a job (history.pushState; a reload of a job URL works).
 
-import { parseFormula, parsePeaks, formatPeaks, checkRow, normalizeMultiplicity } from "./chem.js";
+import { parseFormula, parsePeaks, formatPeaks, checkRow, normalizeMultiplicity, parseCarbonText } from "./chem.js";
 import { putDrawing, rdkit } from "./draw.js";
-import { drawPlot, fitRange } from "./plot.js";
+import { drawPlot, fitRange, drawCarbonPlot, fitCarbonRange } from "./plot.js";
 
 const $ = (id) => document.getElementById(id);
 const KEY_STORE = "shiftrank.apiKey";
@@ -244,10 +244,23 @@ function lines(v) {
   return v.split(/\n/).map((s) => s.trim()).filter(Boolean);
 }
 
+// formDisable holds the constraint IDs switched off in the job the form
+// was filled from ("Edit as a new unknown"); they travel in
+// options.disable until cleared.
+let formDisable = [];
+
+function showDisable() {
+  $("disable-row").hidden = formDisable.length === 0;
+  $("disable-note").textContent = formDisable.length
+    ? `Switched off (from the job you edited): ${formDisable.join(", ")}.` : "";
+}
+
 function buildRequest() {
+  const maxNodes = $("max-nodes").value.trim();
   const body = {
     formula: $("formula").value.trim(),
     peaks: $("peaks-text").value.trim(),
+    carbon_peaks: $("carbon-text").value.trim() || undefined,
     mhz: Number($("mhz").value) || undefined,
     solvent: $("solvent").value,
     options: {
@@ -257,6 +270,10 @@ function buildRequest() {
       forbid: lines($("forbid").value),
       keep_solvent_peaks: $("keep-solvent").checked || undefined,
       all_isomers: $("all-isomers").checked || undefined,
+      // Sent as typed: the service says at the field what is wrong with it.
+      max_nodes: maxNodes === "" ? undefined : Number(maxNodes),
+      neutral: $("neutral").checked || undefined,
+      disable: formDisable.length ? [...formDisable] : undefined,
     },
   };
   const ref = $("reference").value.trim();
@@ -267,9 +284,11 @@ function buildRequest() {
 const FIELD_SLOTS = {
   formula: "formula", peaks: "peaks", mhz: "mhz", solvent: "solvent", reference: "reference",
   top_k: "top_k", filter: "filter", require: "require", forbid: "forbid", keep_solvent_peaks: "keep_solvent_peaks",
-  all_isomers: "all_isomers",
+  all_isomers: "all_isomers", carbon_peaks: "carbon_peaks", max_nodes: "max_nodes", neutral: "neutral", disable: "disable",
 };
-const SLOT_INPUT = { top_k: "top-k", peaks: "peaks-text", keep_solvent_peaks: "keep-solvent", all_isomers: "all-isomers" };
+const SLOT_INPUT = { top_k: "top-k", peaks: "peaks-text", keep_solvent_peaks: "keep-solvent", all_isomers: "all-isomers",
+  carbon_peaks: "carbon-text", max_nodes: "max-nodes", disable: "disable-clear" };
+const OPTION_SLOTS = new Set(["require", "forbid", "top_k", "filter", "max_nodes", "neutral", "disable", "keep_solvent_peaks", "all_isomers"]);
 
 function slotFor(field) {
   const base = String(field || "").replace(/^\/+/, "").replace(/^(body|request)[./]/, "")
@@ -306,8 +325,9 @@ function showProblem(err) {
     const slot = slotFor(e.field || e.pointer || e.name);
     let msg = e.detail || e.message || "not valid";
     // "/options/require/1" → "fragment 2: ...", "/peaks/0/j" → "peak 1: ...".
-    const idx = /\/(require|forbid|peaks)\/(\d+)/.exec(String(e.field || ""));
-    if (idx) msg = `${idx[1] === "peaks" ? "peak" : "fragment"} ${Number(idx[2]) + 1}: ${msg}`;
+    const idx = /\/(require|forbid|peaks|carbon_peaks|disable)\/(\d+)/.exec(String(e.field || ""));
+    const what = { peaks: "peak", carbon_peaks: "13C peak", disable: "constraint" };
+    if (idx) msg = `${what[idx[1]] || "fragment"} ${Number(idx[2]) + 1}: ${msg}`;
     const pos = typeof e.position === "number" ? e.position : e.pos;
     let text = msg;
     // A token that is the whole field adds nothing to the message.
@@ -318,8 +338,8 @@ function showProblem(err) {
     const p = $(`${slot}-error`);
     p.textContent = p.textContent ? `${p.textContent} ${text}` : text;
     const inp = $(SLOT_INPUT[slot] || slot);
-    if (inp) { inp.setAttribute("aria-invalid", "true"); first = first || inp; }
-    if (slot === "require" || slot === "forbid" || slot === "top_k" || slot === "filter") $("submit-form").querySelector("details.options").open = true;
+    if (inp && slot !== "disable") { inp.setAttribute("aria-invalid", "true"); first = first || inp; }
+    if (OPTION_SLOTS.has(slot)) $("submit-form").querySelector("details.options").open = true;
     if (slot === "peaks" && typeof pos === "number") markRowAt(pos);
   }
   if (!list.length) loose.push(prob.detail || prob.title || err.message);
@@ -389,6 +409,12 @@ function loadExample() {
   $("forbid").value = "";
   $("keep-solvent").checked = false;
   $("all-isomers").checked = false;
+  $("carbon-text").value = "";
+  $("max-nodes").value = "";
+  $("neutral").checked = false;
+  formDisable = [];
+  showDisable();
+  updateCarbonNote();
   updateDBE();
   syncRowsFromText();
   $("formula").focus();
@@ -419,12 +445,59 @@ function fillForm(req) {
   $("forbid").value = (o.forbid || []).join("\n");
   $("keep-solvent").checked = !!o.keep_solvent_peaks;
   $("all-isomers").checked = !!o.all_isomers;
+  $("max-nodes").value = o.max_nodes ? String(o.max_nodes) : "";
+  $("neutral").checked = !!o.neutral;
+  formDisable = Array.isArray(o.disable) ? [...o.disable] : [];
+  showDisable();
+  $("carbon-text").value = carbonText(req.carbon_peaks);
+  updateCarbonNote();
   updateDBE();
   syncRowsFromText();
   $("formula").focus();
 }
 
+// carbonText writes a request's carbon_peaks member back as text for the
+// form: text as given, peak objects as "129.3 (2C, CH)".
+function carbonText(v) {
+  if (typeof v === "string") return v;
+  const list = Array.isArray(v) ? v : v && Array.isArray(v.peaks) ? v.peaks : null;
+  if (!list) return "";
+  if (list.length && list[0] && Array.isArray(list[0].peaks)) return carbonText(list.find((l) => l.nucleus === "13C") || list[0]);
+  return list.map((p) => {
+    const shift = Array.isArray(p.range) ? `${Math.max(...p.range)}–${Math.min(...p.range)}` : String(p.shift ?? "");
+    const bits = [p.count ? `${p.count}C` : "", p.dept || ""].filter(Boolean);
+    return bits.length ? `${shift} (${bits.join(", ")})` : shift;
+  }).join(", ");
+}
+
+// readCarbon reads the 13C field's text as the page can: JSON peak
+// objects or journal text ({peaks} or {error, pos, token}); a JCAMP-DX file
+// is left to the service ({jcamp: true}).
+function readCarbon(t) {
+  const head = t.trimStart();
+  if (head.startsWith("##")) return { jcamp: true };
+  if (head.startsWith("[") || head.startsWith("{")) {
+    try { return parseCarbonText(carbonText(JSON.parse(t))); } catch (e) { return { error: "not valid JSON", pos: 0, token: "" }; }
+  }
+  return parseCarbonText(t);
+}
+
+function updateCarbonNote() {
+  const t = $("carbon-text").value;
+  const note = $("carbon-note");
+  if (!t.trim()) { note.textContent = ""; note.classList.remove("bad"); return; }
+  const r = readCarbon(t);
+  if (r.jcamp) { note.textContent = "a JCAMP-DX file: the service reads its 13C peak table"; note.classList.remove("bad"); return; }
+  note.classList.toggle("bad", !!r.error);
+  note.textContent = r.error
+    ? `Not read yet: ${r.error} at character ${r.pos + 1}${r.token ? ` (“${r.token}”)` : ""}; the service has the last word.`
+    : `${r.peaks.length} 13C peak${r.peaks.length === 1 ? "" : "s"}${r.peaks.some((p) => p.dept) ? ", with DEPT classes" : ""}`;
+}
+
 function clearForm() {
+  formDisable = [];
+  showDisable();
+  $("carbon-note").textContent = "";
   $("submit-form").reset();
   rows = [{ shift: "", mult: "", j: "", integral: "" }];
   renderRows();
@@ -476,6 +549,39 @@ const STATUS_WORDS = {
   cancelled: "cancelled",
 };
 
+// searchKind sorts a search status into "stopped", "constrained",
+// "complete" or "" (not known).
+function searchKind(status) {
+  return { "stopped early": "stopped", "complete within the constraints": "constrained", complete: "complete" }[status] || "";
+}
+
+// SEARCH_WORDS say, after "done", how far the search went.
+const SEARCH_WORDS = {
+  stopped: (reason) => `done — stopped early${reason ? ` (${reason})` : ""}`,
+  constrained: () => "done — complete within the spectrum’s readings",
+  complete: () => "done — all isomers searched",
+};
+
+// showSearchState marks the status badge and the progress bar of a
+// succeeded job with how far its search went.
+function showSearchState(status, reason) {
+  const kind = searchKind(status);
+  const badge = $("job-status");
+  const bar = $("job-progress");
+  if (!kind || badge.dataset.status !== "succeeded") {
+    delete badge.dataset.search;
+    delete bar.dataset.search;
+    return;
+  }
+  badge.dataset.search = kind;
+  bar.dataset.search = kind;
+  badge.textContent = SEARCH_WORDS[kind](reason);
+  const now = bar.getAttribute("aria-valuenow");
+  bar.setAttribute("aria-valuetext", kind === "stopped"
+    ? `search stopped early${reason ? ` (${reason})` : ""}: ${now} % of the estimated isomers scored`
+    : kind === "constrained" ? "complete within the constraints read from the spectrum" : "complete");
+}
+
 function showJobState(job) {
   const st = job.status;
   const badge = $("job-status");
@@ -489,12 +595,22 @@ function showJobState(job) {
       const r = parsePeaks(req.peaks);
       if (!r.error) n = `${r.rows.length} peak${r.rows.length === 1 ? "" : "s"}`;
     } else if (Array.isArray(req.peaks)) n = `${req.peaks.length} peak${req.peaks.length === 1 ? "" : "s"}`;
-    $("job-request").textContent = [req.formula, req.mhz ? `${req.mhz} MHz` : "", req.solvent || "", n].filter(Boolean).join(" · ");
+    const cp = req.carbon_peaks;
+    let nc = "";
+    if (typeof cp === "string") {
+      const r = readCarbon(cp);
+      if (r.peaks) nc = `${r.peaks.length} 13C peak${r.peaks.length === 1 ? "" : "s"}`;
+    } else if (cp) nc = "13C peaks";
+    $("job-request").textContent = [req.formula, req.mhz ? `${req.mhz} MHz` : "", req.solvent || "", n, nc].filter(Boolean).join(" · ");
   }
   const p = job.progress || {};
   const gen = p.generated || 0, scored = p.scored || 0, total = p.total_estimate || 0;
   const done = st === "succeeded";
-  let pct = done ? 100 : total > 0 ? Math.min(99, (100 * scored) / total) : 0;
+  const stopped = done && searchKind(job.search_status) === "stopped";
+  // A search that stopped early does not fill the bar: it shows the share
+  // of the estimated isomers scored.
+  let pct = stopped ? (total > 0 ? Math.min(99, (100 * scored) / total) : 50)
+    : done ? 100 : total > 0 ? Math.min(99, (100 * scored) / total) : 0;
   const bar = $("job-progress");
   bar.classList.toggle("indeterminate", !done && total <= 0 && (st === "running" || st === "queued"));
   bar.setAttribute("aria-valuenow", pct.toFixed(0));
@@ -525,6 +641,7 @@ function showJobState(job) {
   errEl.classList.toggle("quiet-note", st === "cancelled");
   errEl.textContent = st === "cancelled" ? "This job was cancelled, so it has no ranking. Submit the unknown again to rank it."
     : job.error ? `The job stopped: ${job.error}` : "";
+  showSearchState(job.search_status, job.search_stop_reason);
 }
 
 function showJob(id) {
@@ -532,6 +649,8 @@ function showJob(id) {
   $("results").hidden = true;
   $("job-error").textContent = "";
   $("job-status").textContent = "loading…";
+  delete $("job-status").dataset.search;
+  delete $("job-progress").dataset.search;
   $("job-counts").textContent = "";
   $("job-bar").style.width = "0%";
   let stopped = false, timer = 0, ticker = 0, current = null, cancelling = false;
@@ -669,11 +788,43 @@ function normCandidate(c, observedList) {
     shift: num(e.predicted_shift), multiplicity: e.predicted_multiplicity || "", j: [],
     exchangeable: !!e.exchangeable, share: num(e.score_share), reason: e.reason || "",
   }));
+  const carbonAssignments = (c.carbon_assignments || []).map((a) => ({
+    peak: a.peak, shift: num(a.observed_shift),
+    range: Array.isArray(a.observed_range) && a.observed_range.length === 2 ? a.observed_range : null,
+    dept: a.observed_dept || "", count: num(a.observed_count) || 0,
+    pred: num(a.predicted_shift), predClass: a.predicted_class || "", carbons: num(a.carbons) || 0,
+    atoms: Array.isArray(a.atoms) ? a.atoms : [], share: num(a.score_share), reason: a.reason || "",
+    signals: (a.signal_details || []).map((d) => ({ signal: d.signal, shift: num(d.predicted_shift), cls: d.class || "",
+      carbons: Array.isArray(d.atoms) ? d.atoms.length : 1, kind: d.kind || "" })),
+  }));
+  const carbonUnexplained = (c.unexplained_carbon_peaks || []).map((u) => ({
+    peak: u.peak, shift: num(u.observed_shift), dept: u.observed_dept || "", share: num(u.score_share), reason: u.reason || "" }));
+  const carbonUnobserved = (c.unobserved_carbons || []).map((u) => ({
+    signal: u.signal, shift: num(u.predicted_shift), cls: u.class || "", kind: u.kind || "",
+    carbons: Array.isArray(u.atoms) ? u.atoms.length : 1, share: num(u.score_share), reason: u.reason || "" }));
   return {
     raw: c, rank: c.rank, smiles: c.smiles, score: num(c.score), probability: num(c.probability) ?? 0,
+    carbonScore: num(c.carbon_score),
     summary: c.summary || "", notes: c.notes || [],
-    assignments, unexplained, unobserved,
+    assignments, unexplained, unobserved, carbonAssignments, carbonUnexplained, carbonUnobserved,
+    hasCarbon: !!(c.carbon_assignments || c.unexplained_carbon_peaks || c.unobserved_carbons),
   };
+}
+
+// observedCarbon returns the observed 13C peaks: the result's list when it
+// has one, else the request's carbon_peaks as the page reads it.
+function observedCarbon(data, req) {
+  if (Array.isArray(data.carbon_peaks) && data.carbon_peaks.length) {
+    return data.carbon_peaks.map((p, i) => {
+      const hi = num(p.shift_hi), lo = num(p.shift_lo);
+      return { index: num(p.index) ?? i, shift: num(p.shift), hi: hi !== lo ? hi : undefined, lo: hi !== lo ? lo : undefined,
+        count: num(p.count) || 0, dept: p.dept || "" };
+    });
+  }
+  const cp = req?.carbon_peaks;
+  if (cp === undefined || cp === null) return [];
+  const r = readCarbon(typeof cp === "string" ? cp : carbonText(cp));
+  return r.error || r.jcamp ? [] : r.peaks.map((p) => ({ ...p, hi: p.hi !== p.lo ? p.hi : undefined, lo: p.hi !== p.lo ? p.lo : undefined }));
 }
 
 let review = null; // {job, data, candidates, observed, mhz, selected, compare, peakSel, zoom}
@@ -683,7 +834,7 @@ function observedFromRequest(id, job) {
   if (!req) {
     try { req = JSON.parse(sessionStorage.getItem(REQ_STORE + id) || "null"); } catch (_) { req = null; }
   }
-  const out = { mhz: Number(req?.mhz) || 400, peaks: [] };
+  const out = { mhz: Number(req?.mhz) || 400, peaks: [], req };
   if (!req) return out;
   if (typeof req.peaks === "string") {
     const r = parsePeaks(req.peaks);
@@ -732,15 +883,25 @@ async function showResults(id, job) {
     for (const p of candidates[0].unexplained) seen.set(p.index, p);
     observedAll = [...seen.values()].sort((a, b) => a.index - b.index);
   }
+  const req = job.request || obs.req || null;
   review = { job, id, data, candidates, observed: observedAll, mhz: Number(data.mhz) || obs.mhz,
-    selected: 0, compare: -1, peakSel: -1, zoom: null };
+    selected: 0, compare: -1, peakSel: -1, zoom: null, req, carbon: observedCarbon(data, req) };
   $("results").hidden = false;
+  const search = data.search && typeof data.search === "object" ? data.search : null;
+  if (search) showSearchState(search.status, search.stop_reason);
+  renderScope(search, candidates.length);
+  renderConstraints(search);
+  $("results-caution").textContent = data.caution ? `Caution: ${data.caution}` : "";
   const total = num(data.isomers_total);
   const scored = num(data.scored) ?? job.progress?.scored;
   const complete = data.complete;
   const bits = [];
-  if (total !== undefined) bits.push(`${fmt.format(total)} isomer${total === 1 ? "" : "s"} of the formula${complete === false || data.isomers_estimated ? " (estimated)" : ""}`);
-  if (scored !== undefined) bits.push(`${fmt.format(scored)} scored`);
+  if (search?.scope === "constrained") {
+    if (scored !== undefined) bits.push(`${fmt.format(scored)} structures fitting the spectrum’s readings scored`);
+  } else {
+    if (total !== undefined) bits.push(`${fmt.format(total)} isomer${total === 1 ? "" : "s"} of the formula${complete === false || data.isomers_estimated ? " (estimated)" : ""}`);
+    if (scored !== undefined) bits.push(`${fmt.format(scored)} scored`);
+  }
   bits.push(`${candidates.length} kept`);
   $("results-summary").textContent = bits.join(" · ") + ".";
   const warn = $("results-warnings");
@@ -758,6 +919,137 @@ async function showResults(id, job) {
   else {
     $("detail").hidden = true;
     $("results-summary").textContent += " No candidate fits the formula and the constraints.";
+  }
+}
+
+// SCOPE_HEADS are the first line of a result, by search kind.
+const SCOPE_HEADS = {
+  stopped: (s) => `Search stopped early${s.stop_reason ? ` (${s.stop_reason})` : ""}: the ranking covers only the structures ` +
+    `scored before the stop${s.scope === "constrained" ? ", inside the spectrum’s readings" : ""}; the true structure may not have been reached.`,
+  constrained: () => "Complete within the constraints: searched only isomers fitting the spectrum’s readings. " +
+    "Isomers outside them were not scored; switch constraints off below, or run again over all isomers, if you doubt them.",
+  complete: () => "Complete: every plausible isomer of the formula was scored.",
+};
+
+// renderScope shows how far the search went: a banner above the ranking and
+// a note over the candidate list.
+function renderScope(search, kept) {
+  const box = $("search-scope");
+  const note = $("candidate-scope-note");
+  const kind = search ? searchKind(search.status) : "";
+  box.hidden = !kind;
+  note.textContent = "";
+  delete note.dataset.status;
+  if (!kind) return;
+  box.dataset.status = kind;
+  box.dataset.scope = search.scope || "";
+  $("search-scope-head").textContent = SCOPE_HEADS[kind](search);
+  $("search-scope-summary").textContent = [search.summary, ...(search.notes || [])].filter(Boolean).join(" ");
+  note.dataset.status = kind;
+  if (!kept) return;
+  note.textContent = kind === "stopped"
+    ? "Stopped early: probabilities are over the structures scored before the stop, not over every isomer."
+    : kind === "constrained"
+      ? "Probabilities are over the structures fitting the spectrum’s readings."
+      : "Probabilities are over every plausible isomer scored.";
+}
+
+// renderConstraints fills the panel of constraints read from the spectrum
+// and the readings searched, with the controls to run the unknown again.
+function renderConstraints(search) {
+  const panel = $("constraints");
+  const cons = Array.isArray(search?.constraints) ? search.constraints : [];
+  const readings = Array.isArray(search?.readings) ? search.readings : [];
+  const notes = Array.isArray(search?.notes) ? search.notes : [];
+  panel.hidden = !search || (!cons.length && !readings.length && !notes.length);
+  if (panel.hidden) return;
+  panel.open = search.scope === "constrained";
+  const on = cons.filter((c) => c.enabled !== false).length;
+  $("constraints-count").textContent = `${cons.length} constraint${cons.length === 1 ? "" : "s"} (${on} on), ` +
+    `${readings.length} reading${readings.length === 1 ? "" : "s"}${search.scope === "all isomers" ? "; this search covered all isomers" : ""}`;
+  const ul = $("constraint-list");
+  ul.replaceChildren();
+  cons.forEach((c, i) => {
+    const li = document.createElement("li");
+    li.dataset.id = c.id;
+    const box = document.createElement("input");
+    box.type = "checkbox";
+    box.id = `constraint-${i}`;
+    box.value = c.id;
+    box.checked = c.enabled !== false;
+    box.dataset.was = box.checked ? "on" : "off";
+    const lab = document.createElement("label");
+    lab.htmlFor = box.id;
+    const name = document.createElement("span");
+    name.className = "cname";
+    name.textContent = c.name || c.id;
+    const meta = document.createElement("span");
+    meta.className = "cmeta";
+    const peaks = Array.isArray(c.peaks) && c.peaks.length ? `rests on peak${c.peaks.length === 1 ? "" : "s"} ${c.peaks.join(", ")}` : "";
+    meta.textContent = [peaks, typeof c.confidence === "number" ? `holds in about ${Math.round(100 * c.confidence)} % of spectra` : "",
+      `id ${c.id}`].filter(Boolean).join(" · ");
+    lab.append(name, document.createTextNode(`: ${c.reason || ""}`), meta);
+    li.classList.toggle("off", !box.checked);
+    box.addEventListener("change", () => { li.classList.toggle("off", !box.checked); updateRerun(); });
+    li.append(box, lab);
+    ul.append(li);
+  });
+  if (!cons.length) ul.append(Object.assign(document.createElement("li"), { className: "none", textContent: "none read from this spectrum" }));
+  const nl = $("constraint-notes");
+  nl.replaceChildren(...notes.map((n) => Object.assign(document.createElement("li"), { textContent: n })));
+  const tb = $("reading-rows");
+  tb.replaceChildren();
+  for (const r of readings) {
+    const tr = document.createElement("tr");
+    tr.dataset.state = r.state || "";
+    const cells = [r.name || "", typeof r.weight === "number" ? `${(100 * r.weight).toFixed(0)} %` : "—", r.state || "—",
+      typeof r.structures === "number" ? fmt.format(r.structures) : "—", (r.constraints || []).join(", ")];
+    cells.forEach((t, k) => {
+      const td = document.createElement("td");
+      td.textContent = t;
+      if (k === 4) td.className = "ids";
+      tr.append(td);
+    });
+    tb.append(tr);
+  }
+  $("reading-rows").closest(".table-wrap").hidden = !readings.length;
+  $("readings-title").hidden = !readings.length;
+  $("rerun-note").textContent = review.req ? "" : "The job’s request is not at hand, so it cannot be run again from here.";
+  $("rerun-all").disabled = !review.req;
+  updateRerun();
+}
+
+// disabledIDs lists the constraints the panel has switched off.
+function disabledIDs() {
+  return [...$("constraint-list").querySelectorAll("input[type=checkbox]")].filter((b) => !b.checked).map((b) => b.value);
+}
+
+function updateRerun() {
+  const changed = [...$("constraint-list").querySelectorAll("input[type=checkbox]")]
+    .some((b) => (b.checked ? "on" : "off") !== b.dataset.was);
+  $("rerun-constraints").disabled = !review?.req || !changed;
+}
+
+// rerun submits the job's request again with changed options and opens
+// the new job.
+async function rerun(change, btn) {
+  const body = JSON.parse(JSON.stringify(review.req));
+  body.options = { ...(body.options || {}) };
+  change(body.options);
+  for (const k of Object.keys(body.options)) {
+    const v = body.options[k];
+    if (v === undefined || v === false || (Array.isArray(v) && !v.length)) delete body.options[k];
+  }
+  btn.disabled = true;
+  $("rerun-note").textContent = "Sending…";
+  try {
+    const job = await api("POST", "/v1/jobs", body, { idempotencyKey: newKey() });
+    sessionStorage.setItem(REQ_STORE + job.id, JSON.stringify(body));
+    go(`/jobs/${job.id}`);
+  } catch (err) {
+    const fields = Array.isArray(err.problem?.errors) ? err.problem.errors.map((e) => `${e.field}: ${e.detail}`).join("; ") : "";
+    $("rerun-note").textContent = `Could not run it again: ${err.message}${fields ? ` (${fields})` : ""}`;
+    btn.disabled = false;
   }
 }
 
@@ -837,11 +1129,13 @@ function selectCandidate(i, focusDetail) {
   $("detail-title").textContent = `Candidate #${c.rank ?? i + 1}`;
   $("detail-smiles").textContent = c.smiles;
   $("detail-numbers").textContent = `probability ${pctText(c.probability)}` +
-    (c.score !== undefined ? ` · score ${c.score.toFixed(2)}` : "");
+    (c.score !== undefined ? ` · score ${c.score.toFixed(2)}` : "") +
+    (c.carbonScore !== undefined ? ` (13C part ${c.carbonScore.toFixed(2)})` : "");
   review.zoom = null;
   renderDetailDrawing();
   renderExplain();
   renderPlot();
+  renderCarbon();
   if (focusDetail) $("detail-title").scrollIntoView({ block: "nearest" });
 }
 
@@ -1098,6 +1392,65 @@ function renderPlot() {
   });
 }
 
+// renderCarbon draws the 13C panel and table of the selected candidate:
+// the observed 13C peaks always (when there are any), its predicted carbons
+// and their assignment when the ranking scored the 13C list.
+function renderCarbon() {
+  const c = review.candidates[review.selected];
+  const obs = review.carbon || [];
+  $("carbon-figure").hidden = obs.length === 0;
+  $("carbon-explain").hidden = !c.hasCarbon;
+  if (!obs.length) return;
+  const unexplained = new Set(c.carbonUnexplained.map((u) => u.peak));
+  const predicted = [
+    ...c.carbonAssignments.flatMap((a) => a.signals),
+    ...c.carbonUnobserved.map((u) => ({ ...u, unobserved: true })),
+  ];
+  const links = c.carbonAssignments.flatMap((a) => a.signals.map((sg) => ({ peak: a.peak, signal: sg.signal })));
+  const range = fitCarbonRange([...obs.flatMap((p) => [p.shift, p.hi, p.lo]), ...predicted.map((p) => p.shift)]);
+  drawCarbonPlot($("carbon-plot"), {
+    observed: obs.map((p) => ({ ...p, unexplained: unexplained.has(p.index) })),
+    predicted, links, hi: range.hi, lo: range.lo, name: `#${c.rank ?? review.selected + 1}`,
+  });
+  $("carbon-caption").textContent = c.hasCarbon
+    ? "13C: observed peaks (top, taller for more carbons) against the selected candidate’s predicted carbons (bottom); lines join each peak to the carbons assigned to it. δ runs from high on the left to low on the right."
+    : "13C: the observed peaks (taller for more carbons). This ranking did not score the 13C list, so no predicted carbons are drawn. δ runs from high on the left to low on the right.";
+  if (!c.hasCarbon) return;
+  const tb = $("carbon-rows");
+  tb.replaceChildren();
+  for (const a of c.carbonAssignments) {
+    const tr = document.createElement("tr");
+    const obsShift = a.range ? `${Math.max(...a.range).toFixed(1)}–${Math.min(...a.range).toFixed(1)}` : fmtNum(a.shift, 1);
+    const cells = [
+      ["obs-shift", obsShift], ["dept", `${a.dept || "—"} / ${a.predClass || "—"}`], ["pred-shift", fmtNum(a.pred, 1)],
+      ["delta", a.shift !== undefined && a.pred !== undefined ? signed(a.shift - a.pred, 1) : "—"],
+      ["carbons", `${a.count || "—"} / ${a.carbons}`], ["share", a.share !== undefined ? signed(a.share) : "—"],
+    ];
+    for (const [cls, text] of cells) {
+      const td = document.createElement("td");
+      td.className = cls;
+      td.textContent = text;
+      tr.append(td);
+    }
+    if (a.reason) {
+      const why = document.createElement("span");
+      why.className = "why";
+      why.textContent = a.reason;
+      tr.children[1].append(why);
+    }
+    tb.append(tr);
+  }
+  const list = (id, items, text) => {
+    const ul = $(id);
+    ul.replaceChildren(...items.map((it) => Object.assign(document.createElement("li"), { textContent: text(it) })));
+    if (!items.length) ul.append(Object.assign(document.createElement("li"), { className: "none", textContent: "none" }));
+  };
+  list("carbon-unexplained", c.carbonUnexplained, (u) => `δ ${fmtNum(u.shift, 1)}${u.dept ? ` (${u.dept})` : ""}` +
+    `${u.share !== undefined ? ` — costs ${signed(u.share)} nats` : ""}${u.reason ? `: ${u.reason}` : ""}`);
+  list("carbon-unobserved", c.carbonUnobserved, (u) => `${u.kind || u.cls || "carbon"}${u.cls ? ` (${u.cls})` : ""}, predicted δ ${fmtNum(u.shift, 1)}` +
+    `${u.share !== undefined ? ` — ${signed(u.share)} nats` : ""}${u.reason ? `: ${u.reason}` : ""}`);
+}
+
 function setZoom() {
   const hi = parseFloat($("zoom-hi").value), lo = parseFloat($("zoom-lo").value);
   if (isFinite(hi) && isFinite(lo) && Math.abs(hi - lo) >= 0.02) {
@@ -1122,14 +1475,52 @@ function csvField(v) {
   return /[",\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
 }
 
+// rankingCSV writes one row per candidate. Every row carries how far the
+// search went (search_status, search_stop_reason, search_scope), so a row
+// copied elsewhere still says whether its ranking came from a search that
+// stopped early or ran only inside the spectrum's readings; a ranking
+// without candidates gets one row with only those columns.
 function rankingCSV() {
-  const head = ["rank", "smiles", "probability", "score", "assigned_peaks", "unexplained_peaks", "unobserved_environments", "summary"];
+  const head = ["rank", "smiles", "probability", "score", "assigned_peaks", "unexplained_peaks", "unobserved_environments", "summary",
+    "carbon_score", "carbon_assigned_peaks", "carbon_unexplained_peaks", "unobserved_carbons",
+    "search_status", "search_stop_reason", "search_scope"];
+  const s = review.data.search || {};
+  const searchCols = [s.status || "", s.status === "stopped early" ? s.stop_reason || "" : "", s.scope || ""];
   const out = [head.join(",")];
   review.candidates.forEach((c, i) => {
-    out.push([c.rank ?? i + 1, c.smiles, c.probability, c.score, c.assignments.length, c.unexplained.length, c.unobserved.length, c.summary]
-      .map(csvField).join(","));
+    const carbon = c.hasCarbon ? [c.carbonScore, c.carbonAssignments.length, c.carbonUnexplained.length, c.carbonUnobserved.length] : ["", "", "", ""];
+    out.push([c.rank ?? i + 1, c.smiles, c.probability, c.score, c.assignments.length, c.unexplained.length, c.unobserved.length, c.summary,
+      ...carbon, ...searchCols].map(csvField).join(","));
   });
+  if (!review.candidates.length) out.push([...Array(head.length - 3).fill(""), ...searchCols].map(csvField).join(","));
   return out.join("\r\n") + "\r\n";
+}
+
+// peaksCSV writes the observed 1H and 13C lists as the ranking read them.
+function peaksCSV() {
+  const head = ["nucleus", "index", "shift", "shift_hi", "shift_lo", "multiplicity", "j_hz", "integral", "implied_h", "carbons", "dept", "excluded"];
+  const out = [head.join(",")];
+  for (const p of review.observed) {
+    out.push(["1H", p.index, p.shift, p.hi ?? "", p.lo ?? "", p.multiplicity, (p.j || []).join(" "), p.integral ?? "", p.h ?? "", "", "",
+      p.excluded ? "yes" : ""].map(csvField).join(","));
+  }
+  for (const p of review.carbon || []) {
+    out.push(["13C", p.index, p.shift, p.hi ?? "", p.lo ?? "", "", "", "", "", p.count || "", p.dept || "", ""].map(csvField).join(","));
+  }
+  return out.join("\r\n") + "\r\n";
+}
+
+// rankingJSON is the service's candidate list with the job's request and
+// a top-level search_status, so the file says how far the search went.
+function rankingJSON() {
+  const s = review.data.search || {};
+  const out = {
+    search_status: s.status || "", search_stop_reason: s.status === "stopped early" ? s.stop_reason || "" : undefined,
+    ...review.data,
+    request: review.req || undefined,
+  };
+  if (!Array.isArray(review.data.carbon_peaks) && review.carbon?.length) out.carbon_peaks_as_submitted = review.carbon;
+  return JSON.stringify(out, null, 2) + "\n";
 }
 
 // ---------- start ----------
@@ -1152,8 +1543,8 @@ function init() {
   $("submit-form").addEventListener("submit", submit);
   $("load-example").addEventListener("click", loadExample);
   $("clear-form").addEventListener("click", clearForm);
-  ["mhz", "solvent", "reference", "top-k", "filter", "require", "forbid"].forEach((id) =>
-    $(id).addEventListener("input", () => clearFieldError(id === "top-k" ? "top_k" : id)));
+  ["mhz", "solvent", "reference", "top-k", "filter", "require", "forbid", "max-nodes"].forEach((id) =>
+    $(id).addEventListener("input", () => clearFieldError({ "top-k": "top_k", "max-nodes": "max_nodes" }[id] || id)));
   $("key-open").addEventListener("click", () => askForKey("Enter a different API key, or forget the one this tab holds."));
   if (sessionStorage.getItem(KEY_STORE)) $("key-open").hidden = false;
   $("detail-copy").addEventListener("click", () => copyText($("detail-smiles").textContent, $("detail-copy")));
@@ -1175,8 +1566,21 @@ function init() {
     renderPlot();
   });
   $("dl-csv").addEventListener("click", () => download(`shiftrank-${review.id}.csv`, "text/csv", rankingCSV()));
-  $("dl-json").addEventListener("click", () => download(`shiftrank-${review.id}.json`, "application/json",
-    JSON.stringify(review.data, null, 2) + "\n"));
+  $("dl-json").addEventListener("click", () => download(`shiftrank-${review.id}.json`, "application/json", rankingJSON()));
+  $("dl-peaks").addEventListener("click", () => download(`shiftrank-${review.id}-peaks.csv`, "text/csv", peaksCSV()));
+  $("print-results").addEventListener("click", () => window.print());
+  window.addEventListener("beforeprint", () => { if (!$("constraints").hidden) $("constraints").open = true; });
+  $("rerun-constraints").addEventListener("click", (e) => rerun((o) => {
+    o.disable = disabledIDs();
+    delete o.all_isomers;
+  }, e.currentTarget));
+  $("rerun-all").addEventListener("click", (e) => rerun((o) => {
+    o.all_isomers = true;
+    delete o.disable;
+  }, e.currentTarget));
+  $("carbon-text").addEventListener("input", () => { updateCarbonNote(); clearFieldError("carbon_peaks"); });
+  $("neutral").addEventListener("change", () => clearFieldError("neutral"));
+  $("disable-clear").addEventListener("click", () => { formDisable = []; showDisable(); clearFieldError("disable"); });
   rows = [{ shift: "", mult: "", j: "", integral: "" }];
   renderRows();
   setNote("");

@@ -177,3 +177,45 @@ export function checkRow(r) {
   if (r.integral.trim() && !/^\d+(?:\.\d+)?$/.test(r.integral.trim())) return "integral must be a positive number";
   return "";
 }
+
+// DEPT classes as written after a 13C shift, mapped to the normal form.
+const DEPT_WORDS = { ch3: "CH3", ch2: "CH2", ch: "CH", c: "C", cq: "C", "c_q": "C", quaternary: "C" };
+
+// parseCarbonText reads a 13C list for live feedback and for the plot when
+// the service's result does not carry the list: shifts (or ranges)
+// separated by commas, each optionally followed by "(2C, CH)"; a leading
+// header up to "δ" or the first number is passed over. It returns
+// {peaks: [{index, shift, hi, lo, count, dept}]} or {error, pos, token}.
+// The service reads the list again; its reading is the one that counts.
+export function parseCarbonText(text) {
+  let base = 0;
+  const d = /δ\s*(?:C\b)?|delta\s*(?:C\b)?/i.exec(text);
+  if (d && !text.slice(0, d.index).replace(/\([^)]*\)/g, "").includes(",")) base = d.index + d[0].length;
+  else if (/^\s*(?:13C|¹³C|\^13C)/i.test(text)) {
+    const h = /^[^\d]*(?:13C|¹³C)[^(\d]*(?:\([^)]*\))?[\s:]*/i.exec(text);
+    base = h ? h[0].length : 0;
+  }
+  const s = text.slice(base);
+  const peaks = [];
+  for (const part of splitTop(s.replace(/\.\s*$/, ""), base)) {
+    const t = part.text.trim().replace(/^[:\s]+/, "");
+    if (t === "") continue;
+    const m = new RegExp(`^(${NUM})(?:\\s*[–—-]\\s*(${NUM}))?\\s*(?:ppm)?\\s*(?:\\((.*)\\))?$`).exec(t);
+    if (!m) {
+      return { error: "expected a shift such as 171.1, optionally followed by (2C, CH)", pos: part.pos + (part.text.length - part.text.trimStart().length), token: t.slice(0, 30) };
+    }
+    const a = parseFloat(m[1].replace("−", "-")), b = m[2] !== undefined ? parseFloat(m[2].replace("−", "-")) : a;
+    const p = { index: peaks.length, shift: (a + b) / 2, hi: Math.max(a, b), lo: Math.min(a, b), count: 0, dept: "" };
+    for (const item of (m[3] || "").split(/[,;]/).map((x) => x.trim()).filter(Boolean)) {
+      const cm = /^(\d+)\s*C$/i.exec(item);
+      if (cm) { p.count = Number(cm[1]); continue; }
+      const both = /^(\d+)\s*[×x]\s*(C[Hq]?\d?)$/i.exec(item);
+      if (both && DEPT_WORDS[both[2].toLowerCase()]) { p.count = Number(both[1]); p.dept = DEPT_WORDS[both[2].toLowerCase()]; continue; }
+      const d = DEPT_WORDS[item.toLowerCase().replace(/[₂₃]/g, (c) => (c === "₂" ? "2" : "3"))];
+      if (d) p.dept = d;
+    }
+    peaks.push(p);
+  }
+  if (!peaks.length) return { error: "no 13C shifts found", pos: 0, token: "" };
+  return { peaks };
+}

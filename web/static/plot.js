@@ -179,3 +179,77 @@ export function fitRange(shifts) {
   if (hi - lo < 2) { hi += 0.5; lo -= 0.5; }
   return { hi, lo };
 }
+
+// drawCarbonPlot renders a 13C stick spectrum into container: observed
+// peaks above the axis (height by carbon count, a band for a range, the
+// DEPT class as label), the selected candidate's predicted carbon signals
+// mirrored below, and lines joining each peak to the signals assigned to
+// it. data: {observed: [{index, shift, hi, lo, count, dept, unexplained}],
+// predicted: [{signal, shift, carbons, cls}], links: [{peak, signal}],
+// hi, lo, name}. predicted may be empty (the ranking did not score 13C).
+export function drawCarbonPlot(container, data) {
+  const W = 900, H = 240, padL = 16, padR = 16;
+  const obsBase = 100, predTop = 130, axisY = 212;
+  const width = W - padL - padR;
+  const { hi, lo } = data;
+  const x = (ppm) => padL + ((hi - ppm) / (hi - lo)) * width;
+  const svg = el("svg", { viewBox: `0 0 ${W} ${H}`, class: "spectrum carbon", role: "img",
+    "aria-label": `13C: ${data.observed.length} observed peaks` +
+      (data.predicted.length ? ` against the ${data.predicted.length} predicted carbon signals of ${data.name}` : "") + `, δ ${hi} to ${lo} ppm` });
+  svg.append(el("rect", { x: 0, y: 0, width: W, height: H, class: "plot-bg" }));
+  const span = hi - lo;
+  const step = span > 120 ? 20 : span > 50 ? 10 : span > 20 ? 5 : span > 8 ? 2 : 1;
+  svg.append(el("line", { x1: padL, x2: W - padR, y1: axisY, y2: axisY, class: "axis" }));
+  for (let t = Math.ceil(lo / step) * step; t <= hi + 1e-9; t += step) {
+    const tx = x(t);
+    svg.append(el("line", { x1: tx, x2: tx, y1: axisY, y2: axisY + 5, class: "axis" }));
+    svg.append(el("text", { x: tx, y: axisY + 18, class: "tick", "text-anchor": "middle" }, t.toFixed(0)));
+  }
+  svg.append(el("text", { x: W - padR, y: H - 2, class: "axis-label", "text-anchor": "end" }, "δC (ppm)"));
+  svg.append(el("line", { x1: padL, x2: W - padR, y1: obsBase, y2: obsBase, class: "baseline" }));
+  svg.append(el("text", { x: padL + 4, y: 14, class: "legend obs" }, "observed 13C"));
+  if (data.predicted.length) {
+    svg.append(el("line", { x1: padL, x2: W - padR, y1: predTop, y2: predTop, class: "baseline" }));
+    svg.append(el("text", { x: padL + 4, y: predTop + 14, class: "legend pred" }, `predicted: ${data.name}`));
+  }
+  const maxC = Math.max(1, ...data.observed.map((p) => p.count || 1), ...data.predicted.map((s) => s.carbons || 1));
+  const obsX = new Map();
+  for (const p of data.observed) {
+    if (typeof p.shift !== "number" || !isFinite(p.shift)) continue;
+    const top = obsBase - 70 * ((p.count || 1) / maxC);
+    const cls = `obs-peak carbon-obs${p.unexplained ? " unexplained" : ""}`;
+    if (p.hi !== undefined && p.lo !== undefined && p.hi - p.lo > 1e-6) {
+      svg.append(el("rect", { x: x(p.hi), y: top, width: Math.max(2, x(p.lo) - x(p.hi)), height: obsBase - top, class: `${cls} band` }));
+    } else {
+      svg.append(el("line", { x1: x(p.shift), x2: x(p.shift), y1: obsBase, y2: top, class: cls }));
+    }
+    obsX.set(p.index, x(p.shift));
+    const label = [p.count > 1 ? `${p.count}C` : "", p.dept].filter(Boolean).join(" ");
+    if (label) svg.append(el("text", { x: x(p.shift), y: top - 4, class: "peak-label", "text-anchor": "middle" }, label));
+  }
+  const predX = new Map();
+  for (const s of data.predicted) {
+    if (typeof s.shift !== "number" || !isFinite(s.shift)) continue;
+    const bottom = predTop + 60 * ((s.carbons || 1) / maxC);
+    svg.append(el("line", { x1: x(s.shift), x2: x(s.shift), y1: predTop, y2: bottom, class: `pred-stick${s.unobserved ? " unobserved" : ""}` }));
+    if (s.cls) svg.append(el("text", { x: x(s.shift), y: bottom + 11, class: "peak-label", "text-anchor": "middle" }, s.cls));
+    predX.set(s.signal, x(s.shift));
+  }
+  for (const l of data.links) {
+    const x1 = obsX.get(l.peak), x2 = predX.get(l.signal);
+    if (x1 === undefined || x2 === undefined) continue;
+    svg.append(el("line", { x1, y1: obsBase + 2, x2, y2: predTop - 2, class: "link" }));
+  }
+  container.replaceChildren(svg);
+}
+
+// fitCarbonRange returns {hi, lo} covering every 13C shift with a margin,
+// in steps of 10 ppm.
+export function fitCarbonRange(shifts) {
+  const s = shifts.filter((v) => typeof v === "number" && isFinite(v));
+  if (!s.length) return { hi: 220, lo: 0 };
+  let hi = Math.ceil((Math.max(...s) + 5) / 10) * 10;
+  let lo = Math.floor((Math.min(...s) - 5) / 10) * 10;
+  if (hi - lo < 20) { hi += 10; lo -= 10; }
+  return { hi, lo };
+}
