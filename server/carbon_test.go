@@ -203,3 +203,38 @@ func TestJobViewSearchStatus(t *testing.T) {
 		}
 	})
 }
+
+// TestJobSearchOptionsReachTheRanker: the search options of a job request
+// reach the ranker as given, and the time and candidate limits of a job
+// are the smaller of the request's and the server's.
+func TestJobSearchOptionsReachTheRanker(t *testing.T) {
+	rk := &fakeRanker{}
+	_, hs := startServer(t, store.NewMemory(), rk, server.Config{AllowAnonymous: true, TimeBudget: 30 * time.Second, MaxCandidates: 5000})
+	c := client{t: t, base: hs.URL}
+	r := c.do("POST", "/v1/jobs", map[string]any{"formula": "C4H8O2", "peaks": ethylAcetateH, "options": map[string]any{
+		"all_isomers": true, "disable": []string{"peak-2-shift"}, "max_nodes": 12345, "neutral": true,
+		"time_budget": 5, "max_candidates": 100,
+	}})
+	require.Equal(t, http.StatusAccepted, r.status, "POST: %s", r.body)
+	var j server.JobView
+	r.decode(t, &j)
+	c.waitJob(j.ID, 10*time.Second)
+	r = c.do("POST", "/v1/jobs", map[string]any{"formula": "C4H8O2", "peaks": ethylAcetateH})
+	require.Equal(t, http.StatusAccepted, r.status, "POST: %s", r.body)
+	r.decode(t, &j)
+	c.waitJob(j.ID, 10*time.Second)
+
+	rk.mu.Lock()
+	defer rk.mu.Unlock()
+	require.Len(t, rk.reqs, 2)
+	got := rk.reqs[0]
+	assert.True(t, got.Unconstrained)
+	assert.Equal(t, []string{"peak-2-shift"}, got.Disable)
+	assert.Equal(t, int64(12345), got.MaxNodes)
+	assert.True(t, got.Neutral)
+	assert.Equal(t, 5*time.Second, got.TimeBudget)
+	assert.Equal(t, int64(100), got.MaxCandidates)
+	def := rk.reqs[1]
+	assert.Equal(t, 30*time.Second, def.TimeBudget, "no time_budget: the server's")
+	assert.Equal(t, int64(5000), def.MaxCandidates, "no max_candidates: the server's")
+}

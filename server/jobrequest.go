@@ -71,6 +71,13 @@ type JobOptions struct {
 	// MaxNodes is the search budget in generator nodes; 0 means the
 	// default (ranker.DefaultMaxNodes), at most maxNodesLimit.
 	MaxNodes int64 `json:"max_nodes,omitempty"`
+	// TimeBudget is the ranking's time limit in seconds (a safety stop,
+	// reported as such); 0 means the server's --time-budget, which is
+	// also the most allowed.
+	TimeBudget float64 `json:"time_budget,omitempty"`
+	// MaxCandidates stops the search after this many isomers; 0 means the
+	// server's --max-candidates, which is also the most allowed.
+	MaxCandidates int64 `json:"max_candidates,omitempty"`
 	// Neutral leaves out charge-separated groups (nitro, N-oxide, azide,
 	// diazo, isonitrile).
 	Neutral bool `json:"neutral,omitempty"`
@@ -133,6 +140,12 @@ func (jr JobRequest) rankerRequest(lim limits) (ranker.Request, []FieldError) {
 		Neutral:          jr.Options.Neutral,
 	}
 	rr.TimeBudget = lim.timeBudget
+	if tb := jr.Options.TimeBudget; tb > 0 && time.Duration(tb*float64(time.Second)) < lim.timeBudget {
+		rr.TimeBudget = time.Duration(tb * float64(time.Second))
+	}
+	if mc := jr.Options.MaxCandidates; mc > 0 && (lim.maxCandidates <= 0 || mc < lim.maxCandidates) {
+		rr.MaxCandidates = mc
+	}
 
 	if strings.TrimSpace(jr.Formula) == "" {
 		bad("/formula", "required: a molecular formula such as C4H8O2")
@@ -176,6 +189,12 @@ func (jr JobRequest) rankerRequest(lim limits) (ranker.Request, []FieldError) {
 	}
 	if jr.Options.MaxNodes < 0 || jr.Options.MaxNodes > maxNodesLimit {
 		bad("/options/max_nodes", fmt.Sprintf("must be between 1 and %d (0 or absent means %d)", int64(maxNodesLimit), int64(ranker.DefaultMaxNodes)))
+	}
+	if tb := jr.Options.TimeBudget; tb < 0 || tb > lim.timeBudget.Seconds() || tb > 0 && tb < 1 {
+		bad("/options/time_budget", fmt.Sprintf("must be between 1 and %g seconds, this server's limit (0 or absent means the limit)", lim.timeBudget.Seconds()))
+	}
+	if mc := jr.Options.MaxCandidates; mc < 0 || lim.maxCandidates > 0 && mc > lim.maxCandidates {
+		bad("/options/max_candidates", fmt.Sprintf("must be between 1 and %d, this server's limit (0 or absent means the limit)", lim.maxCandidates))
 	}
 	fields = append(fields, disableFields(jr.Options.Disable)...)
 	fields = append(fields, fragmentFields("/options/require", jr.Options.Require)...)

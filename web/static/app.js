@@ -257,6 +257,8 @@ function showDisable() {
 
 function buildRequest() {
   const maxNodes = $("max-nodes").value.trim();
+  const timeBudget = $("time-budget").value.trim();
+  const maxCand = $("max-candidates").value.trim();
   const body = {
     formula: $("formula").value.trim(),
     peaks: $("peaks-text").value.trim(),
@@ -272,6 +274,8 @@ function buildRequest() {
       all_isomers: $("all-isomers").checked || undefined,
       // Sent as typed: the service says at the field what is wrong with it.
       max_nodes: maxNodes === "" ? undefined : Number(maxNodes),
+      time_budget: timeBudget === "" ? undefined : Number(timeBudget),
+      max_candidates: maxCand === "" ? undefined : Number(maxCand),
       neutral: $("neutral").checked || undefined,
       disable: formDisable.length ? [...formDisable] : undefined,
     },
@@ -284,11 +288,11 @@ function buildRequest() {
 const FIELD_SLOTS = {
   formula: "formula", peaks: "peaks", mhz: "mhz", solvent: "solvent", reference: "reference",
   top_k: "top_k", filter: "filter", require: "require", forbid: "forbid", keep_solvent_peaks: "keep_solvent_peaks",
-  all_isomers: "all_isomers", carbon_peaks: "carbon_peaks", max_nodes: "max_nodes", neutral: "neutral", disable: "disable",
+  all_isomers: "all_isomers", carbon_peaks: "carbon_peaks", max_nodes: "max_nodes", time_budget: "time_budget", max_candidates: "max_candidates", neutral: "neutral", disable: "disable",
 };
 const SLOT_INPUT = { top_k: "top-k", peaks: "peaks-text", keep_solvent_peaks: "keep-solvent", all_isomers: "all-isomers",
-  carbon_peaks: "carbon-text", max_nodes: "max-nodes", disable: "disable-clear" };
-const OPTION_SLOTS = new Set(["require", "forbid", "top_k", "filter", "max_nodes", "neutral", "disable", "keep_solvent_peaks", "all_isomers"]);
+  carbon_peaks: "carbon-text", max_nodes: "max-nodes", time_budget: "time-budget", max_candidates: "max-candidates", disable: "disable-clear" };
+const OPTION_SLOTS = new Set(["require", "forbid", "top_k", "filter", "max_nodes", "time_budget", "max_candidates", "neutral", "disable", "keep_solvent_peaks", "all_isomers"]);
 
 function slotFor(field) {
   const base = String(field || "").replace(/^\/+/, "").replace(/^(body|request)[./]/, "")
@@ -411,6 +415,8 @@ function loadExample() {
   $("all-isomers").checked = false;
   $("carbon-text").value = "";
   $("max-nodes").value = "";
+  $("time-budget").value = "";
+  $("max-candidates").value = "";
   $("neutral").checked = false;
   formDisable = [];
   showDisable();
@@ -446,6 +452,8 @@ function fillForm(req) {
   $("keep-solvent").checked = !!o.keep_solvent_peaks;
   $("all-isomers").checked = !!o.all_isomers;
   $("max-nodes").value = o.max_nodes ? String(o.max_nodes) : "";
+  $("time-budget").value = o.time_budget ? String(o.time_budget) : "";
+  $("max-candidates").value = o.max_candidates ? String(o.max_candidates) : "";
   $("neutral").checked = !!o.neutral;
   formDisable = Array.isArray(o.disable) ? [...o.disable] : [];
   showDisable();
@@ -1543,8 +1551,8 @@ function init() {
   $("submit-form").addEventListener("submit", submit);
   $("load-example").addEventListener("click", loadExample);
   $("clear-form").addEventListener("click", clearForm);
-  ["mhz", "solvent", "reference", "top-k", "filter", "require", "forbid", "max-nodes"].forEach((id) =>
-    $(id).addEventListener("input", () => clearFieldError({ "top-k": "top_k", "max-nodes": "max_nodes" }[id] || id)));
+  ["mhz", "solvent", "reference", "top-k", "filter", "require", "forbid", "max-nodes", "time-budget", "max-candidates"].forEach((id) =>
+    $(id).addEventListener("input", () => clearFieldError({ "top-k": "top_k", "max-nodes": "max_nodes", "time-budget": "time_budget", "max-candidates": "max_candidates" }[id] || id)));
   $("key-open").addEventListener("click", () => askForKey("Enter a different API key, or forget the one this tab holds."));
   if (sessionStorage.getItem(KEY_STORE)) $("key-open").hidden = false;
   $("detail-copy").addEventListener("click", () => copyText($("detail-smiles").textContent, $("detail-copy")));
