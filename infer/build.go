@@ -64,8 +64,8 @@ func (a *analysis) leftover(parts []part) [molecule.NumElements]int {
 		switch pt.tmpl {
 		case tPhenyl:
 			left[molecule.C]--
-		case tPara:
-			left[molecule.C] -= 2
+		case tPara, tOrtho:
+			left[molecule.C] -= 2 * (pt.count / 4)
 		case tTBu:
 			left[molecule.C] -= pt.count / 3
 		}
@@ -212,6 +212,25 @@ func (a *analysis) build(parts []part, v variant, relaxed bool) (*isomers.Spec, 
 			c := &s.Classes[ci]
 			c.MaxDegree = 2
 			c.Neighbours = append(c.Neighbours, isomers.NeighbourRule{Classes: []int{ci}, Min: 1, Max: 1}, isomers.NeighbourRule{Classes: []int{ipso}, Min: 1, Max: 1})
+		case tOrtho:
+			// Per ring: four CH in a row (two ends, two middles) and two
+			// substituted carbons, each bonded to one end and to the
+			// other substituted carbon (or, in a fused system such as
+			// dibenzofuran, also to a substituted carbon of the other
+			// ring): end–middle–middle–end between two substituted
+			// carbons closes a six-membered ring.
+			r := pt.count / 4
+			mids, ipso := len(s.Classes), len(s.Classes)+1
+			s.Classes[ci].Count = 2 * r
+			s.Classes = append(s.Classes,
+				isomers.Class{Name: "middle CH of the ortho C6H4 ring", Element: molecule.C, H: 1, Count: 2 * r, Bonds: isomers.OneDouble, MaxDegree: 2,
+					Neighbours: []isomers.NeighbourRule{{Classes: []int{mids}, Min: 1, Max: 1}, {Classes: []int{ci}, Min: 1, Max: 1}}},
+				isomers.Class{Name: "substituted C of the ortho C6H4 ring", Element: molecule.C, H: 0, Count: 2 * r, Bonds: isomers.OneDouble,
+					Neighbours: []isomers.NeighbourRule{{Classes: []int{ci}, Min: 1, Max: 1}, {Classes: []int{ipso}, Min: 1, Max: 2}}})
+			c := &s.Classes[ci]
+			c.Name = "end CH of the ortho C6H4 ring"
+			c.MaxDegree = 2
+			c.Neighbours = append(c.Neighbours, isomers.NeighbourRule{Classes: []int{mids}, Min: 1, Max: 1}, isomers.NeighbourRule{Classes: []int{ipso}, Min: 1, Max: 1})
 		case tTBu:
 			q := len(s.Classes)
 			s.Classes = append(s.Classes, isomers.Class{Name: "quaternary C of the tert-butyl group", Element: molecule.C, H: 0, Count: pt.count / 3, Bonds: isomers.SingleBonds,
@@ -238,8 +257,8 @@ func (a *analysis) build(parts []part, v variant, relaxed bool) (*isomers.Spec, 
 			switch pt.tmpl {
 			case tPhenyl:
 				left[molecule.C]++
-			case tPara:
-				left[molecule.C] += 2
+			case tPara, tOrtho:
+				left[molecule.C] += 2 * (pt.count / 4)
 			case tTBu:
 				left[molecule.C] += pt.count / 3
 			}
@@ -352,6 +371,8 @@ func (a *analysis) describe(parts []part, v variant, relaxed bool) string {
 			add("C6H5 ring", 1)
 		case tPara:
 			add("para C6H4 ring", 1)
+		case tOrtho:
+			add("ortho C6H4 ring", pt.count/4)
 		case tTBu:
 			add("tert-butyl", pt.count/3)
 		}

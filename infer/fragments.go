@@ -38,7 +38,7 @@ func (a *analysis) separately(peaks []int, logp float64) option {
 		}
 		lp += best.logp
 	}
-	return option{parts: parts, logp: lp, label: "separate"}
+	return option{parts: parts, logp: lp, label: "separate", declines: true}
 }
 
 func (a *analysis) oneH(i int) bool { return a.n[i] == 1 }
@@ -240,8 +240,12 @@ func (a *analysis) ringUnits(used []bool) []unit {
 		if a.constraint(id, name, reason, ar, conf) {
 			var parts []part
 			per := 5
-			if t == tPara {
+			if t == tPara || t == tOrtho {
 				per = 4
+			}
+			if t == tOrtho {
+				// equivalent rings share one class (a symmetric molecule)
+				per, count = 4*count, 1
 			}
 			for r := 0; r < count; r++ {
 				pt := part{el: molecule.C, h: 1, count: per, kind: kSP2, peaks: ar, lo: lo, hi: hi, pair: -1, tmpl: t, tmplID: id}
@@ -268,8 +272,64 @@ func (a *analysis) ringUnits(used []bool) []unit {
 	case total == 4 && len(ar) == 2 && a.n[ar[0]] == 2 && a.n[ar[1]] == 2 && a.f.Count(molecule.C) >= 6 && a.paraPattern(ar):
 		return ring(1, tPara, "para-disubstituted-benzene",
 			fmt.Sprintf("two 2H doublets with an ortho coupling (peaks %s, δ %s): a para-disubstituted benzene ring –C6H4– (AA'BB')", nums, rangeText(lo, hi)), 0.85)
+	case (total == 4 || total == 8) && a.f.Count(molecule.C) >= 6*(total/4) && a.orthoPattern(ar, total/4):
+		what := "an ortho-disubstituted benzene ring –C6H4– (or a benzo ring fused at one bond)"
+		if total == 8 {
+			what = "two equivalent ortho-disubstituted benzene rings (or benzo rings fused at one bond)"
+		}
+		return ring(total/4, tOrtho, "ortho-disubstituted-benzene",
+			fmt.Sprintf("%d aromatic hydrogens (peaks %s, δ %s) with two ortho partners on half of them and one on the others: %s", total, nums, rangeText(lo, hi), what), 0.75)
 	}
 	return nil
+}
+
+// orthoPattern reports whether the aromatic signals look like rings of
+// four adjacent CH (rings equivalent C6H4 rings of an ortho-disubstituted
+// or benzo-fused system): per ring, two hydrogens with one ortho coupling
+// (d, dd, ddd with one J of 6.5–9.5 Hz) and two with two (t, td, dd or ddd
+// with two such J), as 1H signals, or as 2H signals of a symmetric ring
+// (each ring's halves equivalent); or, for one ring, the two 2H
+// multiplets or dd of the symmetric AA'BB' pattern that is not a pair of
+// doublets (that is the para ring). Common practice (Pretsch, Bühlmann,
+// Badertscher, Structure Determination of Organic Compounds: ortho
+// 6.5–9 Hz, meta 1–3 Hz).
+func (a *analysis) orthoPattern(ar []int, rings int) bool {
+	if rings == 1 && len(ar) == 2 && a.n[ar[0]] == 2 && a.n[ar[1]] == 2 {
+		for _, i := range ar {
+			p := a.peaks[i].Pattern
+			symmetric := p.Kind == Multiplet || slices.Equal(p.Lines, []int{2, 2}) && len(p.jIn(orthoJMin, orthoJMax)) <= 1
+			if !symmetric || p.Broad {
+				return false
+			}
+		}
+		return true
+	}
+	ends, middles := 0, 0
+	for _, i := range ar {
+		p := a.peaks[i].Pattern
+		if !p.resolved() || len(p.J) == 0 || len(p.J) != len(p.Lines) {
+			return false
+		}
+		ortho := 0
+		for k, j := range p.J {
+			if j >= orthoJMin && j <= orthoJMax {
+				ortho += p.Lines[k] - 1
+			}
+		}
+		per := a.n[i] / rings
+		if a.n[i]%rings != 0 || per > 2 {
+			return false
+		}
+		switch ortho {
+		case 1:
+			ends += per
+		case 2:
+			middles += per
+		default:
+			return false
+		}
+	}
+	return ends == 2 && middles == 2
 }
 
 // paraPattern reports whether the two 2H signals look like the AA'BB'

@@ -45,6 +45,12 @@ type Reading struct {
 	// shift windows of the strict reading with the same groups; their
 	// structures include the strict reading's.
 	Relaxed bool `json:"relaxed"`
+	// Fallback readings read some peaks one by one although together they
+	// fit a fragment (a benzene ring, a vinyl group, ...) that another
+	// reading uses: like the relaxed readings, they are the alternative
+	// to search when the readings with the fragment explain the spectrum
+	// poorly.
+	Fallback bool `json:"fallback,omitempty"`
 	// Constraints are the IDs of the constraints it applies.
 	Constraints []string `json:"constraints"`
 	// Spec is what the generator builds.
@@ -103,6 +109,7 @@ const (
 	tNone   template = iota
 	tPhenyl          // monosubstituted benzene ring: 5 CH and an ipso C
 	tPara            // para-disubstituted benzene ring: 4 CH and 2 ipso C
+	tOrtho           // ortho-disubstituted benzene ring: 4 adjacent CH and 2 adjacent substituted C
 	tTBu             // tert-butyl: 3 CH3 and a quaternary C
 )
 
@@ -141,6 +148,9 @@ type option struct {
 	parts []part
 	logp  float64
 	label string
+	// declines marks the alternative of a fragment unit that reads its
+	// peaks one by one (see Reading.Fallback)
+	declines bool
 }
 
 // unit is a set of peaks read together.
@@ -256,7 +266,11 @@ func (a *analysis) run(maxR int) []Reading {
 				if relaxed {
 					w += math.Log(0.15)
 				}
-				rs = append(rs, Reading{Name: a.describe(d.parts, v, relaxed), Weight: w, Relaxed: relaxed, Constraints: ids, Spec: *spec, Groups: gi})
+				name := a.describe(d.parts, v, relaxed)
+				if d.fallback && !relaxed {
+					name = strings.TrimSuffix(name, " (strict)") + " (strict, some peaks read without their fragment)"
+				}
+				rs = append(rs, Reading{Name: name, Weight: w, Relaxed: relaxed, Fallback: d.fallback && !relaxed, Constraints: ids, Spec: *spec, Groups: gi})
 			}
 		}
 	}
@@ -793,6 +807,8 @@ func (a *analysis) missingUnit(missing int) unit {
 type decomposition struct {
 	parts []part
 	logp  float64
+	// fallback: some unit was read without the fragment it offers
+	fallback bool
 }
 
 // decompositions returns up to max feasible combinations of the units'
@@ -839,7 +855,11 @@ func (a *analysis) decompositions(units []unit, max int) []decomposition {
 			}
 		}
 		if a.feasible(parts) && a.carbonFits(parts) {
-			out = append(out, decomposition{parts: parts, logp: c.logp})
+			fb := false
+			for k, i := range c.idx {
+				fb = fb || units[k].opts[i].declines && len(units[k].opts) > 1
+			}
+			out = append(out, decomposition{parts: parts, logp: c.logp, fallback: fb})
 		}
 		for k := range c.idx {
 			if c.idx[k]+1 < len(units[k].opts) {
@@ -885,7 +905,7 @@ func (a *analysis) feasible(parts []part) bool {
 		case tPhenyl:
 			use[molecule.C]++
 			sp2++
-		case tPara:
+		case tPara, tOrtho:
 			use[molecule.C] += 2
 			sp2 += 2
 		case tTBu:

@@ -169,3 +169,12 @@ const (
 // range such as "2.00–1.65 (m, 3H)" holds several CH or CH2 hydrogens
 // (common practice).
 const methylMaxSpread = 0.1
+
+// Ortho (three-bond) coupling in benzene rings, Hz (6.5–9.5; Pretsch,
+// Bühlmann, Badertscher, Structure Determination of Organic Compounds,
+// from memory): what tells the ends of a run of four ring CH (one ortho
+// partner) from its middle (two).
+const (
+	orthoJMin = 6.5
+	orthoJMax = 9.5
+)

@@ -477,7 +477,7 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 		reps := make([]ReadingReport, len(readings))
 		for k := range readings {
 			rd := &readings[k]
-			reps[k] = ReadingReport{Name: rd.Name, Weight: rd.Weight, Relaxed: rd.Relaxed, Constraints: rd.Constraints, State: ReadingSkipped}
+			reps[k] = ReadingReport{Name: rd.Name, Weight: rd.Weight, Relaxed: rd.Relaxed, Fallback: rd.Fallback, Constraints: rd.Constraints, State: ReadingSkipped}
 		}
 		// run searches reading k within a node cap; a reading run again
 		// with a larger cap starts over, and the structures it already
@@ -522,14 +522,20 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 				rep.State = ReadingComplete
 			}
 		}
-		var strict, relaxed []int
+		// The readings that drop a fragment (Fallback) come before the
+		// relaxed ones among those that only widen the search.
+		var strict, fallback, relaxed []int
 		for k := range readings {
-			if readings[k].Relaxed {
+			switch {
+			case readings[k].Relaxed:
 				relaxed = append(relaxed, k)
-			} else {
+			case readings[k].Fallback:
+				fallback = append(fallback, k)
+			default:
 				strict = append(strict, k)
 			}
 		}
+		relaxed = append(fallback, relaxed...)
 		// Pass 1: every strict reading gets an equal share of half the
 		// budget, so that small readings are searched completely whatever
 		// the large ones need. Pass 2: the readings cut short start over,

@@ -63,9 +63,13 @@ type SearchReport struct {
 
 // ReadingReport is one reading of the spectrum and what its search did.
 type ReadingReport struct {
-	Name        string   `json:"name"`
-	Weight      float64  `json:"weight"`
-	Relaxed     bool     `json:"relaxed"`
+	Name    string  `json:"name"`
+	Weight  float64 `json:"weight"`
+	Relaxed bool    `json:"relaxed"`
+	// Fallback: the reading leaves out a fragment the others use (see
+	// infer.Reading.Fallback); searched only when needed, like a relaxed
+	// one.
+	Fallback    bool     `json:"fallback,omitempty"`
 	Constraints []string `json:"constraints"`
 	State       string   `json:"state"`
 	// Structures counts the new structures the reading's search found
@@ -93,7 +97,7 @@ func (s *SearchReport) summary(res *Result) string {
 		}
 		fmt.Fprintf(&b, "Complete within the constraints read from the spectrum: %d structures in %d reading(s) of %s; isomers outside these readings were not searched", res.Scored, n, res.Formula)
 		if skipped > 0 {
-			fmt.Fprintf(&b, " (%d relaxed reading(s) were not needed: the strict ones explain the spectrum)", skipped)
+			fmt.Fprintf(&b, " (%d wider reading(s), relaxed or without a fragment, were not needed: the others explain the spectrum)", skipped)
 		}
 	default:
 		done, part := 0, 0
