@@ -272,6 +272,9 @@ func (a *analysis) ringUnits(used []bool) []unit {
 	case total == 4 && len(ar) == 2 && a.n[ar[0]] == 2 && a.n[ar[1]] == 2 && a.f.Count(molecule.C) >= 6 && a.paraPattern(ar):
 		return ring(1, tPara, "para-disubstituted-benzene",
 			fmt.Sprintf("two 2H doublets with an ortho coupling (peaks %s, δ %s): a para-disubstituted benzene ring –C6H4– (AA'BB')", nums, rangeText(lo, hi)), 0.85)
+	case total == 8 && a.f.Count(molecule.C) >= 12 && a.symmetricBenzoMultiplets(ar):
+		return ring(2, tOrtho, "ortho-disubstituted-benzene",
+			fmt.Sprintf("8 aromatic hydrogens (peaks %s, δ %s) in signals of 2 or 4 H, partly unresolved multiplets: two equivalent benzo rings –C6H4– (a symmetric dibenzo-fused system)", nums, rangeText(lo, hi)), 0.6)
 	case (total == 4 || total == 8) && a.f.Count(molecule.C) >= 6*(total/4) && a.orthoPattern(ar, total/4):
 		what := "an ortho-disubstituted benzene ring –C6H4– (or a benzo ring fused at one bond)"
 		if total == 8 {
@@ -281,6 +284,29 @@ func (a *analysis) ringUnits(used []bool) []unit {
 			fmt.Sprintf("%d aromatic hydrogens (peaks %s, δ %s) with two ortho partners on half of them and one on the others: %s", total, nums, rangeText(lo, hi), what), 0.75)
 	}
 	return nil
+}
+
+// symmetricBenzoMultiplets reports whether 8 aromatic hydrogens come as
+// signals of 2 or 4 H (a molecule with two equivalent halves), at least
+// one an unresolved multiplet, none a singlet, and not all doublets (the
+// pattern of two para rings): the usual report of a symmetric
+// dibenzo-fused system such as carbazole or dibenzothiophene, whose
+// rings' AB-type multiplets overlap (common practice).
+func (a *analysis) symmetricBenzoMultiplets(ar []int) bool {
+	multiplets, doublets := 0, 0
+	for _, i := range ar {
+		p := a.peaks[i].Pattern
+		if a.n[i] != 2 && a.n[i] != 4 || p.singlet() || p.Broad {
+			return false
+		}
+		switch {
+		case p.Kind == Multiplet:
+			multiplets++
+		case slices.Equal(p.Lines, []int{2}):
+			doublets++
+		}
+	}
+	return multiplets > 0 && doublets < len(ar)
 }
 
 // orthoPattern reports whether the aromatic signals look like rings of
