@@ -5,6 +5,7 @@
 import { parseFormula, parsePeaks, formatPeaks, checkRow, normalizeMultiplicity, parseCarbonText } from "./chem.js";
 import { putDrawing, rdkit } from "./draw.js";
 import { drawPlot, fitRange, drawCarbonPlot, fitCarbonRange } from "./plot.js";
+import { comparePeaks, likelihoodRatio, patternWord, summaryLine } from "./compare.js";
 
 const $ = (id) => document.getElementById(id);
 const KEY_STORE = "shiftrank.apiKey";
@@ -514,21 +515,60 @@ function clearForm() {
   clearErrors();
 }
 
+// recentState says in words where a listed job stands, with how far the
+// search of a finished one went (from its candidate list).
+function recentState(j, top) {
+  const st = top?.search?.status || "";
+  if (j.status === "succeeded") {
+    return st === "stopped early" ? "done — stopped early" : st === "complete within the constraints"
+      ? "done — complete within the readings" : st === "complete" ? "done — all isomers" : "done";
+  }
+  if (j.status === "cancelled") return top ? "cancelled — best so far kept" : "cancelled";
+  return STATUS_WORDS[j.status] || j.status;
+}
+
+// loadRecent lists the caller's latest jobs: reference, formula, state and
+// the top candidate with its probability (read from each finished job's
+// first candidate).
 async function loadRecent() {
   try {
     const res = await api("GET", "/v1/jobs?limit=8", undefined, { retryAuth: false });
     const jobs = res?.jobs || res?.items || (Array.isArray(res) ? res : []);
-    const ul = $("recent-list");
-    ul.replaceChildren();
-    for (const j of jobs) {
-      const li = document.createElement("li");
+    const tops = await Promise.all(jobs.map((j) => (j.status === "succeeded" || j.status === "cancelled")
+      ? api("GET", `/v1/jobs/${j.id}/candidates?limit=1`, undefined, { retryAuth: false }).catch(() => null)
+      : Promise.resolve(null)));
+    const tb = $("recent-list");
+    tb.replaceChildren();
+    jobs.forEach((j, k) => {
+      const top = tops[k];
+      const c = top?.candidates?.[0];
+      const tr = document.createElement("tr");
+      tr.dataset.id = j.id;
+      tr.dataset.status = j.status;
+      const cell = (cls, text) => {
+        const td = document.createElement("td");
+        td.className = cls;
+        if (text !== undefined) td.textContent = text;
+        tr.append(td);
+        return td;
+      };
       const a = document.createElement("a");
       a.href = `/jobs/${j.id}`;
       a.dataset.route = "";
-      a.textContent = `${j.reference || j.id}`;
-      li.append(a, document.createTextNode(` — ${j.status}${j.created_at ? `, ${new Date(j.created_at).toLocaleString()}` : ""}`));
-      ul.append(li);
-    }
+      a.textContent = j.reference || `job ${j.id.slice(0, 8)}…`;
+      cell("ref").append(a);
+      cell("formula", j.formula || "—");
+      cell("state", recentState(j, top));
+      const tc = cell("top");
+      if (c) {
+        const code = document.createElement("code");
+        code.textContent = c.smiles;
+        tc.append(code);
+      } else tc.textContent = "—";
+      cell("prob", c && typeof c.probability === "number" ? pctText(c.probability) : "—");
+      cell("when", j.created_at ? new Date(j.created_at).toLocaleString() : "—");
+      tb.append(tr);
+    });
     $("recent").hidden = jobs.length === 0;
   } catch (_) {
     $("recent").hidden = true;
@@ -576,6 +616,13 @@ function showSearchState(status, reason) {
   const kind = searchKind(status);
   const badge = $("job-status");
   const bar = $("job-progress");
+  if (badge.dataset.status === "cancelled" && kind) {
+    // A job cancelled while it ran keeps the candidates scored so far.
+    badge.dataset.search = "stopped";
+    bar.dataset.search = "stopped";
+    badge.textContent = "cancelled — best candidates so far kept";
+    return;
+  }
   if (!kind || badge.dataset.status !== "succeeded") {
     delete badge.dataset.search;
     delete bar.dataset.search;
@@ -613,7 +660,8 @@ function showJobState(job) {
   }
   const p = job.progress || {};
   const gen = p.generated || 0, scored = p.scored || 0, total = p.total_estimate || 0;
-  const done = st === "succeeded";
+  const kept = st === "cancelled" && !!job.search_status;
+  const done = st === "succeeded" || kept;
   const stopped = done && searchKind(job.search_status) === "stopped";
   // A search that stopped early does not fill the bar: it shows the share
   // of the estimated isomers scored.
@@ -647,7 +695,8 @@ function showJobState(job) {
   $("cancel-job").hidden = !active;
   const errEl = $("job-error");
   errEl.classList.toggle("quiet-note", st === "cancelled");
-  errEl.textContent = st === "cancelled" ? "This job was cancelled, so it has no ranking. Submit the unknown again to rank it."
+  errEl.textContent = kept ? "This job was cancelled: the candidates below are the best found before the cancel, over the structures scored by then; the true structure may not have been reached."
+    : st === "cancelled" ? "This job was cancelled before it had scored any structure, so it has no ranking. Submit the unknown again to rank it."
     : job.error ? `The job stopped: ${job.error}` : "";
   showSearchState(job.search_status, job.search_stop_reason);
 }
@@ -692,7 +741,7 @@ function showJob(id) {
         return;
       }
       clearInterval(ticker);
-      if (job.status === "succeeded") await showResults(id, job);
+      if (job.status === "succeeded" || (job.status === "cancelled" && job.search_status)) await showResults(id, job);
     } catch (err) {
       if (stopped) return;
       if (err.status === 404) {
@@ -922,6 +971,9 @@ async function showResults(id, job) {
   const sel = $("compare");
   sel.replaceChildren(new Option("none", ""));
   candidates.forEach((c, i) => sel.append(new Option(`#${c.rank ?? i + 1} ${c.smiles}`, String(i))));
+  // The runner-up is drawn over the plot and compared side by side from
+  // the start; any other pair can be chosen.
+  if (candidates.length > 1) { review.compare = 1; sel.value = "1"; }
   renderCandidateList();
   if (candidates.length) selectCandidate(0, false);
   else {
@@ -1127,7 +1179,11 @@ function renderCandidateList() {
 function selectCandidate(i, focusDetail) {
   review.selected = i;
   review.peakSel = -1;
-  if (review.compare === i) { review.compare = -1; $("compare").value = ""; }
+  if (review.compare === i) {
+    // A candidate is not compared with itself: take the other of the top two.
+    review.compare = review.candidates.length > 1 ? (i === 0 ? 1 : 0) : -1;
+    $("compare").value = review.compare >= 0 ? String(review.compare) : "";
+  }
   document.querySelectorAll("#candidate-list .candidate").forEach((li, k) => {
     li.classList.toggle("selected", k === i);
     li.querySelector(".pick").setAttribute("aria-pressed", k === i ? "true" : "false");
@@ -1143,6 +1199,7 @@ function selectCandidate(i, focusDetail) {
   renderDetailDrawing();
   renderExplain();
   renderPlot();
+  renderCompare();
   renderCarbon();
   if (focusDetail) $("detail-title").scrollIntoView({ block: "nearest" });
 }
@@ -1219,16 +1276,32 @@ function renderExplain() {
       envCell.append(at);
     }
     const predCell = td("pred-shift");
-    const predSpan = document.createElement("span");
-    predSpan.className = "pred-value";
-    predSpan.textContent = fmtNum(a.pred);
-    predCell.append(predSpan);
-    const sig = a.envs.map((e) => e.sigma).filter((v) => v !== undefined);
-    if (sig.length) {
-      const sg = document.createElement("span");
-      sg.className = "sigma";
-      sg.textContent = ` ± ${Math.max(...sig).toFixed(2)}`;
-      predCell.append(sg);
+    // Several environments on one peak each keep their own predicted δ
+    // (and Δδ): their mean is a shift no signal has.
+    const own = a.envs.length > 1 && a.envs.every((e) => e.shift !== undefined);
+    if (own) {
+      for (const e of a.envs) {
+        const line = document.createElement("span");
+        line.className = "pred-env";
+        line.dataset.env = String(e.id);
+        line.innerHTML = `<span class="pred-env-value"></span><span class="sigma"></span> <span class="why"></span>`;
+        line.querySelector(".pred-env-value").textContent = fmtNum(e.shift);
+        if (e.sigma !== undefined) line.querySelector(".sigma").textContent = ` ± ${e.sigma.toFixed(2)}`;
+        line.querySelector(".why").textContent = `${e.kind || "environment"}, ${e.h}H`;
+        predCell.append(line);
+      }
+    } else {
+      const predSpan = document.createElement("span");
+      predSpan.className = "pred-value";
+      predSpan.textContent = fmtNum(a.envs.length === 1 && a.envs[0].shift !== undefined ? a.envs[0].shift : a.pred);
+      predCell.append(predSpan);
+      const sig = a.envs.map((e) => e.sigma).filter((v) => v !== undefined);
+      if (sig.length) {
+        const sg = document.createElement("span");
+        sg.className = "sigma";
+        sg.textContent = ` ± ${Math.max(...sig).toFixed(2)}`;
+        predCell.append(sg);
+      }
     }
     const terms = a.breakdown.length ? a.breakdown : a.envs.flatMap((e) => e.breakdown);
     if (terms.length) {
@@ -1247,7 +1320,9 @@ function renderExplain() {
       b.addEventListener("keydown", (ev) => ev.stopPropagation());
       predCell.append(" ", b);
     }
-    td("delta", a.delta !== undefined ? signed(a.delta) : "—");
+    const obsShift = a.peak.shift;
+    td("delta", own && obsShift !== undefined ? a.envs.map((e) => signed(obsShift - e.shift)).join(" / ")
+      : a.delta !== undefined ? signed(a.delta) : "—");
     const mc = td("mult");
     const obsM = document.createElement("span");
     obsM.textContent = `${multText(a.peak.multiplicity, a.peak.j)} / ${multText(a.predMult, a.envs.length === 1 ? a.envs[0].j : [])}`;
@@ -1342,6 +1417,61 @@ function renderExplain() {
   const sum = $("detail-summary");
   sum.textContent = [c.summary, ...c.notes].filter(Boolean).join(" ");
   sum.hidden = !sum.textContent;
+}
+
+// candName names candidate i as the page does ("#2").
+function candName(i) { return `#${review.candidates[i].rank ?? i + 1}`; }
+
+// sideText says what one candidate predicts at a peak: its shift or shifts
+// (each environment its own), the deviation and the pattern.
+function sideText(x) {
+  if (x.kind === "unexplained") return "leaves it unexplained";
+  const sh = x.shifts.map((v) => v.toFixed(2)).join(" and ");
+  const dd = x.deltas.map((d) => signed(d)).join(", ");
+  return `δ ${sh || "—"} (Δδ ${dd || "—"}), ${patternWord(x.pattern) || "no pattern"}, ${x.h} H`;
+}
+
+// renderCompare fills the side-by-side comparison of the selected
+// candidate with the one chosen in #compare, peak by peak in words, with
+// the score difference one click away.
+function renderCompare() {
+  const panel = $("compare-panel");
+  const ia = review.selected, ib = review.compare;
+  panel.hidden = ib < 0 || ib === ia || !review.candidates[ib];
+  if (panel.hidden) return;
+  const a = review.candidates[ia], b = review.candidates[ib];
+  const na = candName(ia), nb = candName(ib);
+  panel.dataset.a = String(ia);
+  panel.dataset.b = String(ib);
+  $("compare-title").textContent = `Side by side: ${na} and ${nb}`;
+  $("compare-head-a").textContent = `${na} predicts`;
+  $("compare-head-b").textContent = `${nb} predicts`;
+  const rows = comparePeaks(a, b, review.observed, na, nb);
+  $("compare-summary").textContent = summaryLine(rows, na, nb);
+  const tb = $("compare-rows");
+  tb.replaceChildren();
+  for (const r of rows) {
+    const tr = document.createElement("tr");
+    tr.dataset.peak = String(r.peak.index);
+    if (r.side) tr.dataset.favours = r.side;
+    const obsPattern = `${patternWord(r.peak.multiplicity) || "—"}${r.peak.h ? `, ${fmtNum(r.peak.h, 1)} H` : ""}`;
+    for (const [cls, text] of [["obs-shift", fmtShift(r.peak)], ["obs-mult", obsPattern],
+      ["side-a", sideText(r.a)], ["side-b", sideText(r.b)], ["verdict", r.verdict]]) {
+      const td = document.createElement("td");
+      td.className = cls;
+      td.textContent = text;
+      tr.append(td);
+    }
+    tb.append(tr);
+  }
+  const d = a.score !== undefined && b.score !== undefined ? a.score - b.score : undefined;
+  $("compare-nats").textContent = d === undefined ? "No scores to compare."
+    : `${na} scores ${signed(d)} nats against ${nb} (likelihood ratio ${likelihoodRatio(d)}); ` +
+      `probabilities ${pctText(a.probability)} and ${pctText(b.probability)}.`;
+  const ul = $("compare-shares");
+  ul.replaceChildren(...rows.filter((r) => r.shareDiff !== undefined).map((r) => Object.assign(document.createElement("li"), {
+    textContent: `δ ${fmtShift(r.peak)}: ${signed(r.shareDiff)} nats (${na} ${signed(r.a.share)}, ${nb} ${signed(r.b.share)})`,
+  })));
 }
 
 // excludedPeaks lists the observed peaks the service left out of the
@@ -1560,6 +1690,7 @@ function init() {
     const v = $("compare").value;
     review.compare = v === "" ? -1 : Number(v);
     renderPlot();
+    renderCompare();
   });
   $("zoom-hi").addEventListener("change", setZoom);
   $("zoom-lo").addEventListener("change", setZoom);
