@@ -3,9 +3,10 @@
 // "/jobs/{id}" a job (history.pushState; a reload of a job URL works).
 
 import { parseFormula, parsePeaks, formatPeaks, checkRow, normalizeMultiplicity, parseCarbonText } from "./chem.js";
-import { putDrawing, rdkit } from "./draw.js";
+import { putDrawing, rdkit, drawSVG } from "./draw.js";
 import { drawPlot, fitRange, drawCarbonPlot, fitCarbonRange } from "./plot.js";
 import { comparePeaks, likelihoodRatio, patternWord, summaryLine } from "./compare.js";
+import { exportHeader, reportHTML } from "./report.js";
 
 const $ = (id) => document.getElementById(id);
 const KEY_STORE = "shiftrank.apiKey";
@@ -1613,6 +1614,11 @@ function csvField(v) {
   return /[",\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
 }
 
+// CSV_HEADER_FIELDS are the fields of exportHeader every CSV row repeats
+// (lists joined with " | ").
+const CSV_HEADER_FIELDS = ["job_id", "reference", "formula", "solvent", "mhz", "peaks_1h", "peaks_13c",
+  "constraints_off", "warnings", "caution"];
+
 // rankingCSV writes one row per candidate. Every row carries how far the
 // search went (search_status, search_stop_reason, search_scope), so a row
 // copied elsewhere still says whether its ranking came from a search that
@@ -1621,16 +1627,18 @@ function csvField(v) {
 function rankingCSV() {
   const head = ["rank", "smiles", "probability", "score", "assigned_peaks", "unexplained_peaks", "unobserved_environments", "summary",
     "carbon_score", "carbon_assigned_peaks", "carbon_unexplained_peaks", "unobserved_carbons",
-    "search_status", "search_stop_reason", "search_scope"];
-  const s = review.data.search || {};
-  const searchCols = [s.status || "", s.status === "stopped early" ? s.stop_reason || "" : "", s.scope || ""];
+    "search_status", "search_stop_reason", "search_scope", "probability_text",
+    ...CSV_HEADER_FIELDS];
+  const h = exportHeader(review);
+  const searchCols = [h.search_status, h.search_stop_reason, h.search_scope];
+  const headerCols = CSV_HEADER_FIELDS.map((k) => (Array.isArray(h[k]) ? h[k].join(" | ") : h[k]));
   const out = [head.join(",")];
   review.candidates.forEach((c, i) => {
     const carbon = c.hasCarbon ? [c.carbonScore, c.carbonAssignments.length, c.carbonUnexplained.length, c.carbonUnobserved.length] : ["", "", "", ""];
     out.push([c.rank ?? i + 1, c.smiles, c.probability, c.score, c.assignments.length, c.unexplained.length, c.unobserved.length, c.summary,
-      ...carbon, ...searchCols].map(csvField).join(","));
+      ...carbon, ...searchCols, pctText(c.probability), ...headerCols].map(csvField).join(","));
   });
-  if (!review.candidates.length) out.push([...Array(head.length - 3).fill(""), ...searchCols].map(csvField).join(","));
+  if (!review.candidates.length) out.push([...Array(12).fill(""), ...searchCols, "", ...headerCols].map(csvField).join(","));
   return out.join("\r\n") + "\r\n";
 }
 
@@ -1654,11 +1662,71 @@ function rankingJSON() {
   const s = review.data.search || {};
   const out = {
     search_status: s.status || "", search_stop_reason: s.status === "stopped early" ? s.stop_reason || "" : undefined,
+    report: exportHeader(review),
     ...review.data,
     request: review.req || undefined,
   };
   if (!Array.isArray(review.data.carbon_peaks) && review.carbon?.length) out.carbon_peaks_as_submitted = review.carbon;
   return JSON.stringify(out, null, 2) + "\n";
+}
+
+// tableText is a candidate's table peak by peak as text cells, atoms
+// numbered from 1 as the page shows them.
+const REPORT_COLUMNS = ["Observed δ", "Assigned to", "Predicted δ", "Δδ", "Multiplicity (obs. / pred.)", "H (obs. / exp.)", "Share of score (nats)"];
+function tableText(c) {
+  return c.assignments.map((a) => {
+    const own = a.envs.length > 1 && a.envs.every((e) => e.shift !== undefined);
+    const pred = own ? a.envs.map((e) => `${fmtNum(e.shift)} (${e.kind || "environment"}, ${e.h}H)`).join("; ")
+      : fmtNum(a.envs.length === 1 && a.envs[0].shift !== undefined ? a.envs[0].shift : a.pred);
+    const dd = own && a.peak.shift !== undefined ? a.envs.map((e) => signed(a.peak.shift - e.shift)).join(" / ")
+      : a.delta !== undefined ? signed(a.delta) : "—";
+    const env = a.envs.map((e) => `${e.kind || "environment"}, ${e.h}H`).join("; ") +
+      (a.atoms.length ? ` (atom${a.atoms.length > 1 ? "s" : ""} ${a.atoms.map((x) => x + 1).join(", ")})` : "");
+    return [fmtShift(a.peak), env || "—", pred, dd,
+      `${multText(a.peak.multiplicity, a.peak.j)} / ${multText(a.predMult, a.envs.length === 1 ? a.envs[0].j : [])}`,
+      `${a.peak.h ? fmtNum(a.peak.h, 1) : "—"} / ${a.expH}`, a.share !== undefined ? signed(a.share) : "—"];
+  });
+}
+
+// downloadReport saves the filing report as one HTML file.
+async function downloadReport() {
+  const top = review.candidates.slice(0, 5);
+  const drawings = await Promise.all(top.map((c) => drawSVG(c.smiles, { width: 300, height: 220 })));
+  const html = reportHTML(review, { drawings, columns: REPORT_COLUMNS,
+    tableRows: review.candidates.length ? tableText(review.candidates[0]) : [], top: 5 });
+  download(`shiftrank-${review.id}-report.html`, "text/html", html);
+}
+
+function downloadBlob(name, blob) {
+  const url = URL.createObjectURL(blob);
+  const a = document.createElement("a");
+  a.href = url;
+  a.download = name;
+  document.body.append(a);
+  a.click();
+  a.remove();
+  setTimeout(() => URL.revokeObjectURL(url), 1000);
+}
+
+// downloadDrawing saves the selected candidate's drawing as SVG or PNG
+// (drawn at twice the screen size on a white ground).
+async function downloadDrawing(kind) {
+  const c = review.candidates[review.selected];
+  const svg = await drawSVG(c.smiles, { width: 600, height: 450 });
+  if (!svg) return;
+  const name = `shiftrank-${review.id}-${c.rank ?? review.selected + 1}`;
+  if (kind === "svg") { download(`${name}.svg`, "image/svg+xml", svg); return; }
+  const img = new Image();
+  const url = URL.createObjectURL(new Blob([svg], { type: "image/svg+xml" }));
+  await new Promise((res, rej) => { img.onload = res; img.onerror = rej; img.src = url; });
+  const cv = document.createElement("canvas");
+  cv.width = 600; cv.height = 450;
+  const g = cv.getContext("2d");
+  g.fillStyle = "#fff";
+  g.fillRect(0, 0, cv.width, cv.height);
+  g.drawImage(img, 0, 0, cv.width, cv.height);
+  URL.revokeObjectURL(url);
+  cv.toBlob((b) => { if (b) downloadBlob(`${name}.png`, b); }, "image/png");
 }
 
 // ---------- start ----------
@@ -1708,7 +1776,13 @@ function init() {
   $("dl-json").addEventListener("click", () => download(`shiftrank-${review.id}.json`, "application/json", rankingJSON()));
   $("dl-peaks").addEventListener("click", () => download(`shiftrank-${review.id}-peaks.csv`, "text/csv", peaksCSV()));
   $("print-results").addEventListener("click", () => window.print());
-  window.addEventListener("beforeprint", () => { if (!$("constraints").hidden) $("constraints").open = true; });
+  $("dl-report").addEventListener("click", downloadReport);
+  $("dl-svg").addEventListener("click", () => downloadDrawing("svg"));
+  $("dl-png").addEventListener("click", () => downloadDrawing("png"));
+  window.addEventListener("beforeprint", () => {
+    if (!$("constraints").hidden) $("constraints").open = true;
+    $("compare-numbers").open = true;
+  });
   $("rerun-constraints").addEventListener("click", (e) => rerun((o) => {
     o.disable = disabledIDs();
     delete o.all_isomers;
