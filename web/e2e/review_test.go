@@ -460,5 +460,58 @@ func TestExportHeader(t *testing.T) {
 	}
 }
 
-func testIntegralWarning(p *page) { p.t.Skip("not yet") }
-func testRecentJobs(p *page)      { p.t.Skip("not yet") }
+// testIntegralWarning enters integrals adding up to 18 H for C4H8O2
+// (8 H): the page warns at the peak field before any run and offers to
+// rank anyway.
+func testIntegralWarning(p *page) {
+	p.open("/")
+	p.do("fill integrals of 18 H for an 8 H formula",
+		chromedp.SendKeys(chromedp.ID("formula"), "C4H8O2"),
+		chromedp.SendKeys(chromedp.ID("peaks-text"), "4.12 (q, J = 7.1 Hz, 6H), 2.05 (s, 6H), 1.26 (t, J = 7.1 Hz, 6H)"),
+		chromedp.Click(chromedp.ID("submit")))
+	p.waitFor("integral warning", `!document.querySelector("#integral-warning").hidden`, 5*time.Second)
+	msg := p.text("#integral-warning-text")
+	if !strings.Contains(msg, "18 H") || !strings.Contains(msg, "C4H8O2 has 8 H") {
+		p.t.Errorf("integral warning %q, want the sum (18 H) and the formula's 8 H", msg)
+	}
+	var path string
+	var near bool
+	p.eval(`location.pathname`, &path)
+	p.eval(`document.querySelector("#peaks-text").closest(".field").contains(document.querySelector("#integral-warning"))`, &near)
+	if path != "/" || !near {
+		p.t.Errorf("after the warning the page is at %q (want still the form) and the warning is at the peak field: %v", path, near)
+	}
+	p.shot("integral-warning")
+	p.do("rank anyway", chromedp.Click(chromedp.ID("integral-proceed")))
+	jobIDFromURL(p)
+
+	// Integrals that fit the formula run without a word.
+	p.open("/")
+	p.do("the example", chromedp.Click(chromedp.ID("load-example")), chromedp.Click(chromedp.ID("submit")))
+	jobIDFromURL(p)
+}
+
+// testRecentJobs checks the list of recent jobs on the form: reference,
+// formula, state, top candidate and its probability.
+func testRecentJobs(p *page) {
+	p.open("/")
+	p.waitFor("recent jobs", `document.querySelectorAll("#recent-list tr").length > 0`, 10*time.Second)
+	var rows []struct {
+		Ref, Formula, State, Top, Prob string
+	}
+	p.waitFor("a finished job with its top candidate", `[...document.querySelectorAll("#recent-list tr")].some(tr => tr.querySelector(".top code"))`, 30*time.Second)
+	p.eval(`[...document.querySelectorAll("#recent-list tr")].map(tr => ({Ref: tr.querySelector(".ref").textContent,
+		Formula: tr.querySelector(".formula").textContent, State: tr.querySelector(".state").textContent,
+		Top: tr.querySelector(".top").textContent, Prob: tr.querySelector(".prob").textContent}))`, &rows)
+	found := false
+	for _, r := range rows {
+		p.t.Logf("recent: %+v", r)
+		if r.Formula == "C4H8O2" && strings.HasPrefix(r.State, "done") && r.Top == "CC(=O)OCC" && r.Prob != "—" {
+			found = true
+		}
+	}
+	if !found {
+		p.t.Errorf("no recent job shows C4H8O2, done, with its top candidate CC(=O)OCC and a probability")
+	}
+	p.shotOf("#recent", "recent-jobs")
+}

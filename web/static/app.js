@@ -376,12 +376,47 @@ function newKey() {
   return [...crypto.getRandomValues(new Uint8Array(16))].map((b) => b.toString(16).padStart(2, "0")).join("");
 }
 
+// integralProblem checks the integrals against the formula before a run:
+// integrals that add up to more H than the formula has cannot all be H
+// counts of this unknown. It returns the warning, or "" when they fit
+// (or there is nothing to check).
+function integralProblem(formula, peaksText) {
+  const f = parseFormula(formula);
+  if (f.error) return "";
+  const r = parsePeaks(peaksText);
+  if (r.error) return "";
+  const ints = r.rows.map((row) => Number(row.integral)).filter((v) => isFinite(v) && v > 0);
+  if (!ints.length) return "";
+  const sum = ints.reduce((a, b) => a + b, 0);
+  if (sum <= f.hCount + 0.5) return "";
+  const shown = Number.isInteger(sum) ? String(sum) : sum.toFixed(1);
+  return `The integrals add up to ${shown} H, but ${formula.trim()} has ${f.hCount} H: read as hydrogen counts they cannot ` +
+    `fit this formula. Check the integrals (or the formula); if they are relative areas, scale them to the formula's ${f.hCount} H. ` +
+    "You can still rank with them as they are.";
+}
+
+let integralsAccepted = ""; // the formula and peaks the user chose to rank despite the warning
+
+function clearIntegralWarning() {
+  $("integral-warning").hidden = true;
+  $("peaks-text").removeAttribute("aria-invalid");
+}
+
 async function submit(e) {
   e.preventDefault();
   clearErrors();
+  clearIntegralWarning();
   const body = buildRequest();
   if (!body.formula) { showProblem({ problem: { errors: [{ field: "formula", message: "Enter the molecular formula." }] } }); return; }
   if (!body.peaks) { showProblem({ problem: { errors: [{ field: "peaks", message: "Enter at least one peak." }] } }); return; }
+  const warn = integralProblem(body.formula, body.peaks);
+  if (warn && integralsAccepted !== `${body.formula}\n${body.peaks}`) {
+    $("integral-warning-text").textContent = warn;
+    $("integral-warning").hidden = false;
+    $("peaks-text").setAttribute("aria-invalid", "true");
+    $("integral-proceed").focus();
+    return;
+  }
   const btn = $("submit");
   btn.disabled = true;
   btn.textContent = "Sending…";
@@ -966,7 +1001,7 @@ async function showResults(id, job) {
   warn.replaceChildren();
   for (const w of data.warnings || []) {
     const li = document.createElement("li");
-    li.textContent = w;
+    li.textContent = exchangeHint(w, candidates);
     warn.append(li);
   }
   const sel = $("compare");
@@ -981,6 +1016,18 @@ async function showResults(id, job) {
     $("detail").hidden = true;
     $("results-summary").textContent += " No candidate fits the formula and the constraints.";
   }
+}
+
+// exchangeHint keeps the guess that missing integral H are exchangeable
+// H not observed only when the leading candidate has exchangeable H; for
+// one without, it says so instead of guessing.
+function exchangeHint(w, candidates) {
+  const m = /^(.*?):\s*(\S+) exchangeable H not observed\?$/.exec(w);
+  if (!m) return w;
+  const top = candidates[0];
+  const hasExch = top && top.unobserved.some((e) => e.exchangeable);
+  if (hasExch) return w;
+  return `${m[1]}: ${m[2]} H not accounted for, and the leading candidate has no exchangeable H left unobserved — check the integrals.`;
 }
 
 // SCOPE_HEADS are the first line of a result, by search kind.
@@ -1733,7 +1780,7 @@ async function downloadDrawing(kind) {
 
 function init() {
   $("formula").addEventListener("input", () => { updateDBE(); clearFieldError("formula"); });
-  $("peaks-text").addEventListener("input", () => { syncRowsFromText(); clearFieldError("peaks"); });
+  $("peaks-text").addEventListener("input", () => { syncRowsFromText(); clearFieldError("peaks"); clearIntegralWarning(); });
   $("peak-rows").addEventListener("input", (e) => {
     const tr = e.target.closest("tr");
     const i = [...$("peak-rows").children].indexOf(tr);
@@ -1747,6 +1794,11 @@ function init() {
     $(`peak-${rows.length - 1}-shift`).focus();
   });
   $("submit-form").addEventListener("submit", submit);
+  $("integral-proceed").addEventListener("click", () => {
+    integralsAccepted = `${$("formula").value.trim()}\n${$("peaks-text").value.trim()}`;
+    clearIntegralWarning();
+    $("submit-form").requestSubmit();
+  });
   $("load-example").addEventListener("click", loadExample);
   $("clear-form").addEventListener("click", clearForm);
   ["mhz", "solvent", "reference", "top-k", "filter", "require", "forbid", "max-nodes", "time-budget", "max-candidates"].forEach((id) =>
