@@ -417,6 +417,46 @@ func TestCancelKeepsPartialRanking(t *testing.T) {
 	})
 }
 
+// TestForgivingFormula checks that the service reads the formula forms
+// molecule.NormalizeFormula accepts (lower case, spaces, subscript digits)
+// and hands the ranker the Hill formula, and refuses an ambiguous lower
+// case at /formula.
+func TestForgivingFormula(t *testing.T) {
+	for _, tc := range []struct {
+		name, formula string
+		ok            bool
+	}{
+		{"lower case", "c2h6o", true},
+		{"spaces", "C2 H6 O", true},
+		{"subscript digits", "C₂H₆O", true},
+		{"Hill order from any order", "H6OC2", true},
+		{"ambiguous lower case", "c2h4co", false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			rk := &fakeRanker{}
+			_, hs := startServer(t, store.NewMemory(), rk, server.Config{AllowAnonymous: true, Workers: 1})
+			c := client{t: t, base: hs.URL}
+			job := ethanolJob()
+			job["formula"] = tc.formula
+			r := c.do("POST", "/v1/jobs", job)
+			if !tc.ok {
+				require.Equal(t, http.StatusBadRequest, r.status, "POST formula %q: %s", tc.formula, r.body)
+				assert.Contains(t, string(r.body), "/formula")
+				assert.Contains(t, string(r.body), "ambiguous")
+				return
+			}
+			require.Equal(t, http.StatusAccepted, r.status, "POST formula %q: %s", tc.formula, r.body)
+			var j server.JobView
+			r.decode(t, &j)
+			c.waitJob(j.ID, 5*time.Second)
+			rk.mu.Lock()
+			defer rk.mu.Unlock()
+			require.NotEmpty(t, rk.reqs)
+			assert.Equal(t, "C2H6O", rk.reqs[len(rk.reqs)-1].Formula, "formula handed to the ranker for %q", tc.formula)
+		})
+	}
+}
+
 func TestCancelQueued(t *testing.T) {
 	secret := []byte("anonymous-callback-secret")
 	got := make(chan server.CallbackPayload, 1)
