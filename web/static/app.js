@@ -1320,7 +1320,9 @@ function renderExplain() {
     if (a.atoms.length) {
       const at = document.createElement("span");
       at.className = "why";
-      at.textContent = `atom${a.atoms.length > 1 ? "s" : ""} ${a.atoms.join(", ")}`;
+      // Atoms count from 1 in SMILES order on the page (and the CLI); the
+      // API's atom indices are 0-based.
+      at.textContent = `atom${a.atoms.length > 1 ? "s" : ""} ${a.atoms.map((x) => x + 1).join(", ")}`;
       envCell.append(at);
     }
     const predCell = td("pred-shift");
