@@ -17,6 +17,9 @@ import (
 	"testing"
 	"time"
 
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+
 	"shiftrank/server"
 	"shiftrank/store"
 )
@@ -363,6 +366,95 @@ func TestCancel(t *testing.T) {
 			t.Errorf("candidates of a cancelled job = %d, want 409", r.status)
 		}
 	})
+}
+
+// TestCancelKeepsPartialRanking checks that a job cancelled while it ran
+// keeps the ranking its ranker hands back with the cancel, marked as
+// cancelled: the job stays cancelled, its search stopped early by the
+// cancel, and its candidates can be read.
+func TestCancelKeepsPartialRanking(t *testing.T) {
+	forEachStore(t, func(t *testing.T, st testStore) {
+		rk := &fakeRanker{block: true, partial: true}
+		_, hs := startServer(t, st, rk, server.Config{AllowAnonymous: true, Workers: 1})
+		c := client{t: t, base: hs.URL}
+		var j server.JobView
+		c.do("POST", "/v1/jobs", ethanolJob()).decode(t, &j)
+		require.Eventually(t, func() bool {
+			var cur server.JobView
+			c.do("GET", "/v1/jobs/"+j.ID, nil).decode(t, &cur)
+			return cur.Status == store.StatusRunning && cur.Progress.Generated > 0
+		}, 10*time.Second, 20*time.Millisecond, "job never ran with progress")
+		r := c.do("POST", "/v1/jobs/"+j.ID+"/cancel", nil)
+		require.Equal(t, http.StatusAccepted, r.status, "cancel: %s", r.body)
+		done := c.waitJob(j.ID, 5*time.Second)
+		require.Equal(t, store.StatusCancelled, done.Status)
+		var view server.JobView
+		c.do("GET", "/v1/jobs/"+j.ID, nil).decode(t, &view)
+		assert.Equal(t, "stopped early", view.SearchStatus, "job view search_status")
+		assert.Equal(t, server.StopReasonCancelled, view.SearchStopReason, "job view search_stop_reason")
+		require.NotNil(t, view.Error)
+		assert.Equal(t, server.CancelledKeptMessage, *view.Error)
+		assert.Equal(t, "C2H6O", view.Formula, "job view formula")
+
+		r = c.do("GET", "/v1/jobs/"+j.ID+"/candidates", nil)
+		require.Equal(t, http.StatusOK, r.status, "candidates of a cancelled job with a kept ranking: %s", r.body)
+		var list struct {
+			Total    int  `json:"total"`
+			Complete bool `json:"complete"`
+			Search   struct {
+				Status     string `json:"status"`
+				StopReason string `json:"stop_reason"`
+			} `json:"search"`
+			Warnings []string `json:"warnings"`
+		}
+		r.decode(t, &list)
+		assert.Equal(t, 3, list.Total, "candidates kept")
+		assert.False(t, list.Complete)
+		assert.Equal(t, "stopped early", list.Search.Status)
+		assert.Equal(t, server.StopReasonCancelled, list.Search.StopReason)
+		require.NotEmpty(t, list.Warnings)
+		assert.Contains(t, list.Warnings[len(list.Warnings)-1], "cancelled on request")
+	})
+}
+
+// TestForgivingFormula checks that the service reads the formula forms
+// molecule.NormalizeFormula accepts (lower case, spaces, subscript digits)
+// and hands the ranker the Hill formula, and refuses an ambiguous lower
+// case at /formula.
+func TestForgivingFormula(t *testing.T) {
+	for _, tc := range []struct {
+		name, formula string
+		ok            bool
+	}{
+		{"lower case", "c2h6o", true},
+		{"spaces", "C2 H6 O", true},
+		{"subscript digits", "C₂H₆O", true},
+		{"Hill order from any order", "H6OC2", true},
+		{"ambiguous lower case", "c2h4co", false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			rk := &fakeRanker{}
+			_, hs := startServer(t, store.NewMemory(), rk, server.Config{AllowAnonymous: true, Workers: 1})
+			c := client{t: t, base: hs.URL}
+			job := ethanolJob()
+			job["formula"] = tc.formula
+			r := c.do("POST", "/v1/jobs", job)
+			if !tc.ok {
+				require.Equal(t, http.StatusBadRequest, r.status, "POST formula %q: %s", tc.formula, r.body)
+				assert.Contains(t, string(r.body), "/formula")
+				assert.Contains(t, string(r.body), "ambiguous")
+				return
+			}
+			require.Equal(t, http.StatusAccepted, r.status, "POST formula %q: %s", tc.formula, r.body)
+			var j server.JobView
+			r.decode(t, &j)
+			c.waitJob(j.ID, 5*time.Second)
+			rk.mu.Lock()
+			defer rk.mu.Unlock()
+			require.NotEmpty(t, rk.reqs)
+			assert.Equal(t, "C2H6O", rk.reqs[len(rk.reqs)-1].Formula, "formula handed to the ranker for %q", tc.formula)
+		})
+	}
 }
 
 func TestCancelQueued(t *testing.T) {

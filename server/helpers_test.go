@@ -75,7 +75,11 @@ func quietLogger(t testing.TB) *slog.Logger {
 // fakeRanker returns a fixed ranking at once, or, with block set, reports
 // progress until its context is cancelled.
 type fakeRanker struct {
-	block    bool
+	block bool
+	// partial makes a blocked ranking hand back its fixed ranking with
+	// the context's error when cancelled, as a ranker keeping its best so
+	// far does.
+	partial  bool
 	mu       sync.Mutex
 	calls    int
 	returned int
@@ -100,6 +104,11 @@ func (f *fakeRanker) Rank(ctx context.Context, req ranker.Request, progress func
 				f.mu.Lock()
 				f.returned++
 				f.mu.Unlock()
+				if f.partial {
+					res := fixedRanking(req)
+					res.Complete, res.Scored = false, n/2
+					return res, ctx.Err()
+				}
 				return nil, ctx.Err()
 			case <-time.After(10 * time.Millisecond):
 			}
@@ -108,6 +117,11 @@ func (f *fakeRanker) Rank(ctx context.Context, req ranker.Request, progress func
 		}
 	}
 	progress(ranker.Progress{Generated: 3, Scored: 3, TotalEstimate: 3})
+	return fixedRanking(req), nil
+}
+
+// fixedRanking is the fake ranker's result: three candidates.
+func fixedRanking(req ranker.Request) *ranker.Result {
 	return &ranker.Result{
 		Formula:      req.Formula,
 		IsomersTotal: 3,
@@ -119,7 +133,7 @@ func (f *fakeRanker) Rank(ctx context.Context, req ranker.Request, progress func
 			{Rank: 3, SMILES: "OCC", Score: -6.0, Probability: 0.02},
 		},
 		Warnings: []string{},
-	}, nil
+	}
 }
 
 // stopped reports whether a blocking ranking has returned on its

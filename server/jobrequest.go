@@ -149,8 +149,22 @@ func (jr JobRequest) rankerRequest(lim limits) (ranker.Request, []FieldError) {
 
 	if strings.TrimSpace(jr.Formula) == "" {
 		bad("/formula", "required: a molecular formula such as C4H8O2")
-	} else if _, err := molecule.ParseFormulaLimit(jr.Formula, lim.maxHeavyAtoms); err != nil {
+	} else if norm, err := molecule.NormalizeFormula(jr.Formula); err != nil {
 		fields = append(fields, formulaField(err))
+	} else if f, err := molecule.ParseFormulaLimit(norm, lim.maxHeavyAtoms); err != nil {
+		if norm != strings.TrimSpace(jr.Formula) {
+			// Positions in the rewritten text do not point into the
+			// client's; name the rewritten formula instead.
+			var fe *molecule.FormulaError
+			if errors.As(err, &fe) {
+				fe.Msg += " (in " + norm + ", as read from the formula given)"
+				fe.Pos, fe.Token = 0, jr.Formula
+			}
+		}
+		fields = append(fields, formulaField(err))
+	} else {
+		// The ranker gets the formula in Hill order, as read.
+		rr.Formula = f.String()
 	}
 
 	pl, carbon, fe := parsePeaksField(jr.Peaks)

@@ -35,10 +35,14 @@ type JobView struct {
 	// CancelRequested is set while a running job is being stopped.
 	CancelRequested bool            `json:"cancel_requested"`
 	Request         json.RawMessage `json:"request,omitempty"`
+	// Formula is the formula of the request, as submitted.
+	Formula string `json:"formula,omitempty"`
 	// SearchStatus is the search status of a succeeded job's ranking
 	// ("complete", "complete within the constraints", "stopped early"; see
-	// CandidateList.Search) and SearchStopReason what stopped a search
-	// that stopped early. Only GET /v1/jobs/{id} fills them.
+	// CandidateList.Search), or of the ranking kept from a job cancelled
+	// while it ran ("stopped early" with SearchStopReason "cancelled on
+	// request"), and SearchStopReason what stopped a search that stopped
+	// early. Only GET /v1/jobs/{id} fills them.
 	SearchStatus     string   `json:"search_status,omitempty"`
 	SearchStopReason string   `json:"search_stop_reason,omitempty"`
 	Links            JobLinks `json:"links"`
@@ -88,6 +92,12 @@ func (s *Server) jobView(j store.Job) JobView {
 			Candidates: s.location("/v1/jobs/" + j.ID + "/candidates"),
 			Cancel:     s.location("/v1/jobs/" + j.ID + "/cancel"),
 		},
+	}
+	var req struct {
+		Formula string `json:"formula"`
+	}
+	if json.Unmarshal(j.Request, &req) == nil {
+		v.Formula = req.Formula
 	}
 	if j.Error != "" {
 		e := j.Error
@@ -197,14 +207,15 @@ func (s *Server) handleGetJob(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	v := s.jobView(job)
-	if job.Status == store.StatusSucceeded {
+	if job.Status == store.StatusSucceeded || job.Status == store.StatusCancelled {
 		v.SearchStatus, v.SearchStopReason = s.searchStatus(r, job.ID)
 	}
 	s.writeJSON(w, http.StatusOK, v)
 }
 
-// searchStatus reads the search status and stop reason from a succeeded
-// job's stored result. A result without a search report (one stored by an
+// searchStatus reads the search status and stop reason from a finished
+// job's stored result (a succeeded job's, or the ranking kept from a job
+// cancelled while it ran; a cancelled job without one gives ""). A result without a search report (one stored by an
 // older version) or one that cannot be read gives "": the job view does
 // not fail for it.
 func (s *Server) searchStatus(r *http.Request, id string) (status, reason string) {
@@ -389,7 +400,7 @@ func (s *Server) loadResult(r *http.Request, id string) (resultBody, error) {
 		if err != nil {
 			return resultBody{}, err
 		}
-		return resultBody{}, errorf(CodeConflict, "job %q is %s; candidates exist once it has succeeded", id, job.Status)
+		return resultBody{}, errorf(CodeConflict, "job %q is %s; candidates exist once it has succeeded (or was cancelled after scoring some)", id, job.Status)
 	}
 	if err != nil {
 		return resultBody{}, internal(fmt.Errorf("get result %s: %w", id, err))

@@ -39,7 +39,10 @@ type JobStore interface {
 
 // Ranker ranks the isomers of a formula against a peak list. progress may
 // be called often and from any goroutine; Rank must return soon after ctx
-// is cancelled. *ranker.Ranker implements it.
+// is cancelled. On cancellation it may return the ranking so far together
+// with ctx's error: the worker keeps that partial result with a job
+// cancelled on request (any other error discards the result).
+// *ranker.Ranker implements it.
 type Ranker interface {
 	Rank(ctx context.Context, req ranker.Request, progress func(ranker.Progress)) (*ranker.Result, error)
 }

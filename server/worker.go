@@ -215,7 +215,7 @@ func (s *Server) runJob(parent context.Context, workerID string, job store.Job) 
 		}
 		return
 	case errors.Is(cause, errCancelRequested):
-		s.finish(log, job, workerID, store.StatusCancelled, "cancelled on request", nil)
+		s.finishCancelled(log, job, workerID, res)
 		return
 	}
 	if err != nil {
@@ -242,6 +242,43 @@ func (s *Server) runJob(parent context.Context, workerID string, job store.Job) 
 	s.finish(log, job, workerID, store.StatusSucceeded, "", &store.Result{JobID: job.ID, IsomersTotal: res.IsomersTotal, Body: body})
 }
 
+// CancelledMessage is the error of a job cancelled on request while it
+// ran; CancelledKeptMessage that of one whose best candidates so far were
+// kept (GET /v1/jobs/{id}/candidates returns them).
+const (
+	CancelledMessage     = "cancelled on request"
+	CancelledKeptMessage = "cancelled on request; the candidates scored before the cancel are kept"
+)
+
+// finishCancelled ends a job cancelled on request. A ranker that returns
+// the ranking so far together with its context's error (a partial
+// result, as when its own time budget runs out) has that ranking stored
+// with the cancelled job, its search marked as stopped by the cancel;
+// without one the job is cancelled with nothing kept.
+func (s *Server) finishCancelled(log *slog.Logger, job store.Job, workerID string, res *ranker.Result) {
+	if res == nil {
+		s.finish(log, job, workerID, store.StatusCancelled, CancelledMessage, nil)
+		return
+	}
+	res.Complete = false
+	res.Warnings = append(res.Warnings, "The job was cancelled on request: the ranking covers only the structures scored before the cancel; the true structure may not have been reached.")
+	res.Search.Status = ranker.StatusStopped
+	res.Search.StopReason = StopReasonCancelled
+	body, err := json.Marshal(res)
+	if err != nil {
+		log.Error("encode partial result", "err", err)
+		s.finish(log, job, workerID, store.StatusCancelled, CancelledMessage, nil)
+		return
+	}
+	log.Info("job cancelled; partial ranking kept", "scored", res.Scored, "candidates", len(res.Candidates))
+	s.finish(log, job, workerID, store.StatusCancelled, CancelledKeptMessage,
+		&store.Result{JobID: job.ID, IsomersTotal: res.IsomersTotal, Body: body})
+}
+
+// StopReasonCancelled is the search stop reason of a ranking kept from a
+// job cancelled on request.
+const StopReasonCancelled = "cancelled on request"
+
 // rank calls the ranker, turning a panic into an error.
 func (s *Server) rank(ctx context.Context, req ranker.Request, progress func(ranker.Progress)) (res *ranker.Result, err error) {
 	defer func() {
@@ -251,6 +288,9 @@ func (s *Server) rank(ctx context.Context, req ranker.Request, progress func(ran
 		}
 	}()
 	res, err = s.rk.Rank(ctx, req, progress)
+	if err != nil && ctx.Err() == nil {
+		res = nil // only a cancelled ranking may hand back a partial result
+	}
 	if err == nil && res == nil {
 		err = errors.New("ranker returned no result")
 	}

@@ -85,6 +85,7 @@ func Run(t *testing.T, newStore func(t *testing.T) Store) {
 		{"Release", testRelease},
 		{"Cancel", testCancel},
 		{"CancelDeadWorker", testCancelDeadWorker},
+		{"CancelKeepsResult", testCancelKeepsResult},
 		{"APIKeys", testAPIKeys},
 		{"MaxAttempts", testMaxAttempts},
 		{"Deliveries", testDeliveries},
@@ -689,6 +690,32 @@ func testCancel(t *testing.T, s Store) {
 	wantErr(t, "CancelRequested of an unknown job", err, store.ErrNotFound)
 	_, err = s.CancelJob(ctx, "k1", "nosuchjob")
 	wantErr(t, "CancelJob of an unknown job", err, store.ErrNotFound)
+}
+
+// testCancelKeepsResult checks that a job cancelled while it ran can keep
+// the ranking its worker had so far: FinishJob with StatusCancelled and a
+// result stores both, and GetResult returns the result.
+func testCancelKeepsResult(t *testing.T, s Store) {
+	ctx := context.Background()
+	j := mustCreate(t, s, newJob("k1", 1))
+	mustClaim(t, s, "w1", time.Minute)
+	if _, err := s.CancelJob(ctx, "k1", j.ID); err != nil {
+		t.Fatalf("CancelJob(running): %v", err)
+	}
+	body := json.RawMessage(`{"candidates":[{"rank":1,"smiles":"CCO"}],"search":{"status":"stopped early"}}`)
+	if err := s.FinishJob(ctx, j.ID, "w1", store.StatusCancelled, "cancelled on request; kept", &store.Result{IsomersTotal: 2, Body: body}); err != nil {
+		t.Fatalf("FinishJob(cancelled, with a result): %v", err)
+	}
+	done := mustGet(t, s, "k1", j.ID)
+	if done.Status != store.StatusCancelled || done.Error != "cancelled on request; kept" {
+		t.Errorf("job = %s %q, want cancelled with its message", done.Status, done.Error)
+	}
+	res, err := s.GetResult(ctx, "k1", j.ID)
+	if err != nil || res.IsomersTotal != 2 || !sameJSON(res.Body, body) {
+		t.Errorf("GetResult of a cancelled job with a kept ranking = %+v, %v; want the stored result", res, err)
+	}
+	_, err = s.GetResult(ctx, "k2", j.ID)
+	wantErr(t, "GetResult of another owner's cancelled job", err, store.ErrNotFound)
 }
 
 func testCancelDeadWorker(t *testing.T, s Store) {

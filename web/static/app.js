@@ -3,8 +3,10 @@
 // "/jobs/{id}" a job (history.pushState; a reload of a job URL works).
 
 import { parseFormula, parsePeaks, formatPeaks, checkRow, normalizeMultiplicity, parseCarbonText } from "./chem.js";
-import { putDrawing, rdkit } from "./draw.js";
+import { putDrawing, rdkit, drawSVG } from "./draw.js";
 import { drawPlot, fitRange, drawCarbonPlot, fitCarbonRange } from "./plot.js";
+import { comparePeaks, likelihoodRatio, patternWord, summaryLine } from "./compare.js";
+import { exportHeader, reportHTML } from "./report.js";
 
 const $ = (id) => document.getElementById(id);
 const KEY_STORE = "shiftrank.apiKey";
@@ -374,12 +376,47 @@ function newKey() {
   return [...crypto.getRandomValues(new Uint8Array(16))].map((b) => b.toString(16).padStart(2, "0")).join("");
 }
 
+// integralProblem checks the integrals against the formula before a run:
+// integrals that add up to more H than the formula has cannot all be H
+// counts of this unknown. It returns the warning, or "" when they fit
+// (or there is nothing to check).
+function integralProblem(formula, peaksText) {
+  const f = parseFormula(formula);
+  if (f.error) return "";
+  const r = parsePeaks(peaksText);
+  if (r.error) return "";
+  const ints = r.rows.map((row) => Number(row.integral)).filter((v) => isFinite(v) && v > 0);
+  if (!ints.length) return "";
+  const sum = ints.reduce((a, b) => a + b, 0);
+  if (sum <= f.hCount + 0.5) return "";
+  const shown = Number.isInteger(sum) ? String(sum) : sum.toFixed(1);
+  return `The integrals add up to ${shown} H, but ${formula.trim()} has ${f.hCount} H: read as hydrogen counts they cannot ` +
+    `fit this formula. Check the integrals (or the formula); if they are relative areas, scale them to the formula's ${f.hCount} H. ` +
+    "You can still rank with them as they are.";
+}
+
+let integralsAccepted = ""; // the formula and peaks the user chose to rank despite the warning
+
+function clearIntegralWarning() {
+  $("integral-warning").hidden = true;
+  $("peaks-text").removeAttribute("aria-invalid");
+}
+
 async function submit(e) {
   e.preventDefault();
   clearErrors();
+  clearIntegralWarning();
   const body = buildRequest();
   if (!body.formula) { showProblem({ problem: { errors: [{ field: "formula", message: "Enter the molecular formula." }] } }); return; }
   if (!body.peaks) { showProblem({ problem: { errors: [{ field: "peaks", message: "Enter at least one peak." }] } }); return; }
+  const warn = integralProblem(body.formula, body.peaks);
+  if (warn && integralsAccepted !== `${body.formula}\n${body.peaks}`) {
+    $("integral-warning-text").textContent = warn;
+    $("integral-warning").hidden = false;
+    $("peaks-text").setAttribute("aria-invalid", "true");
+    $("integral-proceed").focus();
+    return;
+  }
   const btn = $("submit");
   btn.disabled = true;
   btn.textContent = "Sending…";
@@ -514,21 +551,60 @@ function clearForm() {
   clearErrors();
 }
 
+// recentState says in words where a listed job stands, with how far the
+// search of a finished one went (from its candidate list).
+function recentState(j, top) {
+  const st = top?.search?.status || "";
+  if (j.status === "succeeded") {
+    return st === "stopped early" ? "done — stopped early" : st === "complete within the constraints"
+      ? "done — complete within the readings" : st === "complete" ? "done — all isomers" : "done";
+  }
+  if (j.status === "cancelled") return top ? "cancelled — best so far kept" : "cancelled";
+  return STATUS_WORDS[j.status] || j.status;
+}
+
+// loadRecent lists the caller's latest jobs: reference, formula, state and
+// the top candidate with its probability (read from each finished job's
+// first candidate).
 async function loadRecent() {
   try {
     const res = await api("GET", "/v1/jobs?limit=8", undefined, { retryAuth: false });
     const jobs = res?.jobs || res?.items || (Array.isArray(res) ? res : []);
-    const ul = $("recent-list");
-    ul.replaceChildren();
-    for (const j of jobs) {
-      const li = document.createElement("li");
+    const tops = await Promise.all(jobs.map((j) => (j.status === "succeeded" || j.status === "cancelled")
+      ? api("GET", `/v1/jobs/${j.id}/candidates?limit=1`, undefined, { retryAuth: false }).catch(() => null)
+      : Promise.resolve(null)));
+    const tb = $("recent-list");
+    tb.replaceChildren();
+    jobs.forEach((j, k) => {
+      const top = tops[k];
+      const c = top?.candidates?.[0];
+      const tr = document.createElement("tr");
+      tr.dataset.id = j.id;
+      tr.dataset.status = j.status;
+      const cell = (cls, text) => {
+        const td = document.createElement("td");
+        td.className = cls;
+        if (text !== undefined) td.textContent = text;
+        tr.append(td);
+        return td;
+      };
       const a = document.createElement("a");
       a.href = `/jobs/${j.id}`;
       a.dataset.route = "";
-      a.textContent = `${j.reference || j.id}`;
-      li.append(a, document.createTextNode(` — ${j.status}${j.created_at ? `, ${new Date(j.created_at).toLocaleString()}` : ""}`));
-      ul.append(li);
-    }
+      a.textContent = j.reference || `job ${j.id.slice(0, 8)}…`;
+      cell("ref").append(a);
+      cell("formula", j.formula || "—");
+      cell("state", recentState(j, top));
+      const tc = cell("top");
+      if (c) {
+        const code = document.createElement("code");
+        code.textContent = c.smiles;
+        tc.append(code);
+      } else tc.textContent = "—";
+      cell("prob", c && typeof c.probability === "number" ? pctText(c.probability) : "—");
+      cell("when", j.created_at ? new Date(j.created_at).toLocaleString() : "—");
+      tb.append(tr);
+    });
     $("recent").hidden = jobs.length === 0;
   } catch (_) {
     $("recent").hidden = true;
@@ -576,6 +652,13 @@ function showSearchState(status, reason) {
   const kind = searchKind(status);
   const badge = $("job-status");
   const bar = $("job-progress");
+  if (badge.dataset.status === "cancelled" && kind) {
+    // A job cancelled while it ran keeps the candidates scored so far.
+    badge.dataset.search = "stopped";
+    bar.dataset.search = "stopped";
+    badge.textContent = "cancelled — best candidates so far kept";
+    return;
+  }
   if (!kind || badge.dataset.status !== "succeeded") {
     delete badge.dataset.search;
     delete bar.dataset.search;
@@ -613,7 +696,8 @@ function showJobState(job) {
   }
   const p = job.progress || {};
   const gen = p.generated || 0, scored = p.scored || 0, total = p.total_estimate || 0;
-  const done = st === "succeeded";
+  const kept = st === "cancelled" && !!job.search_status;
+  const done = st === "succeeded" || kept;
   const stopped = done && searchKind(job.search_status) === "stopped";
   // A search that stopped early does not fill the bar: it shows the share
   // of the estimated isomers scored.
@@ -647,7 +731,8 @@ function showJobState(job) {
   $("cancel-job").hidden = !active;
   const errEl = $("job-error");
   errEl.classList.toggle("quiet-note", st === "cancelled");
-  errEl.textContent = st === "cancelled" ? "This job was cancelled, so it has no ranking. Submit the unknown again to rank it."
+  errEl.textContent = kept ? "This job was cancelled: the candidates below are the best found before the cancel, over the structures scored by then; the true structure may not have been reached."
+    : st === "cancelled" ? "This job was cancelled before it had scored any structure, so it has no ranking. Submit the unknown again to rank it."
     : job.error ? `The job stopped: ${job.error}` : "";
   showSearchState(job.search_status, job.search_stop_reason);
 }
@@ -692,7 +777,7 @@ function showJob(id) {
         return;
       }
       clearInterval(ticker);
-      if (job.status === "succeeded") await showResults(id, job);
+      if (job.status === "succeeded" || (job.status === "cancelled" && job.search_status)) await showResults(id, job);
     } catch (err) {
       if (stopped) return;
       if (err.status === 404) {
@@ -916,18 +1001,33 @@ async function showResults(id, job) {
   warn.replaceChildren();
   for (const w of data.warnings || []) {
     const li = document.createElement("li");
-    li.textContent = w;
+    li.textContent = exchangeHint(w, candidates);
     warn.append(li);
   }
   const sel = $("compare");
   sel.replaceChildren(new Option("none", ""));
   candidates.forEach((c, i) => sel.append(new Option(`#${c.rank ?? i + 1} ${c.smiles}`, String(i))));
+  // The runner-up is drawn over the plot and compared side by side from
+  // the start; any other pair can be chosen.
+  if (candidates.length > 1) { review.compare = 1; sel.value = "1"; }
   renderCandidateList();
   if (candidates.length) selectCandidate(0, false);
   else {
     $("detail").hidden = true;
     $("results-summary").textContent += " No candidate fits the formula and the constraints.";
   }
+}
+
+// exchangeHint keeps the guess that missing integral H are exchangeable
+// H not observed only when the leading candidate has exchangeable H; for
+// one without, it says so instead of guessing.
+function exchangeHint(w, candidates) {
+  const m = /^(.*?):\s*(\S+) exchangeable H not observed\?$/.exec(w);
+  if (!m) return w;
+  const top = candidates[0];
+  const hasExch = top && top.unobserved.some((e) => e.exchangeable);
+  if (hasExch) return w;
+  return `${m[1]}: ${m[2]} H not accounted for, and the leading candidate has no exchangeable H left unobserved — check the integrals.`;
 }
 
 // SCOPE_HEADS are the first line of a result, by search kind.
@@ -1127,7 +1227,11 @@ function renderCandidateList() {
 function selectCandidate(i, focusDetail) {
   review.selected = i;
   review.peakSel = -1;
-  if (review.compare === i) { review.compare = -1; $("compare").value = ""; }
+  if (review.compare === i) {
+    // A candidate is not compared with itself: take the other of the top two.
+    review.compare = review.candidates.length > 1 ? (i === 0 ? 1 : 0) : -1;
+    $("compare").value = review.compare >= 0 ? String(review.compare) : "";
+  }
   document.querySelectorAll("#candidate-list .candidate").forEach((li, k) => {
     li.classList.toggle("selected", k === i);
     li.querySelector(".pick").setAttribute("aria-pressed", k === i ? "true" : "false");
@@ -1143,6 +1247,7 @@ function selectCandidate(i, focusDetail) {
   renderDetailDrawing();
   renderExplain();
   renderPlot();
+  renderCompare();
   renderCarbon();
   if (focusDetail) $("detail-title").scrollIntoView({ block: "nearest" });
 }
@@ -1215,20 +1320,38 @@ function renderExplain() {
     if (a.atoms.length) {
       const at = document.createElement("span");
       at.className = "why";
-      at.textContent = `atom${a.atoms.length > 1 ? "s" : ""} ${a.atoms.join(", ")}`;
+      // Atoms count from 1 in SMILES order on the page (and the CLI); the
+      // API's atom indices are 0-based.
+      at.textContent = `atom${a.atoms.length > 1 ? "s" : ""} ${a.atoms.map((x) => x + 1).join(", ")}`;
       envCell.append(at);
     }
     const predCell = td("pred-shift");
-    const predSpan = document.createElement("span");
-    predSpan.className = "pred-value";
-    predSpan.textContent = fmtNum(a.pred);
-    predCell.append(predSpan);
-    const sig = a.envs.map((e) => e.sigma).filter((v) => v !== undefined);
-    if (sig.length) {
-      const sg = document.createElement("span");
-      sg.className = "sigma";
-      sg.textContent = ` ± ${Math.max(...sig).toFixed(2)}`;
-      predCell.append(sg);
+    // Several environments on one peak each keep their own predicted δ
+    // (and Δδ): their mean is a shift no signal has.
+    const own = a.envs.length > 1 && a.envs.every((e) => e.shift !== undefined);
+    if (own) {
+      for (const e of a.envs) {
+        const line = document.createElement("span");
+        line.className = "pred-env";
+        line.dataset.env = String(e.id);
+        line.innerHTML = `<span class="pred-env-value"></span><span class="sigma"></span> <span class="why"></span>`;
+        line.querySelector(".pred-env-value").textContent = fmtNum(e.shift);
+        if (e.sigma !== undefined) line.querySelector(".sigma").textContent = ` ± ${e.sigma.toFixed(2)}`;
+        line.querySelector(".why").textContent = `${e.kind || "environment"}, ${e.h}H`;
+        predCell.append(line);
+      }
+    } else {
+      const predSpan = document.createElement("span");
+      predSpan.className = "pred-value";
+      predSpan.textContent = fmtNum(a.envs.length === 1 && a.envs[0].shift !== undefined ? a.envs[0].shift : a.pred);
+      predCell.append(predSpan);
+      const sig = a.envs.map((e) => e.sigma).filter((v) => v !== undefined);
+      if (sig.length) {
+        const sg = document.createElement("span");
+        sg.className = "sigma";
+        sg.textContent = ` ± ${Math.max(...sig).toFixed(2)}`;
+        predCell.append(sg);
+      }
     }
     const terms = a.breakdown.length ? a.breakdown : a.envs.flatMap((e) => e.breakdown);
     if (terms.length) {
@@ -1247,7 +1370,9 @@ function renderExplain() {
       b.addEventListener("keydown", (ev) => ev.stopPropagation());
       predCell.append(" ", b);
     }
-    td("delta", a.delta !== undefined ? signed(a.delta) : "—");
+    const obsShift = a.peak.shift;
+    td("delta", own && obsShift !== undefined ? a.envs.map((e) => signed(obsShift - e.shift)).join(" / ")
+      : a.delta !== undefined ? signed(a.delta) : "—");
     const mc = td("mult");
     const obsM = document.createElement("span");
     obsM.textContent = `${multText(a.peak.multiplicity, a.peak.j)} / ${multText(a.predMult, a.envs.length === 1 ? a.envs[0].j : [])}`;
@@ -1342,6 +1467,61 @@ function renderExplain() {
   const sum = $("detail-summary");
   sum.textContent = [c.summary, ...c.notes].filter(Boolean).join(" ");
   sum.hidden = !sum.textContent;
+}
+
+// candName names candidate i as the page does ("#2").
+function candName(i) { return `#${review.candidates[i].rank ?? i + 1}`; }
+
+// sideText says what one candidate predicts at a peak: its shift or shifts
+// (each environment its own), the deviation and the pattern.
+function sideText(x) {
+  if (x.kind === "unexplained") return "leaves it unexplained";
+  const sh = x.shifts.map((v) => v.toFixed(2)).join(" and ");
+  const dd = x.deltas.map((d) => signed(d)).join(", ");
+  return `δ ${sh || "—"} (Δδ ${dd || "—"}), ${patternWord(x.pattern) || "no pattern"}, ${x.h} H`;
+}
+
+// renderCompare fills the side-by-side comparison of the selected
+// candidate with the one chosen in #compare, peak by peak in words, with
+// the score difference one click away.
+function renderCompare() {
+  const panel = $("compare-panel");
+  const ia = review.selected, ib = review.compare;
+  panel.hidden = ib < 0 || ib === ia || !review.candidates[ib];
+  if (panel.hidden) return;
+  const a = review.candidates[ia], b = review.candidates[ib];
+  const na = candName(ia), nb = candName(ib);
+  panel.dataset.a = String(ia);
+  panel.dataset.b = String(ib);
+  $("compare-title").textContent = `Side by side: ${na} and ${nb}`;
+  $("compare-head-a").textContent = `${na} predicts`;
+  $("compare-head-b").textContent = `${nb} predicts`;
+  const rows = comparePeaks(a, b, review.observed, na, nb);
+  $("compare-summary").textContent = summaryLine(rows, na, nb);
+  const tb = $("compare-rows");
+  tb.replaceChildren();
+  for (const r of rows) {
+    const tr = document.createElement("tr");
+    tr.dataset.peak = String(r.peak.index);
+    if (r.side) tr.dataset.favours = r.side;
+    const obsPattern = `${patternWord(r.peak.multiplicity) || "—"}${r.peak.h ? `, ${fmtNum(r.peak.h, 1)} H` : ""}`;
+    for (const [cls, text] of [["obs-shift", fmtShift(r.peak)], ["obs-mult", obsPattern],
+      ["side-a", sideText(r.a)], ["side-b", sideText(r.b)], ["verdict", r.verdict]]) {
+      const td = document.createElement("td");
+      td.className = cls;
+      td.textContent = text;
+      tr.append(td);
+    }
+    tb.append(tr);
+  }
+  const d = a.score !== undefined && b.score !== undefined ? a.score - b.score : undefined;
+  $("compare-nats").textContent = d === undefined ? "No scores to compare."
+    : `${na} scores ${signed(d)} nats against ${nb} (likelihood ratio ${likelihoodRatio(d)}); ` +
+      `probabilities ${pctText(a.probability)} and ${pctText(b.probability)}.`;
+  const ul = $("compare-shares");
+  ul.replaceChildren(...rows.filter((r) => r.shareDiff !== undefined).map((r) => Object.assign(document.createElement("li"), {
+    textContent: `δ ${fmtShift(r.peak)}: ${signed(r.shareDiff)} nats (${na} ${signed(r.a.share)}, ${nb} ${signed(r.b.share)})`,
+  })));
 }
 
 // excludedPeaks lists the observed peaks the service left out of the
@@ -1483,6 +1663,11 @@ function csvField(v) {
   return /[",\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
 }
 
+// CSV_HEADER_FIELDS are the fields of exportHeader every CSV row repeats
+// (lists joined with " | ").
+const CSV_HEADER_FIELDS = ["job_id", "reference", "formula", "solvent", "mhz", "peaks_1h", "peaks_13c",
+  "constraints_off", "warnings", "caution"];
+
 // rankingCSV writes one row per candidate. Every row carries how far the
 // search went (search_status, search_stop_reason, search_scope), so a row
 // copied elsewhere still says whether its ranking came from a search that
@@ -1491,16 +1676,18 @@ function csvField(v) {
 function rankingCSV() {
   const head = ["rank", "smiles", "probability", "score", "assigned_peaks", "unexplained_peaks", "unobserved_environments", "summary",
     "carbon_score", "carbon_assigned_peaks", "carbon_unexplained_peaks", "unobserved_carbons",
-    "search_status", "search_stop_reason", "search_scope"];
-  const s = review.data.search || {};
-  const searchCols = [s.status || "", s.status === "stopped early" ? s.stop_reason || "" : "", s.scope || ""];
+    "search_status", "search_stop_reason", "search_scope", "probability_text",
+    ...CSV_HEADER_FIELDS];
+  const h = exportHeader(review);
+  const searchCols = [h.search_status, h.search_stop_reason, h.search_scope];
+  const headerCols = CSV_HEADER_FIELDS.map((k) => (Array.isArray(h[k]) ? h[k].join(" | ") : h[k]));
   const out = [head.join(",")];
   review.candidates.forEach((c, i) => {
     const carbon = c.hasCarbon ? [c.carbonScore, c.carbonAssignments.length, c.carbonUnexplained.length, c.carbonUnobserved.length] : ["", "", "", ""];
     out.push([c.rank ?? i + 1, c.smiles, c.probability, c.score, c.assignments.length, c.unexplained.length, c.unobserved.length, c.summary,
-      ...carbon, ...searchCols].map(csvField).join(","));
+      ...carbon, ...searchCols, pctText(c.probability), ...headerCols].map(csvField).join(","));
   });
-  if (!review.candidates.length) out.push([...Array(head.length - 3).fill(""), ...searchCols].map(csvField).join(","));
+  if (!review.candidates.length) out.push([...Array(12).fill(""), ...searchCols, "", ...headerCols].map(csvField).join(","));
   return out.join("\r\n") + "\r\n";
 }
 
@@ -1524,6 +1711,7 @@ function rankingJSON() {
   const s = review.data.search || {};
   const out = {
     search_status: s.status || "", search_stop_reason: s.status === "stopped early" ? s.stop_reason || "" : undefined,
+    report: exportHeader(review),
     ...review.data,
     request: review.req || undefined,
   };
@@ -1531,11 +1719,70 @@ function rankingJSON() {
   return JSON.stringify(out, null, 2) + "\n";
 }
 
+// tableText is a candidate's table peak by peak as text cells, atoms
+// numbered from 1 as the page shows them.
+const REPORT_COLUMNS = ["Observed δ", "Assigned to", "Predicted δ", "Δδ", "Multiplicity (obs. / pred.)", "H (obs. / exp.)", "Share of score (nats)"];
+function tableText(c) {
+  return c.assignments.map((a) => {
+    const own = a.envs.length > 1 && a.envs.every((e) => e.shift !== undefined);
+    const pred = own ? a.envs.map((e) => `${fmtNum(e.shift)} (${e.kind || "environment"}, ${e.h}H)`).join("; ")
+      : fmtNum(a.envs.length === 1 && a.envs[0].shift !== undefined ? a.envs[0].shift : a.pred);
+    const dd = own && a.peak.shift !== undefined ? a.envs.map((e) => signed(a.peak.shift - e.shift)).join(" / ")
+      : a.delta !== undefined ? signed(a.delta) : "—";
+    const env = a.envs.map((e) => `${e.kind || "environment"}, ${e.h}H`).join("; ") +
+      (a.atoms.length ? ` (atom${a.atoms.length > 1 ? "s" : ""} ${a.atoms.map((x) => x + 1).join(", ")})` : "");
+    return [fmtShift(a.peak), env || "—", pred, dd,
+      `${multText(a.peak.multiplicity, a.peak.j)} / ${multText(a.predMult, a.envs.length === 1 ? a.envs[0].j : [])}`,
+      `${a.peak.h ? fmtNum(a.peak.h, 1) : "—"} / ${a.expH}`, a.share !== undefined ? signed(a.share) : "—"];
+  });
+}
+
+// downloadReport saves the filing report as one HTML file.
+async function downloadReport() {
+  const top = review.candidates.slice(0, 5);
+  const drawings = await Promise.all(top.map((c) => drawSVG(c.smiles, { width: 300, height: 220 })));
+  const html = reportHTML(review, { drawings, columns: REPORT_COLUMNS,
+    tableRows: review.candidates.length ? tableText(review.candidates[0]) : [], top: 5 });
+  download(`shiftrank-${review.id}-report.html`, "text/html", html);
+}
+
+function downloadBlob(name, blob) {
+  const url = URL.createObjectURL(blob);
+  const a = document.createElement("a");
+  a.href = url;
+  a.download = name;
+  document.body.append(a);
+  a.click();
+  a.remove();
+  setTimeout(() => URL.revokeObjectURL(url), 1000);
+}
+
+// downloadDrawing saves the selected candidate's drawing as SVG or PNG
+// (drawn at twice the screen size on a white ground).
+async function downloadDrawing(kind) {
+  const c = review.candidates[review.selected];
+  const svg = await drawSVG(c.smiles, { width: 600, height: 450 });
+  if (!svg) return;
+  const name = `shiftrank-${review.id}-${c.rank ?? review.selected + 1}`;
+  if (kind === "svg") { download(`${name}.svg`, "image/svg+xml", svg); return; }
+  const img = new Image();
+  const url = URL.createObjectURL(new Blob([svg], { type: "image/svg+xml" }));
+  await new Promise((res, rej) => { img.onload = res; img.onerror = rej; img.src = url; });
+  const cv = document.createElement("canvas");
+  cv.width = 600; cv.height = 450;
+  const g = cv.getContext("2d");
+  g.fillStyle = "#fff";
+  g.fillRect(0, 0, cv.width, cv.height);
+  g.drawImage(img, 0, 0, cv.width, cv.height);
+  URL.revokeObjectURL(url);
+  cv.toBlob((b) => { if (b) downloadBlob(`${name}.png`, b); }, "image/png");
+}
+
 // ---------- start ----------
 
 function init() {
   $("formula").addEventListener("input", () => { updateDBE(); clearFieldError("formula"); });
-  $("peaks-text").addEventListener("input", () => { syncRowsFromText(); clearFieldError("peaks"); });
+  $("peaks-text").addEventListener("input", () => { syncRowsFromText(); clearFieldError("peaks"); clearIntegralWarning(); });
   $("peak-rows").addEventListener("input", (e) => {
     const tr = e.target.closest("tr");
     const i = [...$("peak-rows").children].indexOf(tr);
@@ -1549,6 +1796,11 @@ function init() {
     $(`peak-${rows.length - 1}-shift`).focus();
   });
   $("submit-form").addEventListener("submit", submit);
+  $("integral-proceed").addEventListener("click", () => {
+    integralsAccepted = `${$("formula").value.trim()}\n${$("peaks-text").value.trim()}`;
+    clearIntegralWarning();
+    $("submit-form").requestSubmit();
+  });
   $("load-example").addEventListener("click", loadExample);
   $("clear-form").addEventListener("click", clearForm);
   ["mhz", "solvent", "reference", "top-k", "filter", "require", "forbid", "max-nodes", "time-budget", "max-candidates"].forEach((id) =>
@@ -1560,6 +1812,7 @@ function init() {
     const v = $("compare").value;
     review.compare = v === "" ? -1 : Number(v);
     renderPlot();
+    renderCompare();
   });
   $("zoom-hi").addEventListener("change", setZoom);
   $("zoom-lo").addEventListener("change", setZoom);
@@ -1577,7 +1830,13 @@ function init() {
   $("dl-json").addEventListener("click", () => download(`shiftrank-${review.id}.json`, "application/json", rankingJSON()));
   $("dl-peaks").addEventListener("click", () => download(`shiftrank-${review.id}-peaks.csv`, "text/csv", peaksCSV()));
   $("print-results").addEventListener("click", () => window.print());
-  window.addEventListener("beforeprint", () => { if (!$("constraints").hidden) $("constraints").open = true; });
+  $("dl-report").addEventListener("click", downloadReport);
+  $("dl-svg").addEventListener("click", () => downloadDrawing("svg"));
+  $("dl-png").addEventListener("click", () => downloadDrawing("png"));
+  window.addEventListener("beforeprint", () => {
+    if (!$("constraints").hidden) $("constraints").open = true;
+    $("compare-numbers").open = true;
+  });
   $("rerun-constraints").addEventListener("click", (e) => rerun((o) => {
     o.disable = disabledIDs();
     delete o.all_isomers;
