@@ -313,6 +313,10 @@ func toEnvs(sp *predict.Spectrum, buf []predEnv) []predEnv {
 //
 // Errors: *RequestError for bad input; ctx.Err() when ctx is cancelled
 // (a budget running out is not an error: the Result says Complete=false).
+// A ranking cancelled while it searched returns the best candidates found
+// so far together with ctx.Err(): a Result whose search stopped early,
+// with the stop reason "cancelled on request"; one cancelled before it
+// began returns nil.
 func (r *Ranker) Rank(ctx context.Context, req Request, progress func(Progress)) (*Result, error) {
 	j, err := r.prepare(req)
 	if err != nil {
@@ -606,14 +610,18 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 	ccancel()
 	close(stopProgress)
 	wg.Wait()
-	if ctx.Err() != nil {
-		return nil, ctx.Err()
-	}
+	// A cancelled ranking still hands back what it found so far, with
+	// the cancel as its error (see Rank).
+	cancelErr := ctx.Err()
 	timedOut := errors.Is(context.Cause(gctx), errBudget)
-	if gerr != nil && !(timedOut && errors.Is(gerr, context.DeadlineExceeded)) {
+	stopped := timedOut || cancelErr != nil
+	if gerr != nil && !(stopped && (errors.Is(gerr, context.DeadlineExceeded) || errors.Is(gerr, context.Canceled))) {
 		return nil, fmt.Errorf("generate isomers of %s: %w", j.formula, gerr)
 	}
-	if timedOut {
+	switch {
+	case cancelErr != nil:
+		stopReason = "cancelled on request"
+	case timedOut:
 		stopReason = fmt.Sprintf("the time budget of %s, a safety stop whose point depends on the machine's load", j.budget)
 	}
 	search.StopReason = stopReason
@@ -621,7 +629,7 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 	res := &Result{
 		Formula: j.formula.String(), DBE: j.formula.DBE(),
 		Generated: generated.Load(), Scored: scored.Load(),
-		Complete: stats.Complete && !timedOut,
+		Complete: stats.Complete && !stopped,
 		MHz:      j.mhz, Solvent: j.solvent, Filter: orDefault(j.req.Filter, DefaultFilter),
 		Require: j.req.Require, Forbid: j.req.Forbid,
 		Peaks: j.peaks, Caution: Caution,
@@ -657,10 +665,12 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 	if failed > 0 {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("%d isomers could not be predicted and were not scored (last error: %v)", failed, lastErr))
 	}
-	r.totals(res, stats, timedOut, j, &search)
+	r.totals(res, stats, stopped, j, &search)
 	res.logZ = ls.value()
 
-	cands, err := r.explainTop(ctx, j, top.sorted(), res.logZ)
+	// The explanation of what was found is quick and bounded: it runs
+	// also when the ranking was cancelled.
+	cands, err := r.explainTop(context.WithoutCancel(ctx), j, top.sorted(), res.logZ)
 	if err != nil {
 		return nil, err
 	}
@@ -678,6 +688,9 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 	}
 	if res.Warnings == nil {
 		res.Warnings = []string{}
+	}
+	if cancelErr != nil {
+		return res, cancelErr
 	}
 	return res, nil
 }

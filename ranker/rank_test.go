@@ -417,3 +417,24 @@ func TestRankSlowExchangeCoupling(t *testing.T) {
 	require.NotEmpty(t, res.Candidates)
 	assert.Equal(t, "CC(=O)NCc1ccccc1", res.Candidates[0].SMILES)
 }
+
+// TestRankCancelKeepsBestSoFar: a ranking cancelled while it searches
+// hands back what it scored so far, marked as stopped early by the
+// cancel, together with the cancel error.
+func TestRankCancelKeepsBestSoFar(t *testing.T) {
+	ctx, cancel := context.WithCancel(context.Background())
+	defer cancel()
+	r := New(Options{ProgressInterval: time.Millisecond})
+	res, err := r.Rank(ctx, Request{Formula: "C8H8O2", Peaks: mustPeaks(t, "7.35 (m, 5H), 5.10 (s, 2H), 2.09 (s, 1H)"), Unconstrained: true, TopK: 3},
+		func(p Progress) {
+			if p.Scored > 0 {
+				cancel()
+			}
+		})
+	require.ErrorIs(t, err, context.Canceled)
+	require.NotNil(t, res, "a cancelled ranking keeps its best candidates")
+	assert.False(t, res.Complete)
+	assert.Equal(t, StatusStopped, res.Search.Status)
+	assert.Equal(t, "cancelled on request", res.Search.StopReason)
+	assert.NotEmpty(t, res.Candidates)
+}
