@@ -380,3 +380,34 @@ func TestLongRangeH(t *testing.T) {
 		}
 	}
 }
+
+// TestNitroShifts: the nitro group has its own increments, not those of a
+// nitroso group (published CDCl3 shifts; Pretsch, Bühlmann, Badertscher,
+// Structure Determination of Organic Compounds, from memory; nitromethane
+// also Gottlieb et al. 1997, 4.33).
+func TestNitroShifts(t *testing.T) {
+	p := New(Options{})
+	for _, tc := range []struct {
+		name   string
+		smiles string
+		atom   int
+		want   float64
+	}{
+		{"nitrobenzene ortho", "[O-][N+](=O)c1ccccc1", 4, 8.23},
+		{"nitrobenzene meta", "[O-][N+](=O)c1ccccc1", 5, 7.56},
+		{"nitrobenzene para", "[O-][N+](=O)c1ccccc1", 6, 7.71},
+		{"nitromethane", "C[N+](=O)[O-]", 0, 4.33},
+		{"nitroethane CH2", "CC[N+](=O)[O-]", 1, 4.40},
+		{"4-nitrotoluene H ortho to NO2", "Cc1ccc(cc1)[N+](=O)[O-]", 3, 8.10},
+	} {
+		sp := predictSMILES(t, p, tc.smiles)
+		es := envOn(sp, tc.atom)
+		if len(es) != 1 {
+			t.Errorf("%s: %d environments on atom %d", tc.name, len(es), tc.atom)
+			continue
+		}
+		if d := es[0].Shift - tc.want; d > 0.15 || d < -0.15 {
+			t.Errorf("%s (%s): δ %.2f, want %.2f ± 0.15", tc.name, tc.smiles, es[0].Shift, tc.want)
+		}
+	}
+}

@@ -60,6 +60,7 @@ const (
 	subIsoCN   // N≡C
 	subAzo     // N=N
 	subNitroso // N=O
+	subNitro   // NO2 (charge-separated or written with two N=O)
 	subNN      // N–N
 	subNO      // N–O
 	subNS      // N–S, N–P(=O)
@@ -89,7 +90,7 @@ var subName = [numSub]string{
 	subOFormyl: "O–C(=O)H", subOAroyl: "O–C(=O)Ar", subOCarbonate: "O–C(=O)O", subOCarbamate: "O–C(=O)N",
 	subOO: "O–O", subON: "O–N", subOS: "O–S", subOP: "O–P", subOSi: "O–Si", subOB: "O–B", subOX: "O–Hal",
 	subAmine: "N (amine)", subNAryl: "N–Ar", subAmideN: "N–C(=O)", subImineN: "N=C", subIsoCN: "N≡C",
-	subAzo: "N=N", subNitroso: "N=O", subNN: "N–N", subNO: "N–O", subNS: "N–S", subNArom: "N (heteroaromatic)",
+	subAzo: "N=N", subNitroso: "N=O", subNitro: "NO2", subNN: "N–N", subNO: "N–O", subNS: "N–S", subNArom: "N (heteroaromatic)",
 	subSR: "S–R", subSAr: "S–Ar", subSS: "S–S", subSAcyl: "S–C(=O)", subSO: "S(=O)", subSO2: "SO2",
 	subSOther: "S (hypervalent)", subP3: "P(III)", subP5: "P(V)", subSi: "Si", subB: "B",
 }
@@ -152,6 +153,9 @@ func (m *mol) classify(from, x int) sub {
 	case molecule.N:
 		if m.arom[x] {
 			return subNArom
+		}
+		if m.nitro(x) {
+			return subNitro
 		}
 		// Decide by a fixed priority, not by neighbour order.
 		var triple, nitroso, azo, imine, amide, aryl, ns, nn, no bool

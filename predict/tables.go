@@ -70,6 +70,7 @@ var alphaInc = [numSub][3]float64{
 	subIsoCN:      {2.30, 2.10, 2.20},    // estimate (methyl isocyanide ~3.1)
 	subAzo:        {2.85, 2.55, 2.30},    // azomethane 3.7
 	subNitroso:    {3.20, 3.00, 3.00},    // estimate
+	subNitro:      {3.43, 3.07, 3.12},    // nitromethane 4.29, nitroethane 4.37, 2-nitropropane 4.67
 	subNN:         {1.65, 1.45, 1.50},    // methylhydrazine 2.5
 	subNO:         {1.80, 1.60, 1.60},    // N-methylhydroxylamine 2.6
 	subNS:         {1.90, 1.75, 1.90},    // N-methylsulfonamides 2.7–2.8
@@ -101,7 +102,7 @@ var betaInc = [numSub]float64{
 	subOAroyl: 0.52, subOCarbonate: 0.45, subOCarbamate: 0.40, subOO: 0.35, subON: 0.40, subOS: 0.55,
 	subOP: 0.48, subOSi: 0.35, subOB: 0.35, subOX: 0.45,
 	subAmine: 0.19, subNAryl: 0.35, subAmideN: 0.28, subImineN: 0.35, subIsoCN: 0.55, subAzo: 0.45,
-	subNitroso: 0.60, subNN: 0.20, subNO: 0.30, subNS: 0.35, subNArom: 0.57,
+	subNitroso: 0.60, subNitro: 0.70, subNN: 0.20, subNO: 0.30, subNS: 0.35, subNArom: 0.57,
 	subSR: 0.42, subSAr: 0.45, subSS: 0.45, subSAcyl: 0.40, subSO: 0.42, subSO2: 0.52, subSOther: 0.45,
 	subP3: 0.15, subP5: 0.30, subSi: 0.08, subB: 0.10,
 }
@@ -162,6 +163,7 @@ var benzeneInc = [numSub][3]float64{
 	subIsoCN:      {0.10, 0.10, 0.10},   // estimate
 	subAzo:        {0.67, 0.20, 0.20},
 	subNitroso:    {0.58, 0.31, 0.37},
+	subNitro:      {0.95, 0.26, 0.38},    // nitrobenzene 8.23, 7.56, 7.71
 	subNN:         {-0.55, -0.15, -0.50}, // phenylhydrazine
 	subNO:         {-0.30, -0.05, -0.30}, // estimate
 	subNS:         {-0.10, 0.00, -0.10},  // estimate
@@ -224,10 +226,11 @@ var pms = [numSub][3]float64{
 	subAmine:      {0.80, -1.26, -1.21},
 	subNAryl:      {1.17, -0.53, -0.99},
 	subAmideN:     {2.08, -0.57, -0.72},
-	subImineN:     {0.90, 0.20, 0.20},   // estimate
-	subIsoCN:      {0.80, 0.30, 0.20},   // estimate
-	subAzo:        {1.50, 0.50, 0.40},   // estimate
-	subNitroso:    {1.60, 0.60, 0.50},   // estimate
+	subImineN:     {0.90, 0.20, 0.20}, // estimate
+	subIsoCN:      {0.80, 0.30, 0.20}, // estimate
+	subAzo:        {1.50, 0.50, 0.40}, // estimate
+	subNitroso:    {1.60, 0.60, 0.50}, // estimate
+	subNitro:      {1.87, 1.32, 0.62},
 	subNN:         {0.90, -1.00, -1.10}, // estimate (as amine)
 	subNO:         {1.00, -0.90, -1.00}, // estimate
 	subNS:         {1.20, -0.50, -0.70}, // estimate
