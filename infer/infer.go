@@ -385,8 +385,17 @@ func (a *analysis) withCoupling(pt part, i int) part {
 			conf = singletConfidenceSP2
 		}
 		id := fmt.Sprintf("peak-%d-coupling", num)
-		if a.constraint(id, "coupling partners", fmt.Sprintf("peak %d (δ %.2f) is a singlet: no hydrogen on the neighbouring carbons (n+1 rule; aldehyde H with their 1–3 Hz couplings excepted)", num, a.peaks[i].Shift), []int{i}, conf) {
-			pt.vic = isomers.Bound{On: true, Min: 0, Max: 0}
+		reason := fmt.Sprintf("peak %d (δ %.2f) is a singlet: no hydrogen on the neighbouring carbons (n+1 rule; aldehyde H with their 1–3 Hz couplings excepted)", num, a.peaks[i].Shift)
+		max := 0
+		if pt.count >= 2 {
+			// Equivalent groups of one signal may be bonded to each other
+			// without splitting it (X–CH2–CH2–X of a succinate, the
+			// CH=CH of a maleate; common practice).
+			max = pt.h
+			reason = fmt.Sprintf("peak %d (δ %.2f) is a singlet of %d equivalent groups: no hydrogen on the neighbouring carbons except on an equivalent group of the same signal (n+1 rule; equivalent hydrogens do not split each other)", num, a.peaks[i].Shift, pt.count)
+		}
+		if a.constraint(id, "coupling partners", reason, []int{i}, conf) {
+			pt.vic = isomers.Bound{On: true, Min: 0, Max: max}
 			pt.vicID = id
 		}
 	case p.resolved() && !p.Apparent:
