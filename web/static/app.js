@@ -1259,9 +1259,10 @@ function renderDetailDrawing() {
     const a = c.assignments[review.peakSel];
     atoms = a ? a.atoms : [];
   }
-  putDrawing($("detail-structure"), c.smiles, { width: 360, height: 270, atoms });
+  putDrawing($("detail-structure"), c.smiles, { width: 360, height: 270, atoms, numbers: true });
   $("detail-highlight-note").textContent = review.peakSel >= 0
-    ? `Marked: the atoms carrying the H of the peak at δ ${fmtShift(c.assignments[review.peakSel].peak)}.`
+    ? `Marked and numbered (from 1, in SMILES order, as in the table): ${atoms.length > 1 ? "atoms" : "atom"} ${atoms.map((x) => x + 1).join(", ")}, ` +
+      `carrying the H of the peak at δ ${fmtShift(c.assignments[review.peakSel].peak)}.`
     : "Select a row of the table to mark its atoms in the drawing.";
 }
 
@@ -1761,7 +1762,9 @@ function downloadBlob(name, blob) {
 // (drawn at twice the screen size on a white ground).
 async function downloadDrawing(kind) {
   const c = review.candidates[review.selected];
-  const svg = await drawSVG(c.smiles, { width: 600, height: 450 });
+  // The download shows what the page shows: the selected row's atoms marked and numbered.
+  const atoms = review.peakSel >= 0 ? c.assignments[review.peakSel]?.atoms || [] : [];
+  const svg = await drawSVG(c.smiles, { width: 600, height: 450, atoms, numbers: true });
   if (!svg) return;
   const name = `shiftrank-${review.id}-${c.rank ?? review.selected + 1}`;
   if (kind === "svg") { download(`${name}.svg`, "image/svg+xml", svg); return; }

@@ -1,0 +1,129 @@
+package e2e
+
+import (
+	"fmt"
+	"net/http/httptest"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/chromedp/chromedp"
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+// TestPolishPage checks the finishing touches of the review page: atom
+// numbers drawn on the structure, the formula read back in Hill form, size
+// errors at the field, and the plot's labels.
+func TestPolishPage(t *testing.T) {
+	exe := chromiumPath(t)
+	h, _ := newAPI(t, false)
+	srv := httptest.NewServer(h)
+	t.Cleanup(srv.Close)
+	ctx := newBrowser(t, exe)
+	p := &page{t: t, ctx: ctx, base: srv.URL, art: artifactsDir(t), errs: watchScripts(ctx)}
+	p.run("atom numbers on the drawing", testAtomNumbers)
+}
+
+// apiAtoms is the part of GET /v1/jobs/{id}/candidates the atom-number
+// check reads: each assignment's 0-based atom indices in SMILES order.
+type apiAtoms struct {
+	Candidates []struct {
+		SMILES      string `json:"smiles"`
+		Assignments []struct {
+			Peak          int     `json:"peak"`
+			ObservedShift float64 `json:"observed_shift"`
+			Atoms         []int   `json:"atoms"`
+		} `json:"assignments"`
+	} `json:"candidates"`
+}
+
+// testAtomNumbers selects each row of #1's table and checks that the
+// drawing marks and numbers the same atoms the table names (1-based: the
+// API's index + 1), that the labels do not overlap, and, through RDKit's
+// own reading of the SMILES, that the quartet at δ 4.12 of ethyl acetate
+// is numbered on the CH2 bonded to O (Gottlieb, Kotlyar, Nudelman, J. Org.
+// Chem. 1997, 62, 7512: the OCH2 quartet; from memory).
+func testAtomNumbers(p *page) {
+	id := submitExample(p)
+	var api apiAtoms
+	getJSON(p.t, p.base+"/v1/jobs/"+id+"/candidates?limit=1", &api)
+	require.NotEmpty(p.t, api.Candidates, "the example's ranking")
+	c := api.Candidates[0]
+	require.Equal(p.t, "CC(=O)OCC", c.SMILES, "the example's #1 (ethyl acetate)")
+
+	var before int
+	p.eval(`document.querySelectorAll("#detail-structure text.atom-number").length`, &before)
+	assert.Zero(p.t, before, "atom numbers drawn before a row is selected")
+
+	for i, a := range c.Assignments {
+		sel := fmt.Sprintf(`#explain-rows tr.assign[data-index='%d']`, i)
+		p.do("select the row", chromedp.Click(chromedp.CSS(sel)))
+		want := make([]string, len(a.Atoms))
+		for k, x := range a.Atoms {
+			want[k] = fmt.Sprint(x + 1)
+		}
+		p.waitFor("atom numbers drawn", fmt.Sprintf(`document.querySelectorAll("#detail-structure text.atom-number").length === %d`, len(want)), 10*time.Second)
+		var got struct {
+			Labels, Marked []string
+			Table          string
+			Overlap        bool
+			Far            []float64
+		}
+		p.eval(`(() => {
+			const svg = document.querySelector("#detail-structure svg");
+			const labels = [...svg.querySelectorAll("text.atom-number")];
+			const boxes = labels.map(t => t.getBBox());
+			const overlap = boxes.some((a, i) => boxes.some((b, j) => j > i &&
+				a.x < b.x + b.width && b.x < a.x + a.width && a.y < b.y + b.height && b.y < a.y + a.height));
+			// Distance of each label from its atom's mark, in radii.
+			const far = labels.map(t => {
+				const e = svg.querySelector("ellipse.atom-" + t.dataset.atom);
+				const b = t.getBBox();
+				return Math.hypot(b.x + b.width / 2 - e.cx.baseVal.value, b.y + b.height / 2 - e.cy.baseVal.value) / e.rx.baseVal.value;
+			});
+			return {Labels: labels.map(t => t.textContent),
+				Marked: [...svg.querySelectorAll("ellipse[class^='atom-']")].map(e => String(+e.getAttribute("class").slice(5) + 1)),
+				Table: document.querySelector("`+sel+` .env .why").textContent, Overlap: overlap, Far: far};
+		})()`, &got)
+		assert.Equal(p.t, want, got.Labels, "δ %.2f: numbers drawn, want the API's atoms + 1", a.ObservedShift)
+		assert.ElementsMatch(p.t, want, got.Marked, "δ %.2f: atoms marked", a.ObservedShift)
+		assert.Equal(p.t, "atom"+map[bool]string{true: "s", false: ""}[len(want) > 1]+" "+strings.Join(want, ", "), got.Table,
+			"δ %.2f: the table names the same atoms", a.ObservedShift)
+		assert.False(p.t, got.Overlap, "δ %.2f: atom numbers overlap", a.ObservedShift)
+		for k, f := range got.Far {
+			assert.True(p.t, f > 0.5 && f < 4, "δ %.2f: label %s sits %.1f radii from its atom, want beside it", a.ObservedShift, got.Labels[k], f)
+		}
+		p.t.Logf("δ %.2f: atoms %v numbered %v", a.ObservedShift, a.Atoms, got.Labels)
+
+		if a.ObservedShift > 4 && a.ObservedShift < 4.2 {
+			// RDKit's reading of the SMILES: the numbered atom is a carbon with
+			// two H and an O neighbour.
+			var facts struct {
+				Symbol string
+				H      int
+				O      bool
+			}
+			p.eval(fmt.Sprintf(`(async () => {
+				const rd = await window.initRDKitModule({ locateFile: () => "/static/vendor/rdkit/RDKit_minimal.wasm" });
+				const m = rd.get_mol(%q);
+				const j = JSON.parse(m.get_json()).molecules[0];
+				m.delete();
+				const i = %d;
+				const at = j.atoms[i];
+				const nb = j.bonds.filter(b => b.atoms.includes(i)).map(b => j.atoms[b.atoms[0] === i ? b.atoms[1] : b.atoms[0]]);
+				return {Symbol: at.z === undefined || at.z === 6 ? "C" : String(at.z), H: at.impHs || 0, O: nb.some(n => n.z === 8)};
+			})()`, c.SMILES, a.Atoms[0]), &facts)
+			assert.Equal(p.t, "C", facts.Symbol, "atom %s of %s", want[0], c.SMILES)
+			assert.Equal(p.t, 2, facts.H, "H on atom %s of %s (OCH2)", want[0], c.SMILES)
+			assert.True(p.t, facts.O, "atom %s of %s is bonded to O (OCH2)", want[0], c.SMILES)
+		}
+		if i == 0 {
+			p.shotOf("#detail-structure", "atom-numbers")
+		}
+	}
+	// Selecting the row again clears the marks and the numbers.
+	last := fmt.Sprintf(`#explain-rows tr.assign[data-index='%d']`, len(c.Assignments)-1)
+	p.do("unselect the row", chromedp.Click(chromedp.CSS(last)))
+	p.waitFor("numbers cleared", `document.querySelectorAll("#detail-structure text.atom-number").length === 0`, 10*time.Second)
+}
