@@ -10,6 +10,8 @@ import (
 	"github.com/chromedp/chromedp"
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
+
+	"shiftrank/molecule"
 )
 
 // TestPolishPage checks the finishing touches of the review page: atom
@@ -23,6 +25,8 @@ func TestPolishPage(t *testing.T) {
 	ctx := newBrowser(t, exe)
 	p := &page{t: t, ctx: ctx, base: srv.URL, art: artifactsDir(t), errs: watchScripts(ctx)}
 	p.run("atom numbers on the drawing", testAtomNumbers)
+	p.run("formula read back", testFormulaReadBack)
+	p.run("size errors at the field", testSizeErrors)
 }
 
 // apiAtoms is the part of GET /v1/jobs/{id}/candidates the atom-number
@@ -126,4 +130,113 @@ func testAtomNumbers(p *page) {
 	last := fmt.Sprintf(`#explain-rows tr.assign[data-index='%d']`, len(c.Assignments)-1)
 	p.do("unselect the row", chromedp.Click(chromedp.CSS(last)))
 	p.waitFor("numbers cleared", `document.querySelectorAll("#detail-structure text.atom-number").length === 0`, 10*time.Second)
+}
+
+// testFormulaReadBack types formulas the forgiving ways and checks the
+// page shows each back in Hill form, as the service reads it
+// (molecule.NormalizeFormula then the Hill formula: C, H, then the others
+// alphabetically; common practice), or says the lower case is ambiguous
+// where the service refuses it. Then a lower-case formula is ranked and
+// the job shows what the service read.
+func testFormulaReadBack(p *page) {
+	p.open("/")
+	cases := []struct {
+		name, typed, want string
+	}{
+		{"strict form: no hint", "C4H8O2", "DBE 1"},
+		{"lower case", "c4h8o2", "read as C4H8O2 · DBE 1"},
+		{"spaces", "C4 H8 O2", "read as C4H8O2 · DBE 1"},
+		{"subscript digits", "C₄H₈O₂", "read as C4H8O2 · DBE 1"},
+		{"lower case, other order", "h8c4o2", "read as C4H8O2 · DBE 1"},
+		{"lower case chloroform: l is no element", "chcl3", "read as CHCl3 · DBE 0"},
+		{"lower case with subscripts and spaces", "c₁₀ h₁₂ o₂", "read as C10H12O2 · DBE 5"},
+	}
+	for _, tc := range cases {
+		p.do(tc.name, chromedp.Evaluate[chromedp.Void](`document.querySelector("#formula").value = ""`),
+			chromedp.SendKeys(chromedp.ID("formula"), tc.typed))
+		got := p.text("#formula-dbe")
+		assert.Equal(p.t, tc.want, got, "%s: %q shown back", tc.name, tc.typed)
+		// The page's reading is the service's.
+		norm, err := molecule.NormalizeFormula(tc.typed)
+		require.NoError(p.t, err, "NormalizeFormula(%q)", tc.typed)
+		f, err := molecule.ParseFormula(norm)
+		require.NoError(p.t, err, "ParseFormula(%q)", norm)
+		var hill string
+		p.eval(`document.querySelector("#formula-dbe").dataset.hill || ""`, &hill)
+		assert.Equal(p.t, f.String(), hill, "%s: the page's Hill formula of %q against the service's", tc.name, tc.typed)
+	}
+	ambiguous := []struct {
+		name, typed, pair string
+	}{
+		{"co: cobalt, or carbon and oxygen", "c2h4co", "co"},
+		{"si: silicon, or sulfur and iodine", "c2h6si", "si"},
+		{"no: nobelium, or nitrogen and oxygen", "c2h5no2", "no"},
+	}
+	for _, tc := range ambiguous {
+		p.do(tc.name, chromedp.Evaluate[chromedp.Void](`document.querySelector("#formula").value = ""`),
+			chromedp.SendKeys(chromedp.ID("formula"), tc.typed))
+		got := p.text("#formula-dbe")
+		up := strings.ToUpper(tc.pair)
+		one := up[:1] + tc.pair[1:]
+		assert.Contains(p.t, got, "ambiguous", "%s: %q", tc.name, tc.typed)
+		assert.Contains(p.t, got, "“"+tc.pair+"”", "%s: the message names the pair", tc.name)
+		assert.Contains(p.t, got, up+" or "+one, "%s: the message offers both readings", tc.name)
+		_, err := molecule.NormalizeFormula(tc.typed)
+		assert.Error(p.t, err, "the service refuses %q too", tc.typed)
+	}
+	p.shotOf(".field-formula", "formula-ambiguous")
+
+	// Ranked from lower case: the job shows the Hill formula it read.
+	p.do("example with a lower-case formula", chromedp.Click(chromedp.ID("load-example")),
+		chromedp.Evaluate[chromedp.Void](`document.querySelector("#formula").value = ""`),
+		chromedp.SendKeys(chromedp.ID("formula"), "c4h8o2"))
+	assert.Equal(p.t, "read as C4H8O2 · DBE 1", p.text("#formula-dbe"))
+	p.do("submit", chromedp.Click(chromedp.ID("submit")))
+	jobIDFromURL(p)
+	p.waitFor("the unknown shown", `document.querySelector("#job-request").textContent.includes("C4H8O2")`, 20*time.Second)
+	assert.Contains(p.t, p.text("#job-request"), "C4H8O2 (read from “c4h8o2”)", "the job says what the service read")
+}
+
+// testSizeErrors pastes more than the service reads and checks the message
+// stands at the field, in KiB/MiB, not in bytes above the buttons: first a
+// peak list over the 1 MiB peak-input limit (the page's own check), then
+// two lists each under it whose request body is over the service's 1 MiB
+// body limit (the service's 413).
+func testSizeErrors(p *page) {
+	p.open("/")
+	p.do("paste 1.2 MiB of peaks", chromedp.SendKeys(chromedp.ID("formula"), "C4H8O2"),
+		chromedp.Evaluate[chromedp.Void](`{ const t = document.querySelector("#peaks-text");
+			t.value = "1.00 (s), ".repeat(Math.ceil(1.2 * 1048576 / 10));
+			t.dispatchEvent(new Event("input", {bubbles: true})) }`))
+	note := p.text("#peaks-note")
+	assert.Contains(p.t, note, "1.2 MiB", "note under the pasted field")
+	p.do("submit", chromedp.Click(chromedp.ID("submit")))
+	p.waitFor("error at the peaks", `document.querySelector("#peaks-error").textContent.trim() !== ""`, 10*time.Second)
+	msg := p.text("#peaks-error")
+	assert.Contains(p.t, msg, "1.2 MiB", "peak field error")
+	assert.Contains(p.t, msg, "at most 1 MiB", "peak field error")
+	assert.NotContains(p.t, msg, "bytes", "peak field error in human units")
+	assert.Empty(p.t, p.text("#form-error"), "nothing above the buttons")
+	p.t.Logf("at the peak field: %q", msg)
+
+	// Each list under 1 MiB, the body over it: the service answers 413.
+	p.do("two lists of 0.6 and 0.7 MiB", chromedp.Evaluate[chromedp.Void](`{ const t = document.querySelector("#peaks-text");
+			t.value = "1.00 (s), ".repeat(Math.ceil(0.6 * 1048576 / 10));
+			t.dispatchEvent(new Event("input", {bubbles: true}));
+			const c = document.querySelector("#carbon-text");
+			c.value = "20.0, ".repeat(Math.ceil(0.7 * 1048576 / 6));
+			c.dispatchEvent(new Event("input", {bubbles: true})) }`),
+		chromedp.Click(chromedp.ID("submit")))
+	p.waitFor("error at the 13C field", `document.querySelector("#carbon_peaks-error").textContent.trim() !== ""`, 20*time.Second)
+	msg = p.text("#carbon_peaks-error")
+	assert.Contains(p.t, msg, "at most 1 MiB", "13C field error")
+	// 122,334 × "20.0, " = 734,004 bytes = 716.8 KiB.
+	assert.Contains(p.t, msg, "717 KiB", "13C field error")
+	assert.NotContains(p.t, msg, "bytes", "13C field error in human units")
+	assert.Empty(p.t, p.text("#form-error"), "nothing above the buttons")
+	var path string
+	p.eval(`location.pathname`, &path)
+	assert.Equal(p.t, "/", path, "the page stays on the form")
+	p.t.Logf("at the 13C field: %q", msg)
+	p.shot("size-error")
 }
