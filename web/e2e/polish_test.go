@@ -27,6 +27,7 @@ func TestPolishPage(t *testing.T) {
 	p.run("atom numbers on the drawing", testAtomNumbers)
 	p.run("formula read back", testFormulaReadBack)
 	p.run("size errors at the field", testSizeErrors)
+	p.run("plot labels at 1024 px", testPlotLabels)
 }
 
 // apiAtoms is the part of GET /v1/jobs/{id}/candidates the atom-number
@@ -239,4 +240,101 @@ func testSizeErrors(p *page) {
 	assert.Equal(p.t, "/", path, "the page stays on the form")
 	p.t.Logf("at the 13C field: %q", msg)
 	p.shot("size-error")
+}
+
+// plotCheck is what testPlotLabels reads from the drawn plot.
+type plotCheck struct {
+	Labels   []string // observed-peak labels, left to right
+	Legends  []string
+	Clashes  []string // pairs of drawn things that overlap
+	MinFont  float64  // smallest rendered font size of any text, px
+	Dropped  int      // labels left out for want of room
+	SVGWidth float64  // rendered width of the plot, px
+}
+
+// readPlot measures the plot as drawn: every text's rendered font size,
+// and any overlap of a label or legend with a peak, a trace or another
+// label (boxes from getBoundingClientRect, in screen pixels).
+const readPlot = `(() => {
+	const svg = document.querySelector("#plot svg");
+	const r = (e) => e.getBoundingClientRect();
+	const meet = (a, b) => a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom;
+	const labels = [...svg.querySelectorAll("text.peak-label")].sort((a, b) => r(a).left - r(b).left);
+	const legends = [...svg.querySelectorAll("text.legend")];
+	const peaks = [...svg.querySelectorAll(".obs-group")];
+	const traces = [...svg.querySelectorAll("path.pred-trace, path.over-trace")];
+	const clashes = [];
+	const name = (e) => e.tagName === "text" ? "“" + e.textContent + "”" : e.getAttribute("class") + " " + (e.dataset.peak || "");
+	const texts = [...labels, ...legends];
+	texts.forEach((a, i) => {
+		for (const b of texts.slice(i + 1)) if (meet(r(a), r(b))) clashes.push(name(a) + " / " + name(b));
+		for (const b of peaks) if (meet(r(a), r(b))) clashes.push(name(a) + " / peak " + b.dataset.peak);
+		for (const b of traces) if (meet(r(a), r(b))) clashes.push(name(a) + " / " + name(b));
+	});
+	const fonts = [...svg.querySelectorAll("text")].map(t => parseFloat(getComputedStyle(t).fontSize) * svg.getScreenCTM().a);
+	return {Labels: labels.map(t => t.textContent), Legends: legends.map(t => t.textContent), Clashes: clashes,
+		MinFont: Math.min(...fonts), Dropped: svg.querySelectorAll(".obs-group title").length, SVGWidth: r(svg).width};
+})()`
+
+// testPlotLabels draws the example's plot in a 1024 px wide window and
+// checks the labels: the legend off the first multiplet, each observed
+// peak labelled with its δ, multiplicity and integral (as entered: the
+// example is ethyl acetate, Gottlieb et al. 1997, from memory), no label
+// over a peak, a trace or another label, no text under 11 px, the δ labels
+// switched off and on by a labelled checkbox, and the share bars of #1 and
+// #2 drawn to one scale.
+func testPlotLabels(p *page) {
+	p.do("1024 px window", chromedp.EmulateViewport(1024, 768))
+	p.t.Cleanup(func() { _ = chromedp.Do(p.ctx, chromedp.EmulateViewport(1280, 800)) })
+	submitExample(p)
+	p.waitFor("plot drawn", `document.querySelectorAll("#plot text.peak-label").length === 3`, 10*time.Second)
+	var got plotCheck
+	p.eval(readPlot, &got)
+	p.t.Logf("plot at 1024 px: %+v", got)
+	assert.Equal(p.t, []string{"4.12 q 2H", "2.05 s 3H", "1.26 t 3H"}, got.Labels, "observed peaks labelled with δ, multiplicity, integral")
+	assert.Equal(p.t, []string{"observed", "predicted: #1", "overlay: #2"}, got.Legends, "legends")
+	assert.Empty(p.t, got.Clashes, "labels overlapping peaks, traces or each other")
+	assert.GreaterOrEqual(p.t, got.MinFont, 11.0, "smallest text in the plot, px")
+	assert.Zero(p.t, got.Dropped, "labels left out")
+	p.shotOf("#plot", "plot-1024")
+
+	// Zoomed on the quartet: its lines spread out, the labels still clear.
+	p.do("zoom on the quartet", chromedp.Click(chromedp.CSS(`#explain-rows tr.assign[data-index='0']`)),
+		chromedp.Click(chromedp.ID("zoom-peak")))
+	p.eval(readPlot, &got)
+	assert.Empty(p.t, got.Clashes, "zoomed: labels overlapping")
+	assert.GreaterOrEqual(p.t, got.MinFont, 11.0, "zoomed: smallest text, px")
+	p.do("fit all", chromedp.Click(chromedp.ID("zoom-fit")))
+
+	// The toggle: a checkbox with its label.
+	var label string
+	p.eval(`document.querySelector("label[for=shift-labels]").textContent.trim()`, &label)
+	assert.Equal(p.t, "Label observed peaks with δ and integral", label)
+	p.do("labels off", chromedp.Click(chromedp.ID("shift-labels")))
+	p.eval(readPlot, &got)
+	assert.Equal(p.t, []string{"q", "s", "t"}, got.Labels, "without δ labels: the multiplicities only")
+	assert.Empty(p.t, got.Clashes, "labels off: overlaps")
+	p.do("labels on", chromedp.Click(chromedp.ID("shift-labels")))
+	p.eval(readPlot, &got)
+	assert.Len(p.t, got.Labels, 3, "δ labels back")
+
+	// One scale for the share bars: bar width per nat the same for #1 and #2.
+	perNat := func(idx int) []float64 {
+		p.do("select", chromedp.Click(chromedp.CSS(fmt.Sprintf(`#candidate-list .candidate[data-index="%d"] .pick`, idx))))
+		p.waitFor("its table", `document.querySelectorAll("#explain-rows .share-bar").length > 0`, 5*time.Second)
+		var out []float64
+		p.eval(`[...document.querySelectorAll("#explain-rows td.share")].filter(td => td.querySelector(".share-bar")).map(td => {
+			const bar = td.querySelector(".share-bar"), fill = bar.firstElementChild;
+			const v = parseFloat(td.querySelector(".share-num").textContent.replace("−", "-"));
+			return fill.getBoundingClientRect().width / bar.getBoundingClientRect().width / Math.abs(v);
+		}).filter(x => isFinite(x))`, &out)
+		return out
+	}
+	a, b := perNat(0), perNat(1)
+	require.NotEmpty(p.t, a, "#1's share bars")
+	require.NotEmpty(p.t, b, "#2's share bars")
+	for _, v := range append(a[1:], b...) {
+		assert.InDelta(p.t, a[0], v, 0.05*a[0], "bar width per nat, #1 %v and #2 %v: one scale", a, b)
+	}
+	p.do("back to #1", chromedp.Click(chromedp.CSS(`#candidate-list .candidate[data-index="0"] .pick`)))
 }

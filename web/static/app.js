@@ -1378,12 +1378,22 @@ function termsText(t) {
   return `shift ${signed(t.shift)}, multiplicity ${signed(t.multiplicity)}, J ${signed(t.j)}, integration ${signed(t.integration)} nats`;
 }
 
+// shareScale is the full width of the share-of-score bars in nats: the
+// largest share of any peak of any candidate of the ranking, so a bar is
+// the same length for the same share whichever candidate is shown.
+function shareScale() {
+  if (review.shareScale === undefined) {
+    review.shareScale = Math.max(1e-9, ...review.candidates.flatMap((c) => [...c.assignments, ...c.unexplained, ...c.unobserved]
+      .map((a) => Math.abs(a.share ?? 0))));
+  }
+  return review.shareScale;
+}
+
 function renderExplain() {
   const c = review.candidates[review.selected];
   const tbody = $("explain-rows");
   tbody.replaceChildren();
-  const maxShare = Math.max(1e-9, ...c.assignments.map((a) => Math.abs(a.share ?? 0)),
-    ...c.unexplained.map((u) => Math.abs(u.share ?? 0)), ...c.unobserved.map((u) => Math.abs(u.share ?? 0)));
+  const maxShare = shareScale();
   c.assignments.forEach((a, i) => {
     const tr = document.createElement("tr");
     tr.className = "assign";
@@ -1660,7 +1670,7 @@ function renderPlot() {
   $("zoom-peak").disabled = review.peakSel < 0;
   drawPlot($("plot"), {
     observed: obsList, predicted: envs, overlay, links, mhz: review.mhz,
-    hi: range.hi, lo: range.lo, selectedPeak: selPeak,
+    hi: range.hi, lo: range.lo, selectedPeak: selPeak, shiftLabels: $("shift-labels").checked,
     names: { predicted: `#${c.rank ?? review.selected + 1}`,
       overlay: review.compare >= 0 ? `#${review.candidates[review.compare].rank ?? review.compare + 1}` : "" },
   });
@@ -1902,6 +1912,14 @@ function init() {
     renderPlot();
     renderCompare();
   });
+  $("shift-labels").addEventListener("change", () => { if (review) renderPlot(); });
+  // The plot is drawn at its own pixel width (labels keep their size):
+  // draw it again when that changes.
+  let plotW = 0;
+  new ResizeObserver(() => {
+    const w = $("plot").clientWidth;
+    if (review && !$("results").hidden && w && Math.abs(w - plotW) > 8) { plotW = w; renderPlot(); renderCarbon(); }
+  }).observe($("plot"));
   $("zoom-hi").addEventListener("change", setZoom);
   $("zoom-lo").addEventListener("change", setZoom);
   $("zoom-fit").addEventListener("click", () => { review.zoom = null; renderPlot(); });
