@@ -2,7 +2,7 @@
 // review of ranked candidates. Routes on the path: "/" is the form,
 // "/jobs/{id}" a job (history.pushState; a reload of a job URL works).
 
-import { parseFormula, parsePeaks, formatPeaks, checkRow, normalizeMultiplicity, parseCarbonText } from "./chem.js";
+import { parseFormula, normalizeFormula, hillFormula, parsePeaks, formatPeaks, checkRow, normalizeMultiplicity, parseCarbonText } from "./chem.js";
 import { putDrawing, rdkit, drawSVG } from "./draw.js";
 import { drawPlot, fitRange, drawCarbonPlot, fitCarbonRange } from "./plot.js";
 import { comparePeaks, likelihoodRatio, patternWord, summaryLine } from "./compare.js";
@@ -121,16 +121,33 @@ window.addEventListener("popstate", route);
 
 // ---------- submit form ----------
 
+// readFormula reads the formula field as the service will: normalised
+// (case, spaces, subscript digits) and then parsed. It returns parseFormula's
+// result with hill (the Hill formula) and typed (the field's text), or
+// {error, pos, token, ambiguous}.
+function readFormula(v) {
+  const n = normalizeFormula(v);
+  if (n.error) return n;
+  const f = parseFormula(n.text);
+  if (f.error) return f; // positions are in the normalised text
+  return { ...f, hill: hillFormula(f.counts), typed: v.trim() };
+}
+
 function updateDBE() {
   const v = $("formula").value;
   const out = $("formula-dbe");
+  out.removeAttribute("title");
+  delete out.dataset.hill;
   if (!v.trim()) { out.textContent = ""; out.className = ""; return; }
-  const f = parseFormula(v);
+  const f = readFormula(v);
   if (f.error) {
-    out.textContent = `not read yet: ${f.error}${f.token ? ` (“${f.token}”)` : ""}`;
-    out.className = "dbe pending";
+    out.textContent = f.ambiguous ? f.error : `not read yet: ${f.error}${f.token ? ` (“${f.token}”)` : ""}`;
+    out.className = f.ambiguous ? "dbe ambiguous" : "dbe pending";
   } else {
-    out.textContent = `DBE ${f.dbe}`;
+    // A formula typed another way (lower case, spaces, subscripts, any
+    // element order) is shown back as the service will read it.
+    out.textContent = f.hill !== f.typed ? `read as ${f.hill} · DBE ${f.dbe}` : `DBE ${f.dbe}`;
+    out.dataset.hill = f.hill;
     out.className = "dbe ok";
     out.title = "double-bond equivalents: rings plus π bonds";
   }
@@ -223,6 +240,13 @@ function syncTextFromRows() {
 function syncRowsFromText() {
   const text = $("peaks-text").value;
   if (!text.trim()) { rows = []; renderRows(); setNote(""); document.querySelector(".peak-table").classList.remove("stale"); return; }
+  const size = byteLength(text.trim());
+  if (size > PEAK_INPUT_LIMIT) {
+    document.querySelector(".peak-table").classList.add("stale");
+    setNote(`This paste is ${sizeText(size)}; the service reads at most ${sizeText(PEAK_INPUT_LIMIT)} of peak list. ` +
+      "Keep only the peak list itself.", true);
+    return;
+  }
   const r = parsePeaks(text);
   document.querySelector(".peak-table").classList.toggle("stale", !!r.error);
   if (r.error) {
@@ -329,7 +353,7 @@ function showProblem(err) {
   let first = null;
   for (const e of list) {
     const slot = slotFor(e.field || e.pointer || e.name);
-    let msg = e.detail || e.message || "not valid";
+    let msg = humanSizes(e.detail || e.message || "not valid");
     // "/options/require/1" → "fragment 2: ...", "/peaks/0/j" → "peak 1: ...".
     const idx = /\/(require|forbid|peaks|carbon_peaks|disable)\/(\d+)/.exec(String(e.field || ""));
     const what = { peaks: "peak", carbon_peaks: "13C peak", disable: "constraint" };
@@ -348,7 +372,7 @@ function showProblem(err) {
     if (OPTION_SLOTS.has(slot)) $("submit-form").querySelector("details.options").open = true;
     if (slot === "peaks" && typeof pos === "number") markRowAt(pos);
   }
-  if (!list.length) loose.push(prob.detail || prob.title || err.message);
+  if (!list.length) loose.push(humanSizes(prob.detail || prob.title || err.message));
   else if (loose.length === 0 && prob.detail && !first) loose.push(prob.detail);
   $("form-error").textContent = loose.join(" ");
   (first || $("form-error")).focus?.();
@@ -381,7 +405,7 @@ function newKey() {
 // counts of this unknown. It returns the warning, or "" when they fit
 // (or there is nothing to check).
 function integralProblem(formula, peaksText) {
-  const f = parseFormula(formula);
+  const f = readFormula(formula);
   if (f.error) return "";
   const r = parsePeaks(peaksText);
   if (r.error) return "";
@@ -390,7 +414,7 @@ function integralProblem(formula, peaksText) {
   const sum = ints.reduce((a, b) => a + b, 0);
   if (sum <= f.hCount + 0.5) return "";
   const shown = Number.isInteger(sum) ? String(sum) : sum.toFixed(1);
-  return `The integrals add up to ${shown} H, but ${formula.trim()} has ${f.hCount} H: read as hydrogen counts they cannot ` +
+  return `The integrals add up to ${shown} H, but ${f.hill} has ${f.hCount} H: read as hydrogen counts they cannot ` +
     `fit this formula. Check the integrals (or the formula); if they are relative areas, scale them to the formula's ${f.hCount} H. ` +
     "You can still rank with them as they are.";
 }
@@ -402,6 +426,58 @@ function clearIntegralWarning() {
   $("peaks-text").removeAttribute("aria-invalid");
 }
 
+// PEAK_INPUT_LIMIT is the most peak-list text the service reads from one
+// field, in bytes (1 MiB: the service's peak-input limit).
+const PEAK_INPUT_LIMIT = 1 << 20;
+
+// sizeText writes a byte count in human units: bytes, KiB or MiB.
+function sizeText(n) {
+  if (n < 1024) return `${n} bytes`;
+  const [v, unit] = n < 1 << 20 ? [n / 1024, "KiB"] : [n / (1 << 20), "MiB"];
+  return `${v < 10 && !Number.isInteger(v) ? v.toFixed(1) : Math.round(v)} ${unit}`;
+}
+
+// humanSizes rewrites byte counts in a message ("larger than 1048576
+// bytes") in human units ("larger than 1 MiB").
+function humanSizes(msg) {
+  return String(msg).replace(/(\d{4,}) bytes/g, (_, d) => sizeText(Number(d)));
+}
+
+const byteLength = (v) => new TextEncoder().encode(v).length;
+
+// TEXT_FIELDS are the form's free-text fields a paste can make large, with
+// the slot their errors go to.
+const TEXT_FIELDS = [["peaks", "peaks-text", "peak list"], ["carbon_peaks", "carbon-text", "13C peak list"],
+  ["require", "require", "list of fragments"], ["forbid", "forbid", "list of fragments"], ["reference", "reference", "reference"]];
+
+// sizeProblem returns a field error for a peak field holding more than the
+// service reads, or null.
+function sizeProblem() {
+  for (const [slot, id, what] of TEXT_FIELDS.slice(0, 2)) {
+    const n = byteLength($(id).value.trim());
+    if (n > PEAK_INPUT_LIMIT) {
+      return { field: slot, message: `This ${what} is ${sizeText(n)}; the service reads at most ${sizeText(PEAK_INPUT_LIMIT)}. ` +
+        "Paste only the peak list itself (not the whole file or spectrum)." };
+    }
+  }
+  return null;
+}
+
+// tooLargeProblem places the service's "request too large" answer at the
+// largest text field, in human units.
+function tooLargeProblem(err) {
+  let best = null, size = 0;
+  for (const [slot, id, what] of TEXT_FIELDS) {
+    const n = byteLength($(id).value);
+    if (n > size) { size = n; best = [slot, what]; }
+  }
+  const limit = /(\d+) bytes/.exec(err.problem?.detail || "");
+  const most = limit ? ` (at most ${sizeText(Number(limit[1]))})` : "";
+  if (!best || size < 1024) return { problem: { detail: humanSizes(err.message) } };
+  return { problem: { errors: [{ field: best[0],
+    message: `The request is larger than the service accepts${most}; this ${best[1]} alone is ${sizeText(size)}. Shorten it and try again.` }] } };
+}
+
 async function submit(e) {
   e.preventDefault();
   clearErrors();
@@ -409,6 +485,8 @@ async function submit(e) {
   const body = buildRequest();
   if (!body.formula) { showProblem({ problem: { errors: [{ field: "formula", message: "Enter the molecular formula." }] } }); return; }
   if (!body.peaks) { showProblem({ problem: { errors: [{ field: "peaks", message: "Enter at least one peak." }] } }); return; }
+  const big = sizeProblem();
+  if (big) { showProblem({ problem: { errors: [big] } }); return; }
   const warn = integralProblem(body.formula, body.peaks);
   if (warn && integralsAccepted !== `${body.formula}\n${body.peaks}`) {
     $("integral-warning-text").textContent = warn;
@@ -429,7 +507,8 @@ async function submit(e) {
     sessionStorage.setItem(REQ_STORE + job.id, JSON.stringify(body));
     go(`/jobs/${job.id}`);
   } catch (err) {
-    if (err instanceof APIError) showProblem(err);
+    if (err instanceof APIError && (err.status === 413 || err.problem?.code === "too_large")) showProblem(tooLargeProblem(err));
+    else if (err instanceof APIError) showProblem(err);
     else $("form-error").textContent = `The service could not be reached: ${err.message}`;
   } finally {
     btn.disabled = false;
@@ -692,7 +771,13 @@ function showJobState(job) {
       const r = readCarbon(cp);
       if (r.peaks) nc = `${r.peaks.length} 13C peak${r.peaks.length === 1 ? "" : "s"}`;
     } else if (cp) nc = "13C peaks";
-    $("job-request").textContent = [req.formula, req.mhz ? `${req.mhz} MHz` : "", req.solvent || "", n, nc].filter(Boolean).join(" · ");
+    // The service reads the formula normalised, in Hill form; when it was
+    // typed another way, both are shown (the page reads it by the same
+    // rules; the job's own formula when the page cannot).
+    const typed = String(job.formula || req.formula).trim();
+    const hill = readFormula(typed).hill || typed;
+    const formula = typed !== hill ? `${hill} (read from “${typed}”)` : hill;
+    $("job-request").textContent = [formula, req.mhz ? `${req.mhz} MHz` : "", req.solvent || "", n, nc].filter(Boolean).join(" · ");
   }
   const p = job.progress || {};
   const gen = p.generated || 0, scored = p.scored || 0, total = p.total_estimate || 0;
@@ -1259,9 +1344,10 @@ function renderDetailDrawing() {
     const a = c.assignments[review.peakSel];
     atoms = a ? a.atoms : [];
   }
-  putDrawing($("detail-structure"), c.smiles, { width: 360, height: 270, atoms });
+  putDrawing($("detail-structure"), c.smiles, { width: 360, height: 270, atoms, numbers: true });
   $("detail-highlight-note").textContent = review.peakSel >= 0
-    ? `Marked: the atoms carrying the H of the peak at δ ${fmtShift(c.assignments[review.peakSel].peak)}.`
+    ? `Marked and numbered (from 1, in SMILES order, as in the table): ${atoms.length > 1 ? "atoms" : "atom"} ${atoms.map((x) => x + 1).join(", ")}, ` +
+      `carrying the H of the peak at δ ${fmtShift(c.assignments[review.peakSel].peak)}.`
     : "Select a row of the table to mark its atoms in the drawing.";
 }
 
@@ -1292,12 +1378,22 @@ function termsText(t) {
   return `shift ${signed(t.shift)}, multiplicity ${signed(t.multiplicity)}, J ${signed(t.j)}, integration ${signed(t.integration)} nats`;
 }
 
+// shareScale is the full width of the share-of-score bars in nats: the
+// largest share of any peak of any candidate of the ranking, so a bar is
+// the same length for the same share whichever candidate is shown.
+function shareScale() {
+  if (review.shareScale === undefined) {
+    review.shareScale = Math.max(1e-9, ...review.candidates.flatMap((c) => [...c.assignments, ...c.unexplained, ...c.unobserved]
+      .map((a) => Math.abs(a.share ?? 0))));
+  }
+  return review.shareScale;
+}
+
 function renderExplain() {
   const c = review.candidates[review.selected];
   const tbody = $("explain-rows");
   tbody.replaceChildren();
-  const maxShare = Math.max(1e-9, ...c.assignments.map((a) => Math.abs(a.share ?? 0)),
-    ...c.unexplained.map((u) => Math.abs(u.share ?? 0)), ...c.unobserved.map((u) => Math.abs(u.share ?? 0)));
+  const maxShare = shareScale();
   c.assignments.forEach((a, i) => {
     const tr = document.createElement("tr");
     tr.className = "assign";
@@ -1574,7 +1670,7 @@ function renderPlot() {
   $("zoom-peak").disabled = review.peakSel < 0;
   drawPlot($("plot"), {
     observed: obsList, predicted: envs, overlay, links, mhz: review.mhz,
-    hi: range.hi, lo: range.lo, selectedPeak: selPeak,
+    hi: range.hi, lo: range.lo, selectedPeak: selPeak, shiftLabels: $("shift-labels").checked,
     names: { predicted: `#${c.rank ?? review.selected + 1}`,
       overlay: review.compare >= 0 ? `#${review.candidates[review.compare].rank ?? review.compare + 1}` : "" },
   });
@@ -1761,7 +1857,9 @@ function downloadBlob(name, blob) {
 // (drawn at twice the screen size on a white ground).
 async function downloadDrawing(kind) {
   const c = review.candidates[review.selected];
-  const svg = await drawSVG(c.smiles, { width: 600, height: 450 });
+  // The download shows what the page shows: the selected row's atoms marked and numbered.
+  const atoms = review.peakSel >= 0 ? c.assignments[review.peakSel]?.atoms || [] : [];
+  const svg = await drawSVG(c.smiles, { width: 600, height: 450, atoms, numbers: true });
   if (!svg) return;
   const name = `shiftrank-${review.id}-${c.rank ?? review.selected + 1}`;
   if (kind === "svg") { download(`${name}.svg`, "image/svg+xml", svg); return; }
@@ -1814,6 +1912,14 @@ function init() {
     renderPlot();
     renderCompare();
   });
+  $("shift-labels").addEventListener("change", () => { if (review) renderPlot(); });
+  // The plot is drawn at its own pixel width (labels keep their size):
+  // draw it again when that changes.
+  let plotW = 0;
+  new ResizeObserver(() => {
+    const w = $("plot").clientWidth;
+    if (review && !$("results").hidden && w && Math.abs(w - plotW) > 8) { plotW = w; renderPlot(); renderCarbon(); }
+  }).observe($("plot"));
   $("zoom-hi").addEventListener("change", setZoom);
   $("zoom-lo").addEventListener("change", setZoom);
   $("zoom-fit").addEventListener("click", () => { review.zoom = null; renderPlot(); });

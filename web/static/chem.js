@@ -48,6 +48,93 @@ export function parseFormula(text) {
   return { counts, dbe: twice / 2, heavy, hCount: counts.H || 0 };
 }
 
+// Symbols of the periodic table (IUPAC, elements 1–118) in lower case, to
+// tell when a lower-case formula has more than one reading.
+const ALL_ELEMENTS = new Set(`H He Li Be B C N O F Ne Na Mg Al Si P S Cl Ar K Ca Sc Ti V Cr Mn Fe Co Ni Cu Zn
+  Ga Ge As Se Br Kr Rb Sr Y Zr Nb Mo Tc Ru Rh Pd Ag Cd In Sn Sb Te I Xe Cs Ba La Ce Pr Nd Pm Sm Eu Gd Tb Dy Ho Er Tm
+  Yb Lu Hf Ta W Re Os Ir Pt Au Hg Tl Pb Bi Po At Rn Fr Ra Ac Th Pa U Np Pu Am Cm Bk Cf Es Fm Md No Lr Rf Db Sg Bh Hs
+  Mt Ds Rg Cn Nh Fl Mc Lv Ts Og`.trim().split(/\s+/).map((x) => x.toLowerCase()));
+
+// normalizeFormula rewrites the common ways of typing a formula into the
+// strict form parseFormula reads, with the service's rules: subscript
+// digits become digits, white space is dropped, and text all in lower case
+// is read with capitals when it has exactly one reading as element symbols
+// ("co", "si", "no" could be one element or two: refused, not guessed).
+// Text with a capital letter is taken as written. It returns {text} or
+// {error, pos, token, ambiguous} with pos the character offset in text.
+export function normalizeFormula(text) {
+  let t = "";
+  const at = []; // at[k]: offset in text of t[k]
+  let lower = false, upper = false;
+  for (let i = 0; i < text.length; i++) {
+    const ch = text[i];
+    const code = ch.charCodeAt(0);
+    if (code >= 0x2080 && code <= 0x2089) { t += String(code - 0x2080); at.push(i); continue; }
+    if (/\s/.test(ch)) continue;
+    if (ch >= "a" && ch <= "z") lower = true;
+    if (ch >= "A" && ch <= "Z") upper = true;
+    t += ch;
+    at.push(i);
+  }
+  if (upper || !lower) return { text: t };
+  const n = t.length;
+  const isDigit = (c) => c >= "0" && c <= "9";
+  const isLower = (c) => c >= "a" && c <= "z";
+  // ways[i] counts the readings of t[i:] (capped at 2); next[i] is the
+  // symbol length of the first one found.
+  const ways = new Array(n + 1).fill(0), next = new Array(n + 1).fill(0);
+  ways[n] = 1;
+  for (let i = n - 1; i >= 0; i--) {
+    if (isDigit(t[i])) {
+      if (i > 0 && (isLower(t[i - 1]) || isDigit(t[i - 1]))) { ways[i] = ways[i + 1]; next[i] = 1; }
+      continue;
+    }
+    for (let l = 1; l <= 2 && i + l <= n; l++) {
+      if (!ALL_ELEMENTS.has(t.slice(i, i + l)) || ways[i + l] === 0) continue;
+      if (ways[i] === 0) next[i] = l;
+      ways[i] = Math.min(ways[i] + ways[i + l], 2);
+    }
+  }
+  const posOf = (k) => (k < at.length ? at[k] : text.length);
+  if (ways[0] === 0) {
+    for (let i = 0; i < n; i++) {
+      if (isLower(t[i]) && !ALL_ELEMENTS.has(t[i]) && (i + 2 > n || !ALL_ELEMENTS.has(t.slice(i, i + 2)))) {
+        return { error: "cannot be read as element symbols; write symbols with a capital letter (C4H8O2)", pos: posOf(i), token: t[i] };
+      }
+    }
+    return { error: "cannot be read as element symbols; write symbols with a capital letter (C4H8O2)", pos: 0, token: text.trim() };
+  }
+  if (ways[0] > 1) {
+    for (let i = 0; i + 2 <= n; i++) {
+      const pair = t.slice(i, i + 2);
+      if (ALL_ELEMENTS.has(pair) && ALL_ELEMENTS.has(pair[0]) && ALL_ELEMENTS.has(pair[1])) {
+        const one = pair[0].toUpperCase() + pair[1], two = pair.toUpperCase();
+        return { error: `ambiguous in lower case: “${pair}” could be ${one} or ${two[0]} and ${two[1]}; write it with capitals (${two} or ${one})`,
+          pos: posOf(i), token: pair, ambiguous: true };
+      }
+    }
+    return { error: "ambiguous in lower case; write symbols with capital letters", pos: 0, token: text.trim(), ambiguous: true };
+  }
+  let out = "";
+  for (let i = 0; i < n;) {
+    if (isDigit(t[i])) { out += t[i]; i++; continue; }
+    const l = next[i];
+    out += t[i].toUpperCase() + t.slice(i + 1, i + l);
+    i += l;
+  }
+  return { text: out };
+}
+
+// hillFormula writes element counts in Hill order: C first, then H, then
+// the others alphabetically (without C: all alphabetically); common practice.
+export function hillFormula(counts) {
+  const syms = Object.keys(counts).filter((e) => counts[e] > 0);
+  const part = (e) => `${e}${counts[e] === 1 ? "" : counts[e]}`;
+  if (!("C" in counts)) return syms.sort().map(part).join("");
+  const rest = syms.filter((e) => e !== "C" && e !== "H").sort();
+  return ["C", ...(counts.H ? ["H"] : []), ...rest].map(part).join("");
+}
+
 // Multiplicity codes as written in journals, mapped to the normal form.
 const MULT_ALIASES = {
   s: "s", d: "d", t: "t", q: "q", m: "m",

@@ -81,19 +81,70 @@ function trace(envs, mhz, x2ppm, width, ppmPerPx) {
   return ys;
 }
 
+// plotWidth is the width to draw container's plot at: its own width in CSS
+// pixels, so one drawing unit is one pixel and the labels keep their font
+// size (11–12 px) at any window width; 900 when it is not laid out.
+function plotWidth(container, min) {
+  const w = Math.floor(container.clientWidth || 0) - 2;
+  return w > 0 ? Math.max(min, w) : 900;
+}
+
+// boxesMeet tells whether two boxes {x0, x1, y0, y1} overlap.
+function boxesMeet(a, b) {
+  return a.x0 < b.x1 && b.x0 < a.x1 && a.y0 < b.y1 && b.y0 < a.y1;
+}
+
+// placeLabels puts each label ({text, x, top, cls, peak}) above its peak
+// where it meets no peak, no other label and no legend: first right above
+// the peak, then one row higher each time, then beside it. A label with no
+// free place is left out (its peak keeps a <title> with the text).
+// Labels are measured once they are in the drawing.
+function placeLabels(svg, g, labels, obstacles, area) {
+  const placed = [];
+  for (const l of labels) {
+    const t = el("text", { class: l.cls, "text-anchor": "middle", "data-peak": String(l.peak) }, l.text);
+    g.append(t);
+    const w = (t.getComputedTextLength ? t.getComputedTextLength() : 0) || 6.2 * l.text.length;
+    const tries = [];
+    for (let row = 0; row < 6; row++) tries.push([0, row]);
+    for (let row = 0; row < 6; row++) tries.push([-(w / 2 + 6), row], [w / 2 + 6, row]);
+    let ok = null;
+    for (const [dx, row] of tries) {
+      let cx = l.x + dx;
+      cx = Math.min(Math.max(cx, area.x0 + w / 2 + 1), area.x1 - w / 2 - 1);
+      const y = l.top - 4 - row * 14;
+      const box = { x0: cx - w / 2 - 1, x1: cx + w / 2 + 1, y0: y - 11, y1: y + 3 };
+      if (box.y0 < area.y0) break;
+      if (obstacles.some((o) => boxesMeet(o, box)) || placed.some((o) => boxesMeet(o, box))) continue;
+      ok = { cx, y, box };
+      break;
+    }
+    if (!ok) { t.remove(); l.dropped = true; continue; }
+    t.setAttribute("x", ok.cx.toFixed(1));
+    t.setAttribute("y", ok.y.toFixed(1));
+    placed.push(ok.box);
+  }
+  return placed;
+}
+
 // drawPlot renders into container. data: {observed: [{shift, lo, hi, h,
-// label}], predicted: [env], overlay: [env] or null, links: [{peak, env}],
-// mhz, hi, lo, selectedPeak, names: {predicted, overlay}}.
+// label, integral, multiplicity}], predicted: [env], overlay: [env] or
+// null, links: [{peak, env}], mhz, hi, lo, selectedPeak, names:
+// {predicted, overlay}, shiftLabels}. With shiftLabels each observed peak
+// is labelled with its δ, multiplicity and integral; without, with its
+// multiplicity only. Legends sit in a band of their own above the peaks,
+// and labels are placed where they meet no peak and no other label.
 export function drawPlot(container, data) {
-  const W = 900, H = 300, padL = 16, padR = 16;
-  const obsBase = 128, predTop = 160, axisY = 270;
+  const W = plotWidth(container, 560), padL = 16, padR = 16;
+  const legendH = 22, obsBase = 166, predTop = 196, axisY = 300, H = 330;
+  const stickMax = 92; // tallest observed peak: leaves three label rows above it
   const width = W - padL - padR;
   const { hi, lo } = data;
   const ppmPerPx = (hi - lo) / width;
   const x = (ppm) => padL + ((hi - ppm) / (hi - lo)) * width;
   const x2ppm = (px) => hi - px * ppmPerPx;
 
-  const svg = el("svg", { viewBox: `0 0 ${W} ${H}`, class: "spectrum", role: "img",
+  const svg = el("svg", { viewBox: `0 0 ${W} ${H}`, width: W, height: H, class: "spectrum", role: "img",
     "aria-label": `Observed peaks against the predicted spectrum of ${data.names.predicted}, δ ${hi} to ${lo} ppm` });
   svg.append(el("rect", { x: 0, y: 0, width: W, height: H, class: "plot-bg" }));
   const clip = el("clipPath", { id: "plot-clip" });
@@ -101,12 +152,16 @@ export function drawPlot(container, data) {
   svg.append(clip);
   const g = el("g", { "clip-path": "url(#plot-clip)" });
   svg.append(g);
+  // In the page while drawing, so labels can be measured.
+  container.replaceChildren(svg);
 
   // Axis and ticks.
   const span = hi - lo;
-  const step = span > 6 ? 1 : span > 3 ? 0.5 : span > 1.2 ? 0.2 : span > 0.5 ? 0.1 : 0.05;
+  const pxPerPpm = width / span;
+  // Tick spacing: at least about 60 px between tick labels.
+  const step = [0.05, 0.1, 0.2, 0.5, 1, 2].find((st) => st * pxPerPpm >= 60) || 2;
   svg.append(el("line", { x1: padL, x2: W - padR, y1: axisY, y2: axisY, class: "axis" }));
-  for (let t = Math.ceil(lo / step) * step; t <= hi + 1e-9; t += step) {
+  for (let t = Math.ceil(lo / step - 1e-9) * step; t <= hi + 1e-9; t += step) {
     const tx = x(t);
     svg.append(el("line", { x1: tx, x2: tx, y1: axisY, y2: axisY + 5, class: "axis" }));
     svg.append(el("text", { x: tx, y: axisY + 18, class: "tick", "text-anchor": "middle" },
@@ -115,30 +170,47 @@ export function drawPlot(container, data) {
   svg.append(el("text", { x: W - padR, y: H - 2, class: "axis-label", "text-anchor": "end" }, "δ (ppm)"));
   g.append(el("line", { x1: padL, x2: W - padR, y1: obsBase, y2: obsBase, class: "baseline" }));
   g.append(el("line", { x1: padL, x2: W - padR, y1: predTop, y2: predTop, class: "baseline" }));
-  svg.append(el("text", { x: padL + 4, y: 14, class: "legend obs" }, "observed"));
-  svg.append(el("text", { x: padL + 4, y: predTop + 14, class: "legend pred" }, `predicted: ${data.names.predicted}`));
-  if (data.overlay) {
-    svg.append(el("text", { x: padL + 4, y: predTop + 28, class: "legend over" }, `overlay: ${data.names.overlay}`));
+
+  // Legends: one row in their own band above the peaks, each with a swatch.
+  const legends = [["obs", "observed"], ["pred", `predicted: ${data.names.predicted}`]];
+  if (data.overlay) legends.push(["over", `overlay: ${data.names.overlay}`]);
+  let lx = padL + 4;
+  for (const [cls, text] of legends) {
+    svg.append(el("line", { x1: lx, x2: lx + 14, y1: 11, y2: 11, class: `swatch ${cls}` }));
+    const t = el("text", { x: lx + 18, y: 15, class: `legend ${cls}` }, text);
+    svg.append(t);
+    lx += 18 + ((t.getComputedTextLength && t.getComputedTextLength()) || 7 * text.length) + 16;
   }
 
   // Observed: sticks (bands for ranges) with height by H.
   const maxH = Math.max(1, ...data.observed.map((p) => p.h || 1));
+  const peakBoxes = [];
+  const labels = [];
   data.observed.forEach((p, i) => {
-    const top = obsBase - 100 * ((p.h || 1) / maxH);
+    if (typeof p.shift !== "number" || !isFinite(p.shift)) return;
+    const top = obsBase - stickMax * ((p.h || 1) / maxH);
     const cls = `obs-peak${i === data.selectedPeak ? " selected" : ""}${p.unexplained ? " unexplained" : ""}${p.excluded ? " excluded" : ""}`;
+    const pg = el("g", { class: "obs-group", "data-peak": String(i) });
+    let x0, x1;
     if (p.hi !== undefined && p.lo !== undefined && Math.abs(p.hi - p.lo) > 1e-6) {
-      g.append(el("rect", { x: x(p.hi), y: top, width: Math.max(1, x(p.lo) - x(p.hi)), height: obsBase - top, class: `${cls} band` }));
+      x0 = x(p.hi); x1 = Math.max(x0 + 1, x(p.lo));
+      pg.append(el("rect", { x: x0, y: top, width: x1 - x0, height: obsBase - top, class: `${cls} band` }));
     } else {
       // Draw the observed pattern as first-order sticks when its J values
       // are given; the total height still stands for the H count.
       const { lines } = multipletLines({ shift: p.shift, h: 1, multiplicity: p.multiplicity || "s", j: p.j || [] }, data.mhz);
       const wmax = Math.max(...lines.map((l) => l.w));
+      x0 = Infinity; x1 = -Infinity;
       for (const l of lines) {
         const yt = obsBase - (obsBase - top) * (l.w / wmax);
-        g.append(el("line", { x1: x(l.ppm), x2: x(l.ppm), y1: obsBase, y2: yt, class: cls }));
+        pg.append(el("line", { x1: x(l.ppm), x2: x(l.ppm), y1: obsBase, y2: yt, class: cls }));
+        x0 = Math.min(x0, x(l.ppm)); x1 = Math.max(x1, x(l.ppm));
       }
     }
-    if (p.label) g.append(el("text", { x: x(p.shift), y: top - 4, class: "peak-label", "text-anchor": "middle" }, p.label));
+    g.append(pg);
+    peakBoxes.push({ x0: x0 - 3, x1: x1 + 3, y0: top - 1, y1: obsBase });
+    const text = data.shiftLabels ? shiftLabel(p) : p.label || "";
+    if (text && x1 >= padL && x0 <= W - padR) labels.push({ text, x: (x0 + x1) / 2, top, cls: `peak-label${data.shiftLabels ? " shift-label" : ""}`, peak: i, group: pg });
   });
 
   // Predicted traces, mirrored below.
@@ -166,7 +238,23 @@ export function drawPlot(container, data) {
     g.append(el("line", { x1: x(p.shift), y1: obsBase + 2, x2: x(e.shift), y2: predTop - 2,
       class: `link${sel ? " selected" : ""}` }));
   }
-  container.replaceChildren(svg);
+
+  // Peak labels last, above the peaks, clear of peaks and of each other.
+  placeLabels(svg, g, labels, peakBoxes, { x0: padL, x1: W - padR, y0: legendH + 2 });
+  for (const l of labels) {
+    if (l.dropped) l.group.append(el("title", {}, l.text));
+  }
+}
+
+// shiftLabel is an observed peak's label: its δ (or range), multiplicity
+// and integral, e.g. "4.12 q 2H".
+function shiftLabel(p) {
+  const d = p.hi !== undefined && p.lo !== undefined && Math.abs(p.hi - p.lo) > 1e-6
+    ? `${p.hi.toFixed(2)}–${p.lo.toFixed(2)}` : p.shift.toFixed(2);
+  const n = typeof p.integral === "number" && p.integral > 0 ? p.integral : undefined;
+  const h = n === undefined ? "" : ` ${Number.isInteger(n) ? n : n.toFixed(1)}H`;
+  const m = p.excluded ? " (not scored)" : p.multiplicity ? ` ${p.multiplicity}` : "";
+  return `${d}${m}${h}`;
 }
 
 // fitRange returns {hi, lo} covering every shift with a margin, in whole or
@@ -188,7 +276,7 @@ export function fitRange(shifts) {
 // predicted: [{signal, shift, carbons, cls}], links: [{peak, signal}],
 // hi, lo, name}. predicted may be empty (the ranking did not score 13C).
 export function drawCarbonPlot(container, data) {
-  const W = 900, H = 240, padL = 16, padR = 16;
+  const W = plotWidth(container, 560), H = 240, padL = 16, padR = 16;
   const obsBase = 100, predTop = 130, axisY = 212;
   const width = W - padL - padR;
   const { hi, lo } = data;
