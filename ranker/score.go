@@ -80,6 +80,10 @@ type Model struct {
 	UnobservedBase, UnobservedPerH     float64 // nats
 	ExchangeableBase, ExchangeablePerH float64 // nats
 
+	// Carbon is the 13C part of the likelihood (zero value in Options:
+	// DefaultCarbonModel()).
+	Carbon CarbonModel
+
 	// Temperature divides scores before normalising them into
 	// probabilities: errors of one predictor are correlated across the
 	// environments of a molecule, so the product of per-peak terms is
@@ -109,6 +113,7 @@ func DefaultModel() Model {
 		UnobservedPerH:   3,
 		ExchangeableBase: 0.5,
 		ExchangeablePerH: 0.3,
+		Carbon:           DefaultCarbonModel(),
 		Temperature:      1,
 	}
 }
@@ -200,10 +205,11 @@ type scorer struct {
 	t0     float64 // t_ν(0), the standard t density at 0
 	prob   assignProblem
 	solver solver
+	c      *carbonScorer // the 13C part
 }
 
 func newScorer(m Model) *scorer {
-	return &scorer{m: m, t0: math.Exp(tConst(m.Nu))}
+	return &scorer{m: m, t0: math.Exp(tConst(m.Nu)), c: newCarbonScorer(m.Carbon)}
 }
 
 // sigma returns the effective σ of an environment, ppm.
