@@ -97,6 +97,9 @@ type BenchOptions struct {
 	MaxCandidates int64         // per compound (default DefaultMaxCandidates)
 	TimeBudget    time.Duration // per compound (default DefaultTimeBudget)
 	Filter        string        // default "plausible"
+	// Carbon scores each compound with its 13C list (Reference.Carbon)
+	// as well, when it has one; otherwise the 13C lists are ignored.
+	Carbon bool
 }
 
 // BenchCase is the outcome for one reference compound.
@@ -121,6 +124,9 @@ type BenchCase struct {
 	Excluded string  `json:"excluded,omitempty"`
 	Seconds  float64 `json:"seconds"`
 	Error    string  `json:"error,omitempty"`
+	// CarbonScored says the compound's 13C list was scored with its 1H
+	// list (BenchOptions.Carbon).
+	CarbonScored bool `json:"carbon_scored,omitempty"`
 	// Top is the first candidate and True the true structure's candidate
 	// (explained even when it is outside the top K), for misses.
 	Top  *Candidate `json:"top,omitempty"`
@@ -131,9 +137,11 @@ type BenchCase struct {
 type BenchReport struct {
 	Cases []BenchCase `json:"cases"`
 	N     int         `json:"n"`
-	Top1  float64     `json:"top1"` // fraction with the true structure first
-	Top3  float64     `json:"top3"`
-	MRR   float64     `json:"mrr"` // mean reciprocal rank (0 for unscored)
+	// WithCarbon counts the compounds scored with their 13C list too.
+	WithCarbon int     `json:"with_carbon"`
+	Top1       float64 `json:"top1"` // fraction with the true structure first
+	Top3       float64 `json:"top3"`
+	MRR        float64 `json:"mrr"` // mean reciprocal rank (0 for unscored)
 	// MeanTopProbability is the mean probability of the first candidate;
 	// for a calibrated score it is close to Top1.
 	MeanTopProbability float64 `json:"mean_top_probability"`
@@ -192,6 +200,9 @@ func (r *Ranker) Bench(ctx context.Context, set *ReferenceSet, opts BenchOptions
 	}
 	rep.N = len(rep.Cases)
 	for _, c := range rep.Cases {
+		if c.CarbonScored {
+			rep.WithCarbon++
+		}
 		if c.Rank == 1 {
 			rep.Top1++
 		}
@@ -261,11 +272,20 @@ func (r *Ranker) benchOne(ctx context.Context, ref Reference, opts BenchOptions)
 	}
 	req := Request{Formula: ref.Formula, Peaks: pl, TopK: opts.TopK, Filter: opts.Filter,
 		MaxCandidates: opts.MaxCandidates, TimeBudget: opts.TimeBudget}
+	if opts.Carbon && strings.TrimSpace(ref.Carbon) != "" {
+		cl, err := spectrum.ReadList([]byte(ref.Carbon), spectrum.C13)
+		if err != nil {
+			return c, fmt.Errorf("carbon: %w", err)
+		}
+		req.Carbon = cl
+	}
 	j, err := r.prepare(req)
 	if err != nil {
 		return c, err
 	}
-	return r.benchJob(ctx, j, ref)
+	c, err = r.benchJob(ctx, j, ref)
+	c.CarbonScored = len(j.cobs) > 0
+	return c, err
 }
 
 // benchJob is benchOne for a prepared job.
