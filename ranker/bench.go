@@ -116,8 +116,14 @@ type BenchCase struct {
 	// TopProbability is the probability of the first candidate.
 	TopProbability float64 `json:"top_probability"`
 	TopSMILES      string  `json:"top_smiles"`
-	Scored         int64   `json:"scored"`
-	Complete       bool    `json:"complete"`
+	// TopScores are the scores of the candidates explained (best first):
+	// with Probability's score they let a study recompute approximate
+	// probabilities at another temperature without ranking again.
+	TopScores []float64 `json:"top_scores,omitempty"`
+	// TrueScore is the true structure's score (0 when it was not scored).
+	TrueScore float64 `json:"true_score,omitempty"`
+	Scored    int64   `json:"scored"`
+	Complete  bool    `json:"complete"`
 	// Status is the search's status (see SearchReport.Status); Excluded
 	// says why the true structure was outside the readings searched.
 	Status   string  `json:"status"`
@@ -315,6 +321,9 @@ func (r *Ranker) benchJob(ctx context.Context, j *job, ref Reference) (BenchCase
 	}
 	c.Seconds = time.Since(t0).Seconds()
 	c.Scored, c.Complete, c.Status = res.Scored, res.Complete, res.Search.Status
+	for _, cd := range res.Candidates {
+		c.TopScores = append(c.TopScores, cd.Score)
+	}
 	if len(res.Candidates) > 0 {
 		top := res.Candidates[0]
 		c.TopSMILES, c.TopProbability = top.SMILES, top.Probability
@@ -336,6 +345,7 @@ func (r *Ranker) benchJob(ctx context.Context, j *job, ref Reference) (BenchCase
 	tc.Rank = c.Rank
 	tc.Probability = math.Exp(tc.Score/r.model.Temperature - res.logZ)
 	c.Probability = tc.Probability
+	c.TrueScore = tc.Score
 	c.True = &tc
 	return c, nil
 }

@@ -225,3 +225,26 @@ func TestRankCarbonWithoutCarbonInFormula(t *testing.T) {
 	require.ErrorAs(t, err, &re)
 	assert.Equal(t, "carbon", re.Field)
 }
+
+// TestCarbonScoreIndependentOfSpelling: a candidate's joint score does
+// not depend on the atom order or Kekulé form of its graph (the ranking
+// scores generated graphs and explains re-parsed canonical SMILES; the
+// benchmark finds the true structure by its score). 2-naphthol in CDCl3
+// (testdata/realsize.json, from memory).
+func TestCarbonScoreIndependentOfSpelling(t *testing.T) {
+	const h1 = "1H NMR (400 MHz, CDCl3) δ 7.80–7.74 (m, 2H), 7.68 (d, J = 8.2 Hz, 1H), 7.44 (ddd, J = 8.2, 6.9, 1.2 Hz, 1H), 7.34 (ddd, J = 8.1, 6.9, 1.2 Hz, 1H), 7.14 (d, J = 2.5 Hz, 1H), 7.11 (dd, J = 8.8, 2.5 Hz, 1H), 5.01 (br s, 1H)"
+	c13, err := spectrum.ReadList([]byte("13C NMR (101 MHz, CDCl3) δ 153.3, 134.6, 129.9, 128.9, 127.8, 126.6, 126.4, 123.7, 117.7, 109.6"), spectrum.C13)
+	require.NoError(t, err)
+	r := New(Options{Workers: 1})
+	j, err := r.prepare(Request{Formula: "C10H8O", Peaks: mustPeaks(t, h1), Carbon: c13})
+	require.NoError(t, err)
+	var scores []float64
+	for _, smi := range []string{"Oc1ccc2ccccc2c1", "OC1=CC2=CC=CC=C2C=C1", "OC1=CC=C2C=CC=CC2=C1", canonical(t, "Oc1ccc2ccccc2c1")} {
+		c, err := r.explainOne(j, molecule.MustParseSMILES(smi), smi)
+		require.NoError(t, err)
+		scores = append(scores, c.Score)
+	}
+	for i := 1; i < len(scores); i++ {
+		assert.InDelta(t, scores[0], scores[i], 1e-9, "spelling %d scores %.6f, spelling 0 %.6f", i, scores[i], scores[0])
+	}
+}
