@@ -120,6 +120,8 @@ type BenchCase struct {
 	// with Probability's score they let a study recompute approximate
 	// probabilities at another temperature without ranking again.
 	TopScores []float64 `json:"top_scores,omitempty"`
+	// TopCarbonScores are the 13C parts of TopScores (with a 13C list).
+	TopCarbonScores []float64 `json:"top_carbon_scores,omitempty"`
 	// TrueScore is the true structure's score (0 when it was not scored).
 	TrueScore float64 `json:"true_score,omitempty"`
 	Scored    int64   `json:"scored"`
@@ -323,6 +325,9 @@ func (r *Ranker) benchJob(ctx context.Context, j *job, ref Reference) (BenchCase
 	c.Scored, c.Complete, c.Status = res.Scored, res.Complete, res.Search.Status
 	for _, cd := range res.Candidates {
 		c.TopScores = append(c.TopScores, cd.Score)
+		if c.CarbonScored = len(j.cobs) > 0; c.CarbonScored {
+			c.TopCarbonScores = append(c.TopCarbonScores, cd.CarbonScore)
+		}
 	}
 	if len(res.Candidates) > 0 {
 		top := res.Candidates[0]
