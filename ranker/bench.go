@@ -348,7 +348,7 @@ func (r *Ranker) benchJob(ctx context.Context, j *job, ref Reference) (BenchCase
 	c.Rank = int(pr.above) + 1
 	c.Ties = int(pr.ties)
 	tc.Rank = c.Rank
-	tc.Probability = math.Exp(tc.Score/r.model.Temperature - res.logZ)
+	tc.Probability = math.Exp(tc.Score/r.temperature(j) - res.logZ)
 	c.Probability = tc.Probability
 	c.TrueScore = tc.Score
 	c.True = &tc

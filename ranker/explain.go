@@ -50,7 +50,7 @@ func (r *Ranker) explainTop(ctx context.Context, j *job, items []ranked[*molecul
 	for k := range cands {
 		cands[k].Rank = k + 1
 		if !math.IsInf(logZ, -1) {
-			cands[k].Probability = math.Exp(cands[k].Score/r.model.Temperature - logZ)
+			cands[k].Probability = math.Exp(cands[k].Score/r.temperature(j) - logZ)
 		}
 	}
 	for k := range cands {

@@ -147,6 +147,9 @@ func New(opts Options) *Ranker {
 	if r.model.Temperature <= 0 {
 		r.model.Temperature = 1
 	}
+	if r.model.Carbon.Temperature <= 0 {
+		r.model.Carbon.Temperature = r.model.Temperature
+	}
 	if r.workers <= 0 {
 		r.workers = runtime.GOMAXPROCS(0)
 	}
@@ -154,6 +157,15 @@ func New(opts Options) *Ranker {
 		r.interval = DefaultProgressInterval
 	}
 	return r
+}
+
+// temperature returns the temperature that turns the job's scores into
+// probabilities: the joint one when a 13C list is scored.
+func (r *Ranker) temperature(j *job) float64 {
+	if len(j.cobs) > 0 {
+		return r.model.Carbon.Temperature
+	}
+	return r.model.Temperature
 }
 
 // ObservedPeak is an input peak as the ranking used it.
@@ -227,7 +239,8 @@ type Candidate struct {
 	// absent without a 13C list.
 	CarbonScore float64 `json:"carbon_score,omitempty"`
 	// Probability is exp(Score/T) normalised over every scored candidate
-	// (uniform prior, T = Model.Temperature).
+	// (uniform prior, T = Model.Temperature, or CarbonModel.Temperature
+	// when a 13C list is scored).
 	Probability            float64                 `json:"probability"`
 	Assignments            []Assignment            `json:"assignments"`
 	UnexplainedPeaks       []UnexplainedPeak       `json:"unexplained_peaks"`

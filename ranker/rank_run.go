@@ -414,7 +414,7 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 		}()
 	}
 
-	temp := r.model.Temperature
+	temp := r.temperature(j)
 	canon := func(g *molecule.Graph) string { return molecule.CanonicalSMILES(g) }
 	clone := func(g *molecule.Graph) *molecule.Graph { return g.Clone() }
 	yield := func(w int, g *molecule.Graph) bool {

@@ -54,7 +54,8 @@ import (
 // which are often broad or missing in CDCl3.
 //
 // Probabilities (see Ranker.Rank) come from normalising exp(Score/Temperature)
-// over every scored candidate with a uniform prior.
+// over every scored candidate with a uniform prior (CarbonModel.Temperature
+// when a 13C list is scored too).
 type Model struct {
 	Nu         float64 // Student t degrees of freedom for shift residuals
 	SigmaFloor float64 // ppm, lower limit of an environment's σ
