@@ -248,3 +248,24 @@ func TestCarbonScoreIndependentOfSpelling(t *testing.T) {
 		assert.InDelta(t, scores[0], scores[i], 1e-9, "spelling %d scores %.6f, spelling 0 %.6f", i, scores[i], scores[0])
 	}
 }
+
+// TestRankCarbonTemperature: with a 13C list the probabilities use the
+// joint temperature (CarbonModel.Temperature), without one Model's.
+func TestRankCarbonTemperature(t *testing.T) {
+	r := New(Options{Workers: 1})
+	req := Request{Formula: "C4H8O2", Peaks: mustPeaks(t, ethylAcetate), TopK: 3, Unconstrained: true}
+	ratio := func(res *Result) (got, scoreGap float64) {
+		require.GreaterOrEqual(t, len(res.Candidates), 2)
+		a, b := res.Candidates[0], res.Candidates[1]
+		return math.Log(a.Probability / b.Probability), a.Score - b.Score
+	}
+	res, err := r.Rank(context.Background(), req, nil)
+	require.NoError(t, err)
+	got, gap := ratio(res)
+	assert.InDelta(t, gap/DefaultModel().Temperature, got, 1e-6, "1H only: log p1/p2 = gap / Model.Temperature")
+	req.Carbon = carbonList(t)
+	res, err = r.Rank(context.Background(), req, nil)
+	require.NoError(t, err)
+	got, gap = ratio(res)
+	assert.InDelta(t, gap/DefaultCarbonModel().Temperature, got, 1e-6, "1H + 13C: log p1/p2 = gap / CarbonModel.Temperature")
+}
