@@ -245,72 +245,132 @@ func (cx *cctx) aromatic(c int, r *cres) {
 		}
 	}
 	pos := [4]string{"ipso: ", "ortho: ", "meta: ", "para: "}
-	for k, x := range ring {
-		d := min(k, size-k)
-		for _, nb := range g.Neighbors(x) {
-			v := nb.Atom
-			if inRing(ring, v) {
-				continue
+	// A carbon shared by two aromatic rings of the same size (the ring
+	// fusion carbons of naphthalene) takes the substituent increments of
+	// both rings, so that the result does not depend on which ring
+	// aromRing happens to return (which follows the atom order).
+	rings := [][]int{ring}
+	rings = append(rings, cx.tiedAromRings(c, ring)...)
+	for ri, ring := range rings {
+		for k, x := range ring {
+			if ri > 0 && inRing(rings[0], x) {
+				continue // counted with the first ring
 			}
-			if cx.aromBond != nil && cx.aromBond[nb.Bond] {
-				// A fused ring: part of the parent when there is one.
-				if !hasParent {
-					ac.addCat(fusedInc[d], pos[d], "fused ring")
-				}
-				continue
-			}
-			if g.Atoms[x].Element != molecule.C {
-				if d == 0 {
+			d := min(k, size-k)
+			for _, nb := range g.Neighbors(x) {
+				v := nb.Atom
+				if inRing(ring, v) {
 					continue
 				}
-				if !(g.Atoms[v].Element == molecule.C && g.Atoms[v].HCount == 3 && g.Degree(v) == 1) && g.Atoms[v].Charge == 0 {
-					r.sigma += 1.0
-					if cx.explain {
-						r.reasons = append(r.reasons, "the group on the ring nitrogen is taken as a methyl (parent ring value)")
+				if cx.aromBond != nil && cx.aromBond[nb.Bond] {
+					// A fused ring: part of the parent when there is one.
+					if !hasParent && ri == 0 {
+						ac.addCat(fusedInc[d], pos[d], "fused ring")
+					}
+					continue
+				}
+				if g.Atoms[x].Element != molecule.C {
+					if d == 0 {
+						continue
+					}
+					if !(g.Atoms[v].Element == molecule.C && g.Atoms[v].HCount == 3 && g.Degree(v) == 1) && g.Atoms[v].Charge == 0 {
+						r.sigma += 1.0
+						if cx.explain {
+							r.reasons = append(r.reasons, "the group on the ring nitrogen is taken as a methyl (parent ring value)")
+						}
+					}
+					continue
+				}
+				s := cx.xclass(x, v)
+				var inc [4]float64
+				name := xtab[s].name
+				if s == xAlkyl {
+					inc, name = cx.alkylOnRing(x, v)
+				} else {
+					inc = xtab[s].ar
+				}
+				if !cx.explain {
+					name = ""
+				}
+				val := inc[d]
+				if size == 5 {
+					val, name = cx.fiveRingInc(c, x, d, ring, inc, name)
+					r.sigma += 2.0
+				}
+				if d == 0 && alphaN && size == 6 {
+					switch {
+					case s >= xOH && s <= xNPlus:
+						// 2-methoxypyridine C2 164.2, 2-aminopyridine 158.7
+						// (Kalinowski, from memory): half the benzene ipso
+						// effect next to a ring N.
+						val *= 0.5
+					case s == xCl:
+						val *= 0.3 // 2-chloropyridine 151.6
 					}
 				}
-				continue
-			}
-			s := cx.xclass(x, v)
-			var inc [4]float64
-			name := xtab[s].name
-			if s == xAlkyl {
-				inc, name = cx.alkylOnRing(x, v)
-			} else {
-				inc = xtab[s].ar
-			}
-			if !cx.explain {
-				name = ""
-			}
-			val := inc[d]
-			if size == 5 {
-				val, name = cx.fiveRingInc(c, x, d, ring, inc, name)
-				r.sigma += 2.0
-			}
-			if d == 0 && alphaN && size == 6 {
-				switch {
-				case s >= xOH && s <= xNPlus:
-					// 2-methoxypyridine C2 164.2, 2-aminopyridine 158.7
-					// (Kalinowski, from memory): half the benzene ipso
-					// effect next to a ring N.
-					val *= 0.5
-				case s == xCl:
-					val *= 0.3 // 2-chloropyridine 151.6
+				if xtab[s].est {
+					r.sigma += 1.5
+					r.est = true
+				} else {
+					r.sigma += 0.3
 				}
-			}
-			if xtab[s].est {
-				r.sigma += 1.5
-				r.est = true
-			} else {
-				r.sigma += 0.3
-			}
-			if cx.explain {
-				ac.addCat(val, pos[d], name)
-			} else {
-				ac.raw(val)
+				if cx.explain {
+					ac.addCat(val, pos[d], name)
+				} else {
+					ac.raw(val)
+				}
 			}
 		}
 	}
+}
+
+// tiedAromRings returns the aromatic rings through c other than ring that
+// have ring's size (the second ring of a fusion carbon of naphthalene),
+// each starting at c and in cyclic order like aromRing's.
+func (cx *cctx) tiedAromRings(c int, ring []int) [][]int {
+	m := cx.m
+	g := cx.g
+	var out [][]int
+	nbs := g.Neighbors(c)
+	for i := 0; i < len(nbs); i++ {
+		p := nbs[i].Atom
+		if !m.arom[p] || m.ringBond[nbs[i].Bond] == 0 {
+			continue
+		}
+		for j := i + 1; j < len(nbs); j++ {
+			q := nbs[j].Atom
+			if !m.arom[q] || m.ringBond[nbs[j].Bond] == 0 {
+				continue
+			}
+			if d := m.bfs(p, q, -1, c, -1, true); d < 0 || d+2 != len(ring) {
+				continue
+			}
+			r := make([]int, len(ring))
+			r[0] = c
+			k := len(ring) - 1
+			for v := q; v >= 0 && k > 0; v = m.par[v] {
+				r[k] = v
+				k--
+			}
+			if !sameRing(r, ring) {
+				out = append(out, r)
+			}
+		}
+	}
+	return out
+}
+
+// sameRing reports whether a and b hold the same atoms.
+func sameRing(a, b []int) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for _, x := range a {
+		if !inRing(b, x) {
+			return false
+		}
+	}
+	return true
 }
 
 // alkylOnRing returns the ring increments of the alkyl group v on ring

@@ -2,6 +2,7 @@ package predict
 
 import (
 	"strconv"
+	"strings"
 
 	"shiftrank/molecule"
 )
@@ -73,13 +74,28 @@ func (cx *cctx) sp3(c int, r *cres) {
 				name = "ring (" + strconv.Itoa(size) + "-membered carbocycle)"
 			}
 		} else {
-			pos, kind := cx.ringHeteroDistance(c)
-			v = ringHetero[s][kind][pos]
+			// Several kinds at the least distance (a ring CH β to both
+			// the C=O and the C=C of a cyclohexenone) take the mean of
+			// their corrections.
+			pos, kinds := cx.ringHeteroDistance(c)
+			nk := 0
+			var what []string
+			for kind := range 3 {
+				if kinds&(1<<kind) == 0 {
+					continue
+				}
+				v += ringHetero[s][kind][pos]
+				nk++
+				if cx.explain {
+					what = append(what, [3]string{"a heteroatom", "a C=X carbon", "a C=C carbon"}[kind])
+				}
+			}
+			v /= float64(nk)
 			if size == 3 && cx.ringHasElement(c, molecule.S) {
 				v = -9 // thiirane 18.9 against oxirane 40.6 (Pretsch, from memory)
 			}
 			if cx.explain {
-				name = "ring (" + strconv.Itoa(size) + "-membered, " + [4]string{"", "α", "β", "γ"}[pos] + " to " + [3]string{"a heteroatom", "a C=X carbon", "a C=C carbon"}[kind] + ")"
+				name = "ring (" + strconv.Itoa(size) + "-membered, " + [4]string{"", "α", "β", "γ"}[pos] + " to " + strings.Join(what, " and ") + ")"
 			}
 			r.sigma += 1.0
 		}
@@ -498,8 +514,9 @@ func (cx *cctx) antiGamma(c int, ok func(int) bool) int {
 
 // ringHeteroDistance returns 1, 2 or 3 (3 or more): the bond distance from
 // ring carbon c to the nearest ring atom of its ring system that is not an
-// sp3 carbon, and that atom's kind (ringHet, ringExo, ringEndo).
-func (cx *cctx) ringHeteroDistance(c int) (int, int) {
+// sp3 carbon, and the kinds (bits 1<<ringHet, 1<<ringExo, 1<<ringEndo)
+// of every such atom at that distance.
+func (cx *cctx) ringHeteroDistance(c int) (int, uint8) {
 	g := cx.g
 	m := cx.m
 	sys := m.rsys[c]
@@ -510,8 +527,15 @@ func (cx *cctx) ringHeteroDistance(c int) (int, int) {
 	dist[c] = 0
 	queue := append(cx.q2[:0], c)
 	defer func() { cx.q2 = queue }()
+	// Every kind met at the least distance is returned: which of two
+	// atoms at one distance the search meets first follows the atom
+	// order, which must not change the prediction.
+	found, kinds := -1, uint8(0)
 	for h := 0; h < len(queue); h++ {
 		v := queue[h]
+		if found >= 0 && int(dist[v]) > found {
+			break
+		}
 		if v != c && !cx.skel[v] {
 			kind := ringHet
 			if g.Atoms[v].Element == molecule.C {
@@ -522,9 +546,11 @@ func (cx *cctx) ringHeteroDistance(c int) (int, int) {
 					}
 				}
 			}
-			return min(int(dist[v]), 3), kind
+			found = int(dist[v])
+			kinds |= 1 << kind
+			continue
 		}
-		if dist[v] >= 3 {
+		if dist[v] >= 3 || found >= 0 {
 			continue
 		}
 		for _, nb := range g.Neighbors(v) {
@@ -536,7 +562,10 @@ func (cx *cctx) ringHeteroDistance(c int) (int, int) {
 			queue = append(queue, w)
 		}
 	}
-	return 3, ringHet
+	if found >= 0 {
+		return min(found, 3), kinds
+	}
+	return 3, 1 << ringHet
 }
 
 // allylic adds the effects of the groups on the alkene carbon y (bonded to

@@ -97,6 +97,9 @@ type BenchOptions struct {
 	MaxCandidates int64         // per compound (default DefaultMaxCandidates)
 	TimeBudget    time.Duration // per compound (default DefaultTimeBudget)
 	Filter        string        // default "plausible"
+	// Carbon scores each compound with its 13C list (Reference.Carbon)
+	// as well, when it has one; otherwise the 13C lists are ignored.
+	Carbon bool
 }
 
 // BenchCase is the outcome for one reference compound.
@@ -113,14 +116,25 @@ type BenchCase struct {
 	// TopProbability is the probability of the first candidate.
 	TopProbability float64 `json:"top_probability"`
 	TopSMILES      string  `json:"top_smiles"`
-	Scored         int64   `json:"scored"`
-	Complete       bool    `json:"complete"`
+	// TopScores are the scores of the candidates explained (best first):
+	// with Probability's score they let a study recompute approximate
+	// probabilities at another temperature without ranking again.
+	TopScores []float64 `json:"top_scores,omitempty"`
+	// TopCarbonScores are the 13C parts of TopScores (with a 13C list).
+	TopCarbonScores []float64 `json:"top_carbon_scores,omitempty"`
+	// TrueScore is the true structure's score (0 when it was not scored).
+	TrueScore float64 `json:"true_score,omitempty"`
+	Scored    int64   `json:"scored"`
+	Complete  bool    `json:"complete"`
 	// Status is the search's status (see SearchReport.Status); Excluded
 	// says why the true structure was outside the readings searched.
 	Status   string  `json:"status"`
 	Excluded string  `json:"excluded,omitempty"`
 	Seconds  float64 `json:"seconds"`
 	Error    string  `json:"error,omitempty"`
+	// CarbonScored says the compound's 13C list was scored with its 1H
+	// list (BenchOptions.Carbon).
+	CarbonScored bool `json:"carbon_scored,omitempty"`
 	// Top is the first candidate and True the true structure's candidate
 	// (explained even when it is outside the top K), for misses.
 	Top  *Candidate `json:"top,omitempty"`
@@ -131,9 +145,11 @@ type BenchCase struct {
 type BenchReport struct {
 	Cases []BenchCase `json:"cases"`
 	N     int         `json:"n"`
-	Top1  float64     `json:"top1"` // fraction with the true structure first
-	Top3  float64     `json:"top3"`
-	MRR   float64     `json:"mrr"` // mean reciprocal rank (0 for unscored)
+	// WithCarbon counts the compounds scored with their 13C list too.
+	WithCarbon int     `json:"with_carbon"`
+	Top1       float64 `json:"top1"` // fraction with the true structure first
+	Top3       float64 `json:"top3"`
+	MRR        float64 `json:"mrr"` // mean reciprocal rank (0 for unscored)
 	// MeanTopProbability is the mean probability of the first candidate;
 	// for a calibrated score it is close to Top1.
 	MeanTopProbability float64 `json:"mean_top_probability"`
@@ -192,6 +208,9 @@ func (r *Ranker) Bench(ctx context.Context, set *ReferenceSet, opts BenchOptions
 	}
 	rep.N = len(rep.Cases)
 	for _, c := range rep.Cases {
+		if c.CarbonScored {
+			rep.WithCarbon++
+		}
 		if c.Rank == 1 {
 			rep.Top1++
 		}
@@ -261,11 +280,20 @@ func (r *Ranker) benchOne(ctx context.Context, ref Reference, opts BenchOptions)
 	}
 	req := Request{Formula: ref.Formula, Peaks: pl, TopK: opts.TopK, Filter: opts.Filter,
 		MaxCandidates: opts.MaxCandidates, TimeBudget: opts.TimeBudget}
+	if opts.Carbon && strings.TrimSpace(ref.Carbon) != "" {
+		cl, err := spectrum.ReadList([]byte(ref.Carbon), spectrum.C13)
+		if err != nil {
+			return c, fmt.Errorf("carbon: %w", err)
+		}
+		req.Carbon = cl
+	}
 	j, err := r.prepare(req)
 	if err != nil {
 		return c, err
 	}
-	return r.benchJob(ctx, j, ref)
+	c, err = r.benchJob(ctx, j, ref)
+	c.CarbonScored = len(j.cobs) > 0
+	return c, err
 }
 
 // benchJob is benchOne for a prepared job.
@@ -295,6 +323,12 @@ func (r *Ranker) benchJob(ctx context.Context, j *job, ref Reference) (BenchCase
 	}
 	c.Seconds = time.Since(t0).Seconds()
 	c.Scored, c.Complete, c.Status = res.Scored, res.Complete, res.Search.Status
+	for _, cd := range res.Candidates {
+		c.TopScores = append(c.TopScores, cd.Score)
+		if c.CarbonScored = len(j.cobs) > 0; c.CarbonScored {
+			c.TopCarbonScores = append(c.TopCarbonScores, cd.CarbonScore)
+		}
+	}
 	if len(res.Candidates) > 0 {
 		top := res.Candidates[0]
 		c.TopSMILES, c.TopProbability = top.SMILES, top.Probability
@@ -314,8 +348,9 @@ func (r *Ranker) benchJob(ctx context.Context, j *job, ref Reference) (BenchCase
 	c.Rank = int(pr.above) + 1
 	c.Ties = int(pr.ties)
 	tc.Rank = c.Rank
-	tc.Probability = math.Exp(tc.Score/r.model.Temperature - res.logZ)
+	tc.Probability = math.Exp(tc.Score/r.temperature(j) - res.logZ)
 	c.Probability = tc.Probability
+	c.TrueScore = tc.Score
 	c.True = &tc
 	return c, nil
 }

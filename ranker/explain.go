@@ -50,7 +50,7 @@ func (r *Ranker) explainTop(ctx context.Context, j *job, items []ranked[*molecul
 	for k := range cands {
 		cands[k].Rank = k + 1
 		if !math.IsInf(logZ, -1) {
-			cands[k].Probability = math.Exp(cands[k].Score/r.model.Temperature - logZ)
+			cands[k].Probability = math.Exp(cands[k].Score/r.temperature(j) - logZ)
 		}
 	}
 	for k := range cands {
@@ -73,6 +73,14 @@ func (r *Ranker) explainWith(pred *predict.Predictor, sc *scorer, j *job, g *mol
 	}
 	c := explainCandidate(sc, j, sp, smi)
 	c.Notes = sp.Notes
+	if len(j.cobs) > 0 {
+		csp, err := pred.Carbon(g)
+		if err != nil {
+			return Candidate{}, fmt.Errorf("re-predict 13C of candidate %s: %w", smi, err)
+		}
+		explainCarbon(&c, sc, j, csp)
+		c.Notes = append(c.Notes, csp.Notes...)
+	}
 	return c, nil
 }
 
@@ -272,8 +280,13 @@ func summarise(cands []Candidate, k int, j *job) string {
 	if diff == 0 {
 		return fmt.Sprintf("ties with #%d (%s): the spectra cannot tell them apart; ordered by SMILES", n.Rank, n.SMILES)
 	}
-	// Per-peak differences.
-	share := func(x *Candidate) map[int]float64 {
+	// Per-peak differences, 1H peaks first, then 13C peaks.
+	type d struct {
+		label string
+		v     float64
+	}
+	var ds []d
+	hs := func(x *Candidate) map[int]float64 {
 		m := map[int]float64{}
 		for _, a := range x.Assignments {
 			m[a.Peak] += a.ScoreShare
@@ -283,34 +296,28 @@ func summarise(cands []Candidate, k int, j *job) string {
 		}
 		return m
 	}
-	sa, sb := share(c), share(n)
-	type d struct {
-		peak int
-		v    float64
-	}
-	var ds []d
+	sa, sb := hs(c), hs(n)
 	for _, k := range j.scored {
 		if v := sa[k] - sb[k]; math.Abs(v) > 0.05 {
-			ds = append(ds, d{k, v})
+			p := j.peaks[k]
+			ds = append(ds, d{fmt.Sprintf("peak %d (δ %.2f)", p.Index+1, p.Shift), v})
 		}
 	}
-	slices.SortFunc(ds, func(a, b d) int {
-		switch {
-		case a.v > b.v:
-			return -1
-		case a.v < b.v:
-			return 1
+	cs := func(x *Candidate) map[int]float64 {
+		m := map[int]float64{}
+		for _, a := range x.CarbonAssignments {
+			m[a.Peak] += a.ScoreShare
 		}
-		return a.peak - b.peak
-	})
-	var why, against []string
-	for i := 0; i < len(ds) && len(why) < 3 && ds[i].v > 0; i++ {
-		p := j.peaks[ds[i].peak]
-		why = append(why, fmt.Sprintf("peak %d (δ %.2f) %+.1f", p.Index+1, p.Shift, ds[i].v))
+		for _, u := range x.UnexplainedCarbonPeaks {
+			m[u.Peak] += u.ScoreShare
+		}
+		return m
 	}
-	for i := len(ds) - 1; i >= 0 && len(against) < 2 && ds[i].v < 0; i-- {
-		p := j.peaks[ds[i].peak]
-		against = append(against, fmt.Sprintf("peak %d (δ %.2f) %+.1f", p.Index+1, p.Shift, ds[i].v))
+	ca, cb := cs(c), cs(n)
+	for k, p := range j.cpeaks {
+		if v := ca[k] - cb[k]; math.Abs(v) > 0.05 {
+			ds = append(ds, d{fmt.Sprintf("13C peak %d (δ %.1f)", p.Index+1, p.Shift), v})
+		}
 	}
 	unobs := func(x *Candidate) float64 {
 		s := 0.0
@@ -319,11 +326,35 @@ func summarise(cands []Candidate, k int, j *job) string {
 		}
 		return s
 	}
-	switch v := unobs(c) - unobs(n); {
-	case v > 0.05:
-		why = append(why, fmt.Sprintf("unobserved environments %+.1f", v))
-	case v < -0.05:
-		against = append(against, fmt.Sprintf("unobserved environments %+.1f", v))
+	if v := unobs(c) - unobs(n); math.Abs(v) > 0.05 {
+		ds = append(ds, d{"unobserved environments", v})
+	}
+	unobsC := func(x *Candidate) float64 {
+		s := 0.0
+		for _, u := range x.UnobservedCarbons {
+			s += u.ScoreShare
+		}
+		return s
+	}
+	if v := unobsC(c) - unobsC(n); math.Abs(v) > 0.05 {
+		ds = append(ds, d{"unobserved carbons", v})
+	}
+	// Stable: equal differences keep the order above.
+	slices.SortStableFunc(ds, func(a, b d) int {
+		switch {
+		case a.v > b.v:
+			return -1
+		case a.v < b.v:
+			return 1
+		}
+		return 0
+	})
+	var why, against []string
+	for i := 0; i < len(ds) && len(why) < 3 && ds[i].v > 0; i++ {
+		why = append(why, fmt.Sprintf("%s %+.1f", ds[i].label, ds[i].v))
+	}
+	for i := len(ds) - 1; i >= 0 && len(against) < 2 && ds[i].v < 0; i-- {
+		against = append(against, fmt.Sprintf("%s %+.1f", ds[i].label, ds[i].v))
 	}
 	ratio := math.Exp(diff)
 	rs := fmt.Sprintf("%.3g", ratio)

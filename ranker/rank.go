@@ -34,8 +34,9 @@ type Request struct {
 	// Peaks is the observed 1H peak list (see spectrum.Read). At least one
 	// peak.
 	Peaks spectrum.PeakList
-	// Carbon is an observed 13C peak list read with Peaks (no peaks: none).
-	// It is checked but not scored yet; the result says so in a warning.
+	// Carbon is an observed 13C peak list (no peaks: none). When given, it
+	// steers the search (see infer) and each candidate's Score adds its
+	// 13C log-likelihood to the 1H one (see CarbonModel).
 	Carbon spectrum.PeakList
 	// MHz is the spectrometer 1H frequency (default: Peaks.MHz, else 400).
 	MHz float64
@@ -140,8 +141,14 @@ func New(opts Options) *Ranker {
 	if opts.Model != nil {
 		r.model = *opts.Model
 	}
+	if r.model.Carbon == (CarbonModel{}) {
+		r.model.Carbon = DefaultCarbonModel()
+	}
 	if r.model.Temperature <= 0 {
 		r.model.Temperature = 1
+	}
+	if r.model.Carbon.Temperature <= 0 {
+		r.model.Carbon.Temperature = r.model.Temperature
 	}
 	if r.workers <= 0 {
 		r.workers = runtime.GOMAXPROCS(0)
@@ -150,6 +157,15 @@ func New(opts Options) *Ranker {
 		r.interval = DefaultProgressInterval
 	}
 	return r
+}
+
+// temperature returns the temperature that turns the job's scores into
+// probabilities: the joint one when a 13C list is scored.
+func (r *Ranker) temperature(j *job) float64 {
+	if len(j.cobs) > 0 {
+		return r.model.Carbon.Temperature
+	}
+	return r.model.Temperature
 }
 
 // ObservedPeak is an input peak as the ranking used it.
@@ -197,10 +213,12 @@ type Result struct {
 	Forbid              []string       `json:"forbid,omitempty"`
 	Prior               string         `json:"prior"`
 	Peaks               []ObservedPeak `json:"peaks"`
-	Candidates          []Candidate    `json:"candidates"`
-	Warnings            []string       `json:"warnings"`
-	Caution             string         `json:"caution"`
-	ElapsedSeconds      float64        `json:"elapsed_seconds"`
+	// CarbonPeaks is the observed 13C list as scored (absent without one).
+	CarbonPeaks    []ObservedCarbonPeak `json:"carbon_peaks,omitempty"`
+	Candidates     []Candidate          `json:"candidates"`
+	Warnings       []string             `json:"warnings"`
+	Caution        string               `json:"caution"`
+	ElapsedSeconds float64              `json:"elapsed_seconds"`
 	// Search says what was searched: all isomers or the readings of the
 	// spectrum, completely or not, and which constraints applied.
 	Search SearchReport `json:"search"`
@@ -214,14 +232,25 @@ type Candidate struct {
 	// SMILES is canonical; atom numbers in the explanation are 0-based
 	// indices of the atoms in the order written in this string.
 	SMILES string `json:"smiles"`
-	// Score is the log-likelihood (nats) of the best assignment.
+	// Score is the log-likelihood (nats) of the best assignment: of the
+	// 1H list, plus CarbonScore when a 13C list was given.
 	Score float64 `json:"score"`
+	// CarbonScore is the 13C part of Score (weighted; see CarbonModel),
+	// absent without a 13C list.
+	CarbonScore float64 `json:"carbon_score,omitempty"`
 	// Probability is exp(Score/T) normalised over every scored candidate
-	// (uniform prior, T = Model.Temperature).
+	// (uniform prior, T = Model.Temperature, or CarbonModel.Temperature
+	// when a 13C list is scored).
 	Probability            float64                 `json:"probability"`
 	Assignments            []Assignment            `json:"assignments"`
 	UnexplainedPeaks       []UnexplainedPeak       `json:"unexplained_peaks"`
 	UnobservedEnvironments []UnobservedEnvironment `json:"unobserved_environments"`
+	// CarbonAssignments, UnexplainedCarbonPeaks and UnobservedCarbons
+	// explain the 13C part of the score the same way, per observed 13C
+	// peak and per predicted carbon signal (absent when empty).
+	CarbonAssignments      []CarbonAssignment      `json:"carbon_assignments,omitempty"`
+	UnexplainedCarbonPeaks []UnexplainedCarbonPeak `json:"unexplained_carbon_peaks,omitempty"`
+	UnobservedCarbons      []UnobservedCarbon      `json:"unobserved_carbons,omitempty"`
 	// Summary says in one or two sentences why this candidate ranks where
 	// it does compared with the next one.
 	Summary string   `json:"summary,omitempty"`

@@ -31,9 +31,11 @@ type job struct {
 	maxCand  int64
 	budget   time.Duration
 	maxNodes int64
-	peaks    []ObservedPeak // every input peak, in input order
-	scored   []int          // indices into peaks of the peaks that are scored
-	obs      []obsPeak      // the scored peaks, for the likelihood
+	peaks    []ObservedPeak       // every input peak, in input order
+	scored   []int                // indices into peaks of the peaks that are scored
+	obs      []obsPeak            // the scored peaks, for the likelihood
+	cpeaks   []ObservedCarbonPeak // the 13C list, in input order (none: no 13C scoring)
+	cobs     []obsCarbon          // the same, for the likelihood
 	warnings []string
 }
 
@@ -190,7 +192,10 @@ func (j *job) preparePeaks() error {
 		if err := checkList("carbon.", c); err != nil {
 			return err
 		}
-		j.warnings = append(j.warnings, fmt.Sprintf("the 13C list (%d peaks) was read and checked but is not used in scoring yet: the ranking rests on the 1H list", len(c.Peaks)))
+		if j.formula.Count(molecule.C) == 0 {
+			return &RequestError{Field: "carbon", Token: j.formula.String(), Msg: "a 13C list for a formula without carbon"}
+		}
+		j.prepareCarbon(c)
 	}
 	j.peaks = make([]ObservedPeak, len(pl.Peaks))
 	for i, p := range pl.Peaks {
@@ -277,6 +282,7 @@ func (j *job) preparePeaks() error {
 type worker struct {
 	sc       *scorer
 	envs     []predEnv
+	sigs     []predCarbon
 	top      *topK[*molecule.Graph]
 	ls       logSum
 	failed   int64
@@ -415,7 +421,7 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 		}()
 	}
 
-	temp := r.model.Temperature
+	temp := r.temperature(j)
 	canon := func(g *molecule.Graph) string { return molecule.CanonicalSMILES(g) }
 	clone := func(g *molecule.Graph) *molecule.Graph { return g.Clone() }
 	yield := func(w int, g *molecule.Graph) bool {
@@ -431,6 +437,20 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 		s, a := wk.sc.score(wk.envs, j.obs)
 		if !a.proven {
 			wk.unproven++
+		}
+		if len(j.cobs) > 0 {
+			csp, err := pred.Carbon(g)
+			if err != nil {
+				wk.failed++
+				wk.lastErr = err
+				return true
+			}
+			wk.sigs = toCarbons(csp, wk.sigs)
+			cs, ca := wk.sc.c.score(wk.sigs, j.cobs)
+			if !ca.proven {
+				wk.unproven++
+			}
+			s += r.model.Carbon.Weight * cs
 		}
 		wk.ls.add(s / temp)
 		wk.top.offer(s, g, canon, clone)
@@ -573,7 +593,7 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 			strictDone = strictDone && reps[k].State == ReadingComplete
 		}
 		best, found := bestScore(workers)
-		widen := !found || best < poorFitPerPeak*float64(len(j.obs))
+		widen := !found || best < poorFitPerPeak*float64(len(j.obs))+r.model.Carbon.Weight*poorFitPerCarbonPeak*float64(len(j.cobs))
 		for i, k := range relaxed {
 			switch {
 			case !widen:
@@ -632,7 +652,7 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 		Complete: stats.Complete && !stopped,
 		MHz:      j.mhz, Solvent: j.solvent, Filter: orDefault(j.req.Filter, DefaultFilter),
 		Require: j.req.Require, Forbid: j.req.Forbid,
-		Peaks: j.peaks, Caution: Caution,
+		Peaks: j.peaks, CarbonPeaks: j.cpeaks, Caution: Caution,
 	}
 	res.Warnings = append(res.Warnings, j.warnings...)
 	top := newTopK[*molecule.Graph](j.topK)
@@ -770,6 +790,10 @@ func readingsOf(an *infer.Analysis) []infer.Reading {
 // so the relaxed readings are searched too: about a 2.5σ shift miss or a
 // contradicted multiplicity on every peak (see Model).
 const poorFitPerPeak = -2.5
+
+// poorFitPerCarbonPeak is the same for each 13C peak, nats: a perfect
+// match scores about −1.7 (see CarbonModel), a 4σ miss about −6.
+const poorFitPerCarbonPeak = -6.0
 
 // bestScore returns the best score kept by any worker.
 func bestScore(workers []worker) (float64, bool) {

@@ -9,9 +9,6 @@ import (
 	"testing"
 	"time"
 
-	"github.com/stretchr/testify/assert"
-	"github.com/stretchr/testify/require"
-
 	"shiftrank/molecule"
 	"shiftrank/spectrum"
 )
@@ -87,28 +84,6 @@ func carbonList(t testing.TB) spectrum.PeakList {
 		t.Fatal(err)
 	}
 	return pl
-}
-
-// TestRankCarbonListNotScored: a 13C list given with the 1H list leaves
-// the ranking as it is and says so.
-func TestRankCarbonListNotScored(t *testing.T) {
-	r := New(Options{Workers: 1})
-	req := Request{Formula: "C4H8O2", Peaks: mustPeaks(t, ethylAcetate), TopK: 3}
-	without, err := r.Rank(context.Background(), req, nil)
-	require.NoError(t, err)
-	req.Carbon = carbonList(t)
-	with, err := r.Rank(context.Background(), req, nil)
-	require.NoError(t, err)
-	require.Len(t, with.Candidates, len(without.Candidates))
-	for i := range with.Candidates {
-		assert.Equal(t, without.Candidates[i].SMILES, with.Candidates[i].SMILES)
-		assert.InDelta(t, without.Candidates[i].Score, with.Candidates[i].Score, 1e-9)
-	}
-	found := false
-	for _, w := range with.Warnings {
-		found = found || strings.Contains(w, "13C list (4 peaks)")
-	}
-	assert.True(t, found, "warnings %q should mention the 13C list", with.Warnings)
 }
 
 func TestRankEthylAcetate(t *testing.T) {

@@ -54,7 +54,8 @@ import (
 // which are often broad or missing in CDCl3.
 //
 // Probabilities (see Ranker.Rank) come from normalising exp(Score/Temperature)
-// over every scored candidate with a uniform prior.
+// over every scored candidate with a uniform prior (CarbonModel.Temperature
+// when a 13C list is scored too).
 type Model struct {
 	Nu         float64 // Student t degrees of freedom for shift residuals
 	SigmaFloor float64 // ppm, lower limit of an environment's σ
@@ -79,6 +80,10 @@ type Model struct {
 	UnexplainedBase, UnexplainedPerH   float64 // nats
 	UnobservedBase, UnobservedPerH     float64 // nats
 	ExchangeableBase, ExchangeablePerH float64 // nats
+
+	// Carbon is the 13C part of the likelihood (zero value in Options:
+	// DefaultCarbonModel()).
+	Carbon CarbonModel
 
 	// Temperature divides scores before normalising them into
 	// probabilities: errors of one predictor are correlated across the
@@ -109,6 +114,7 @@ func DefaultModel() Model {
 		UnobservedPerH:   3,
 		ExchangeableBase: 0.5,
 		ExchangeablePerH: 0.3,
+		Carbon:           DefaultCarbonModel(),
 		Temperature:      1,
 	}
 }
@@ -206,10 +212,11 @@ type scorer struct {
 	t0     float64 // t_ν(0), the standard t density at 0
 	prob   assignProblem
 	solver solver
+	c      *carbonScorer // the 13C part
 }
 
 func newScorer(m Model) *scorer {
-	return &scorer{m: m, t0: math.Exp(tConst(m.Nu))}
+	return &scorer{m: m, t0: math.Exp(tConst(m.Nu)), c: newCarbonScorer(m.Carbon)}
 }
 
 // sigma returns the effective σ of an environment, ppm.

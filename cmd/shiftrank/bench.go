@@ -20,6 +20,7 @@ func runBench(ctx context.Context, args []string, e env) error {
 	maxCand := fs.Int64("max-candidates", ranker.DefaultMaxCandidates, "per compound: stop after this many isomers")
 	budget := fs.Duration("time-budget", ranker.DefaultTimeBudget, "per compound: stop generating after this long")
 	filter := fs.String("filter", ranker.DefaultFilter, "plausibility filter")
+	carbon := fs.Bool("carbon", false, "score each compound with its 13C list (the file's \"carbon\" field) as well as its 1H list")
 	asJSON := fs.Bool("json", false, "print the report as JSON")
 	fs.Usage = func() {
 		fmt.Fprintln(e.stderr, "usage: shiftrank bench [flags] FILE")
@@ -42,7 +43,7 @@ func runBench(ctx context.Context, args []string, e env) error {
 	if err != nil {
 		return badInputf("bench: %s: %w", fs.Arg(0), err)
 	}
-	opts := ranker.BenchOptions{TopK: *top, MaxCandidates: *maxCand, TimeBudget: *budget, Filter: *filter}
+	opts := ranker.BenchOptions{TopK: *top, MaxCandidates: *maxCand, TimeBudget: *budget, Filter: *filter, Carbon: *carbon}
 	var done func(int, ranker.BenchCase)
 	if e.stderrTTY {
 		done = func(i int, c ranker.BenchCase) {
@@ -108,6 +109,9 @@ func writeBench(w io.Writer, rep *ranker.BenchReport) {
 	}
 	fmt.Fprintf(w, "\n%d compounds: top-1 %.1f %%, top-3 %.1f %%, mean reciprocal rank %.3f\n",
 		rep.N, 100*rep.Top1, 100*rep.Top3, rep.MRR)
+	if rep.WithCarbon > 0 {
+		fmt.Fprintf(w, "scored with the 1H and 13C lists: %d of %d compounds (the others with the 1H list only)\n", rep.WithCarbon, rep.N)
+	}
 	fmt.Fprintf(w, "searches complete (over all isomers or within the constraints): %.1f %%; time per compound median %.1f s, max %.1f s\n",
 		100*rep.CompleteShare, rep.MedianSeconds, rep.MaxSeconds)
 	fmt.Fprintf(w, "calibration: mean probability of the top candidate %.3f vs observed top-1 rate %.3f; mean probability of the true structure %.3f\n",

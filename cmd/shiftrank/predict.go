@@ -14,14 +14,16 @@ import (
 	"shiftrank/predict"
 )
 
-// runPredict predicts the 1H spectrum of one SMILES:
+// runPredict predicts the 1H and 13C spectra of one SMILES:
 //
 //	shiftrank predict SMILES [--mhz 400] [--linewidth 1.0] [--json]
 //
-// The human table lists each environment (δ, σ, H count, multiplicity with
-// J, the neighbouring environments that split it, and the shift
-// breakdown); --json writes the same as one JSON object. Bad SMILES or an
-// unsupported element is bad input (exit status 2).
+// The human table lists each 1H environment (δ, σ, H count, multiplicity
+// with J, the neighbouring environments that split it, and the shift
+// breakdown), then each 13C signal (δ, σ, CH_n class, number of
+// equivalent carbons, kind and atoms, and the shift breakdown); --json
+// writes the same as one JSON object, the 13C signals under "carbon".
+// Bad SMILES or an unsupported element is bad input (exit status 2).
 func runPredict(ctx context.Context, args []string, e env) error {
 	fs := flag.NewFlagSet("predict", flag.ContinueOnError)
 	fs.SetOutput(e.stderr)
@@ -59,7 +61,11 @@ func runPredict(ctx context.Context, args []string, e env) error {
 	if err != nil {
 		return badInput(fmt.Errorf("predict %q: %w", smi, err))
 	}
-	out := predict.NewReport(smi, g, *mhz, sp)
+	csp, err := p.Carbon(g)
+	if err != nil {
+		return badInput(fmt.Errorf("predict 13C of %q: %w", smi, err))
+	}
+	out := predictOutput{Report: predict.NewReport(smi, g, *mhz, sp), Carbon: newCarbonReport(csp)}
 	if *asJSON {
 		enc := json.NewEncoder(e.stdout)
 		enc.SetIndent("", "  ")
@@ -68,7 +74,51 @@ func runPredict(ctx context.Context, args []string, e env) error {
 	return writePredictTable(e.stdout, out)
 }
 
-func writePredictTable(w io.Writer, out predict.Report) error {
+// predictOutput is the predict command's JSON: the 1H report and the 13C
+// prediction.
+type predictOutput struct {
+	predict.Report
+	Carbon carbonReport `json:"carbon"`
+}
+
+// carbonReport is the predicted proton-decoupled 13C spectrum.
+type carbonReport struct {
+	Signals []carbonSignal `json:"signals"`
+	Notes   []string       `json:"notes,omitempty"`
+}
+
+// carbonSignal is one predicted 13C line: a set of equivalent carbons
+// (atom indices in SMILES order), shift and σ in ppm, CH_n class ("C",
+// "CH", "CH2", "CH3").
+type carbonSignal struct {
+	ID        int            `json:"id"`
+	Atoms     []int          `json:"atoms"`
+	Carbons   int            `json:"carbons"`
+	Class     string         `json:"class"`
+	Kind      string         `json:"kind"`
+	Shift     float64        `json:"shift"`
+	Sigma     float64        `json:"sigma"`
+	Breakdown []predict.Term `json:"breakdown"`
+	Reasons   []string       `json:"reasons"`
+}
+
+func newCarbonReport(sp *predict.CarbonSpectrum) carbonReport {
+	out := carbonReport{Signals: make([]carbonSignal, 0, len(sp.Signals)), Notes: sp.Notes}
+	for _, s := range sp.Signals {
+		cs := carbonSignal{ID: s.ID, Atoms: s.Atoms, Carbons: len(s.Atoms), Class: s.Class.String(), Kind: s.Kind,
+			Shift: s.Shift, Sigma: s.Sigma, Breakdown: s.Breakdown, Reasons: s.Reasons}
+		if cs.Breakdown == nil {
+			cs.Breakdown = []predict.Term{}
+		}
+		if cs.Reasons == nil {
+			cs.Reasons = []string{}
+		}
+		out.Signals = append(out.Signals, cs)
+	}
+	return out
+}
+
+func writePredictTable(w io.Writer, out predictOutput) error {
 	bw := bufio.NewWriter(w)
 	fmt.Fprintf(bw, "%s  (%s, canonical %s)  predicted 1H NMR at %g MHz\n\n", out.SMILES, out.Formula, out.CanonicalSMILES, out.MHz)
 	if len(out.Environments) == 0 {
@@ -137,6 +187,43 @@ func writePredictTable(w io.Writer, out predict.Report) error {
 	for _, n := range out.Notes {
 		fmt.Fprintf(bw, "\nnote: %s\n", n)
 	}
+	writeCarbonTable(bw, out.Carbon)
 	fmt.Fprintf(bw, "\n%s\n", out.Caution)
 	return bw.Flush()
+}
+
+// writeCarbonTable prints the predicted 13C signals after the 1H table.
+func writeCarbonTable(w io.Writer, c carbonReport) {
+	fmt.Fprintf(w, "\npredicted 13C NMR (proton-decoupled)\n\n")
+	if len(c.Signals) == 0 {
+		fmt.Fprintln(w, "no carbons")
+		return
+	}
+	fmt.Fprintf(w, "%-4s %-7s %-5s %-5s %-3s %s\n", "sig", "δ/ppm", "σ", "class", "C", "kind, atoms")
+	for _, s := range c.Signals {
+		fmt.Fprintf(w, "%-4d %-7.1f %-5.1f %-5s %-3d %s, atoms %v\n", s.ID, s.Shift, s.Sigma, s.Class, s.Carbons, s.Kind, s.Atoms)
+		if len(s.Breakdown) > 0 {
+			parts := make([]string, len(s.Breakdown))
+			sum := 0.0
+			for i, t := range s.Breakdown {
+				sum += t.PPM
+				if i == 0 {
+					parts[i] = fmt.Sprintf("%s %.1f", t.Term, t.PPM)
+				} else {
+					parts[i] = fmt.Sprintf("%s %+.1f", t.Term, t.PPM)
+				}
+			}
+			fmt.Fprintf(w, "     = %s", strings.Join(parts, "; "))
+			if math.Abs(sum-s.Shift) > 0.05 {
+				fmt.Fprintf(w, " (sum %.1f)", sum)
+			}
+			fmt.Fprintln(w)
+		}
+		for _, r := range s.Reasons {
+			fmt.Fprintf(w, "     · %s\n", r)
+		}
+	}
+	for _, n := range c.Notes {
+		fmt.Fprintf(w, "\nnote: %s\n", n)
+	}
 }

@@ -89,3 +89,61 @@ func TestPredictCommandBadInput(t *testing.T) {
 		t.Errorf("unsupported element error should name the position: %v", err)
 	}
 }
+
+// TestPredictCommandCarbon: predict prints the 13C prediction after the
+// 1H one. Ethanol in CDCl3: CH2 58.3, CH3 18.4 ppm (Gottlieb, Kotlyar,
+// Nudelman, J. Org. Chem. 1997, 62, 7512, Table 2; from memory); the
+// predictor's σ is the tolerance.
+func TestPredictCommandCarbon(t *testing.T) {
+	out, _, err := runCmd(t, "", "predict", "CCO", "--json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var res struct {
+		Carbon struct {
+			Signals []struct {
+				Atoms     []int   `json:"atoms"`
+				Carbons   int     `json:"carbons"`
+				Class     string  `json:"class"`
+				Shift     float64 `json:"shift"`
+				Sigma     float64 `json:"sigma"`
+				Breakdown []struct {
+					Term string  `json:"term"`
+					PPM  float64 `json:"ppm"`
+				} `json:"breakdown"`
+			} `json:"signals"`
+		} `json:"carbon"`
+	}
+	if err := json.Unmarshal([]byte(out), &res); err != nil {
+		t.Fatalf("not JSON: %v\n%s", err, out)
+	}
+	if len(res.Carbon.Signals) != 2 {
+		t.Fatalf("want 2 carbon signals:\n%s", out)
+	}
+	want := map[int]struct {
+		class string
+		ppm   float64
+	}{1: {"CH2", 58.3}, 0: {"CH3", 18.4}}
+	for _, s := range res.Carbon.Signals {
+		w := want[s.Atoms[0]]
+		if s.Class != w.class || s.Carbons != 1 || len(s.Breakdown) == 0 || s.Shift < w.ppm-2*s.Sigma || s.Shift > w.ppm+2*s.Sigma {
+			t.Errorf("atom %d: %+v, want %s at %.1f ± 2σ (Gottlieb et al. 1997)", s.Atoms[0], s, w.class, w.ppm)
+		}
+	}
+
+	// The table: two equivalent aromatic CH pairs of ethyl benzoate are
+	// shown with their carbon count.
+	out, _, err = runCmd(t, "", "predict", "CCOC(=O)c1ccccc1")
+	if err != nil {
+		t.Fatal(err)
+	}
+	i, k := strings.Index(out, "predicted 1H NMR"), strings.Index(out, "predicted 13C NMR")
+	if i < 0 || k < i {
+		t.Fatalf("13C table missing or before the 1H table:\n%s", out)
+	}
+	for _, want := range []string{"class", "C=O (ester)", "aromatic CH, atoms [6 10]", "ipso"} {
+		if !strings.Contains(out[k:], want) {
+			t.Errorf("13C table lacks %q:\n%s", want, out[k:])
+		}
+	}
+}

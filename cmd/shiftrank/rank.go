@@ -25,7 +25,8 @@ func runRank(ctx context.Context, args []string, e env) error {
 	fs := flag.NewFlagSet("rank", flag.ContinueOnError)
 	fs.SetOutput(e.stderr)
 	formula := fs.String("formula", "", "molecular formula, e.g. C4H8O2 (required)")
-	peaks := fs.String("peaks", "", "observed peak lists: journal text (1H, and 13C sections), @FILE, or - for stdin; JSON and JCAMP-DX are recognised; a 13C list is read but not scored yet (required)")
+	peaks := fs.String("peaks", "", "observed peak lists: journal text (1H, and 13C sections), @FILE, or - for stdin; JSON and JCAMP-DX are recognised; a 13C list is scored with the 1H list (required)")
+	carbonArg := fs.String("carbon", "", "observed 13C peak list: journal text (a header such as \"13C NMR (101 MHz, CDCl3) δ\" is optional), JSON or JCAMP-DX, or @FILE; scored with the 1H list (not together with a 13C section in --peaks)")
 	mhz := fs.Float64("mhz", 0, "spectrometer 1H frequency in MHz (default: from the peak list header, else 400)")
 	solvent := fs.String("solvent", "", "NMR solvent (default: from the peak list header, else CDCl3)")
 	top := fs.Int("top", ranker.DefaultTopK, "number of candidates to show")
@@ -43,7 +44,7 @@ func runRank(ctx context.Context, args []string, e env) error {
 	neutral := fs.Bool("neutral", false, "leave out charge-separated groups (nitro, N-oxides, azides, diazo compounds, isonitriles)")
 	asJSON := fs.Bool("json", false, "print the result as JSON")
 	fs.Usage = func() {
-		fmt.Fprintln(e.stderr, "usage: shiftrank rank --formula F --peaks TEXT|@FILE|- [flags]")
+		fmt.Fprintln(e.stderr, "usage: shiftrank rank --formula F --peaks TEXT|@FILE|- [--carbon TEXT|@FILE] [flags]")
 		fs.PrintDefaults()
 	}
 	if err := fs.Parse(args); err != nil {
@@ -67,6 +68,14 @@ func runRank(ctx context.Context, args []string, e env) error {
 	pl, carbon, err := readPeakLists(*peaks, e.stdin)
 	if err != nil {
 		return err
+	}
+	if *carbonArg != "" {
+		if len(carbon.Peaks) > 0 {
+			return badInputf("rank: --peaks already holds a 13C list: give it there or with --carbon, not both")
+		}
+		if carbon, err = readCarbonList(*carbonArg); err != nil {
+			return err
+		}
 	}
 	req := ranker.Request{
 		Formula: *formula, Peaks: pl, Carbon: carbon, MHz: *mhz, Solvent: *solvent, TopK: *top, Filter: *filter,
@@ -140,6 +149,63 @@ func readPeakLists(arg string, stdin io.Reader) (h, c spectrum.PeakList, err err
 	return h, c, nil
 }
 
+// carbonHeader is put before a --carbon text without a header of its own,
+// so that a bare list of shifts reads as a 13C list.
+const carbonHeader = "13C NMR "
+
+// readCarbonList reads --carbon: inline text or @FILE, in any format
+// spectrum.Read recognises. Journal text without a 13C header is read as
+// a 13C list. It must hold one 13C list and no 1H list.
+func readCarbonList(arg string) (spectrum.PeakList, error) {
+	var data []byte
+	if strings.HasPrefix(arg, "@") {
+		b, err := os.ReadFile(arg[1:])
+		if err != nil {
+			return spectrum.PeakList{}, badInputf("--carbon: %w", err)
+		}
+		data = b
+	} else {
+		data = []byte(arg)
+	}
+	if len(data) > spectrum.MaxPeakInput {
+		return spectrum.PeakList{}, badInputf("--carbon: input exceeds %d bytes", spectrum.MaxPeakInput)
+	}
+	lists, err := spectrum.Read(data)
+	c, found := spectrum.PeakList{}, false
+	if err == nil {
+		c, found, err = spectrum.Pick(lists, spectrum.C13)
+	}
+	if !found && spectrum.DetectFormat(data) == spectrum.FormatText {
+		// No 13C header: read the text as a 13C list, with error
+		// positions in the text as given.
+		lists, err = spectrum.Read(append([]byte(carbonHeader), data...))
+		if err == nil {
+			c, found, err = spectrum.Pick(lists, spectrum.C13)
+			c.Pos = max(c.Pos-len(carbonHeader), 0)
+			for i := range c.Peaks {
+				c.Peaks[i].Pos -= len(carbonHeader)
+			}
+		}
+		var pe *spectrum.PeakError
+		if errors.As(err, &pe) {
+			fixed := *pe
+			fixed.Input = string(data)
+			fixed.Pos = max(pe.Pos-len(carbonHeader), 0)
+			err = &fixed
+		}
+	}
+	if err != nil {
+		return spectrum.PeakList{}, badInputf("--carbon: %w", err)
+	}
+	if !found {
+		return spectrum.PeakList{}, badInputf("--carbon: no 13C peak list")
+	}
+	if _, h, _ := spectrum.Pick(lists, spectrum.H1); h {
+		return spectrum.PeakList{}, badInputf("--carbon: the input holds a 1H list too: give it with --peaks")
+	}
+	return c, nil
+}
+
 // writeResult prints a ranking for a reader.
 func writeResult(w io.Writer, res *ranker.Result) {
 	fmt.Fprintln(w, res.Search.Summary)
@@ -156,7 +222,16 @@ func writeResult(w io.Writer, res *ranker.Result) {
 		fmt.Fprintf(w, "forbidden fragments: %s\n", strings.Join(res.Forbid, ", "))
 	}
 	fmt.Fprintln(w)
-	if len(res.Candidates) > 0 {
+	if len(res.CarbonPeaks) > 0 {
+		fmt.Fprintf(w, "scored with the 1H list (%d peaks) and the 13C list (%d peaks)\n", len(res.Peaks), len(res.CarbonPeaks))
+	}
+	switch {
+	case len(res.Candidates) > 0 && len(res.CarbonPeaks) > 0:
+		fmt.Fprintln(w, "rank  probability  score     of which 13C  SMILES")
+		for _, c := range res.Candidates {
+			fmt.Fprintf(w, "%4d  %11s  %8.2f  %12.2f  %s\n", c.Rank, formatProb(c.Probability), c.Score, c.CarbonScore, c.SMILES)
+		}
+	case len(res.Candidates) > 0:
 		fmt.Fprintln(w, "rank  probability  score     SMILES")
 		for _, c := range res.Candidates {
 			fmt.Fprintf(w, "%4d  %11s  %8.2f  %s\n", c.Rank, formatProb(c.Probability), c.Score, c.SMILES)
@@ -222,8 +297,48 @@ func writeCandidate(w io.Writer, res *ranker.Result, c *ranker.Candidate) {
 		fmt.Fprintf(w, "  environment %d (%s, %d H, δ %.2f %s, atoms %s) not observed: %+.1f — %s\n",
 			u.Environment, u.Kind, u.H, u.PredictedShift, u.PredictedMultiplicity, joinInts(u.Atoms), u.ScoreShare, u.Reason)
 	}
+	writeCarbon(w, c)
 	for _, n := range c.Notes {
 		fmt.Fprintf(w, "  note: %s\n", n)
+	}
+}
+
+// writeCarbon prints a candidate's 13C assignment table (nothing when no
+// 13C list was scored).
+func writeCarbon(w io.Writer, c *ranker.Candidate) {
+	if len(c.CarbonAssignments) == 0 && len(c.UnexplainedCarbonPeaks) == 0 {
+		return
+	}
+	fmt.Fprintf(w, "  13C (%+.1f of the score):\n", c.CarbonScore)
+	fmt.Fprintln(w, "  13C peak  δ obs         δ pred  DEPT obs/pred   C obs/pred  share  atoms  signal")
+	for _, a := range c.CarbonAssignments {
+		obs := fmt.Sprintf("%.2f", a.ObservedShift)
+		if len(a.ObservedRange) == 2 {
+			obs = fmt.Sprintf("%.1f–%.1f", a.ObservedRange[0], a.ObservedRange[1])
+		}
+		oc := "-"
+		if a.ObservedCount > 0 {
+			oc = fmt.Sprint(a.ObservedCount)
+		}
+		fmt.Fprintf(w, "  %8d  %-12s  %6.1f  %-14s  %4s/%-5d  %+5.1f  %-5s  %s\n",
+			a.Peak+1, obs, a.PredictedShift, orDash(a.ObservedDEPT)+" / "+a.PredictedClass, oc, a.Carbons, a.ScoreShare, joinInts(a.Atoms), joinInts(a.Signals))
+		if a.Reason != "" {
+			fmt.Fprintf(w, "            why: %s\n", a.Reason)
+		}
+		if len(a.Breakdown) > 0 {
+			parts := make([]string, len(a.Breakdown))
+			for i, t := range a.Breakdown {
+				parts[i] = fmt.Sprintf("%s %+.1f", t.Term, t.PPM)
+			}
+			fmt.Fprintf(w, "            shift: %s\n", strings.Join(parts, ", "))
+		}
+	}
+	for _, u := range c.UnexplainedCarbonPeaks {
+		fmt.Fprintf(w, "  13C peak %d (δ %.2f) unexplained: %+.1f — %s\n", u.Peak+1, u.ObservedShift, u.ScoreShare, u.Reason)
+	}
+	for _, u := range c.UnobservedCarbons {
+		fmt.Fprintf(w, "  carbon signal %d (%s, %s, δ %.1f, atoms %s) not observed: %+.1f — %s\n",
+			u.Signal, u.Class, u.Kind, u.PredictedShift, joinInts(u.Atoms), u.ScoreShare, u.Reason)
 	}
 }
 

@@ -110,14 +110,14 @@ func TestRankCommandBadInput(t *testing.T) {
 
 // TestRankCommandJCAMPAndCarbon reads a JCAMP-DX file holding 1H and 13C
 // peak tables (an invented demo file of the spectrum package) and journal
-// text with a 13C section: the 1H list ranks, the 13C list is noted.
+// text with a 13C section: both lists are scored.
 func TestRankCommandJCAMPAndCarbon(t *testing.T) {
 	out, _, err := runCmd(t, "", "rank", "--formula", "C4H8O2", "--peaks", "@../../spectrum/testdata/peaks/compound-13c-1h.jdx", "--json", "--top", "1")
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !strings.Contains(out, `"smiles": "`+ethylAcetateCanon()+`"`) || !strings.Contains(out, "13C list (4 peaks)") {
-		t.Errorf("JCAMP-DX ranking lacks ethyl acetate first or the 13C note:\n%s", out)
+	if !strings.Contains(out, `"smiles": "`+ethylAcetateCanon()+`"`) || !strings.Contains(out, `"carbon_assignments"`) {
+		t.Errorf("JCAMP-DX ranking lacks ethyl acetate first or the 13C assignments:\n%s", out)
 	}
 	// 13C shifts of ethyl acetate in CDCl3: Gottlieb et al. 1997, Table 2
 	// (from memory).
@@ -125,8 +125,8 @@ func TestRankCommandJCAMPAndCarbon(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !strings.Contains(out, "13C list (4 peaks)") {
-		t.Errorf("output does not note the 13C list:\n%s", out)
+	if !strings.Contains(out, ethylAcetateCanon()) {
+		t.Errorf("output lacks ethyl acetate:\n%s", out)
 	}
 }
 
@@ -149,5 +149,110 @@ func TestBenchCommand(t *testing.T) {
 	}
 	if _, _, err := runCmd(t, "", "bench"); err == nil {
 		t.Error("bench without a file: no error")
+	}
+}
+
+// ethylAcetateCarbon is the 13C list of ethyl acetate in CDCl3 without a
+// header (Gottlieb, Kotlyar, Nudelman, J. Org. Chem. 1997, 62, 7512,
+// Table 2; from memory), DEPT classes being those of the structure.
+const ethylAcetateCarbon = "171.36 (C), 60.49 (CH2), 21.04 (CH3), 14.19 (CH3)"
+
+// TestRankCommandCarbonFlag: --carbon takes a 13C list (with or without
+// a header, inline or @FILE); the text output shows the 13C assignments
+// and the JSON output carries them.
+func TestRankCommandCarbonFlag(t *testing.T) {
+	out, _, err := runCmd(t, "", "rank", "--formula", "C4H8O2", "--peaks", ethylAcetatePeaks, "--carbon", ethylAcetateCarbon, "--top", "2")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"13C list (4 peaks)", "of which 13C", "13C peak", "DEPT CH2 as predicted", ethylAcetateCanon()} {
+		if !strings.Contains(out, want) {
+			t.Errorf("output lacks %q:\n%s", want, out)
+		}
+	}
+	file := filepath.Join(t.TempDir(), "carbon.txt")
+	if err := os.WriteFile(file, []byte("13C NMR (101 MHz, CDCl3) δ "+ethylAcetateCarbon), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	out, _, err = runCmd(t, "", "rank", "--formula", "C4H8O2", "--peaks", ethylAcetatePeaks, "--carbon", "@"+file, "--json", "--top", "1")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var res struct {
+		CarbonPeaks []struct {
+			Shift float64 `json:"shift"`
+			DEPT  string  `json:"dept"`
+		} `json:"carbon_peaks"`
+		Candidates []struct {
+			SMILES            string  `json:"smiles"`
+			CarbonScore       float64 `json:"carbon_score"`
+			CarbonAssignments []struct {
+				Peak           int     `json:"peak"`
+				PredictedClass string  `json:"predicted_class"`
+				ScoreShare     float64 `json:"score_share"`
+			} `json:"carbon_assignments"`
+		} `json:"candidates"`
+	}
+	if err := json.Unmarshal([]byte(out), &res); err != nil {
+		t.Fatalf("not JSON: %v\n%s", err, out)
+	}
+	if len(res.CarbonPeaks) != 4 || res.CarbonPeaks[1].DEPT != "CH2" || len(res.Candidates) != 1 ||
+		res.Candidates[0].SMILES != ethylAcetateCanon() || len(res.Candidates[0].CarbonAssignments) != 4 || res.Candidates[0].CarbonScore == 0 {
+		t.Errorf("unexpected 13C result: %+v", res)
+	}
+}
+
+func TestRankCommandCarbonFlagErrors(t *testing.T) {
+	tests := []struct {
+		name string
+		args []string
+		want string
+	}{
+		{"13C in both", []string{"--peaks", ethylAcetatePeaks + "; 13C NMR δ 171.4, 60.5, 21.0, 14.2", "--carbon", "171.4, 60.5, 21.0, 14.2"}, "not both"},
+		{"integral in the 13C list", []string{"--peaks", ethylAcetatePeaks, "--carbon", "171.4, 60.5 (2H)"}, `position 13 ("2H")`},
+		{"1H list in --carbon", []string{"--peaks", ethylAcetatePeaks, "--carbon", "1H NMR δ 2.05 (s, 3H); 13C NMR δ 171.4, 60.5"}, "1H list too"},
+		{"missing file", []string{"--peaks", ethylAcetatePeaks, "--carbon", "@/nonexistent/carbon.txt"}, "--carbon"},
+		{"bad shift", []string{"--peaks", ethylAcetatePeaks, "--carbon", "171.4, 6x0.5"}, "--carbon"},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			_, _, err := runCmd(t, "", append([]string{"rank", "--formula", "C4H8O2"}, tc.args...)...)
+			var u usageError
+			if !errors.As(err, &u) {
+				t.Fatalf("error %v, want bad input (exit 2)", err)
+			}
+			if !strings.Contains(err.Error(), tc.want) {
+				t.Errorf("error %q does not name %q", err, tc.want)
+			}
+		})
+	}
+}
+
+// TestBenchCommandCarbon: bench --carbon scores the 13C lists of the
+// reference file; without the flag they are ignored.
+func TestBenchCommandCarbon(t *testing.T) {
+	file := filepath.Join(t.TempDir(), "set.json")
+	set := `{"compounds": [
+	  {"name": "ethyl acetate", "formula": "C4H8O2", "smiles": "CCOC(C)=O", "peaks": "` + ethylAcetatePeaks + `",
+	   "carbon": "13C NMR (75 MHz, CDCl3) δ 171.36, 60.49, 21.04, 14.19",
+	   "source": "Gottlieb, Kotlyar, Nudelman, J. Org. Chem. 1997, 62, 7512 (from memory)"}]}`
+	if err := os.WriteFile(file, []byte(set), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	out, _, err := runCmd(t, "", "bench", "--carbon", file)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"top-1 100.0 %", "scored with the 1H and 13C lists: 1 of 1"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("bench --carbon output lacks %q:\n%s", want, out)
+		}
+	}
+	out, _, err = runCmd(t, "", "bench", file)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if strings.Contains(out, "13C lists") {
+		t.Errorf("bench without --carbon used the 13C lists:\n%s", out)
 	}
 }
