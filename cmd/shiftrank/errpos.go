@@ -132,6 +132,14 @@ func positionText(e error, fallback string) (old, repl string, ok bool) {
 		if !known && fallback != "" {
 			in, known = fallback, true
 		}
+		if !known && pe.Pos == 0 {
+			// The token is the whole field (or its position is unknown):
+			// a position would add nothing.
+			if strings.Contains(pe.Msg, pe.Token) {
+				return pe.Error(), pe.Field + ": " + pe.Msg, true
+			}
+			return pe.Error(), fmt.Sprintf("%s: %s (%q)", pe.Field, pe.Msg, pe.Token), true
+		}
 		return pe.Error(), fmt.Sprintf("%s: %s at %s (%q)", pe.Field, pe.Msg, where(in, pe.Pos, known), pe.Token), true
 	}
 	return "", "", false

@@ -288,7 +288,7 @@ func writeCandidate(w io.Writer, res *ranker.Result, c *ranker.Candidate) {
 			for i, t := range a.Breakdown {
 				parts[i] = fmt.Sprintf("%s %+.2f", t.Term, t.PPM)
 			}
-			fmt.Fprintf(w, "        shift: %s\n", strings.Join(parts, ", "))
+			fmt.Fprintf(w, "        shift: %s\n", renumberAtoms(strings.Join(parts, ", ")))
 		}
 	}
 	for _, u := range c.UnexplainedPeaks {
@@ -350,12 +350,13 @@ func orDash(s string) string {
 	return s
 }
 
-// atomRefs matches the atom numbers in the core's explanations ("on atom
-// 5", "of atoms 4,5"), which are 0-based SMILES indices.
-var atomRefs = regexp.MustCompile(`\batoms? \d+(?:,\d+)*`)
+// atomRefs matches the atom and environment numbers in the core's
+// explanations ("on atom 5", "of atoms 4,5", "env 3:"), which are 0-based
+// indices.
+var atomRefs = regexp.MustCompile(`\b(?:atoms?|env) \d+(?:,\d+)*`)
 
-// renumberAtoms rewrites the 0-based atom numbers of an explanation as
-// the 1-based numbers of the human output.
+// renumberAtoms rewrites the 0-based atom and environment numbers of an
+// explanation as the 1-based numbers of the human output.
 func renumberAtoms(s string) string {
 	return atomRefs.ReplaceAllStringFunc(s, func(m string) string {
 		sp := strings.IndexByte(m, ' ')
