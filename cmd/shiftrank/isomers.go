@@ -204,7 +204,7 @@ func (p *progressLine) watch(stop <-chan struct{}, n *atomic.Int64) {
 func isomersHelp() helpPage {
 	return helpPage{
 		name:     "isomers",
-		synopsis: []string{"shiftrank isomers FORMULA [--count] [--filter plausible|none|EDITS] [--limit N] [--max-heavy N]", "shiftrank isomers --rules"},
+		synopsis: []string{"shiftrank isomers FORMULA [--count] [--filter EXPR] [--limit N] [--max-heavy N]", "shiftrank isomers --rules"},
 		about: `Lists the constitutional isomers of FORMULA (neutral, closed-shell), one canonical SMILES a
 line on standard output, in a fixed order; --count prints only their number. What the
 plausibility filter removed, rule by rule, goes to standard error.`,

@@ -419,9 +419,10 @@ against an authentic sample or further spectra.
 
 Human output numbers peaks, environments, signals and atoms from 1 (atoms in SMILES order), as the
 web page does; --json keeps the 0-based indices of the API.`,
-		sections: []helpSection{{"Peak lists (--peaks, --carbon)", `  journal text  1H NMR (400 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H)
-                the header is optional (MHz and solvent are read from it); a range is written
-                3.62–3.55 (m, 2H); a "13C NMR ... δ" section after a ";" is the 13C list
+		sections: []helpSection{{"Peak lists (--peaks, --carbon)", `  journal text  1H NMR (400 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H),
+                1.26 (t, J = 7.1 Hz, 3H) — the header is optional (MHz and solvent are read
+                from it); a range is written 3.62–3.55 (m, 2H); a "13C NMR ... δ" section
+                after a ";" is the 13C list
   JSON          [{"shift": 4.12, "multiplicity": "q", "j": [7.1], "integral": 2},
                  {"range": [7.35, 7.20], "multiplicity": "m", "integral": 5}]
                 or {"nucleus": "13C", "mhz": 101, "peaks": [...]}, or a list of such objects
@@ -430,7 +431,7 @@ web page does; --json keeps the 0-based indices of the API.`,
   --carbon      a 13C list: 171.4 (C), 60.5 (CH2), 21.0 (CH3), 14.2 (CH3) — shifts in ppm, each with
                 an optional DEPT class (C, CH, CH2, CH3) and carbon count ("129.3 (2C, CH)")`}},
 		examples: []string{
-			`shiftrank rank --formula C4H8O2 --peaks '4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, J = 7.1 Hz, 3H)'`,
+			`shiftrank rank --formula C4H8O2 --peaks '4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, 3H)'`,
 			`shiftrank rank --formula C9H10O2 --peaks @NB-2291-07.txt --carbon @NB-2291-07-13C.txt --top 10`,
 			`shiftrank rank --formula C9H10O2 --peaks @NB-2291-07.jdx --json > NB-2291-07.json`,
 			`cat NB-2291-12.txt | shiftrank rank --formula C5H10O --peaks - --require 'C=O' --top 3`,
