@@ -231,7 +231,7 @@ func predictHelp() helpPage {
 		synopsis: []string{"shiftrank predict SMILES [--mhz 400] [--linewidth 1.0] [--json]"},
 		about: `Predicts the 1H spectrum of one structure (each environment's shift, multiplicity with J and
 the increments behind the shift), then its proton-decoupled 13C spectrum. Quote the SMILES for
-the shell. Atom numbers in the table count from 1 in SMILES order; --json keeps 0-based indices.`,
+the shell.`,
 		examples: []string{
 			"shiftrank predict 'CCOC(C)=O'",
 			"shiftrank predict 'CC(=O)c1ccccc1' --mhz 600",
