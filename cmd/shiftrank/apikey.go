@@ -29,20 +29,53 @@ are stopped and none of its callbacks is sent any more.
 rotate-secret gives the key a new callback secret and prints it; callbacks are
 signed with it from then on.`
 
+const apikeyExamples = `Examples:
+  shiftrank apikey create --name eln-sync
+  shiftrank apikey list
+  shiftrank apikey revoke eln-sync
+  shiftrank apikey rotate-secret eln-sync`
+
+// apikeyHelp is the help page of one apikey subcommand.
+func apikeyHelp(sub string) helpPage {
+	p := helpPage{name: "apikey " + sub}
+	switch sub {
+	case "create":
+		p.synopsis = []string{"shiftrank apikey create --name NAME"}
+		p.about = "Creates a key and prints its callback secret, then the key alone on the last line of standard output. " +
+			"Only the key's SHA-256 hash is stored: keep the key, it cannot be shown again."
+		p.examples = []string{"shiftrank apikey create --name eln-sync"}
+	case "list":
+		p.synopsis = []string{"shiftrank apikey list"}
+		p.about = "Lists the API keys of the database named by DATABASE_URL."
+		p.examples = []string{"shiftrank apikey list"}
+	case "revoke":
+		p.synopsis = []string{"shiftrank apikey revoke ID|NAME"}
+		p.about = "Stops the key at once: its queued jobs are cancelled, its running jobs are stopped and none of its callbacks is sent any more."
+		p.examples = []string{"shiftrank apikey revoke eln-sync"}
+	case "rotate-secret":
+		p.synopsis = []string{"shiftrank apikey rotate-secret ID|NAME"}
+		p.about = "Gives the key a new callback secret and prints it; callbacks are signed with it from then on."
+		p.examples = []string{"shiftrank apikey rotate-secret eln-sync"}
+	}
+	return p
+}
+
 // runAPIKey creates, lists, revokes API keys or rotates their callback
 // secrets in the database named by DATABASE_URL.
 func runAPIKey(ctx context.Context, args []string, e env) error {
-	if len(args) == 0 || args[0] == "-h" || args[0] == "--help" || args[0] == "help" {
+	if len(args) == 0 {
 		fmt.Fprintln(e.stderr, apikeyUsage)
-		if len(args) == 0 {
-			return badInputf("apikey: no subcommand given (create, list, revoke or rotate-secret)")
-		}
+		return badInputf("apikey: no subcommand given (create, list, revoke or rotate-secret)")
+	}
+	if args[0] == "-h" || args[0] == "--help" || args[0] == "help" {
+		fmt.Fprintln(e.stdout, apikeyUsage)
+		fmt.Fprintln(e.stdout)
+		fmt.Fprintln(e.stdout, apikeyExamples)
 		return nil
 	}
 	sub, rest := args[0], args[1:]
 	fs := flag.NewFlagSet("apikey "+sub, flag.ContinueOnError)
-	fs.SetOutput(e.stderr)
-	fs.Usage = func() { fmt.Fprintln(e.stderr, apikeyUsage) }
+	page := apikeyHelp(sub)
 	var name *string
 	switch sub {
 	case "create":
@@ -52,18 +85,16 @@ func runAPIKey(ctx context.Context, args []string, e env) error {
 		fmt.Fprintln(e.stderr, apikeyUsage)
 		return badInputf("apikey: unknown subcommand %q (create, list, revoke or rotate-secret)", sub)
 	}
-	if err := fs.Parse(rest); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			return nil
-		}
-		return badInput(err)
+	positional, help, err := parseArgs(fs, rest, page, e)
+	if help || err != nil {
+		return err
 	}
 	switch {
 	case sub == "create" && *name == "":
 		return badInputf("apikey create: --name is required")
-	case sub == "create" && fs.NArg() > 0, sub == "list" && fs.NArg() > 0:
-		return badInputf("apikey %s: unexpected argument %q", sub, fs.Arg(0))
-	case (sub == "revoke" || sub == "rotate-secret") && fs.NArg() != 1:
+	case sub == "create" && len(positional) > 0, sub == "list" && len(positional) > 0:
+		return badInputf("apikey %s: unexpected argument %q", sub, positional[0])
+	case (sub == "revoke" || sub == "rotate-secret") && len(positional) != 1:
 		return badInputf("apikey %s: give exactly one key ID or name", sub)
 	}
 	dsn := e.getenv("DATABASE_URL")
@@ -101,12 +132,12 @@ func runAPIKey(ctx context.Context, args []string, e env) error {
 		}
 		return writeKeys(e.stdout, keys)
 	case "rotate-secret":
-		k, err := st.RotateAPIKeySecret(ctx, fs.Arg(0))
+		k, err := st.RotateAPIKeySecret(ctx, positional[0])
 		switch {
 		case errors.Is(err, store.ErrNotFound):
-			return badInputf("apikey rotate-secret: no key with ID or name %q", fs.Arg(0))
+			return badInputf("apikey rotate-secret: no key with ID or name %q", positional[0])
 		case errors.Is(err, store.ErrConflict):
-			return badInputf("apikey rotate-secret: key %q is revoked", fs.Arg(0))
+			return badInputf("apikey rotate-secret: key %q is revoked", positional[0])
 		case err != nil:
 			return fmt.Errorf("apikey rotate-secret: %w", err)
 		}
@@ -114,14 +145,14 @@ func runAPIKey(ctx context.Context, args []string, e env) error {
 		fmt.Fprintln(e.stdout, hex.EncodeToString(k.Secret))
 		return nil
 	default:
-		n, err := st.RevokeAPIKey(ctx, fs.Arg(0))
+		n, err := st.RevokeAPIKey(ctx, positional[0])
 		if err != nil {
 			if errors.Is(err, store.ErrNotFound) {
-				return badInputf("apikey revoke: no key with ID or name %q", fs.Arg(0))
+				return badInputf("apikey revoke: no key with ID or name %q", positional[0])
 			}
 			return fmt.Errorf("apikey revoke: %w", err)
 		}
-		fmt.Fprintf(e.stdout, "revoked %s: %d queued jobs cancelled, running jobs asked to stop, no more callbacks\n", fs.Arg(0), n)
+		fmt.Fprintf(e.stdout, "revoked %s: %d queued jobs cancelled, running jobs asked to stop, no more callbacks\n", positional[0], n)
 		return nil
 	}
 }

@@ -3,7 +3,6 @@ package main
 import (
 	"context"
 	"encoding/json"
-	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -15,33 +14,29 @@ import (
 // runBench runs the accuracy benchmark over a reference file.
 func runBench(ctx context.Context, args []string, e env) error {
 	fs := flag.NewFlagSet("bench", flag.ContinueOnError)
-	fs.SetOutput(e.stderr)
 	top := fs.Int("top", 5, "candidates explained per compound")
 	maxCand := fs.Int64("max-candidates", ranker.DefaultMaxCandidates, "per compound: stop after this many isomers")
 	budget := fs.Duration("time-budget", ranker.DefaultTimeBudget, "per compound: stop generating after this long")
 	filter := fs.String("filter", ranker.DefaultFilter, "plausibility filter")
 	carbon := fs.Bool("carbon", false, "score each compound with its 13C list (the file's \"carbon\" field) as well as its 1H list")
 	asJSON := fs.Bool("json", false, "print the report as JSON")
-	fs.Usage = func() {
-		fmt.Fprintln(e.stderr, "usage: shiftrank bench [flags] FILE")
-		fs.PrintDefaults()
+	page := benchHelp()
+	positional, help, err := parseArgs(fs, args, page, e)
+	if help || err != nil {
+		return err
 	}
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			return nil
-		}
-		return badInput(err)
+	if len(positional) != 1 {
+		page.writeShort(e.stderr)
+		return badInputf("bench: want one reference file (e.g. testdata/accuracy.json), got %d arguments", len(positional))
 	}
-	if fs.NArg() != 1 {
-		return badInputf("bench: want one reference file (e.g. testdata/accuracy.json), got %d arguments", fs.NArg())
-	}
-	b, err := os.ReadFile(fs.Arg(0))
+	file := positional[0]
+	b, err := os.ReadFile(file)
 	if err != nil {
 		return badInputf("bench: %w", err)
 	}
 	set, err := ranker.ParseReferenceSet(b)
 	if err != nil {
-		return badInputf("bench: %s: %w", fs.Arg(0), err)
+		return badInputf("bench: %s: %w", file, withInput(err, string(b)))
 	}
 	opts := ranker.BenchOptions{TopK: *top, MaxCandidates: *maxCand, TimeBudget: *budget, Filter: *filter, Carbon: *carbon}
 	var done func(int, ranker.BenchCase)
@@ -69,13 +64,13 @@ func runBench(ctx context.Context, args []string, e env) error {
 // writeBench prints a benchmark report: one line per compound, each miss
 // with its explanation, then the figures.
 func writeBench(w io.Writer, rep *ranker.BenchReport) {
-	fmt.Fprintln(w, "rank  p(true)  p(top)  scored   compound (formula)")
+	fmt.Fprintln(w, "rank   p(true)    p(top)   scored  compound (formula)")
 	for _, c := range rep.Cases {
 		rank := "-"
 		if c.Rank > 0 {
 			rank = fmt.Sprint(c.Rank)
 		}
-		fmt.Fprintf(w, "%4s  %7s  %6s  %7d  %s (%s)", rank, formatProb(c.Probability), formatProb(c.TopProbability), c.Scored, c.Name, c.Formula)
+		fmt.Fprintf(w, "%4s  %8s  %8s  %7d  %s (%s)", rank, formatPercent(c.Probability), formatPercent(c.TopProbability), c.Scored, c.Name, c.Formula)
 		if !c.Complete && c.Error == "" {
 			fmt.Fprint(w, " [stopped early]")
 		}
@@ -125,4 +120,20 @@ func writeBench(w io.Writer, rep *ranker.BenchReport) {
 	}
 	fmt.Fprintf(w, "%.1f s\n", rep.Seconds)
 	fmt.Fprintf(w, "\nCaution: %s\n", ranker.Caution)
+}
+
+// benchHelp is the help page of bench.
+func benchHelp() helpPage {
+	return helpPage{
+		name:     "bench",
+		synopsis: []string{"shiftrank bench [flags] FILE"},
+		about: `Ranks every compound of a reference file (JSON: {"compounds": [{"name", "formula", "smiles",
+"peaks", "carbon", "source"}, ...]}) and reports where the true structure ranked: top-1 and top-3
+rates, mean reciprocal rank, calibration of the probabilities, and each miss explained.`,
+		examples: []string{
+			"shiftrank bench testdata/accuracy.json",
+			"shiftrank bench --carbon --top 3 testdata/accuracy.json",
+			"shiftrank bench --json testdata/validation.json > NB-2291-bench.json",
+		},
+	}
 }

@@ -24,19 +24,14 @@ import (
 // is a terminal.
 func runIsomers(ctx context.Context, args []string, e env) error {
 	fs := flag.NewFlagSet("isomers", flag.ContinueOnError)
-	fs.SetOutput(e.stderr)
 	count := fs.Bool("count", false, "print only the number of isomers")
 	filterExpr := fs.String("filter", "plausible", "plausibility filter: plausible, none, or edits such as plausible,-no-enol or none,+no-peroxide")
 	limit := fs.Int64("limit", 0, "stop after N structures (0 = no limit)")
 	maxHeavy := fs.Int("max-heavy", molecule.DefaultMaxHeavyAtoms, "refuse formulas with more than N heavy atoms")
 	listRules := fs.Bool("rules", false, "list the filter rules with their reasons and exit")
 	charged := fs.Bool("charge-separated", false, "also make the charge-separated groups: "+isomers.ChargeSeparatedGroups)
-	fs.Usage = func() {
-		fmt.Fprintln(e.stderr, "usage: shiftrank isomers FORMULA [--count] [--filter=plausible|none|EDITS] [--limit N] [--max-heavy N]")
-		fmt.Fprintln(e.stderr, "       shiftrank isomers --rules")
-		fs.PrintDefaults()
-	}
-	positional, help, err := parseInterspersed(fs, args)
+	page := isomersHelp()
+	positional, help, err := parseArgs(fs, args, page, e)
 	if help || err != nil {
 		return err
 	}
@@ -48,7 +43,7 @@ func runIsomers(ctx context.Context, args []string, e env) error {
 		return w.Flush()
 	}
 	if len(positional) != 1 {
-		fs.Usage()
+		page.writeShort(e.stderr)
 		if len(positional) == 0 {
 			return badInputf("isomers: missing FORMULA")
 		}
@@ -202,5 +197,22 @@ func (p *progressLine) watch(stop <-chan struct{}, n *atomic.Int64) {
 		case <-t.C:
 			p.show(n.Load())
 		}
+	}
+}
+
+// isomersHelp is the help page of isomers.
+func isomersHelp() helpPage {
+	return helpPage{
+		name:     "isomers",
+		synopsis: []string{"shiftrank isomers FORMULA [--count] [--filter EXPR] [--limit N] [--max-heavy N]", "shiftrank isomers --rules"},
+		about: `Lists the constitutional isomers of FORMULA (neutral, closed-shell), one canonical SMILES a
+line on standard output, in a fixed order; --count prints only their number. What the
+plausibility filter removed, rule by rule, goes to standard error.`,
+		examples: []string{
+			"shiftrank isomers C4H10O",
+			"shiftrank isomers C6H12O2 --count",
+			"shiftrank isomers C5H10O --filter plausible,-no-enol --limit 100",
+			"shiftrank isomers --rules",
+		},
 	}
 }

@@ -16,7 +16,6 @@ package main
 import (
 	"context"
 	"errors"
-	"flag"
 	"fmt"
 	"io"
 	"os"
@@ -74,26 +73,6 @@ func badInputf(format string, args ...any) error {
 	return usageError{fmt.Errorf(format, args...)}
 }
 
-// parseInterspersed parses args with fs while allowing flags after the
-// positional arguments ("isomers C4H8O2 --count"), and returns the
-// positional arguments in order. help is true when -h or --help was given
-// (fs has printed its usage); a flag error is bad input.
-func parseInterspersed(fs *flag.FlagSet, args []string) (positional []string, help bool, err error) {
-	for {
-		if err := fs.Parse(args); err != nil {
-			if errors.Is(err, flag.ErrHelp) {
-				return nil, true, nil
-			}
-			return nil, false, badInput(err)
-		}
-		if fs.NArg() == 0 {
-			return positional, false, nil
-		}
-		positional = append(positional, fs.Arg(0))
-		args = fs.Args()[1:]
-	}
-}
-
 func main() {
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	e := env{getenv: os.Getenv, stdin: os.Stdin, stdout: os.Stdout, stderr: os.Stderr, stderrTTY: isTerminal(os.Stderr)}
@@ -112,11 +91,17 @@ func main() {
 // run dispatches to a subcommand. Tests call it directly.
 func run(ctx context.Context, args []string, e env) error {
 	cmds := commands()
-	if len(args) == 0 || args[0] == "help" || args[0] == "-h" || args[0] == "--help" {
-		printHelp(e.stdout, cmds)
-		if len(args) == 0 {
-			return badInputf("no command given")
+	if len(args) == 0 {
+		printHelp(e.stderr, cmds)
+		return badInputf("no command given")
+	}
+	if args[0] == "help" || args[0] == "-h" || args[0] == "--help" {
+		if len(args) > 1 && args[0] == "help" {
+			if c, ok := cmds[args[1]]; ok {
+				return humanizeError(c.run(ctx, []string{"--help"}, e))
+			}
 		}
+		printHelp(e.stdout, cmds)
 		return nil
 	}
 	c, ok := cmds[args[0]]
@@ -124,7 +109,7 @@ func run(ctx context.Context, args []string, e env) error {
 		printHelp(e.stderr, cmds)
 		return badInputf("unknown command %q", args[0])
 	}
-	return c.run(ctx, args[1:], e)
+	return humanizeError(c.run(ctx, args[1:], e))
 }
 
 func printHelp(w io.Writer, cmds map[string]command) {
@@ -139,5 +124,11 @@ func printHelp(w io.Writer, cmds map[string]command) {
 		fmt.Fprintf(w, "  %-8s %s\n", n, cmds[n].summary)
 	}
 	fmt.Fprintln(w)
-	fmt.Fprintln(w, "Run 'shiftrank COMMAND --help' for a command's flags.")
+	fmt.Fprintln(w, "Run 'shiftrank COMMAND --help' (or 'shiftrank help COMMAND') for a command's flags and examples.")
+	fmt.Fprintln(w)
+	fmt.Fprintln(w, "Examples:")
+	fmt.Fprintln(w, "  shiftrank isomers C4H8O2 --count")
+	fmt.Fprintln(w, "  shiftrank predict 'CCOC(C)=O'")
+	fmt.Fprintln(w, "  shiftrank rank --formula C4H8O2 --peaks @NB-2291-07.txt")
+	fmt.Fprintln(w, "  shiftrank serve --addr 127.0.0.1:8080")
 }

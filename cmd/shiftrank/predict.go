@@ -26,20 +26,16 @@ import (
 // Bad SMILES or an unsupported element is bad input (exit status 2).
 func runPredict(ctx context.Context, args []string, e env) error {
 	fs := flag.NewFlagSet("predict", flag.ContinueOnError)
-	fs.SetOutput(e.stderr)
 	mhz := fs.Float64("mhz", predict.DefaultMHz, "spectrometer 1H frequency in MHz")
 	lw := fs.Float64("linewidth", predict.DefaultLineWidthHz, "line width in Hz (couplings below it are unresolved)")
 	asJSON := fs.Bool("json", false, "write JSON instead of a table")
-	fs.Usage = func() {
-		fmt.Fprintln(e.stderr, "usage: shiftrank predict SMILES [--mhz 400] [--linewidth 1.0] [--json]")
-		fs.PrintDefaults()
-	}
-	positional, help, err := parseInterspersed(fs, args)
+	page := predictHelp()
+	positional, help, err := parseArgs(fs, args, page, e)
 	if help || err != nil {
 		return err
 	}
 	if len(positional) != 1 {
-		fs.Usage()
+		page.writeShort(e.stderr)
 		if len(positional) == 0 {
 			return badInputf("predict: missing SMILES")
 		}
@@ -225,5 +221,21 @@ func writeCarbonTable(w io.Writer, c carbonReport) {
 	}
 	for _, n := range c.Notes {
 		fmt.Fprintf(w, "\nnote: %s\n", n)
+	}
+}
+
+// predictHelp is the help page of predict.
+func predictHelp() helpPage {
+	return helpPage{
+		name:     "predict",
+		synopsis: []string{"shiftrank predict SMILES [--mhz 400] [--linewidth 1.0] [--json]"},
+		about: `Predicts the 1H spectrum of one structure (each environment's shift, multiplicity with J and
+the increments behind the shift), then its proton-decoupled 13C spectrum. Quote the SMILES for
+the shell.`,
+		examples: []string{
+			"shiftrank predict 'CCOC(C)=O'",
+			"shiftrank predict 'CC(=O)c1ccccc1' --mhz 600",
+			"shiftrank predict 'OCC(C)C' --json > NB-2291-07-predicted.json",
+		},
 	}
 }

@@ -85,8 +85,9 @@ func TestPredictCommandBadInput(t *testing.T) {
 		}
 	}
 	_, _, err := runCmd(t, "", "predict", "CC[Xe]")
-	if err == nil || !strings.Contains(err.Error(), "position") {
-		t.Errorf("unsupported element error should name the position: %v", err)
+	// "Xe" starts at the 4th character of "CC[Xe]" (counted from 1).
+	if err == nil || !strings.Contains(err.Error(), `at character 4 ("Xe")`) {
+		t.Errorf("unsupported element error should name the 1-based character position 4: %v", err)
 	}
 }
 

@@ -8,6 +8,8 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"regexp"
+	"strconv"
 	"strings"
 
 	"shiftrank/ranker"
@@ -23,7 +25,6 @@ func (s *stringList) Set(v string) error { *s = append(*s, v); return nil }
 // runRank ranks the isomers of a formula against an observed peak list.
 func runRank(ctx context.Context, args []string, e env) error {
 	fs := flag.NewFlagSet("rank", flag.ContinueOnError)
-	fs.SetOutput(e.stderr)
 	formula := fs.String("formula", "", "molecular formula, e.g. C4H8O2 (required)")
 	peaks := fs.String("peaks", "", "observed peak lists: journal text (1H, and 13C sections), @FILE, or - for stdin; JSON and JCAMP-DX are recognised; a 13C list is scored with the 1H list (required)")
 	carbonArg := fs.String("carbon", "", "observed 13C peak list: journal text (a header such as \"13C NMR (101 MHz, CDCl3) δ\" is optional), JSON or JCAMP-DX, or @FILE; scored with the 1H list (not together with a 13C section in --peaks)")
@@ -43,18 +44,13 @@ func runRank(ctx context.Context, args []string, e env) error {
 	maxNodes := fs.Int64("max-nodes", ranker.DefaultMaxNodes, "search budget in generator nodes (the same input stops at the same place on any machine)")
 	neutral := fs.Bool("neutral", false, "leave out charge-separated groups (nitro, N-oxides, azides, diazo compounds, isonitriles)")
 	asJSON := fs.Bool("json", false, "print the result as JSON")
-	fs.Usage = func() {
-		fmt.Fprintln(e.stderr, "usage: shiftrank rank --formula F --peaks TEXT|@FILE|- [--carbon TEXT|@FILE] [flags]")
-		fs.PrintDefaults()
+	positional, help, err := parseArgs(fs, args, rankHelp(), e)
+	if help || err != nil {
+		return err
 	}
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			return nil
-		}
-		return badInput(err)
-	}
-	if fs.NArg() > 0 {
-		return badInputf("rank: unexpected argument %q (quote the peak list and pass it with --peaks)", fs.Arg(0))
+	if len(positional) > 0 {
+		rankHelp().writeShort(e.stderr)
+		return badInputf("rank: unexpected argument %q (quote the peak list and pass it with --peaks)", positional[0])
 	}
 	if *formula == "" {
 		return badInputf("rank: --formula is required")
@@ -65,15 +61,16 @@ func runRank(ctx context.Context, args []string, e env) error {
 	if *top < 1 || *top > ranker.MaxTopK {
 		return badInputf("rank: --top %d: want 1–%d", *top, ranker.MaxTopK)
 	}
-	pl, carbon, err := readPeakLists(*peaks, e.stdin)
+	pl, carbon, peaksText, err := readPeakLists(*peaks, e.stdin)
 	if err != nil {
 		return err
 	}
+	carbonText := peaksText
 	if *carbonArg != "" {
 		if len(carbon.Peaks) > 0 {
 			return badInputf("rank: --peaks already holds a 13C list: give it there or with --carbon, not both")
 		}
-		if carbon, err = readCarbonList(*carbonArg); err != nil {
+		if carbon, carbonText, err = readCarbonList(*carbonArg); err != nil {
 			return err
 		}
 	}
@@ -95,6 +92,13 @@ func runRank(ctx context.Context, args []string, e env) error {
 	if err != nil {
 		var re *ranker.RequestError
 		if errors.As(err, &re) {
+			// Positions in a peak list refer to the text read.
+			switch {
+			case strings.HasPrefix(re.Field, "carbon"):
+				err = withInput(err, carbonText)
+			case strings.HasPrefix(re.Field, "peaks"):
+				err = withInput(err, peaksText)
+			}
 			return badInput(err)
 		}
 		return fmt.Errorf("rank: %w", err)
@@ -104,49 +108,51 @@ func runRank(ctx context.Context, args []string, e env) error {
 		enc.SetIndent("", "  ")
 		return enc.Encode(res)
 	}
-	writeResult(e.stdout, res)
-	return nil
+	fw := &fitWriter{w: e.stdout}
+	writeResult(fw, res)
+	return fw.Flush()
 }
 
 // readPeakLists reads --peaks: inline text, @FILE or - (stdin), in any
 // format spectrum.Read recognises. It returns the 1H list, which must be
-// there, and the 13C list (empty when absent).
-func readPeakLists(arg string, stdin io.Reader) (h, c spectrum.PeakList, err error) {
+// there, the 13C list (empty when absent) and the text read.
+func readPeakLists(arg string, stdin io.Reader) (h, c spectrum.PeakList, text string, err error) {
 	var data []byte
 	switch {
 	case arg == "-":
 		b, err := io.ReadAll(io.LimitReader(stdin, spectrum.MaxPeakInput+1))
 		if err != nil {
-			return h, c, fmt.Errorf("read peaks from stdin: %w", err)
+			return h, c, "", fmt.Errorf("read peaks from stdin: %w", err)
 		}
 		data = b
 	case strings.HasPrefix(arg, "@"):
 		b, err := os.ReadFile(arg[1:])
 		if err != nil {
-			return h, c, badInputf("--peaks: %w", err)
+			return h, c, "", badInputf("--peaks: %w", err)
 		}
 		data = b
 	default:
 		data = []byte(arg)
 	}
 	if len(data) > spectrum.MaxPeakInput {
-		return h, c, badInputf("--peaks: input exceeds %d bytes", spectrum.MaxPeakInput)
+		return h, c, "", badInputf("--peaks: input exceeds %d bytes", spectrum.MaxPeakInput)
 	}
+	text = string(data)
 	lists, err := spectrum.Read(data)
 	if err != nil {
-		return h, c, badInputf("--peaks: %w", err)
+		return h, c, "", badInputf("--peaks: %w", err)
 	}
 	h, found, err := spectrum.Pick(lists, spectrum.H1)
 	if err == nil && !found {
-		return h, c, badInputf("--peaks: no 1H peak list (found %s): the ranking needs one", lists[0].Nucleus)
+		return h, c, text, badInputf("--peaks: no 1H peak list (found %s): the ranking needs one", lists[0].Nucleus)
 	}
 	if err == nil {
 		c, _, err = spectrum.Pick(lists, spectrum.C13)
 	}
 	if err != nil {
-		return h, c, badInputf("--peaks: %w", err)
+		return h, c, text, badInputf("--peaks: %w", err)
 	}
-	return h, c, nil
+	return h, c, text, nil
 }
 
 // carbonHeader is put before a --carbon text without a header of its own,
@@ -155,20 +161,21 @@ const carbonHeader = "13C NMR "
 
 // readCarbonList reads --carbon: inline text or @FILE, in any format
 // spectrum.Read recognises. Journal text without a 13C header is read as
-// a 13C list. It must hold one 13C list and no 1H list.
-func readCarbonList(arg string) (spectrum.PeakList, error) {
+// a 13C list. It must hold one 13C list and no 1H list. It returns the
+// list and the text read.
+func readCarbonList(arg string) (spectrum.PeakList, string, error) {
 	var data []byte
 	if strings.HasPrefix(arg, "@") {
 		b, err := os.ReadFile(arg[1:])
 		if err != nil {
-			return spectrum.PeakList{}, badInputf("--carbon: %w", err)
+			return spectrum.PeakList{}, "", badInputf("--carbon: %w", err)
 		}
 		data = b
 	} else {
 		data = []byte(arg)
 	}
 	if len(data) > spectrum.MaxPeakInput {
-		return spectrum.PeakList{}, badInputf("--carbon: input exceeds %d bytes", spectrum.MaxPeakInput)
+		return spectrum.PeakList{}, "", badInputf("--carbon: input exceeds %d bytes", spectrum.MaxPeakInput)
 	}
 	lists, err := spectrum.Read(data)
 	c, found := spectrum.PeakList{}, false
@@ -195,15 +202,15 @@ func readCarbonList(arg string) (spectrum.PeakList, error) {
 		}
 	}
 	if err != nil {
-		return spectrum.PeakList{}, badInputf("--carbon: %w", err)
+		return spectrum.PeakList{}, "", badInputf("--carbon: %w", err)
 	}
 	if !found {
-		return spectrum.PeakList{}, badInputf("--carbon: no 13C peak list")
+		return spectrum.PeakList{}, "", badInputf("--carbon: no 13C peak list")
 	}
 	if _, h, _ := spectrum.Pick(lists, spectrum.H1); h {
-		return spectrum.PeakList{}, badInputf("--carbon: the input holds a 1H list too: give it with --peaks")
+		return spectrum.PeakList{}, "", badInputf("--carbon: the input holds a 1H list too: give it with --peaks")
 	}
-	return c, nil
+	return c, string(data), nil
 }
 
 // writeResult prints a ranking for a reader.
@@ -229,13 +236,17 @@ func writeResult(w io.Writer, res *ranker.Result) {
 	case len(res.Candidates) > 0 && len(res.CarbonPeaks) > 0:
 		fmt.Fprintln(w, "rank  probability  score     of which 13C  SMILES")
 		for _, c := range res.Candidates {
-			fmt.Fprintf(w, "%4d  %11s  %8.2f  %12.2f  %s\n", c.Rank, formatProb(c.Probability), c.Score, c.CarbonScore, c.SMILES)
+			fmt.Fprintf(w, "%4d  %11s  %8.2f  %12.2f  %s\n", c.Rank, formatPercent(c.Probability), c.Score, c.CarbonScore, c.SMILES)
 		}
 	case len(res.Candidates) > 0:
 		fmt.Fprintln(w, "rank  probability  score     SMILES")
 		for _, c := range res.Candidates {
-			fmt.Fprintf(w, "%4d  %11s  %8.2f  %s\n", c.Rank, formatProb(c.Probability), c.Score, c.SMILES)
+			fmt.Fprintf(w, "%4d  %11s  %8.2f  %s\n", c.Rank, formatPercent(c.Probability), c.Score, c.SMILES)
 		}
+	}
+	if len(res.Candidates) > 0 {
+		fmt.Fprintln(w, "\nPeaks, environments, signals and atoms are numbered from 1 (atoms in SMILES order);")
+		fmt.Fprintln(w, "the --json output keeps the 0-based indices.")
 	}
 	for _, c := range res.Candidates {
 		fmt.Fprintln(w)
@@ -250,19 +261,9 @@ func writeResult(w io.Writer, res *ranker.Result) {
 	fmt.Fprintf(w, "\nCaution: %s\n", res.Caution)
 }
 
-func formatProb(p float64) string {
-	switch {
-	case p >= 0.001:
-		return fmt.Sprintf("%.3f", p)
-	case p > 0:
-		return fmt.Sprintf("%.1e", p)
-	}
-	return "0"
-}
-
 // writeCandidate prints one candidate's per-peak table.
 func writeCandidate(w io.Writer, res *ranker.Result, c *ranker.Candidate) {
-	fmt.Fprintf(w, "#%d %s  (probability %s, score %.2f)\n", c.Rank, c.SMILES, formatProb(c.Probability), c.Score)
+	fmt.Fprintf(w, "#%d %s  (probability %s, score %.2f)\n", c.Rank, c.SMILES, formatPercent(c.Probability), c.Score)
 	if c.Summary != "" {
 		fmt.Fprintf(w, "  %s\n", c.Summary)
 	}
@@ -278,16 +279,16 @@ func writeCandidate(w io.Writer, res *ranker.Result, c *ranker.Candidate) {
 			oh = fmt.Sprintf("%.1f", a.ObservedH)
 		}
 		fmt.Fprintf(w, "  %4d  %-11s  %6.2f  %-14s  %4s/%-4d  %+5.1f  %-5s  %s\n",
-			a.Peak+1, obs, a.PredictedShift, mult, oh, a.ExpectedH, a.ScoreShare, joinInts(a.Atoms), joinInts(a.Environments))
+			a.Peak+1, obs, a.PredictedShift, mult, oh, a.ExpectedH, a.ScoreShare, joinIDs(a.Atoms), joinIDs(a.Environments))
 		if a.MultiplicityReason != "" {
-			fmt.Fprintf(w, "        multiplicity: %s\n", a.MultiplicityReason)
+			fmt.Fprintf(w, "        multiplicity: %s\n", renumberAtoms(a.MultiplicityReason))
 		}
 		if len(a.Breakdown) > 0 {
 			parts := make([]string, len(a.Breakdown))
 			for i, t := range a.Breakdown {
 				parts[i] = fmt.Sprintf("%s %+.2f", t.Term, t.PPM)
 			}
-			fmt.Fprintf(w, "        shift: %s\n", strings.Join(parts, ", "))
+			fmt.Fprintf(w, "        shift: %s\n", renumberAtoms(strings.Join(parts, ", ")))
 		}
 	}
 	for _, u := range c.UnexplainedPeaks {
@@ -295,7 +296,7 @@ func writeCandidate(w io.Writer, res *ranker.Result, c *ranker.Candidate) {
 	}
 	for _, u := range c.UnobservedEnvironments {
 		fmt.Fprintf(w, "  environment %d (%s, %d H, δ %.2f %s, atoms %s) not observed: %+.1f — %s\n",
-			u.Environment, u.Kind, u.H, u.PredictedShift, u.PredictedMultiplicity, joinInts(u.Atoms), u.ScoreShare, u.Reason)
+			u.Environment+1, u.Kind, u.H, u.PredictedShift, u.PredictedMultiplicity, joinIDs(u.Atoms), u.ScoreShare, renumberAtoms(u.Reason))
 	}
 	writeCarbon(w, c)
 	for _, n := range c.Notes {
@@ -321,9 +322,9 @@ func writeCarbon(w io.Writer, c *ranker.Candidate) {
 			oc = fmt.Sprint(a.ObservedCount)
 		}
 		fmt.Fprintf(w, "  %8d  %-12s  %6.1f  %-14s  %4s/%-5d  %+5.1f  %-5s  %s\n",
-			a.Peak+1, obs, a.PredictedShift, orDash(a.ObservedDEPT)+" / "+a.PredictedClass, oc, a.Carbons, a.ScoreShare, joinInts(a.Atoms), joinInts(a.Signals))
+			a.Peak+1, obs, a.PredictedShift, orDash(a.ObservedDEPT)+" / "+a.PredictedClass, oc, a.Carbons, a.ScoreShare, joinIDs(a.Atoms), joinIDs(a.Signals))
 		if a.Reason != "" {
-			fmt.Fprintf(w, "            why: %s\n", a.Reason)
+			fmt.Fprintf(w, "            why: %s\n", renumberAtoms(a.Reason))
 		}
 		if len(a.Breakdown) > 0 {
 			parts := make([]string, len(a.Breakdown))
@@ -338,7 +339,7 @@ func writeCarbon(w io.Writer, c *ranker.Candidate) {
 	}
 	for _, u := range c.UnobservedCarbons {
 		fmt.Fprintf(w, "  carbon signal %d (%s, %s, δ %.1f, atoms %s) not observed: %+.1f — %s\n",
-			u.Signal, u.Class, u.Kind, u.PredictedShift, joinInts(u.Atoms), u.ScoreShare, u.Reason)
+			u.Signal+1, u.Class, u.Kind, u.PredictedShift, joinIDs(u.Atoms), u.ScoreShare, u.Reason)
 	}
 }
 
@@ -349,10 +350,34 @@ func orDash(s string) string {
 	return s
 }
 
-func joinInts(a []int) string {
+// atomRefs matches the atom and environment numbers in the core's
+// explanations ("on atom 5", "of atoms 4,5", "env 3:"), which are 0-based
+// indices.
+var atomRefs = regexp.MustCompile(`\b(?:atoms?|env) \d+(?:,\d+)*`)
+
+// renumberAtoms rewrites the 0-based atom and environment numbers of an
+// explanation as the 1-based numbers of the human output.
+func renumberAtoms(s string) string {
+	return atomRefs.ReplaceAllStringFunc(s, func(m string) string {
+		sp := strings.IndexByte(m, ' ')
+		var ids []int
+		for _, f := range strings.Split(m[sp+1:], ",") {
+			n, err := strconv.Atoi(f)
+			if err != nil {
+				return m
+			}
+			ids = append(ids, n)
+		}
+		return m[:sp+1] + joinIDs(ids)
+	})
+}
+
+// joinIDs lists 0-based indices (atoms, environments, signals) as the
+// 1-based numbers people read, as the web page shows them.
+func joinIDs(a []int) string {
 	s := make([]string, len(a))
 	for i, x := range a {
-		s[i] = fmt.Sprint(x)
+		s[i] = fmt.Sprint(x + 1)
 	}
 	return strings.Join(s, ",")
 }
@@ -367,7 +392,9 @@ func writeSearch(w io.Writer, s *ranker.SearchReport) {
 			if !c.Enabled {
 				state = " [off]"
 			}
-			fmt.Fprintf(w, "  %-28s %s%s\n", c.ID, c.Reason, state)
+			for _, l := range wrapText(c.Reason+state, lineWidth, fmt.Sprintf("  %-28s ", c.ID), strings.Repeat(" ", 31)) {
+				fmt.Fprintln(w, l)
+			}
 		}
 	}
 	if len(s.Readings) > 0 {
@@ -378,5 +405,36 @@ func writeSearch(w io.Writer, s *ranker.SearchReport) {
 	}
 	for _, n := range s.Notes {
 		fmt.Fprintf(w, "note: %s\n", n)
+	}
+}
+
+// rankHelp is the help page of rank.
+func rankHelp() helpPage {
+	return helpPage{
+		name:     "rank",
+		synopsis: []string{"shiftrank rank --formula FORMULA --peaks TEXT|@FILE|- [--carbon TEXT|@FILE] [flags]"},
+		about: `Ranks the constitutional isomers of FORMULA by how well their predicted spectra explain the
+observed 1H peak list (and a 13C list, when given). The result is a hypothesis to be confirmed
+against an authentic sample or further spectra.
+
+Human output numbers peaks, environments, signals and atoms from 1 (atoms in SMILES order), as the
+web page does; --json keeps the 0-based indices of the API.`,
+		sections: []helpSection{{"Peak lists (--peaks, --carbon)", `  journal text  1H NMR (400 MHz, CDCl3) δ 4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H),
+                1.26 (t, J = 7.1 Hz, 3H) — the header is optional (MHz and solvent are read
+                from it); a range is written 3.62–3.55 (m, 2H); a "13C NMR ... δ" section
+                after a ";" is the 13C list
+  JSON          [{"shift": 4.12, "multiplicity": "q", "j": [7.1], "integral": 2},
+                 {"range": [7.35, 7.20], "multiplicity": "m", "integral": 5}]
+                or {"nucleus": "13C", "mhz": 101, "peaks": [...]}, or a list of such objects
+  JCAMP-DX      a .jdx file with peak tables (##PEAK TABLE= or ##PEAK ASSIGNMENTS=); each block's
+                ##.OBSERVE NUCLEUS= (^1H or ^13C) says which list it is
+  --carbon      a 13C list: 171.4 (C), 60.5 (CH2), 21.0 (CH3), 14.2 (CH3) — shifts in ppm, each with
+                an optional DEPT class (C, CH, CH2, CH3) and carbon count ("129.3 (2C, CH)")`}},
+		examples: []string{
+			`shiftrank rank --formula C4H8O2 --peaks '4.12 (q, J = 7.1 Hz, 2H), 2.05 (s, 3H), 1.26 (t, 3H)'`,
+			`shiftrank rank --formula C9H10O2 --peaks @NB-2291-07.txt --carbon @NB-2291-07-13C.txt --top 10`,
+			`shiftrank rank --formula C9H10O2 --peaks @NB-2291-07.jdx --json > NB-2291-07.json`,
+			`cat NB-2291-12.txt | shiftrank rank --formula C5H10O --peaks - --require 'C=O' --top 3`,
+		},
 	}
 }

@@ -3,7 +3,6 @@ package main
 import (
 	"context"
 	"encoding/hex"
-	"errors"
 	"flag"
 	"fmt"
 	"log/slog"
@@ -34,7 +33,6 @@ type serveStore interface {
 // lets running jobs finish for --grace and hands the rest back to the queue.
 func runServe(ctx context.Context, args []string, e env) error {
 	fs := flag.NewFlagSet("serve", flag.ContinueOnError)
-	fs.SetOutput(e.stderr)
 	addr := fs.String("addr", "127.0.0.1:8080", "listen address (host:port); a non-loopback address requires API keys")
 	workers := fs.Int("workers", 0, "jobs run at once by this process (0 = number of cores, -1 = none: API only)")
 	maxHeavy := fs.Int("max-heavy-atoms", molecule.DefaultMaxHeavyAtoms, "most non-hydrogen atoms accepted in a formula")
@@ -56,28 +54,17 @@ func runServe(ctx context.Context, args []string, e env) error {
 	maxSyncKey := fs.Int("max-sync-per-key", 0, "synchronous requests one API key may run at once; more get 429 (0 = half of --max-sync-requests, -1: no limit)")
 	retention := fs.Duration("retention", server.DefaultRetention, "finished jobs older than this are deleted with their results (0: keep them)")
 	maxFinished := fs.Int("max-finished", store.DefaultMaxFinished, "in-memory store only: most finished jobs kept; the oldest are forgotten (0: no limit)")
-	fs.Usage = func() {
-		fmt.Fprintln(e.stderr, "usage: shiftrank serve [flags]")
-		fmt.Fprintln(e.stderr)
-		fmt.Fprintln(e.stderr, "Runs the HTTP API (/v1, described at /v1/openapi.json), the web page and the job workers.")
-		fmt.Fprintln(e.stderr, "With DATABASE_URL set, jobs are kept in PostgreSQL (migrations are applied on start) and")
-		fmt.Fprintln(e.stderr, "several serve processes may share the database; without it they live in memory only.")
-		fmt.Fprintln(e.stderr, "Each flag may also be set by the environment: --max-body as SHIFTRANK_MAX_BODY, and so on.")
-		fmt.Fprintln(e.stderr, "SHIFTRANK_CALLBACK_SECRET (hex or text) signs callbacks of anonymous jobs.")
-		fmt.Fprintln(e.stderr)
-		fs.PrintDefaults()
-	}
 	if err := flagsFromEnv(fs, e.getenv); err != nil {
 		return badInput(err)
 	}
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			return nil
-		}
-		return badInput(err)
+	page := serveHelp()
+	positional, help, err := parseArgs(fs, args, page, e)
+	if help || err != nil {
+		return err
 	}
-	if fs.NArg() > 0 {
-		return badInputf("serve: unexpected argument %q", fs.Arg(0))
+	if len(positional) > 0 {
+		page.writeShort(e.stderr)
+		return badInputf("serve: unexpected argument %q", positional[0])
 	}
 	host, _, err := net.SplitHostPort(*addr)
 	if err != nil {
@@ -288,4 +275,23 @@ func flagsFromEnv(fs *flag.FlagSet, getenv func(string) string) error {
 		}
 	})
 	return err
+}
+
+// serveHelp is the help page of serve.
+func serveHelp() helpPage {
+	return helpPage{
+		name:     "serve",
+		synopsis: []string{"shiftrank serve [flags]"},
+		about: `Runs the HTTP API (/v1, described at /v1/openapi.json), the web page and the job workers.
+With DATABASE_URL set, jobs are kept in PostgreSQL (migrations are applied on start) and several
+serve processes may share the database; without it they live in memory only.
+
+Each flag may also be set by the environment: --max-body as SHIFTRANK_MAX_BODY, and so on.
+SHIFTRANK_CALLBACK_SECRET (hex or text) signs callbacks of anonymous jobs.`,
+		examples: []string{
+			"shiftrank serve",
+			"shiftrank serve --addr 127.0.0.1:9090 --workers 2 --time-budget 2m",
+			"DATABASE_URL=postgres://nmr@db.example.org:5432/shiftrank shiftrank serve --addr 0.0.0.0:8080",
+		},
+	}
 }
