@@ -131,7 +131,7 @@ func checkKekuleIdentity(t *testing.T, formula string) {
 		for k, i := range badIdx {
 			sub[k] = smiles[i]
 		}
-		vres := rdkitIdentity(t, sub, 8)
+		vres := rdkitIdentity(t, sub, 32)
 		variants := map[int]rdkitIdentityResult{}
 		for k, i := range badIdx {
 			variants[i] = vres[k]

@@ -40,7 +40,7 @@ for line in sys.stdin:
         continue
     canon = Chem.MolToSmiles(mol)
     variants = [canon]
-    rng = random.Random(key)
+    rng = random.Random(smi)  # seeded by the input, so the result does not depend on the order of the inputs
     for _ in range(orders):
         raw = Chem.MolFromSmiles(smi, sanitize=False)
         perm = list(range(raw.GetNumAtoms()))
