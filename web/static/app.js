@@ -918,10 +918,19 @@ function normDetail(d, peak) {
     sigma: num(d.sigma),
     multiplicity: d.predicted_multiplicity || "",
     j: Array.isArray(d.j) ? d.j : [],
-    breakdown: Array.isArray(d.breakdown) ? d.breakdown : [],
-    reasons: Array.isArray(d.reasons) ? d.reasons : [],
+    breakdown: Array.isArray(d.breakdown) ? d.breakdown.map((b) => ({ ...b, term: oneBased(b.term) })) : [],
+    reasons: Array.isArray(d.reasons) ? d.reasons.map(oneBased) : [],
     split: !!d.split,
   };
+}
+
+// oneBased rewrites the 0-based atom and environment numbers inside the
+// service's explanation texts ("1 H of atoms 7,11", "env 0:") as the
+// 1-based numbers the page shows everywhere (the JSON arrays stay 0-based);
+// the command line does the same.
+function oneBased(text) {
+  return String(text || "").replace(/\b(atoms?|env) (\d+(?:, ?\d+)*)/g,
+    (m, word, list) => `${word} ${list.split(/, ?/).map((n) => Number(n) + 1).join(list.includes(", ") ? ", " : ",")}`);
 }
 
 function normAssignment(a, observedList) {
@@ -941,11 +950,11 @@ function normAssignment(a, observedList) {
   return {
     peak, envs,
     atoms: Array.isArray(a.atoms) ? a.atoms : envs.flatMap((e) => e.atoms),
-    breakdown: Array.isArray(a.breakdown) ? a.breakdown : [],
+    breakdown: Array.isArray(a.breakdown) ? a.breakdown.map((b) => ({ ...b, term: oneBased(b.term) })) : [],
     expH: num(a.expected_h) ?? envs.reduce((s, e) => s + e.h, 0),
     pred: num(a.predicted_shift),
     predMult: a.predicted_multiplicity || "",
-    reason: a.multiplicity_reason || "",
+    reason: oneBased(a.multiplicity_reason),
     share: num(a.score_share),
     terms: a.terms || null,
     delta: num(a.observed_shift) !== undefined && num(a.predicted_shift) !== undefined
@@ -964,7 +973,7 @@ function normCandidate(c, observedList) {
   const unobserved = (c.unobserved_environments || []).map((e) => ({
     id: e.environment, key: `u:${e.environment}`, atoms: e.atoms || [], h: num(e.h) ?? 0, kind: e.kind || "",
     shift: num(e.predicted_shift), multiplicity: e.predicted_multiplicity || "", j: [],
-    exchangeable: !!e.exchangeable, share: num(e.score_share), reason: e.reason || "",
+    exchangeable: !!e.exchangeable, share: num(e.score_share), reason: oneBased(e.reason),
   }));
   const carbonAssignments = (c.carbon_assignments || []).map((a) => ({
     peak: a.peak, shift: num(a.observed_shift),
