@@ -1,0 +1,101 @@
+package infer
+
+import (
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+
+	"shiftrank/molecule"
+)
+
+// pk builds a peak: a shift (or range lo–hi when hi > lo), its integral in
+// hydrogens, and its pattern.
+func pk(n int, lo, hi, h float64, pat Pattern) Peak {
+	if hi < lo {
+		hi = lo
+	}
+	return Peak{Number: n, Shift: (lo + hi) / 2, Lo: lo, Hi: hi, H: h, Pattern: pat}
+}
+
+func split(j []float64, lines ...int) Pattern { return Pattern{Kind: FirstOrder, Lines: lines, J: j} }
+
+var (
+	singlet   = Pattern{Kind: FirstOrder}
+	multiplet = Pattern{Kind: Multiplet}
+)
+
+// TestInferReadsWhatAChemistReads checks, on published CDCl3 spectra, the
+// constraints a chemist draws by hand (common practice) and that the true
+// structure fits the first (most plausible) reading.
+func TestInferReadsWhatAChemistReads(t *testing.T) {
+	for _, tc := range []struct {
+		name, formula, smiles string
+		peaks                 []Peak
+		want                  []string // constraint IDs that must be read
+		source                string
+	}{
+		{"ethyl phenylacetate", "C10H12O2", "CCOC(=O)Cc1ccccc1", []Peak{
+			pk(1, 7.22, 7.35, 5, multiplet), pk(2, 4.14, 0, 2, split([]float64{7.1}, 4)),
+			pk(3, 3.60, 0, 2, singlet), pk(4, 1.24, 0, 3, split([]float64{7.1}, 3)),
+		}, []string{"monosubstituted-benzene", "peak-3-coupling", "peak-2-coupling"},
+			"Pretsch, Bühlmann, Badertscher, Structure Determination of Organic Compounds, from memory"},
+		{"4-methoxyacetophenone", "C9H10O2", "COc1ccc(cc1)C(C)=O", []Peak{
+			pk(1, 7.94, 0, 2, split([]float64{8.9}, 2)), pk(2, 6.93, 0, 2, split([]float64{8.9}, 2)),
+			pk(3, 3.87, 0, 3, singlet), pk(4, 2.56, 0, 3, singlet),
+		}, []string{"para-disubstituted-benzene"},
+			"Silverstein, Webster, Kiemle, Spectrometric Identification of Organic Compounds, from memory"},
+		{"dimethyl phthalate", "C10H10O4", "COC(=O)c1ccccc1C(=O)OC", []Peak{
+			pk(1, 7.70, 7.75, 2, multiplet), pk(2, 7.51, 7.56, 2, multiplet), pk(3, 3.91, 0, 6, singlet),
+		}, []string{"ortho-disubstituted-benzene"},
+			"Pretsch, Bühlmann, Badertscher, Structure Determination of Organic Compounds, from memory"},
+		{"3-acetylpyridine (H-6 next to the ring N)", "C7H7NO", "CC(=O)c1cccnc1", []Peak{
+			pk(1, 9.17, 0, 1, split([]float64{2.2}, 2)), pk(2, 8.78, 0, 1, split([]float64{4.8, 1.7}, 2, 2)),
+			pk(3, 8.23, 0, 1, split([]float64{8.0, 2.0, 2.0}, 2, 3)), pk(4, 7.42, 0, 1, split([]float64{8.0, 4.8}, 2, 2)),
+			pk(5, 2.65, 0, 3, singlet),
+		}, []string{"peak-2-next-to-ring-n"},
+			"Pretsch, Bühlmann, Badertscher, Structure Determination of Organic Compounds, from memory"},
+		{"diethyl succinate (equivalent CH2–CH2 as a singlet)", "C8H14O4", "CCOC(=O)CCC(=O)OCC", []Peak{
+			pk(1, 4.14, 0, 4, split([]float64{7.1}, 4)), pk(2, 2.61, 0, 4, singlet), pk(3, 1.25, 0, 6, split([]float64{7.1}, 3)),
+		}, []string{"peak-2-coupling"},
+			"Gottlieb, Kotlyar, Nudelman, J. Org. Chem. 1997, 62, 7512 (related esters); from memory"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			f, err := molecule.ParseFormula(tc.formula)
+			require.NoError(t, err)
+			g, err := molecule.ParseSMILES(tc.smiles)
+			require.NoError(t, err)
+			an := Infer(f, tc.peaks, Options{})
+			ids := map[string]bool{}
+			for _, c := range an.Constraints {
+				ids[c.ID] = true
+			}
+			for _, id := range tc.want {
+				assert.True(t, ids[id], "%s: constraint %s not read (source: %s); read: %v", tc.name, id, tc.source, ids)
+			}
+			require.NotEmpty(t, an.Readings)
+			ok, why := an.Readings[0].Spec.Explain(g)
+			assert.True(t, ok, "%s: the true structure does not fit the first reading %q: %s", tc.name, an.Readings[0].Name, why)
+		})
+	}
+}
+
+// TestInferDisabledConstraint: a switched-off constraint is listed as
+// disabled and no reading applies it.
+func TestInferDisabledConstraint(t *testing.T) {
+	f, err := molecule.ParseFormula("C10H12O2")
+	require.NoError(t, err)
+	peaks := []Peak{
+		pk(1, 7.22, 7.35, 5, multiplet), pk(2, 4.14, 0, 2, split([]float64{7.1}, 4)),
+		pk(3, 3.60, 0, 2, singlet), pk(4, 1.24, 0, 3, split([]float64{7.1}, 3)),
+	}
+	an := Infer(f, peaks, Options{Disabled: []string{"monosubstituted-benzene"}})
+	for _, c := range an.Constraints {
+		if c.ID == "monosubstituted-benzene" {
+			assert.False(t, c.Enabled)
+		}
+	}
+	for _, rd := range an.Readings {
+		assert.NotContains(t, rd.Constraints, "monosubstituted-benzene", rd.Name)
+	}
+}
