@@ -141,7 +141,7 @@ func writePredictTable(w io.Writer, out predictOutput) error {
 		if len(en.Neighbours) > 0 {
 			parts := make([]string, len(en.Neighbours))
 			for i, n := range en.Neighbours {
-				parts[i] = fmt.Sprint(n)
+				parts[i] = fmt.Sprint(n + 1)
 			}
 			by = strings.Join(parts, ",")
 		}
@@ -158,7 +158,7 @@ func writePredictTable(w io.Writer, out predictOutput) error {
 		if en.Diastereotopic {
 			kind += ", diastereotopic"
 		}
-		fmt.Fprintf(bw, "%-4d %-13s %-5.2f %-3d %-24s %-11s %s, atoms %v\n", en.ID, shift, en.Sigma, en.H, mult, by, kind, en.Atoms)
+		fmt.Fprintf(bw, "%-4d %-13s %-5.2f %-3d %-24s %-11s %s, atoms %s\n", en.ID+1, shift, en.Sigma, en.H, mult, by, kind, joinIDs(en.Atoms))
 		if len(en.Breakdown) > 0 {
 			parts := make([]string, len(en.Breakdown))
 			sum := 0.0
@@ -177,7 +177,7 @@ func writePredictTable(w io.Writer, out predictOutput) error {
 			fmt.Fprintln(bw)
 		}
 		for _, r := range en.Reasons {
-			fmt.Fprintf(bw, "     · %s\n", r)
+			fmt.Fprintf(bw, "     · %s\n", renumberAtoms(r))
 		}
 	}
 	for _, n := range out.Notes {
@@ -197,7 +197,7 @@ func writeCarbonTable(w io.Writer, c carbonReport) {
 	}
 	fmt.Fprintf(w, "%-4s %-7s %-5s %-5s %-3s %s\n", "sig", "δ/ppm", "σ", "class", "C", "kind, atoms")
 	for _, s := range c.Signals {
-		fmt.Fprintf(w, "%-4d %-7.1f %-5.1f %-5s %-3d %s, atoms %v\n", s.ID, s.Shift, s.Sigma, s.Class, s.Carbons, s.Kind, s.Atoms)
+		fmt.Fprintf(w, "%-4d %-7.1f %-5.1f %-5s %-3d %s, atoms %s\n", s.ID+1, s.Shift, s.Sigma, s.Class, s.Carbons, s.Kind, joinIDs(s.Atoms))
 		if len(s.Breakdown) > 0 {
 			parts := make([]string, len(s.Breakdown))
 			sum := 0.0
@@ -216,7 +216,7 @@ func writeCarbonTable(w io.Writer, c carbonReport) {
 			fmt.Fprintln(w)
 		}
 		for _, r := range s.Reasons {
-			fmt.Fprintf(w, "     · %s\n", r)
+			fmt.Fprintf(w, "     · %s\n", renumberAtoms(r))
 		}
 	}
 	for _, n := range c.Notes {

@@ -353,7 +353,7 @@ func orDash(s string) string {
 // atomRefs matches the atom and environment numbers in the core's
 // explanations ("on atom 5", "of atoms 4,5", "env 3:"), which are 0-based
 // indices.
-var atomRefs = regexp.MustCompile(`\b(?:atoms?|env) \d+(?:,\d+)*`)
+var atomRefs = regexp.MustCompile(`\b(?:atoms?|env|environments?) \d+(?:, ?\d+)*`)
 
 // renumberAtoms rewrites the 0-based atom and environment numbers of an
 // explanation as the 1-based numbers of the human output.
@@ -362,7 +362,7 @@ func renumberAtoms(s string) string {
 		sp := strings.IndexByte(m, ' ')
 		var ids []int
 		for _, f := range strings.Split(m[sp+1:], ",") {
-			n, err := strconv.Atoi(f)
+			n, err := strconv.Atoi(strings.TrimSpace(f))
 			if err != nil {
 				return m
 			}

@@ -929,7 +929,7 @@ function normDetail(d, peak) {
 // 1-based numbers the page shows everywhere (the JSON arrays stay 0-based);
 // the command line does the same.
 function oneBased(text) {
-  return String(text || "").replace(/\b(atoms?|env) (\d+(?:, ?\d+)*)/g,
+  return String(text || "").replace(/\b(atoms?|env|environments?) (\d+(?:, ?\d+)*)/g,
     (m, word, list) => `${word} ${list.split(/, ?/).map((n) => Number(n) + 1).join(list.includes(", ") ? ", " : ",")}`);
 }
 
