@@ -4,6 +4,8 @@ import (
 	"os"
 	"testing"
 
+	"shiftrank/spectrum"
+
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 
@@ -27,7 +29,7 @@ func TestReadingsHoldTheTruth(t *testing.T) {
 			r := New(Options{})
 			first := 0
 			for _, c := range set.Compounds {
-				j, err := r.prepare(Request{Formula: c.Formula, Peaks: diagPeaks(t, c.Peaks)})
+				j, err := r.prepare(Request{Formula: c.Formula, Peaks: readPeaks(t, c.Peaks)})
 				require.NoError(t, err, c.Name)
 				g, err := molecule.ParseSMILES(c.SMILES)
 				require.NoError(t, err, c.Name)
@@ -47,4 +49,14 @@ func TestReadingsHoldTheTruth(t *testing.T) {
 			t.Logf("%s: the truth fits the first reading for %d of %d compounds", file, first, len(set.Compounds))
 		})
 	}
+}
+
+// readPeaks reads a 1H peak list of a reference entry.
+func readPeaks(t testing.TB, s string) spectrum.PeakList {
+	t.Helper()
+	pl, err := spectrum.ReadList([]byte(s), spectrum.H1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return pl
 }
