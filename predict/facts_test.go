@@ -30,6 +30,18 @@ func envOn(sp *Spectrum, a int) []Environment {
 	return out
 }
 
+// oneEnvOn predicts smi and returns the one environment holding atom a;
+// ok is false (and the test marked failed) when there is not exactly one.
+func oneEnvOn(t *testing.T, p *Predictor, smi string, a int) (e Environment, ok bool) {
+	t.Helper()
+	es := envOn(predictSMILES(t, p, smi), a)
+	if len(es) != 1 {
+		t.Errorf("Predict(%q): %d environments on atom %d, want 1", smi, len(es), a)
+		return Environment{}, false
+	}
+	return es[0], true
+}
+
 // TestCommonPracticeRanges checks the shift regions every chemist knows
 // (common practice; e.g. Silverstein ch. 3 overview chart): alkyl H below
 // ~1.5, H on carbon bonded to O 3.3–4 (up to ~4.1 for CH–O), alkene H
@@ -273,14 +285,12 @@ func TestDiastereotopic(t *testing.T) {
 		{"1,4-dioxane CH2", "C1COCCO1", 0, false, "no stereogenic element; common practice"},
 		{"isobutyl CH2 (isobutanol)", "CC(C)CO", 3, false, "the CH of the isopropyl group is not prochiral towards it; common practice"},
 	} {
-		sp := predictSMILES(t, p, tc.smiles)
-		es := envOn(sp, tc.atom)
-		if len(es) != 1 {
-			t.Errorf("%s (%s): %d environments on atom %d, want 1", tc.name, tc.smiles, len(es), tc.atom)
+		e, ok := oneEnvOn(t, p, tc.smiles, tc.atom)
+		if !ok {
 			continue
 		}
-		if es[0].Diastereotopic != tc.want {
-			t.Errorf("Predict(%q) atom %d Diastereotopic = %v, want %v (source: %s)", tc.smiles, tc.atom, es[0].Diastereotopic, tc.want, tc.source)
+		if e.Diastereotopic != tc.want {
+			t.Errorf("Predict(%q) atom %d Diastereotopic = %v, want %v (source: %s)", tc.smiles, tc.atom, e.Diastereotopic, tc.want, tc.source)
 		}
 	}
 }
@@ -308,14 +318,12 @@ func TestGeminalMethylsInSpace(t *testing.T) {
 		{"isobutanol (CH3)2CH", "CC(C)CO", 0, false, "no stereocentre: one 6H doublet at 0.92; common practice, from memory"},
 		{"mesityl oxide (CH3)2C=CH", "CC(C)=CC(C)=O", 0, true, "2.14 and 1.88 (2 s) for the two =C(CH3)2 methyls; Silverstein et al., from memory"},
 	} {
-		sp := predictSMILES(t, p, tc.smiles)
-		es := envOn(sp, tc.atom)
-		if len(es) != 1 {
-			t.Errorf("%s (%s): %d environments on atom %d, want 1", tc.name, tc.smiles, len(es), tc.atom)
+		e, ok := oneEnvOn(t, p, tc.smiles, tc.atom)
+		if !ok {
 			continue
 		}
-		if es[0].Diastereotopic != tc.want {
-			t.Errorf("Predict(%q) atom %d Diastereotopic = %v, want %v (source: %s)", tc.smiles, tc.atom, es[0].Diastereotopic, tc.want, tc.source)
+		if e.Diastereotopic != tc.want {
+			t.Errorf("Predict(%q) atom %d Diastereotopic = %v, want %v (source: %s)", tc.smiles, tc.atom, e.Diastereotopic, tc.want, tc.source)
 		}
 	}
 }
@@ -340,14 +348,12 @@ func TestSlowExchangeH(t *testing.T) {
 		{"tert-butanol OH", "CC(C)(C)O", 4, 0},
 		{"ethyl acetate OCH2", "CCOC(C)=O", 1, 0},
 	} {
-		sp := predictSMILES(t, p, tc.smiles)
-		es := envOn(sp, tc.atom)
-		if len(es) != 1 {
-			t.Errorf("%s: %d environments on atom %d", tc.name, len(es), tc.atom)
+		e, ok := oneEnvOn(t, p, tc.smiles, tc.atom)
+		if !ok {
 			continue
 		}
-		if es[0].SlowExchangeH != tc.want {
-			t.Errorf("%s (%s) atom %d: SlowExchangeH = %d, want %d", tc.name, tc.smiles, tc.atom, es[0].SlowExchangeH, tc.want)
+		if e.SlowExchangeH != tc.want {
+			t.Errorf("%s (%s) atom %d: SlowExchangeH = %d, want %d", tc.name, tc.smiles, tc.atom, e.SlowExchangeH, tc.want)
 		}
 	}
 }
@@ -369,14 +375,12 @@ func TestLongRangeH(t *testing.T) {
 		{"toluene CH3 (aromatic, not counted)", "Cc1ccccc1", 0, 0},
 		{"propane CH3", "CCC", 0, 0},
 	} {
-		sp := predictSMILES(t, p, tc.smiles)
-		es := envOn(sp, tc.atom)
-		if len(es) != 1 {
-			t.Errorf("%s: %d environments on atom %d", tc.name, len(es), tc.atom)
+		e, ok := oneEnvOn(t, p, tc.smiles, tc.atom)
+		if !ok {
 			continue
 		}
-		if es[0].LongRangeH != tc.want {
-			t.Errorf("%s (%s) atom %d: LongRangeH = %d, want %d", tc.name, tc.smiles, tc.atom, es[0].LongRangeH, tc.want)
+		if e.LongRangeH != tc.want {
+			t.Errorf("%s (%s) atom %d: LongRangeH = %d, want %d", tc.name, tc.smiles, tc.atom, e.LongRangeH, tc.want)
 		}
 	}
 }
@@ -400,14 +404,12 @@ func TestNitroShifts(t *testing.T) {
 		{"nitroethane CH2", "CC[N+](=O)[O-]", 1, 4.40},
 		{"4-nitrotoluene H ortho to NO2", "Cc1ccc(cc1)[N+](=O)[O-]", 3, 8.10},
 	} {
-		sp := predictSMILES(t, p, tc.smiles)
-		es := envOn(sp, tc.atom)
-		if len(es) != 1 {
-			t.Errorf("%s: %d environments on atom %d", tc.name, len(es), tc.atom)
+		e, ok := oneEnvOn(t, p, tc.smiles, tc.atom)
+		if !ok {
 			continue
 		}
-		if d := es[0].Shift - tc.want; d > 0.15 || d < -0.15 {
-			t.Errorf("%s (%s): δ %.2f, want %.2f ± 0.15", tc.name, tc.smiles, es[0].Shift, tc.want)
+		if d := e.Shift - tc.want; d > 0.15 || d < -0.15 {
+			t.Errorf("%s (%s): δ %.2f, want %.2f ± 0.15", tc.name, tc.smiles, e.Shift, tc.want)
 		}
 	}
 }
