@@ -159,23 +159,7 @@ func writePredictTable(w io.Writer, out predictOutput) error {
 			kind += ", diastereotopic"
 		}
 		fmt.Fprintf(bw, "%-4d %-13s %-5.2f %-3d %-24s %-11s %s, atoms %s\n", en.ID+1, shift, en.Sigma, en.H, mult, by, kind, joinIDs(en.Atoms))
-		if len(en.Breakdown) > 0 {
-			parts := make([]string, len(en.Breakdown))
-			sum := 0.0
-			for i, t := range en.Breakdown {
-				sum += t.PPM
-				if i == 0 {
-					parts[i] = fmt.Sprintf("%s %.2f", t.Term, t.PPM)
-				} else {
-					parts[i] = fmt.Sprintf("%s %+.2f", t.Term, t.PPM)
-				}
-			}
-			fmt.Fprintf(bw, "     = %s", strings.Join(parts, "; "))
-			if math.Abs(sum-en.Shift) > 0.005 {
-				fmt.Fprintf(bw, " (sum %.2f)", sum)
-			}
-			fmt.Fprintln(bw)
-		}
+		writeBreakdown(bw, en.Breakdown, en.Shift, 2)
 		for _, r := range en.Reasons {
 			fmt.Fprintf(bw, "     · %s\n", renumberAtoms(r))
 		}
@@ -188,6 +172,30 @@ func writePredictTable(w io.Writer, out predictOutput) error {
 	return bw.Flush()
 }
 
+// writeBreakdown prints a shift's increments on one line ("= base 1.30;
+// α: OH +2.49") with digits decimals, and their sum when it differs from
+// the shift by more than the last digit shown.
+func writeBreakdown(w io.Writer, terms []predict.Term, shift float64, digits int) {
+	if len(terms) == 0 {
+		return
+	}
+	parts := make([]string, len(terms))
+	sum := 0.0
+	for i, t := range terms {
+		sum += t.PPM
+		if i == 0 {
+			parts[i] = fmt.Sprintf("%s %.*f", t.Term, digits, t.PPM)
+		} else {
+			parts[i] = fmt.Sprintf("%s %+.*f", t.Term, digits, t.PPM)
+		}
+	}
+	fmt.Fprintf(w, "     = %s", strings.Join(parts, "; "))
+	if math.Abs(sum-shift) > 0.5*math.Pow(10, -float64(digits)) {
+		fmt.Fprintf(w, " (sum %.*f)", digits, sum)
+	}
+	fmt.Fprintln(w)
+}
+
 // writeCarbonTable prints the predicted 13C signals after the 1H table.
 func writeCarbonTable(w io.Writer, c carbonReport) {
 	fmt.Fprintf(w, "\npredicted 13C NMR (proton-decoupled)\n\n")
@@ -198,23 +206,7 @@ func writeCarbonTable(w io.Writer, c carbonReport) {
 	fmt.Fprintf(w, "%-4s %-7s %-5s %-5s %-3s %s\n", "sig", "δ/ppm", "σ", "class", "C", "kind, atoms")
 	for _, s := range c.Signals {
 		fmt.Fprintf(w, "%-4d %-7.1f %-5.1f %-5s %-3d %s, atoms %s\n", s.ID+1, s.Shift, s.Sigma, s.Class, s.Carbons, s.Kind, joinIDs(s.Atoms))
-		if len(s.Breakdown) > 0 {
-			parts := make([]string, len(s.Breakdown))
-			sum := 0.0
-			for i, t := range s.Breakdown {
-				sum += t.PPM
-				if i == 0 {
-					parts[i] = fmt.Sprintf("%s %.1f", t.Term, t.PPM)
-				} else {
-					parts[i] = fmt.Sprintf("%s %+.1f", t.Term, t.PPM)
-				}
-			}
-			fmt.Fprintf(w, "     = %s", strings.Join(parts, "; "))
-			if math.Abs(sum-s.Shift) > 0.05 {
-				fmt.Fprintf(w, " (sum %.1f)", sum)
-			}
-			fmt.Fprintln(w)
-		}
+		writeBreakdown(w, s.Breakdown, s.Shift, 1)
 		for _, r := range s.Reasons {
 			fmt.Fprintf(w, "     · %s\n", renumberAtoms(r))
 		}
