@@ -158,13 +158,7 @@ func (s *carbonScorer) sigma(c *predCarbon) float64 {
 // residual returns the distance from the predicted shift to the observed
 // value or range, ppm.
 func (c *predCarbon) residual(p *obsCarbon) float64 {
-	switch {
-	case c.shift < p.lo:
-		return p.lo - c.shift
-	case c.shift > p.hi:
-		return c.shift - p.hi
-	}
-	return 0
+	return intervalGap(c.shift, c.shift, p.lo, p.hi)
 }
 
 // shiftLogP returns the log density of peak p's shift given signal c.

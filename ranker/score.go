@@ -228,11 +228,17 @@ func (s *scorer) sigma(e *predEnv) float64 {
 // residual returns the gap between the predicted and observed intervals,
 // ppm (0 when they overlap).
 func residual(e *predEnv, p *obsPeak) float64 {
+	return intervalGap(e.lo, e.hi, p.lo, p.hi)
+}
+
+// intervalGap returns the distance between the intervals [alo, ahi] and
+// [blo, bhi] (0 when they overlap).
+func intervalGap(alo, ahi, blo, bhi float64) float64 {
 	switch {
-	case e.hi < p.lo:
-		return p.lo - e.hi
-	case e.lo > p.hi:
-		return e.lo - p.hi
+	case ahi < blo:
+		return blo - ahi
+	case alo > bhi:
+		return alo - bhi
 	}
 	return 0
 }
