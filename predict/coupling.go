@@ -441,7 +441,7 @@ func (p *Predictor) couple(m *mol, w *work, groups []hgroup, reps, order []int, 
 	defer func() { w.jbuf = buf[:0] }()
 	for id := range envs {
 		e := &envs[id]
-		e.SlowExchangeH = slowExchangeH(m, groups[reps[order[id]]].atom, e.Exchangeable, envs, groups)
+		e.SlowExchangeH = slowExchangeH(m, groups[reps[order[id]]].atom, e.Exchangeable)
 		if !e.Exchangeable {
 			e.LongRangeH = allylicH(m, groups[reps[order[id]]].atom)
 		}
@@ -770,8 +770,9 @@ func (p *Predictor) spinTable(m *mol, groups []hgroup, envs []Environment, broad
 // a that couple only under slow exchange (see
 // Environment.SlowExchangeH): for a C–H atom, the H of exchangeable
 // groups on its neighbours; for an exchangeable one, the H on its
-// neighbouring carbons.
-func slowExchangeH(m *mol, a int, exchangeable bool, envs []Environment, groups []hgroup) int {
+// neighbouring carbons. Hydrogens on N, O and S are the exchangeable ones
+// (see Predictor.shiftOf), so the neighbour's element decides.
+func slowExchangeH(m *mol, a int, exchangeable bool) int {
 	g := m.g
 	n := 0
 	for _, nb := range g.Neighbors(a) {
@@ -785,10 +786,9 @@ func slowExchangeH(m *mol, a int, exchangeable bool, envs []Environment, groups 
 			}
 			continue
 		}
-		for k := range groups {
-			if groups[k].atom == x && envs[groups[k].env].Exchangeable {
-				n += groups[k].h
-			}
+		switch g.Atoms[x].Element {
+		case molecule.N, molecule.O, molecule.S:
+			n += g.Atoms[x].HCount
 		}
 	}
 	return n
