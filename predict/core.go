@@ -433,46 +433,41 @@ func (m *mol) geminalGroupsDiffer(atoms []int) string {
 	if g.Neighbors(b)[0].Atom != x || m.arom[x] {
 		return ""
 	}
-	// others lists the orbits of the positions of atom y other than
-	// atom skip: each neighbour's orbit, -1 for each H.
-	others := func(y, skip int) []int {
-		var out []int
-		for _, nb := range g.Neighbors(y) {
-			if nb.Atom != skip {
-				out = append(out, m.orbit[nb.Atom])
-			}
-		}
-		for k := 0; k < g.Atoms[y].HCount; k++ {
-			out = append(out, -1)
-		}
-		return out
-	}
 	for _, nb := range g.Neighbors(x) {
 		if nb.Order != molecule.Double || m.arom[nb.Atom] {
 			continue
 		}
-		o := others(nb.Atom, x)
+		pos, n := m.otherPositions(nb.Atom, x, -1)
 		switch {
-		case len(o) == 2 && o[0] != o[1]:
+		case n == 2 && pos[0] != pos[1]:
 			return "cis and trans to different groups across the double bond"
-		case len(o) == 1 && g.Atoms[nb.Atom].Element == molecule.N:
+		case n == 1 && g.Atoms[nb.Atom].Element == molecule.N:
 			return "cis and trans to the substituent on the C=N nitrogen"
 		}
 		return ""
 	}
 	if m.stereo && m.multi[x] == 0 {
-		var rest []int
-		for _, nb := range g.Neighbors(x) {
-			if nb.Atom != a && nb.Atom != b {
-				rest = append(rest, m.orbit[nb.Atom])
-			}
-		}
-		for k := 0; k < g.Atoms[x].HCount; k++ {
-			rest = append(rest, -1)
-		}
-		if len(rest) == 2 && rest[0] != rest[1] {
+		if pos, n := m.otherPositions(x, a, b); n == 2 && pos[0] != pos[1] {
 			return "diastereotopic: a stereocentre in the molecule"
 		}
 	}
 	return ""
+}
+
+// otherPositions lists the positions of atom y other than atoms skip1 and
+// skip2 (-1: none): each neighbour's orbit, then -1 for each hydrogen; n is
+// how many there are (at most 4 are kept).
+func (m *mol) otherPositions(y, skip1, skip2 int) (pos [4]int, n int) {
+	g := m.g
+	for _, nb := range g.Neighbors(y) {
+		if nb.Atom != skip1 && nb.Atom != skip2 && n < len(pos) {
+			pos[n] = m.orbit[nb.Atom]
+			n++
+		}
+	}
+	for k := 0; k < g.Atoms[y].HCount && n < len(pos); k++ {
+		pos[n] = -1
+		n++
+	}
+	return pos, n
 }
