@@ -90,11 +90,15 @@ func TestInferDisabledConstraint(t *testing.T) {
 		pk(3, 3.60, 0, 2, singlet), pk(4, 1.24, 0, 3, split([]float64{7.1}, 3)),
 	}
 	an := Infer(f, peaks, Options{Disabled: []string{"monosubstituted-benzene"}})
+	found := false
 	for _, c := range an.Constraints {
 		if c.ID == "monosubstituted-benzene" {
+			found = true
 			assert.False(t, c.Enabled)
 		}
 	}
+	require.True(t, found, "the switched-off constraint is still listed")
+	require.NotEmpty(t, an.Readings)
 	for _, rd := range an.Readings {
 		assert.NotContains(t, rd.Constraints, "monosubstituted-benzene", rd.Name)
 	}
