@@ -588,10 +588,6 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 		}
 		// The relaxed readings widen the search only when the strict ones
 		// leave the spectrum poorly explained (or explain nothing).
-		strictDone := true
-		for _, k := range strict {
-			strictDone = strictDone && reps[k].State == ReadingComplete
-		}
 		best, found := bestScore(workers)
 		widen := !found || best < poorFitPerPeak*float64(len(j.obs))+r.model.Carbon.Weight*poorFitPerCarbonPeak*float64(len(j.cobs))
 		for i, k := range relaxed {
@@ -615,7 +611,6 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 				complete = complete && reps[k].State == ReadingComplete
 			}
 		}
-		_ = strictDone
 		search.Readings = reps
 		stats.Complete = complete
 		stats.Fraction = 1
