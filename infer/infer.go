@@ -558,13 +558,16 @@ func (a *analysis) exchangeable(i int, n int) []option {
 	return out
 }
 
-// carbonOptions returns the ways n hydrogens of one sharp, first-order
-// signal (one environment) can sit on equivalent carbons, with priors.
-func carbonSplits(n int, kind partKind) [][2]int {
+// carbonSplits returns the ways n hydrogens of one sharp, first-order
+// signal (one environment) at δ up to hi can sit on equivalent carbons,
+// the more common first.
+func carbonSplits(n int, kind partKind, hi float64) [][2]int {
 	// pairs (h per atom, atoms) with the more common first
 	switch kind {
 	case kSP2, kFormyl:
-		if n == 2 {
+		if n == 2 && hi <= methyleneMax {
+			// an sp2 CH2 is a terminal =CH2, which stays below
+			// methyleneMax
 			return [][2]int{{1, 2}, {2, 1}}
 		}
 		return [][2]int{{1, n}}
@@ -654,7 +657,7 @@ func (a *analysis) peakOptions(i int) []option {
 				penalty += math.Log(0.15)
 			}
 		}
-		for k, s := range carbonSplits(n, kind) {
+		for k, s := range carbonSplits(n, kind, p.Hi) {
 			pt := a.withShift(a.withCoupling(a.basePart(i, molecule.C, s[0], s[1], kind), i))
 			lp := penalty
 			if k > 0 {

@@ -149,7 +149,9 @@ type Environment struct {
 	// LongRangeH counts the hydrogens four bonds away across a C=C bond
 	// (allylic ⁴J, H–C=C–C–H, about 1–2 Hz; common practice): left out of
 	// Multiplicity because they are usually unresolved, but a resolved one
-	// (the q of a propenyl =CH reported "dq") is compatible.
+	// (the q of a propenyl =CH reported "dq") is compatible. Hydrogens of
+	// other small couplings predicted below the line width (heteroaromatic
+	// ⁴J of 0.8 Hz and more) count too.
 	LongRangeH int
 	// Breakdown is the shift's derivation: base value and increments in
 	// ppm that sum to Shift (Options.Explain only).

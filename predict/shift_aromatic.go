@@ -277,6 +277,15 @@ func (p *Predictor) aromaticH(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 						// increments.
 						v = 0.6 * benzeneInc[subAryl][d-1]
 						name = "fused aromatic ring"
+					} else if s == subAryl || s == subHetAryl {
+						// An aryl ring on a five-membered heteroaromatic
+						// ring acts mostly through its ring current:
+						// 2-phenylthiophene H3/H4/H5 +0.19/−0.03/−0.07,
+						// 2-phenylfuran +0.26/+0.08/+0.04, 2-phenylpyrrole
+						// +0.28/+0.06/+0.16 against the parent rings
+						// (Pretsch et al. and common literature data, from
+						// memory): far below ×1.5 the benzene row.
+						v = arylOnFive[d-1]
 					} else {
 						// Substituent effects on five-membered
 						// heteroaromatics are larger than on benzene
@@ -293,6 +302,12 @@ func (p *Predictor) aromaticH(m *mol, gr *hgroup, r *shiftResult, ac *acc) {
 		}
 	}
 }
+
+// arylOnFive = {adjacent, next} ring positions of a five-membered
+// heteroaromatic ring carrying an aryl or heteroaryl group (see the
+// sources where it is used; the third entry is unused in five-membered
+// rings).
+var arylOnFive = [3]float64{0.24, 0.03, 0}
 
 // alkylBenzeneInc[h] = {ortho, meta, para} for an alkyl substituent with h
 // hydrogens on its attachment carbon: tert-butyl (0.02, −0.08, −0.21),
