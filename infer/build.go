@@ -66,6 +66,13 @@ func (a *analysis) leftover(parts []part) [molecule.NumElements]int {
 			left[molecule.C]--
 		case tPara, tOrtho:
 			left[molecule.C] -= 2 * (pt.count / 4)
+		case tPyridyl:
+			left[molecule.C]--
+			left[molecule.N]--
+		case tNaphthyl:
+			left[molecule.C] -= 3
+		case tGem:
+			left[molecule.C]--
 		case tTBu:
 			left[molecule.C] -= pt.count / 3
 		}
@@ -231,6 +238,39 @@ func (a *analysis) build(parts []part, v variant, relaxed bool) (*isomers.Spec, 
 			c.Name = "end CH of the ortho C6H4 ring"
 			c.MaxDegree = 2
 			c.Neighbours = append(c.Neighbours, isomers.NeighbourRule{Classes: []int{mids}, Min: 1, Max: 1}, isomers.NeighbourRule{Classes: []int{ipso}, Min: 1, Max: 1})
+		case tPyridyl:
+			// Six ring atoms each bonded to two others of the ring: four
+			// CH, the ring N and the substituted C (2-, 3- or
+			// 4-pyridyl: the readings do not fix which).
+			n, ipso := len(s.Classes), len(s.Classes)+1
+			s.Classes = append(s.Classes,
+				isomers.Class{Name: "ring N of the pyridine ring", Element: molecule.N, H: 0, Count: 1, Bonds: isomers.OneDouble, MaxDegree: 2,
+					Neighbours: []isomers.NeighbourRule{{Classes: []int{ci, ipso}, Min: 2, Max: 2}}},
+				isomers.Class{Name: "substituted C of the pyridine ring", Element: molecule.C, H: 0, Count: 1, Bonds: isomers.OneDouble,
+					Neighbours: []isomers.NeighbourRule{{Classes: []int{ci, n}, Min: 2, Max: 2}}})
+			c := &s.Classes[ci]
+			c.MaxDegree = 2
+			c.Neighbours = append(c.Neighbours, isomers.NeighbourRule{Classes: []int{ci, n, ipso}, Min: 2, Max: 2})
+		case tNaphthyl:
+			// Ten ring atoms of a fused bicyclic: seven CH and the
+			// substituted C with two ring neighbours, two fusion C with
+			// three, bonded to each other (naphthalene; azulene also
+			// fits, smaller rings fail the plausibility rules).
+			fu, ipso := len(s.Classes), len(s.Classes)+1
+			s.Classes = append(s.Classes,
+				isomers.Class{Name: "fusion C of the bicyclic ring system", Element: molecule.C, H: 0, Count: 2, Bonds: isomers.OneDouble, MaxDegree: 3,
+					Neighbours: []isomers.NeighbourRule{{Classes: []int{ci, fu, ipso}, Min: 3, Max: 3}, {Classes: []int{fu}, Min: 1, Max: 1}}},
+				isomers.Class{Name: "substituted C of the bicyclic ring system", Element: molecule.C, H: 0, Count: 1, Bonds: isomers.OneDouble,
+					Neighbours: []isomers.NeighbourRule{{Classes: []int{ci, fu}, Min: 2, Max: 2}}})
+			c := &s.Classes[ci]
+			c.MaxDegree = 2
+			c.Neighbours = append(c.Neighbours, isomers.NeighbourRule{Classes: []int{ci, fu, ipso}, Min: 2, Max: 2})
+		case tGem:
+			q := len(s.Classes)
+			s.Classes = append(s.Classes, isomers.Class{Name: "quaternary C of the gem-dimethyl group", Element: molecule.C, H: 0, Count: 1, Bonds: isomers.SingleBonds,
+				Neighbours: []isomers.NeighbourRule{{Classes: []int{ci}, Min: 2, Max: 2}}})
+			c := &s.Classes[ci]
+			c.Neighbours = append(c.Neighbours, isomers.NeighbourRule{Classes: []int{q}, Min: 1, Max: 1})
 		case tTBu:
 			q := len(s.Classes)
 			s.Classes = append(s.Classes, isomers.Class{Name: "quaternary C of the tert-butyl group", Element: molecule.C, H: 0, Count: pt.count / 3, Bonds: isomers.SingleBonds,
@@ -259,6 +299,13 @@ func (a *analysis) build(parts []part, v variant, relaxed bool) (*isomers.Spec, 
 				left[molecule.C]++
 			case tPara, tOrtho:
 				left[molecule.C] += 2 * (pt.count / 4)
+			case tPyridyl:
+				left[molecule.C]++
+				left[molecule.N]++
+			case tNaphthyl:
+				left[molecule.C] += 3
+			case tGem:
+				left[molecule.C]++
 			case tTBu:
 				left[molecule.C] += pt.count / 3
 			}
@@ -373,6 +420,12 @@ func (a *analysis) describe(parts []part, v variant, relaxed bool) string {
 			add("para C6H4 ring", 1)
 		case tOrtho:
 			add("ortho C6H4 ring", pt.count/4)
+		case tPyridyl:
+			add("C5H4N ring", 1)
+		case tNaphthyl:
+			add("C10H7 ring system", 1)
+		case tGem:
+			add("C(CH3)2", 1)
 		case tTBu:
 			add("tert-butyl", pt.count/3)
 		}

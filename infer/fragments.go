@@ -240,8 +240,11 @@ func (a *analysis) ringUnits(used []bool) []unit {
 		if a.constraint(id, name, reason, ar, conf) {
 			var parts []part
 			per := 5
-			if t == tPara || t == tOrtho {
+			switch t {
+			case tPara, tOrtho, tPyridyl:
 				per = 4
+			case tNaphthyl:
+				per = 7
 			}
 			if t == tOrtho {
 				// equivalent rings share one class (a symmetric molecule)
@@ -275,6 +278,13 @@ func (a *analysis) ringUnits(used []bool) []unit {
 	case total == 8 && a.f.Count(molecule.C) >= 12 && a.symmetricBenzoMultiplets(ar):
 		return ring(2, tOrtho, "ortho-disubstituted-benzene",
 			fmt.Sprintf("8 aromatic hydrogens (peaks %s, δ %s) in signals of 2 or 4 H, partly unresolved multiplets: two equivalent benzo rings –C6H4– (a symmetric dibenzo-fused system)", nums, rangeText(lo, hi)), 0.6)
+	case total == 7 && a.f.Count(molecule.C) >= 10 && a.f.DBE() >= 7 && lo >= naphthylMin:
+		return ring(1, tNaphthyl, "monosubstituted-naphthalene",
+			fmt.Sprintf("7 aromatic hydrogens (peaks %s, δ %s) with a DBE of %d: a monosubstituted naphthalene-type bicyclic ring system C10H7–", nums, rangeText(lo, hi), a.f.DBE()), 0.6)
+	case total == 4 && a.f.Count(molecule.C) >= 5 && a.f.Count(molecule.N) >= 1 && a.nextToRingN(ar) >= 0:
+		i := a.nextToRingN(ar)
+		return ring(1, tPyridyl, "monosubstituted-pyridine",
+			fmt.Sprintf("4 aromatic hydrogens (peaks %s, δ %s), one far downfield with the small ortho coupling of a C–H next to a ring N (peak %d, δ %.2f): a monosubstituted pyridine ring C5H4N– (2-, 3- or 4-pyridyl)", nums, rangeText(lo, hi), a.peaks[i].Number, a.peaks[i].Shift), 0.75)
 	case (total == 4 || total == 8) && a.f.Count(molecule.C) >= 6*(total/4) && a.orthoPattern(ar, total/4):
 		what := "an ortho-disubstituted benzene ring –C6H4– (or a benzo ring fused at one bond)"
 		if total == 8 {
@@ -284,6 +294,26 @@ func (a *analysis) ringUnits(used []bool) []unit {
 			fmt.Sprintf("%d aromatic hydrogens (peaks %s, δ %s) with two ortho partners on half of them and one on the others: %s", total, nums, rangeText(lo, hi), what), 0.75)
 	}
 	return nil
+}
+
+// nextToRingN returns the first of the aromatic peaks ar that reads as the
+// C–H next to a ring nitrogen — far downfield (ringNMinShift–ringNMaxShift)
+// with a coupling of ringNJLo–pyridylJHi Hz (pyridine J(2,3) 4.5–5.0,
+// 4-substituted pyridines up to 6; Pretsch, Bühlmann, Badertscher,
+// Structure Determination of Organic Compounds, from memory) — or −1.
+func (a *analysis) nextToRingN(ar []int) int {
+	for _, i := range ar {
+		p := a.peaks[i]
+		if p.Lo < ringNMinShift || p.Hi > ringNMaxShift || p.Pattern.Broad {
+			continue
+		}
+		for _, j := range p.Pattern.J {
+			if j >= ringNJLo && j <= pyridylJHi {
+				return i
+			}
+		}
+	}
+	return -1
 }
 
 // symmetricBenzoMultiplets reports whether 8 aromatic hydrogens come as

@@ -111,6 +111,9 @@ const (
 	tPara            // para-disubstituted benzene ring: 4 CH and 2 ipso C
 	tOrtho           // ortho-disubstituted benzene ring: 4 adjacent CH and 2 adjacent substituted C
 	tTBu             // tert-butyl: 3 CH3 and a quaternary C
+	tPyridyl         // monosubstituted pyridine ring: 4 CH, a ring N and a substituted C
+	tNaphthyl        // monosubstituted naphthalene-type bicyclic: 7 CH, 2 fusion C and a substituted C
+	tGem             // gem-dimethyl: 2 CH3 on one quaternary sp3 C
 )
 
 // part is a group of equivalent hydrogen-bearing atoms of a reading.
@@ -657,6 +660,20 @@ func (a *analysis) peakOptions(i int) []option {
 				penalty += math.Log(0.15)
 			}
 		}
+		if kind == kSP3 && n == 6 && pat.singlet() && p.Hi <= alkylMethylMax && a.f.Count(molecule.Si) == 0 {
+			// gem-dimethyl groups: a 6H singlet of alkyl methyls is two
+			// equivalent CH3 on one quaternary sp3 carbon (the ring
+			// C(CH3)2 of terpenes, 2,2-dimethyl chains); two equivalent
+			// quaternary carbons of a symmetric molecule each with one
+			// CH3 remain the alternative (common practice)
+			id := fmt.Sprintf("gem-dimethyl-%d", p.Number)
+			if a.constraint(id, "gem-dimethyl group", fmt.Sprintf("peak %d (δ %.2f) is a 6H singlet of alkyl methyls: two equivalent CH3 on one quaternary carbon, C(CH3)2", p.Number, p.Shift), []int{i}, 0.8) {
+				pt := a.withShift(a.withCoupling(a.basePart(i, molecule.C, 3, 2, kind), i))
+				pt.tmpl, pt.tmplID = tGem, id
+				add(option{parts: []part{pt}, logp: math.Log(0.8) + penalty, label: "gem-dimethyl"})
+				penalty += math.Log(0.2)
+			}
+		}
 		for k, s := range carbonSplits(n, kind, p.Hi) {
 			pt := a.withShift(a.withCoupling(a.basePart(i, molecule.C, s[0], s[1], kind), i))
 			lp := penalty
@@ -920,6 +937,15 @@ func (a *analysis) feasible(parts []part) bool {
 		case tPara, tOrtho:
 			use[molecule.C] += 2
 			sp2 += 2
+		case tPyridyl:
+			use[molecule.C]++
+			use[molecule.N]++
+			sp2 += 2
+		case tNaphthyl:
+			use[molecule.C] += 3
+			sp2 += 3
+		case tGem:
+			use[molecule.C]++
 		case tTBu:
 			if pt.h == 3 {
 				use[molecule.C] += pt.count / 3

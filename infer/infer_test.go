@@ -1,6 +1,7 @@
 package infer
 
 import (
+	"strings"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
@@ -53,8 +54,36 @@ func TestInferReadsWhatAChemistReads(t *testing.T) {
 			pk(1, 9.17, 0, 1, split([]float64{2.2}, 2)), pk(2, 8.78, 0, 1, split([]float64{4.8, 1.7}, 2, 2)),
 			pk(3, 8.23, 0, 1, split([]float64{8.0, 2.0, 2.0}, 2, 3)), pk(4, 7.42, 0, 1, split([]float64{8.0, 4.8}, 2, 2)),
 			pk(5, 2.65, 0, 3, singlet),
-		}, []string{"peak-2-next-to-ring-n"},
+		}, []string{"peak-2-next-to-ring-n", "monosubstituted-pyridine"},
 			"Pretsch, Bühlmann, Badertscher, Structure Determination of Organic Compounds, from memory"},
+		{"2-acetylpyridine (pyridyl ring)", "C7H7NO", "CC(=O)c1ccccn1", []Peak{
+			pk(1, 8.68, 0, 1, split([]float64{4.7}, 2)), pk(2, 8.04, 0, 1, split([]float64{7.9}, 2)),
+			pk(3, 7.83, 0, 1, split([]float64{7.7, 1.7}, 3, 2)), pk(4, 7.47, 0, 1, split([]float64{7.5, 4.8, 1.2}, 2, 2, 2)),
+			pk(5, 2.73, 0, 3, singlet),
+		}, []string{"monosubstituted-pyridine"},
+			"Pretsch, Bühlmann, Badertscher, Structure Determination of Organic Compounds, from memory"},
+		{"4-acetylpyridine (AA'XX' pyridyl ring)", "C7H7NO", "CC(=O)c1ccncc1", []Peak{
+			pk(1, 8.81, 0, 2, split([]float64{6.0}, 2)), pk(2, 7.72, 0, 2, split([]float64{6.0}, 2)),
+			pk(3, 2.63, 0, 3, singlet),
+		}, []string{"monosubstituted-pyridine"},
+			"Pretsch, Bühlmann, Badertscher, Structure Determination of Organic Compounds, from memory"},
+		{"2-methoxynaphthalene (naphthyl ring system)", "C11H10O", "COc1ccc2ccccc2c1", []Peak{
+			pk(1, 7.72, 7.78, 3, multiplet), pk(2, 7.45, 0, 1, split([]float64{8.2, 6.9, 1.2}, 2, 2, 2)),
+			pk(3, 7.35, 0, 1, split([]float64{8.1, 6.9, 1.2}, 2, 2, 2)), pk(4, 7.12, 7.16, 2, multiplet),
+			pk(5, 3.92, 0, 3, singlet),
+		}, []string{"monosubstituted-naphthalene"},
+			"Pretsch, Bühlmann, Badertscher, Structure Determination of Organic Compounds, from memory"},
+		{"1-methylnaphthalene (naphthyl ring system)", "C11H10", "Cc1cccc2ccccc12", []Peak{
+			pk(1, 8.00, 0, 1, split([]float64{8.2}, 2)), pk(2, 7.85, 0, 1, split([]float64{8.0}, 2)),
+			pk(3, 7.70, 0, 1, split([]float64{8.1}, 2)), pk(4, 7.45, 7.55, 2, multiplet),
+			pk(5, 7.30, 7.40, 2, multiplet), pk(6, 2.70, 0, 3, singlet),
+		}, []string{"monosubstituted-naphthalene"},
+			"Pretsch, Bühlmann, Badertscher, Structure Determination of Organic Compounds, from memory"},
+		{"4-aminoacetophenone (N in the formula, benzene ring: no pyridine)", "C8H9NO", "CC(=O)c1ccc(N)cc1", []Peak{
+			pk(1, 7.80, 0, 2, split([]float64{8.7}, 2)), pk(2, 6.64, 0, 2, split([]float64{8.7}, 2)),
+			pk(3, 4.12, 0, 2, Pattern{Kind: FirstOrder, Broad: true}), pk(4, 2.50, 0, 3, singlet),
+		}, []string{"para-disubstituted-benzene"},
+			"Silverstein, Webster, Kiemle, Spectrometric Identification of Organic Compounds, from memory"},
 		{"diethyl succinate (equivalent CH2–CH2 as a singlet)", "C8H14O4", "CCOC(=O)CCC(=O)OCC", []Peak{
 			pk(1, 4.14, 0, 4, split([]float64{7.1}, 4)), pk(2, 2.61, 0, 4, singlet), pk(3, 1.25, 0, 6, split([]float64{7.1}, 3)),
 		}, []string{"peak-2-coupling"},
@@ -72,6 +101,9 @@ func TestInferReadsWhatAChemistReads(t *testing.T) {
 			}
 			for _, id := range tc.want {
 				assert.True(t, ids[id], "%s: constraint %s not read (source: %s); read: %v", tc.name, id, tc.source, ids)
+			}
+			if g.Formula().Count(molecule.N) > 0 && !strings.Contains(tc.smiles, "n") {
+				assert.False(t, ids["monosubstituted-pyridine"], "%s: a benzene ring read as a pyridine ring", tc.name)
 			}
 			require.NotEmpty(t, an.Readings)
 			ok, why := an.Readings[0].Spec.Explain(g)

@@ -161,7 +161,18 @@ const (
 	ringNJLo        = 4.0
 	ringNJHi        = 5.6
 	ringNConfidence = 0.9
+	// pyridylJHi bounds J(2,3) when four aromatic H are read as a
+	// monosubstituted pyridine ring (4-substituted pyridines 5–6 Hz); the
+	// ring's other H must not be benzene-like, which the count of four
+	// and the far-downfield H already make unlikely.
+	pyridylJHi = 6.2
 )
+
+// naphthylMin, ppm: the ring hydrogens of naphthalenes lie at 7.0–8.9
+// (naphthalene 7.47/7.84, 2-methoxynaphthalene down to 7.1; Pretsch et
+// al., from memory); seven aromatic H all above it, with the DBE of a
+// bicyclic aromatic, read as a monosubstituted naphthalene.
+const naphthylMin = 6.9
 
 // methylMaxSpread, ppm: a peak reported as a range wider than this is
 // read as a methyl only with a low prior. A CH3 gives one signal whose

@@ -425,6 +425,11 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 	canon := func(g *molecule.Graph) string { return molecule.CanonicalSMILES(g) }
 	clone := func(g *molecule.Graph) *molecule.Graph { return g.Clone() }
 	yield := func(w int, g *molecule.Graph) bool {
+		if gctx.Err() != nil {
+			// the time budget (or a cancel) ends the scoring of the
+			// structures already generated too, so the budget holds
+			return false
+		}
 		generated.Add(1)
 		wk := &workers[w]
 		sp, err := pred.Predict(g)
@@ -560,6 +565,27 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 			}
 		}
 		relaxed = append(fallback, relaxed...)
+		// The size of each strict reading's search, estimated before any
+		// runs (the relaxed ones are estimated when they run).
+		estimate := func(k int) {
+			if reps[k].Estimate != nil || gctx.Err() != nil {
+				return
+			}
+			opts := base
+			opts.Spec = &readings[k].Spec
+			est, err := isomers.Estimate(gctx, j.formula, opts, readingEstimateProbes, uint64(k)+1)
+			if err == nil {
+				reps[k].Estimate = &est
+			}
+		}
+		for _, k := range strict {
+			estimate(k)
+			if e := reps[k].Estimate; e != nil {
+				search.EstimatedStructures += int64(math.Round(e.Structures))
+				search.EstimatedNodes += int64(math.Round(e.Nodes))
+			}
+		}
+		totalEstimate.Store(search.EstimatedStructures)
 		// Pass 1: every strict reading gets an equal share of half the
 		// budget, so that small readings are searched completely whatever
 		// the large ones need. Pass 2: the readings cut short start over,
@@ -598,6 +624,9 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 				share := nodesLeft / 2
 				if i == len(relaxed)-1 {
 					share = nodesLeft
+				}
+				if share > 0 && candLeft > 0 {
+					estimate(k)
 				}
 				run(k, share)
 			}
@@ -711,6 +740,14 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 }
 
 var errBudget = errors.New("time budget exhausted")
+
+// readingEstimateProbes is the number of random probes behind each
+// reading's size estimate (see isomers.Estimate): about 0.1–0.3 s for a
+// reading of a C10–C16 formula on one core. The node estimate is good to
+// about ±30 % (nicotine's readings: 0.67M estimated against 0.78M
+// visited, 0.20M against 0.15M); the structure estimate is rougher where
+// complete structures are rare in the tree (no probe may reach one).
+const readingEstimateProbes = 512
 
 // extrapolate estimates how many isomers exist when n were generated from
 // the given fraction (isomers.Stats.Fraction) of the search space; it is n

@@ -5,6 +5,7 @@ import (
 	"strings"
 
 	"shiftrank/infer"
+	"shiftrank/isomers"
 )
 
 // Search scopes and states (SearchReport.Scope, .Status, ReadingReport.State).
@@ -52,6 +53,13 @@ type SearchReport struct {
 	// Nodes is the generator work spent, NodeBudget the budget.
 	Nodes      int64 `json:"nodes"`
 	NodeBudget int64 `json:"node_budget"`
+	// EstimatedStructures and EstimatedNodes are the size of the strict
+	// readings' searches estimated before the run (the sum of their
+	// ReadingReport.Estimate; 0 for a search over all isomers, whose
+	// total is Result.IsomersTotal). An estimate, not a count: see
+	// isomers.SizeEstimate.
+	EstimatedStructures int64 `json:"estimated_structures,omitempty"`
+	EstimatedNodes      int64 `json:"estimated_nodes,omitempty"`
 	// Constraints are every constraint read from the spectrum (also the
 	// ones switched off), Readings the readings in the order searched.
 	Constraints []infer.Constraint `json:"constraints"`
@@ -77,6 +85,10 @@ type ReadingReport struct {
 	// already found by an earlier reading are not counted again).
 	Structures int64 `json:"structures"`
 	Nodes      int64 `json:"nodes"`
+	// Estimate is the size of the reading's search estimated before it
+	// ran (Knuth's method, see isomers.Estimate): structures and nodes,
+	// with its relative standard error; nil for a reading not searched.
+	Estimate *isomers.SizeEstimate `json:"estimate,omitempty"`
 }
 
 // summary writes the first line of a result.

@@ -7,6 +7,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"regexp"
 	"strconv"
@@ -398,14 +399,58 @@ func writeSearch(w io.Writer, s *ranker.SearchReport) {
 		}
 	}
 	if len(s.Readings) > 0 {
-		fmt.Fprintln(w, "readings searched, most plausible first:")
+		if s.EstimatedNodes > 0 {
+			fit := "within the node budget of " + approx(float64(s.NodeBudget))
+			if s.EstimatedNodes > s.NodeBudget {
+				fit = "more than the node budget of " + approx(float64(s.NodeBudget)) + ": expect a stop"
+			}
+			structures := "about " + approx(float64(s.EstimatedStructures)) + " structures"
+			if s.EstimatedStructures == 0 {
+				structures = "too rare for the probes to count"
+			}
+			text := fmt.Sprintf("estimated before the run (Knuth's method, rough): about %s search nodes in the strict readings, %s; structures: %s",
+				approx(float64(s.EstimatedNodes)), fit, structures)
+			for _, l := range wrapText(text, lineWidth, "", "    ") {
+				fmt.Fprintln(w, l)
+			}
+		}
+		fmt.Fprintln(w, "readings searched, most plausible first (structures found; estimated structures/nodes):")
 		for i, r := range s.Readings {
-			fmt.Fprintf(w, "  %2d. %-19s %6d structures  %s\n", i+1, r.State, r.Structures, r.Name)
+			est := "–"
+			if e := r.Estimate; e != nil {
+				est = approx(e.Structures) + "/" + approx(e.Nodes)
+				if e.Structures == 0 && !e.Exact {
+					est = "?/" + approx(e.Nodes)
+				}
+			}
+			fmt.Fprintf(w, "  %2d. %-19s %6d  %-11s %s\n", i+1, r.State, r.Structures, est, r.Name)
 		}
 	}
 	for _, n := range s.Notes {
 		fmt.Fprintf(w, "note: %s\n", n)
 	}
+}
+
+// approx writes an estimate with two significant digits ("~0", "48",
+// "3.1k", "27M").
+func approx(x float64) string {
+	switch {
+	case x < 0.5:
+		return "~0"
+	case x < 100:
+		return fmt.Sprintf("%.0f", x)
+	case x < 1e3:
+		return fmt.Sprintf("%.0f", math.Round(x/10)*10)
+	case x < 1e4:
+		return fmt.Sprintf("%.1fk", x/1e3)
+	case x < 1e6:
+		return fmt.Sprintf("%.0fk", x/1e3)
+	case x < 1e7:
+		return fmt.Sprintf("%.1fM", x/1e6)
+	case x < 1e9:
+		return fmt.Sprintf("%.0fM", x/1e6)
+	}
+	return fmt.Sprintf("%.1fG", x/1e9)
 }
 
 // rankHelp is the help page of rank.

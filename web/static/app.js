@@ -1157,6 +1157,23 @@ function renderScope(search, kept) {
 }
 
 // renderConstraints fills the panel of constraints read from the spectrum
+// approxCount writes a rough count with two significant digits ("3.1k").
+function approxCount(x) {
+  if (!(x > 0)) return "0";
+  if (x < 1000) return String(Math.round(x));
+  const [d, u] = x < 1e6 ? [1e3, "k"] : x < 1e9 ? [1e6, "M"] : [1e9, "G"];
+  const v = x / d;
+  return (v < 10 ? v.toFixed(1) : Math.round(v).toString()) + u;
+}
+
+// estimateText writes a reading's size estimated before the run
+// (structures / search nodes; "?" where no probe reached a structure).
+function estimateText(e) {
+  if (!e) return "—";
+  const s = e.structures === 0 && !e.exact ? "?" : approxCount(e.structures);
+  return `${e.exact ? "" : "~"}${s} / ${approxCount(e.nodes)}`;
+}
+
 // and the readings searched, with the controls to run the unknown again.
 function renderConstraints(search) {
   const panel = $("constraints");
@@ -1167,8 +1184,14 @@ function renderConstraints(search) {
   if (panel.hidden) return;
   panel.open = search.scope === "constrained";
   const on = cons.filter((c) => c.enabled !== false).length;
+  let est = "";
+  if (search.estimated_nodes > 0) {
+    est = `; estimated before the run: ${search.estimated_structures > 0 ? `about ${approxCount(search.estimated_structures)} structures` : "structures too rare for the probes to count"}, ` +
+      `about ${approxCount(search.estimated_nodes)} search nodes ` +
+      (search.estimated_nodes > search.node_budget ? `(more than the budget of ${approxCount(search.node_budget)}: a stop was expected)` : `(budget ${approxCount(search.node_budget)})`);
+  }
   $("constraints-count").textContent = `${cons.length} constraint${cons.length === 1 ? "" : "s"} (${on} on), ` +
-    `${readings.length} reading${readings.length === 1 ? "" : "s"}${search.scope === "all isomers" ? "; this search covered all isomers" : ""}`;
+    `${readings.length} reading${readings.length === 1 ? "" : "s"}${search.scope === "all isomers" ? "; this search covered all isomers" : ""}${est}`;
   const ul = $("constraint-list");
   ul.replaceChildren();
   cons.forEach((c, i) => {
@@ -1205,11 +1228,11 @@ function renderConstraints(search) {
     const tr = document.createElement("tr");
     tr.dataset.state = r.state || "";
     const cells = [r.name || "", typeof r.weight === "number" ? `${(100 * r.weight).toFixed(0)} %` : "—", r.state || "—",
-      typeof r.structures === "number" ? fmt.format(r.structures) : "—", (r.constraints || []).join(", ")];
+      typeof r.structures === "number" ? fmt.format(r.structures) : "—", estimateText(r.estimate), (r.constraints || []).join(", ")];
     cells.forEach((t, k) => {
       const td = document.createElement("td");
       td.textContent = t;
-      if (k === 4) td.className = "ids";
+      if (k === 5) td.className = "ids";
       tr.append(td);
     });
     tb.append(tr);
