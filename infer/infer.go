@@ -106,14 +106,14 @@ const (
 type template uint8
 
 const (
-	tNone   template = iota
-	tPhenyl          // monosubstituted benzene ring: 5 CH and an ipso C
-	tPara            // para-disubstituted benzene ring: 4 CH and 2 ipso C
-	tOrtho           // ortho-disubstituted benzene ring: 4 adjacent CH and 2 adjacent substituted C
-	tTBu             // tert-butyl: 3 CH3 and a quaternary C
-	tPyridyl         // monosubstituted pyridine ring: 4 CH, a ring N and a substituted C
-	tNaphthyl        // monosubstituted naphthalene-type bicyclic: 7 CH, 2 fusion C and a substituted C
-	tGem             // gem-dimethyl: 2 CH3 on one quaternary sp3 C
+	tNone     template = iota
+	tPhenyl            // monosubstituted benzene ring: 5 CH and an ipso C
+	tPara              // para-disubstituted benzene ring: 4 CH and 2 ipso C
+	tOrtho             // ortho-disubstituted benzene ring: 4 adjacent CH and 2 adjacent substituted C
+	tTBu               // tert-butyl: 3 CH3 and a quaternary C
+	tPyridyl           // monosubstituted pyridine ring: 4 CH, a ring N and a substituted C
+	tNaphthyl          // monosubstituted naphthalene-type bicyclic: 7 CH, 2 fusion C and a substituted C
+	tGem               // gem-dimethyl: 2 CH3 on one quaternary sp3 C
 )
 
 // part is a group of equivalent hydrogen-bearing atoms of a reading.
