@@ -137,6 +137,15 @@ func testConstrained(p *page) {
 	if readings != len(api.Search.Readings) {
 		p.t.Errorf("panel lists %d readings, the service searched %d", readings, len(api.Search.Readings))
 	}
+	// The size estimated before the run is shown with the readings.
+	if got := p.text("#constraints-count"); !strings.Contains(got, "estimated before the run") || !strings.Contains(got, "search nodes") {
+		p.t.Errorf("constraint panel summary %q, want the search size estimated before the run", got)
+	}
+	var estCell string
+	p.eval(`document.querySelector("#reading-rows tr td:nth-child(5)").textContent`, &estCell)
+	if !strings.Contains(estCell, "/") {
+		p.t.Errorf("first reading's estimate cell %q, want structures / nodes", estCell)
+	}
 	var open bool
 	p.eval(`document.querySelector("#constraints").open`, &open)
 	if !open {
