@@ -350,6 +350,9 @@ type searcher struct {
 	slotFill  []int
 	slotOf    []int
 	slotSeen  []bool
+	// slotHint[x] is the slot atom x took in the last matching found
+	// (slotHintGroup[x] its group; −1: none), see slotsOK
+	slotHint, slotHintGroup [MaxAtoms]int16
 }
 
 func newSearcher(p *plan) *searcher {
@@ -358,6 +361,9 @@ func newSearcher(p *plan) *searcher {
 	s.slotFill = make([]int, MaxAtoms)
 	s.slotOf = make([]int, MaxAtoms)
 	s.slotSeen = make([]bool, MaxAtoms)
+	for i := range s.slotHint {
+		s.slotHint[i], s.slotHintGroup[i] = -1, -1
+	}
 	s.cz.m = &s.m
 	return s
 }

@@ -713,9 +713,55 @@ func (s *searcher) allRulesOK() bool {
 
 // slotsOK tests, for every class with slots, whether its atoms present
 // can be matched to its slots (each slot taking at most its count) so
-// that every atom can still satisfy its slot's rules: a bipartite
-// matching by augmenting paths (Kuhn's algorithm).
+// that every atom can still satisfy its slot's rules.
+//
+// It first tries the last matching found (slotHint: consecutive partial
+// structures share most of their atoms, and an atom usually keeps its
+// slot), completed first-fit for atoms without a usable hint; that needs
+// one rule test per atom instead of one per atom and slot. Any assignment
+// it accepts is a valid matching, whatever the hint's origin, so only when
+// it fails does the full matching (slotsMatch) decide.
 func (s *searcher) slotsOK() bool {
+	m := &s.m
+	for gi := range s.p.groups {
+		g := &s.p.groups[gi]
+		ns := len(g.slots)
+		if ns == 0 {
+			continue
+		}
+		for k := 0; k < ns; k++ {
+			s.slotFill[k] = 0
+		}
+		for x := 0; x < m.n; x++ {
+			if s.p.colours[m.col[x]].group != gi {
+				continue
+			}
+			if k := s.slotHint[x]; k >= 0 && int(s.slotHintGroup[x]) == gi && int(k) < ns && s.slotFill[k] < g.slotCount[k] &&
+				s.ruleOKWith(x, g.slots[k]) && s.futureOKWith(x, g.slots[k]) {
+				s.slotFill[k]++
+				continue
+			}
+			found := false
+			for k := 0; k < ns; k++ {
+				if s.slotFill[k] < g.slotCount[k] && s.ruleOKWith(x, g.slots[k]) && s.futureOKWith(x, g.slots[k]) {
+					s.slotFill[k]++
+					s.slotHint[x], s.slotHintGroup[x] = int16(k), int16(gi)
+					found = true
+					break
+				}
+			}
+			if !found {
+				return s.slotsMatch()
+			}
+		}
+	}
+	return true
+}
+
+// slotsMatch is slotsOK by a maximum bipartite matching of every slotted
+// class's atoms to its slots, by augmenting paths (Kuhn's algorithm); it
+// records the matching it finds in slotHint.
+func (s *searcher) slotsMatch() bool {
 	m := &s.m
 	for gi := range s.p.groups {
 		g := &s.p.groups[gi]
@@ -753,6 +799,9 @@ func (s *searcher) slotsOK() bool {
 			if !s.augment(ai, g, ns, len(atoms)) {
 				return false
 			}
+		}
+		for ai, x := range atoms {
+			s.slotHint[x], s.slotHintGroup[x] = int16(s.slotOf[ai]), int16(gi)
 		}
 	}
 	return true
