@@ -73,6 +73,8 @@ func (a *analysis) leftover(parts []part) [molecule.NumElements]int {
 			left[molecule.C] -= 3
 		case tGem:
 			left[molecule.C]--
+		case tDisub:
+			left[molecule.C] -= 2
 		case tTBu:
 			left[molecule.C] -= pt.count / 3
 		}
@@ -265,6 +267,16 @@ func (a *analysis) build(parts []part, v variant, relaxed bool) (*isomers.Spec, 
 			c := &s.Classes[ci]
 			c.MaxDegree = 2
 			c.Neighbours = append(c.Neighbours, isomers.NeighbourRule{Classes: []int{ci, fu, ipso}, Min: 2, Max: 2})
+		case tDisub:
+			// Six ring atoms each bonded to two others of the ring: four
+			// CH and two substituted C (ortho, meta or para: the
+			// pattern did not tell).
+			ipso := len(s.Classes)
+			s.Classes = append(s.Classes, isomers.Class{Name: "substituted C of the C6H4 ring", Element: molecule.C, H: 0, Count: 2, Bonds: isomers.OneDouble,
+				Neighbours: []isomers.NeighbourRule{{Classes: []int{ci, ipso}, Min: 2, Max: 2}}})
+			c := &s.Classes[ci]
+			c.MaxDegree = 2
+			c.Neighbours = append(c.Neighbours, isomers.NeighbourRule{Classes: []int{ci, ipso}, Min: 2, Max: 2})
 		case tGem:
 			q := len(s.Classes)
 			s.Classes = append(s.Classes, isomers.Class{Name: "quaternary C of the gem-dimethyl group", Element: molecule.C, H: 0, Count: 1, Bonds: isomers.SingleBonds,
@@ -306,6 +318,8 @@ func (a *analysis) build(parts []part, v variant, relaxed bool) (*isomers.Spec, 
 				left[molecule.C] += 3
 			case tGem:
 				left[molecule.C]++
+			case tDisub:
+				left[molecule.C] += 2
 			case tTBu:
 				left[molecule.C] += pt.count / 3
 			}
@@ -426,6 +440,8 @@ func (a *analysis) describe(parts []part, v variant, relaxed bool) string {
 			add("C10H7 ring system", 1)
 		case tGem:
 			add("C(CH3)2", 1)
+		case tDisub:
+			add("C6H4 ring", 1)
 		case tTBu:
 			add("tert-butyl", pt.count/3)
 		}

@@ -241,7 +241,7 @@ func (a *analysis) ringUnits(used []bool) []unit {
 			var parts []part
 			per := 5
 			switch t {
-			case tPara, tOrtho, tPyridyl:
+			case tPara, tOrtho, tPyridyl, tDisub:
 				per = 4
 			case tNaphthyl:
 				per = 7
@@ -292,6 +292,9 @@ func (a *analysis) ringUnits(used []bool) []unit {
 		}
 		return ring(total/4, tOrtho, "ortho-disubstituted-benzene",
 			fmt.Sprintf("%d aromatic hydrogens (peaks %s, δ %s) with two ortho partners on half of them and one on the others: %s", total, nums, rangeText(lo, hi), what), 0.75)
+	case total == 4 && a.f.Count(molecule.C) >= 6 && a.f.DBE() >= 4 && lo >= benzeneMin && hi <= benzeneMax:
+		return ring(1, tDisub, "disubstituted-benzene",
+			fmt.Sprintf("4 aromatic hydrogens (peaks %s, δ %s) in the benzene range: a disubstituted benzene ring –C6H4– (ortho, meta or para; the pattern does not tell)", nums, rangeText(lo, hi)), 0.6)
 	}
 	return nil
 }

@@ -114,6 +114,7 @@ const (
 	tPyridyl           // monosubstituted pyridine ring: 4 CH, a ring N and a substituted C
 	tNaphthyl          // monosubstituted naphthalene-type bicyclic: 7 CH, 2 fusion C and a substituted C
 	tGem               // gem-dimethyl: 2 CH3 on one quaternary sp3 C
+	tDisub             // disubstituted benzene ring of unread pattern: 4 CH and 2 substituted C in one ring
 )
 
 // part is a group of equivalent hydrogen-bearing atoms of a reading.
@@ -946,6 +947,9 @@ func (a *analysis) feasible(parts []part) bool {
 			sp2 += 3
 		case tGem:
 			use[molecule.C]++
+		case tDisub:
+			use[molecule.C] += 2
+			sp2 += 2
 		case tTBu:
 			if pt.h == 3 {
 				use[molecule.C] += pt.count / 3

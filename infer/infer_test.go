@@ -79,6 +79,11 @@ func TestInferReadsWhatAChemistReads(t *testing.T) {
 			pk(5, 7.30, 7.40, 2, multiplet), pk(6, 2.70, 0, 3, singlet),
 		}, []string{"monosubstituted-naphthalene"},
 			"Pretsch, Bühlmann, Badertscher, Structure Determination of Organic Compounds, from memory"},
+		{"3-methylanisole (4 aromatic H, pattern not resolved)", "C8H10O", "COc1cccc(C)c1", []Peak{
+			pk(1, 7.14, 7.20, 1, multiplet), pk(2, 6.68, 6.78, 3, multiplet),
+			pk(3, 3.79, 0, 3, singlet), pk(4, 2.33, 0, 3, singlet),
+		}, []string{"disubstituted-benzene"},
+			"Pretsch, Bühlmann, Badertscher, Structure Determination of Organic Compounds, from memory"},
 		{"4-aminoacetophenone (N in the formula, benzene ring: no pyridine)", "C8H9NO", "CC(=O)c1ccc(N)cc1", []Peak{
 			pk(1, 7.80, 0, 2, split([]float64{8.7}, 2)), pk(2, 6.64, 0, 2, split([]float64{8.7}, 2)),
 			pk(3, 4.12, 0, 2, Pattern{Kind: FirstOrder, Broad: true}), pk(4, 2.50, 0, 3, singlet),

@@ -174,6 +174,13 @@ const (
 // bicyclic aromatic, read as a monosubstituted naphthalene.
 const naphthylMin = 6.9
 
+// benzeneMin–benzeneMax, ppm: the ring hydrogens of substituted benzenes
+// (an amino or two alkoxy groups ortho/para bring them down to 6.2–6.5,
+// nitro and carbonyl groups up to 8.2–8.4; Pretsch et al., from memory):
+// four aromatic H inside it, with no other pattern read, are read as a
+// disubstituted benzene ring.
+const benzeneMin, benzeneMax = 6.4, 8.4
+
 // methylMaxSpread, ppm: a peak reported as a range wider than this is
 // read as a methyl only with a low prior. A CH3 gives one signal whose
 // lines span at most J-sized couplings (under 0.05 ppm at 400 MHz), so a
