@@ -422,6 +422,11 @@ const (
 	// unresolved, but at 400 MHz and above it is often reported too.
 	pLongRange       = 0.15
 	pBroadSingletSeq = 0.15 // non-exchangeable singlet reported as br s
+	// A coupled C–H reported as a broad singlet: exchange or slow
+	// rotation (the N–CH2 of amide rotamers, CH next to a quadrupolar
+	// nucleus) can broaden a multiplet into a featureless hump (common
+	// practice); less likely than a predicted singlet reported broad.
+	pBroadHidesSplitting = 0.08
 )
 
 // multiplicityLogP returns log P(observed pattern | predicted pattern).
@@ -454,7 +459,7 @@ func multiplicityJudge(obs, pred spectrum.Multiplicity, exchangeable bool, slow,
 		if no, np := obs.Partners(), pred.Partners(); no > np && no <= np+slow+longRange {
 			p, why := pSlowExchange, "compatible: also coupled to the N–H/O–H next to it (slow exchange)"
 			if no <= np+longRange {
-				p, why = pLongRange, "compatible: a small long-range coupling (allylic ⁴J) resolved"
+				p, why = pLongRange, "compatible: a small long-range coupling (⁴J, allylic or in a ring) resolved"
 			}
 			if obs.Broad() {
 				p *= pBroadFactor
@@ -479,8 +484,11 @@ func multiplicityJudge(obs, pred spectrum.Multiplicity, exchangeable bool, slow,
 	}
 	broad := 1.0
 	if obs.Broad() {
-		if obs.NumFactors() == 0 && pred.NumFactors() == 0 {
+		switch {
+		case obs.NumFactors() == 0 && pred.NumFactors() == 0:
 			return pBroadSingletSeq, "compatible: broadened singlet"
+		case obs.NumFactors() == 0:
+			return pBroadHidesSplitting, "compatible: the line broadening (rotamers, exchange) hides the splitting"
 		}
 		broad = pBroadFactor
 	}
