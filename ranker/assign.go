@@ -76,9 +76,10 @@ type assignment struct {
 	bound float64
 }
 
-// maxNodes caps the search of one assignment (about 50 ms). Real spectra
-// of small molecules need a few hundred nodes on average and rarely more
-// than 10^5; a capped search is reported, never hidden.
+// maxNodes caps the search of one assignment (well under a second). Real
+// spectra of small molecules need a few hundred nodes on average and
+// rarely more than 10^5 (strychnine's 21 peaks about 45,000); a capped
+// search is reported with its lower bound, never hidden.
 const maxNodes = 1 << 20
 
 // evaluate returns the total cost of an assignment (for tests and for the
@@ -143,6 +144,8 @@ type solver struct {
 	// depends only on that state, so reaching it again at no lower cost
 	// cannot lead to a better assignment.
 	seen     stateMemo
+	wide     wideMemo // the same for states that do not pack into 64 bits
+	state    []uint16
 	packable bool
 	bits     uint
 	// full makes solve skip its shortcuts (the quick search, a proof by
@@ -272,9 +275,20 @@ func (s *solver) solve(p *assignProblem) assignment {
 			s.improve()
 			clear(s.load)
 			s.best = p.evaluateWith(s.bestP1, s.bestP2, s.load)
-			if s.tuneMu() < s.best-1e-9 || s.full {
+			if s.tuneMu(muRounds, false) < s.best-1e-9 || s.full {
 				s.useMu = true
-				s.runSearch()
+				s.limit = maxNodes / 8
+				if !s.runSearch() {
+					// A hard problem: tune the prices longer, from
+					// where they are and towards the better incumbent
+					// the search found, and search to the cap.
+					s.limit = maxNodes
+					if s.tuneMu(4*muRounds, true) < s.best-1e-9 || s.full {
+						s.runSearch()
+					} else {
+						s.nodes = 0 // the bound meets the incumbent
+					}
+				}
 			}
 		}
 	}
@@ -369,6 +383,12 @@ func (s *solver) runSearch() bool {
 	s.fillPhi()
 	clear(s.load)
 	s.seen.reset()
+	if !s.packable {
+		s.wide.reset(m + 1)
+		if cap(s.state) < m+1 {
+			s.state = make([]uint16, m+1)
+		}
+	}
 	pb := 0.0
 	for j := 0; j < m; j++ {
 		pb += s.phi[j*w]
@@ -503,7 +523,8 @@ func (s *solver) tunePrices() bool {
 }
 
 // muRounds is the number of subgradient steps that tune the
-// environments' prices.
+// environments' prices (four times as many again when the first search
+// with them runs out of nodes).
 const muRounds = 60
 
 // tuneMu computes the second bound, a Lagrangian relaxation of the other
@@ -518,10 +539,11 @@ const muRounds = 60
 //
 //	Σ_i [mu_i + min(0, unobs_i − mu_i)] + Σ_j knapsack_j(mu),
 //
-// valid for every mu; subgradient ascent tunes mu. tuneMu leaves the best
-// mu in s.mu, tabulates the per-depth knapsacks for the search (kTab,
-// muRest) and returns the bound.
-func (s *solver) tuneMu() float64 {
+// valid for every mu; subgradient ascent tunes mu for the given number of
+// rounds, starting from s.mu when warm. tuneMu leaves the best mu in s.mu,
+// tabulates the per-depth knapsacks for the search (kTab, muRest) and
+// returns the best bound met (also kept in s.muLB).
+func (s *solver) tuneMu(rounds int, warm bool) float64 {
 	p := s.p
 	n, m := p.nEnv, p.nPeak
 	w := p.maxLoad + 1
@@ -537,6 +559,9 @@ func (s *solver) tuneMu() float64 {
 	// Start from each environment's cheapest option: every environment
 	// is then indifferent to being placed.
 	for d, i := range s.order {
+		if warm {
+			break
+		}
 		mn := math.Inf(1)
 		for _, o := range s.opts[d] {
 			mn = math.Min(mn, o.cost)
@@ -544,8 +569,12 @@ func (s *solver) tuneMu() float64 {
 		s.mu[i] = mn
 	}
 	best := math.Inf(-1)
+	if warm {
+		best = s.muLB
+		copy(s.bestMu, s.mu)
+	}
 	theta, stall, prev := 1.0, 0, math.Inf(-1)
-	for round := 0; round < muRounds; round++ {
+	for round := 0; round < rounds; round++ {
 		lb := 0.0
 		for i := 0; i < n; i++ {
 			lb += s.mu[i]
@@ -756,6 +785,18 @@ func (s *solver) search(d int, cur, pb float64) {
 		if !s.seen.improve(k, cur) {
 			return
 		}
+	} else if d > 0 {
+		st := s.state[:p.nPeak+1]
+		st[0] = uint16(d)
+		h := uint64(d) * 0x9E3779B97F4A7C15
+		for j := 0; j < p.nPeak; j++ {
+			st[j+1] = uint16(s.load[j])
+			h = (h ^ uint64(s.load[j])) * 0x100000001B3
+			h ^= h >> 29
+		}
+		if !s.wide.improve(h, st, cur) {
+			return
+		}
 	}
 	i := s.order[d]
 	h := p.envH[i]
@@ -890,6 +931,87 @@ func (t *stateMemo) grow() {
 	for i := range keys {
 		if gens[i] == gen {
 			t.improve(keys[i], vals[i])
+		}
+	}
+}
+
+// wideMemo is stateMemo for states (depth and loads) that do not pack
+// into 64 bits: it keys them by a hash but keeps each state to compare
+// with, so a hash collision can never cut a branch. It holds at most
+// wideMemoMax states (about 10 MB for 30 peaks); states met after it is
+// full are searched without the check.
+type wideMemo struct {
+	stride int
+	hashes []uint64
+	states []uint16 // stride per slot
+	vals   []float64
+	gens   []uint32
+	gen    uint32
+	n      int
+}
+
+// wideMemoMax caps the number of states a wideMemo holds.
+const wideMemoMax = 1 << 17
+
+func (t *wideMemo) reset(stride int) {
+	t.gen++
+	t.n = 0
+	if t.gen == 0 || stride != t.stride || len(t.hashes) == 0 {
+		t.stride = stride
+		t.alloc(1024)
+	}
+}
+
+func (t *wideMemo) alloc(size int) {
+	t.hashes = make([]uint64, size)
+	t.states = make([]uint16, size*t.stride)
+	t.vals = make([]float64, size)
+	t.gens = make([]uint32, size)
+	t.gen = 1
+	t.n = 0
+}
+
+// improve records cost for state st (of hash h) and reports true if it
+// was new, reached before only at a higher cost, or the memo is full.
+func (t *wideMemo) improve(h uint64, st []uint16, cost float64) bool {
+	if 2*(t.n+1) > len(t.hashes) {
+		if t.n >= wideMemoMax {
+			return t.lookup(h, st, cost, false)
+		}
+		t.grow()
+	}
+	return t.lookup(h, st, cost, true)
+}
+
+func (t *wideMemo) lookup(h uint64, st []uint16, cost float64, insert bool) bool {
+	mask := uint64(len(t.hashes) - 1)
+	i := (h * 0x9E3779B97F4A7C15) >> 20 & mask
+	for {
+		switch {
+		case t.gens[i] != t.gen:
+			if insert {
+				t.hashes[i], t.vals[i], t.gens[i] = h, cost, t.gen
+				copy(t.states[int(i)*t.stride:], st)
+				t.n++
+			}
+			return true
+		case t.hashes[i] == h && slices.Equal(t.states[int(i)*t.stride:int(i+1)*t.stride], st):
+			if t.vals[i] <= cost {
+				return false
+			}
+			t.vals[i] = cost
+			return true
+		}
+		i = (i + 1) & mask
+	}
+}
+
+func (t *wideMemo) grow() {
+	hashes, states, vals, gens, gen := t.hashes, t.states, t.vals, t.gens, t.gen
+	t.alloc(2 * len(hashes))
+	for i := range hashes {
+		if gens[i] == gen {
+			t.lookup(hashes[i], states[i*t.stride:(i+1)*t.stride], vals[i], true)
 		}
 	}
 }

@@ -124,6 +124,48 @@ func TestSolveMatchesBruteForce(t *testing.T) {
 	}
 }
 
+// TestSolveWideStates: with many peaks and heavy environments (a 6H
+// doublet, two 3H methyls...) the search states no longer pack into 64
+// bits and the hashed memo that keeps each state is used; the result must
+// still match brute force.
+func TestSolveWideStates(t *testing.T) {
+	r := rand.New(rand.NewPCG(5, 6))
+	for trial := 0; trial < 8; trial++ {
+		p := randomProblem(r, 5, 13)
+		// Heavier environments: rebuild with 3–6 H each.
+		h := []int{3 + r.IntN(4), 3 + r.IntN(4), 3 + r.IntN(4), 3 + r.IntN(4), 3 + r.IntN(4)}
+		q := &assignProblem{}
+		total := 0
+		for _, x := range h {
+			total += x
+		}
+		q.reset(p.nEnv, p.nPeak, total)
+		copy(q.envH, h)
+		for i := range h {
+			q.split[i] = p.split[i] && h[i]%2 == 0
+		}
+		copy(q.whole, p.whole)
+		copy(q.half, p.half)
+		copy(q.unobs, p.unobs)
+		copy(q.splitOK, p.splitOK)
+		w := total + 1
+		for j := 0; j < q.nPeak; j++ {
+			implied := float64(1 + r.IntN(6))
+			q.peak[j*w] = 3 + 2*implied
+			for l := 1; l <= total; l++ {
+				d := float64(l) - implied
+				q.peak[j*w+l] = d * d / 0.3
+			}
+		}
+		for _, full := range []bool{false, true} {
+			s := solver{full: full}
+			got := s.solve(q)
+			require.False(t, s.packable, "trial %d: the states should not pack (else this test shows nothing)", trial)
+			require.InDelta(t, bruteForce(q), got.cost, 1e-9, "trial %d full=%v: branch and bound vs brute force", trial, full)
+		}
+	}
+}
+
 // TestMuBoundSeesWholeHydrogens: two 2 H environments that fit two 1 H
 // peaks each, and must split over them. The peak-priced relaxation may
 // place half of a whole CH2 on each peak at the cost of one; the
