@@ -78,7 +78,7 @@ type assignment struct {
 
 // maxNodes caps the search of one assignment (well under a second). Real
 // spectra of small molecules need a few hundred nodes on average and
-// rarely more than 10^5 (strychnine's 21 peaks about 45,000); a capped
+// rarely more than 10^5 (strychnine's 21 peaks about 17,000); a capped
 // search is reported with its lower bound, never hidden.
 const maxNodes = 1 << 20
 
