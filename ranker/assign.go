@@ -938,8 +938,9 @@ func (t *stateMemo) grow() {
 // wideMemo is stateMemo for states (depth and loads) that do not pack
 // into 64 bits: it keys them by a hash but keeps each state to compare
 // with, so a hash collision can never cut a branch. It holds at most
-// wideMemoMax states (about 10 MB for 30 peaks); states met after it is
-// full are searched without the check.
+// wideMemoMax states in 2·wideMemoMax slots of 20 + 2·(peaks+1) bytes
+// (about 11 MB for 30 peaks, kept by the worker for the next candidate);
+// states met after it is full are searched without the check.
 type wideMemo struct {
 	stride int
 	hashes []uint64
@@ -951,7 +952,7 @@ type wideMemo struct {
 }
 
 // wideMemoMax caps the number of states a wideMemo holds.
-const wideMemoMax = 1 << 17
+const wideMemoMax = 1 << 16
 
 func (t *wideMemo) reset(stride int) {
 	t.gen++

@@ -130,7 +130,7 @@ func TestSolveMatchesBruteForce(t *testing.T) {
 // still match brute force.
 func TestSolveWideStates(t *testing.T) {
 	r := rand.New(rand.NewPCG(5, 6))
-	for trial := 0; trial < 8; trial++ {
+	for trial := 0; trial < 5; trial++ {
 		p := randomProblem(r, 5, 13)
 		// Heavier environments: rebuild with 3–6 H each.
 		h := []int{3 + r.IntN(4), 3 + r.IntN(4), 3 + r.IntN(4), 3 + r.IntN(4), 3 + r.IntN(4)}
