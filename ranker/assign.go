@@ -26,7 +26,9 @@ import (
 //
 // The per-peak part is what makes this more than a linear assignment: the
 // integration cost of a peak is a function of the sum of the environments on
-// it. solve finds the exact optimum by depth-first branch and bound.
+// it. solve finds the exact optimum by depth-first branch and bound with two
+// Lagrangian bounds (one pricing the peaks' hydrogens, one the
+// environments' choices).
 type assignProblem struct {
 	nEnv, nPeak int
 	envH        []int
@@ -68,11 +70,16 @@ type assignment struct {
 	// proven is false when the search hit maxNodes: the assignment is
 	// the best found, not proven optimal.
 	proven bool
+	// bound is a proven lower bound of the optimal cost: equal to cost
+	// when proven, otherwise the best root bound, so cost − bound bounds
+	// how far from optimal an unproven assignment can be.
+	bound float64
 }
 
-// maxNodes caps the search of one assignment (about 50 ms). Real spectra
-// of small molecules need a few hundred nodes on average and rarely more
-// than 10^5; a capped search is reported, never hidden.
+// maxNodes caps the search of one assignment (well under a second). Real
+// spectra of small molecules need a few hundred nodes on average and
+// rarely more than 10^5 (strychnine's 21 peaks about 17,000); a capped
+// search is reported with its lower bound, never hidden.
 const maxNodes = 1 << 20
 
 // evaluate returns the total cost of an assignment (for tests and for the
@@ -137,8 +144,30 @@ type solver struct {
 	// depends only on that state, so reaching it again at no lower cost
 	// cannot lead to a better assignment.
 	seen     stateMemo
+	wide     wideMemo // the same for states that do not pack into 64 bits
+	state    []uint16
 	packable bool
 	bits     uint
+	// full makes solve skip its shortcuts (the quick search, a proof by
+	// either bound alone) and always search with both bounds, so that
+	// tests reach every stage on small problems.
+	full bool
+
+	// The second bound (see tuneMu) prices the environments instead of
+	// the peaks: mu[i] for environment i, muRest[d] the environments'
+	// part of the bound over order[d:], and kTab[(d*nPeak+j)*(maxLoad+1)+ℓ]
+	// the least cost of peak j, holding ℓ hydrogens already, over the
+	// choices of order[d:] at those prices.
+	mu     []float64
+	muRest []float64
+	kTab   []float64
+	useMu  bool
+	muLB   float64
+	dpVal  []float64
+	dpNext []float64
+	dpPick []int8
+	cover  []float64
+	bestMu []float64
 }
 
 // lagrangeRounds is the number of subgradient steps that tune the prices.
@@ -160,6 +189,17 @@ const lagrangeRounds = 30
 // cuts every branch whose bound cannot beat the best assignment found,
 // and every state (depth, loads) already reached at no higher cost, so the
 // result is the exact optimum.
+//
+// These prices alone bound poorly when environments of 2 or more H meet
+// peaks of 1 H (a relaxed CH2 can sit half on each of two peaks at the
+// price of a whole one); on spectra of 15–20 or more peaks the search then
+// ran out of nodes and returned assignments 10 nats or more from the
+// optimum. When the prices do not prove the incumbent optimal, a second
+// Lagrangian bound prices the environments instead (tuneMu): it leaves
+// one exact knapsack per peak over whole hydrogens, is also O(m) per
+// node from precomputed tables, and is usually tight on such spectra. A
+// search that still runs out of maxNodes nodes returns a local optimum
+// with proven = false and a lower bound of the optimal cost.
 func (s *solver) solve(p *assignProblem) assignment {
 	s.p = p
 	n, m := p.nEnv, p.nPeak
@@ -223,11 +263,33 @@ func (s *solver) solve(p *assignProblem) assignment {
 	clear(s.load)
 	s.best = p.evaluateWith(s.bestP1, s.bestP2, s.load)
 	s.limit = quickNodes
-	if !s.runSearch() {
+	s.useMu = false
+	s.rootLB, s.muLB = math.Inf(-1), math.Inf(-1)
+	if s.full || !s.runSearch() {
 		s.limit = maxNodes
 		s.nodes = 0
-		if !s.tunePrices() {
-			s.runSearch()
+		if !s.tunePrices() || s.full {
+			// The peaks' prices did not close the gap: polish the
+			// incumbent and add the environment-priced bound, which
+			// sees that a peak holds whole hydrogens.
+			s.improve()
+			clear(s.load)
+			s.best = p.evaluateWith(s.bestP1, s.bestP2, s.load)
+			if s.tuneMu(muRounds, false) < s.best-1e-9 || s.full {
+				s.useMu = true
+				s.limit = maxNodes / 8
+				if !s.runSearch() {
+					// A hard problem: tune the prices longer, from
+					// where they are and towards the better incumbent
+					// the search found, and search to the cap.
+					s.limit = maxNodes
+					if s.tuneMu(4*muRounds, true) < s.best-1e-9 || s.full {
+						s.runSearch()
+					} else {
+						s.nodes = 0 // the bound meets the incumbent
+					}
+				}
+			}
 		}
 	}
 	proven := s.nodes < s.limit
@@ -237,7 +299,11 @@ func (s *solver) solve(p *assignProblem) assignment {
 	clear(s.load)
 	cost := p.evaluateWith(s.bestP1, s.bestP2, s.load)
 	clear(s.load)
-	return assignment{first: s.bestP1, second: s.bestP2, cost: cost, proven: proven}
+	bound := cost
+	if !proven {
+		bound = math.Min(math.Max(s.rootLB, s.muLB), cost)
+	}
+	return assignment{first: s.bestP1, second: s.bestP2, cost: cost, bound: bound, proven: proven}
 }
 
 // improveRounds bounds the local search of an unproven assignment.
@@ -317,6 +383,12 @@ func (s *solver) runSearch() bool {
 	s.fillPhi()
 	clear(s.load)
 	s.seen.reset()
+	if !s.packable {
+		s.wide.reset(m + 1)
+		if cap(s.state) < m+1 {
+			s.state = make([]uint16, m+1)
+		}
+	}
 	pb := 0.0
 	for j := 0; j < m; j++ {
 		pb += s.phi[j*w]
@@ -450,6 +522,205 @@ func (s *solver) tunePrices() bool {
 	return false
 }
 
+// muRounds is the number of subgradient steps that tune the
+// environments' prices (four times as many again when the first search
+// with them runs out of nodes).
+const muRounds = 60
+
+// tuneMu computes the second bound, a Lagrangian relaxation of the other
+// constraint: each environment takes exactly one option. Pricing it with
+// mu[i] per environment leaves one independent problem per peak: choose
+// which environments (whole, or one half of a split one) it holds, at
+// cost f_j(load) plus each choice's cost minus its share of mu (a half
+// pays mu/2) — a small knapsack solved exactly over loads. Because a
+// peak's load is a whole number of hydrogens there, this bound sees what
+// the peak-priced one cannot: a 2 H environment cannot be half on one 1 H
+// peak and half on another at the whole environment's cost. The bound is
+//
+//	Σ_i [mu_i + min(0, unobs_i − mu_i)] + Σ_j knapsack_j(mu),
+//
+// valid for every mu; subgradient ascent tunes mu for the given number of
+// rounds, starting from s.mu when warm. tuneMu leaves the best mu in s.mu,
+// tabulates the per-depth knapsacks for the search (kTab, muRest) and
+// returns the best bound met (also kept in s.muLB).
+func (s *solver) tuneMu(rounds int, warm bool) float64 {
+	p := s.p
+	n, m := p.nEnv, p.nPeak
+	w := p.maxLoad + 1
+	s.mu = growF(s.mu, n)
+	s.bestMu = growF(s.bestMu, n)
+	s.cover = growF(s.cover, n)
+	s.dpVal = growF(s.dpVal, w)
+	s.dpNext = growF(s.dpNext, w)
+	if cap(s.dpPick) < n*w {
+		s.dpPick = make([]int8, n*w)
+	}
+	s.dpPick = s.dpPick[:n*w]
+	// Start from each environment's cheapest option: every environment
+	// is then indifferent to being placed.
+	for d, i := range s.order {
+		if warm {
+			break
+		}
+		mn := math.Inf(1)
+		for _, o := range s.opts[d] {
+			mn = math.Min(mn, o.cost)
+		}
+		s.mu[i] = mn
+	}
+	best := math.Inf(-1)
+	if warm {
+		best = s.muLB
+		copy(s.bestMu, s.mu)
+	}
+	theta, stall, prev := 1.0, 0, math.Inf(-1)
+	for round := 0; round < rounds; round++ {
+		lb := 0.0
+		for i := 0; i < n; i++ {
+			lb += s.mu[i]
+			s.cover[i] = 0
+			if r := p.unobs[i] - s.mu[i]; r < 0 {
+				lb += r
+				s.cover[i] = 1
+			}
+		}
+		for j := 0; j < m; j++ {
+			lb += s.peakKnapsack(j)
+		}
+		if lb > best {
+			best = lb
+			copy(s.bestMu, s.mu)
+		}
+		if best >= s.best-1e-9 {
+			break
+		}
+		norm := 0.0
+		for i := 0; i < n; i++ {
+			g := 1 - s.cover[i]
+			norm += g * g
+		}
+		if norm == 0 {
+			break
+		}
+		if lb > prev+1e-9 {
+			stall = 0
+		} else if stall++; stall >= 3 {
+			theta /= 2
+			stall = 0
+		}
+		prev = math.Max(prev, lb)
+		t := theta * (s.best - lb) / norm
+		for i := 0; i < n; i++ {
+			s.mu[i] += t * (1 - s.cover[i])
+		}
+	}
+	copy(s.mu, s.bestMu)
+	s.fillK()
+	s.muLB = best
+	return best
+}
+
+// peakKnapsack solves peak j's problem at prices s.mu: the least cost
+// f_j(ℓ) + Σ (option cost − price share) over the environments it holds.
+// It adds each chosen environment's share (1 whole, 1/2 for a half) to
+// s.cover and returns the cost.
+func (s *solver) peakKnapsack(j int) float64 {
+	p := s.p
+	n, m := p.nEnv, p.nPeak
+	w := p.maxLoad + 1
+	inf := math.Inf(1)
+	v := s.dpVal
+	for l := range v {
+		v[l] = inf
+	}
+	v[0] = 0
+	top := 0 // the largest load reached so far
+	for i := 0; i < n; i++ {
+		h := p.envH[i]
+		nx := s.dpNext
+		copy(nx, v)
+		pick := s.dpPick[i*w : (i+1)*w]
+		clear(pick)
+		rw := p.whole[i*m+j] - s.mu[i]
+		split := p.split[i] && h%2 == 0
+		rh := p.half[i*m+j] - s.mu[i]/2
+		for l := 0; l <= top; l++ {
+			if math.IsInf(v[l], 1) {
+				continue
+			}
+			if c := v[l] + rw; l+h < w && c < nx[l+h] {
+				nx[l+h], pick[l+h] = c, 1
+			}
+			if split {
+				if c := v[l] + rh; c < nx[l+h/2] {
+					nx[l+h/2], pick[l+h/2] = c, 2
+				}
+			}
+		}
+		top = min(top+h, w-1)
+		s.dpVal, s.dpNext = nx, v
+		v = nx
+	}
+	bl, bv := 0, inf
+	for l := 0; l < w; l++ {
+		if c := v[l] + p.peakCost(j, l); c < bv {
+			bl, bv = l, c
+		}
+	}
+	for i := n - 1; i >= 0 && bl > 0; i-- {
+		switch s.dpPick[i*w+bl] {
+		case 1:
+			s.cover[i]++
+			bl -= p.envH[i]
+		case 2:
+			s.cover[i] += 0.5
+			bl -= p.envH[i] / 2
+		}
+	}
+	return bv
+}
+
+// fillK tabulates the environment-priced bound for the search:
+// kTab[d][j][ℓ] is the least cost of peak j holding ℓ hydrogens, over the
+// choices of the environments order[d:] at prices s.mu, and muRest[d]
+// their own part.
+func (s *solver) fillK() {
+	p := s.p
+	n, m := p.nEnv, p.nPeak
+	w := p.maxLoad + 1
+	s.kTab = growF(s.kTab, (n+1)*m*w)
+	s.muRest = growF(s.muRest, n+1)
+	last := s.kTab[n*m*w : (n+1)*m*w]
+	for j := 0; j < m; j++ {
+		for l := 0; l < w; l++ {
+			last[j*w+l] = p.peakCost(j, l)
+		}
+	}
+	s.muRest[n] = 0
+	for d := n - 1; d >= 0; d-- {
+		i := s.order[d]
+		h := p.envH[i]
+		s.muRest[d] = s.muRest[d+1] + s.mu[i] + math.Min(0, p.unobs[i]-s.mu[i])
+		next := s.kTab[(d+1)*m*w : (d+2)*m*w]
+		cur := s.kTab[d*m*w : (d+1)*m*w]
+		split := p.split[i] && h%2 == 0
+		for j := 0; j < m; j++ {
+			rw := p.whole[i*m+j] - s.mu[i]
+			rh := p.half[i*m+j] - s.mu[i]/2
+			for l := 0; l < w; l++ {
+				c := next[j*w+l]
+				if l+h < w {
+					c = math.Min(c, next[j*w+l+h]+rw)
+				}
+				if split && l+h/2 < w {
+					c = math.Min(c, next[j*w+l+h/2]+rh)
+				}
+				cur[j*w+l] = c
+			}
+		}
+	}
+}
+
 func abs(x int) int {
 	if x < 0 {
 		return -x
@@ -514,12 +785,34 @@ func (s *solver) search(d int, cur, pb float64) {
 		if !s.seen.improve(k, cur) {
 			return
 		}
+	} else if d > 0 {
+		st := s.state[:p.nPeak+1]
+		st[0] = uint16(d)
+		h := uint64(d) * 0x9E3779B97F4A7C15
+		for j := 0; j < p.nPeak; j++ {
+			st[j+1] = uint16(s.load[j])
+			h = (h ^ uint64(s.load[j])) * 0x100000001B3
+			h ^= h >> 29
+		}
+		if !s.wide.improve(h, st, cur) {
+			return
+		}
 	}
 	i := s.order[d]
 	h := p.envH[i]
 	w := p.maxLoad + 1
 	rest := s.restG[d+1]
 	const eps = 1e-12
+	var kBase float64
+	var kRow []float64
+	if s.useMu {
+		m := p.nPeak
+		kRow = s.kTab[(d+1)*m*w : (d+2)*m*w]
+		kBase = cur + s.muRest[d+1]
+		for j := 0; j < m; j++ {
+			kBase += kRow[j*w+s.load[j]]
+		}
+	}
 	for _, o := range s.opts[d] {
 		// The per-peak part can fall by at most λ·h when the option's
 		// hydrogens join a peak (phi(ℓ) ≤ phi(ℓ+h) + λh), so cur + rc +
@@ -542,6 +835,22 @@ func (s *solver) search(d int, cur, pb float64) {
 		c := cur + o.cost
 		if c+rest+nb >= s.best-eps {
 			continue
+		}
+		if s.useMu {
+			mb := kBase + o.cost
+			switch {
+			case o.p1 < 0:
+			case o.p2 < 0:
+				j := o.p1
+				mb += kRow[j*w+s.load[j]+h] - kRow[j*w+s.load[j]]
+			default:
+				j, k := o.p1, o.p2
+				mb += kRow[j*w+s.load[j]+h/2] - kRow[j*w+s.load[j]]
+				mb += kRow[k*w+s.load[k]+h/2] - kRow[k*w+s.load[k]]
+			}
+			if mb >= s.best-eps {
+				continue
+			}
 		}
 		s.curP1[i], s.curP2[i] = o.p1, o.p2
 		switch {
@@ -622,6 +931,88 @@ func (t *stateMemo) grow() {
 	for i := range keys {
 		if gens[i] == gen {
 			t.improve(keys[i], vals[i])
+		}
+	}
+}
+
+// wideMemo is stateMemo for states (depth and loads) that do not pack
+// into 64 bits: it keys them by a hash but keeps each state to compare
+// with, so a hash collision can never cut a branch. It holds at most
+// wideMemoMax states in 2·wideMemoMax slots of 20 + 2·(peaks+1) bytes
+// (about 11 MB for 30 peaks, kept by the worker for the next candidate);
+// states met after it is full are searched without the check.
+type wideMemo struct {
+	stride int
+	hashes []uint64
+	states []uint16 // stride per slot
+	vals   []float64
+	gens   []uint32
+	gen    uint32
+	n      int
+}
+
+// wideMemoMax caps the number of states a wideMemo holds.
+const wideMemoMax = 1 << 16
+
+func (t *wideMemo) reset(stride int) {
+	t.gen++
+	t.n = 0
+	if t.gen == 0 || stride != t.stride || len(t.hashes) == 0 {
+		t.stride = stride
+		t.alloc(1024)
+	}
+}
+
+func (t *wideMemo) alloc(size int) {
+	t.hashes = make([]uint64, size)
+	t.states = make([]uint16, size*t.stride)
+	t.vals = make([]float64, size)
+	t.gens = make([]uint32, size)
+	t.gen = 1
+	t.n = 0
+}
+
+// improve records cost for state st (of hash h) and reports true if it
+// was new, reached before only at a higher cost, or the memo is full.
+func (t *wideMemo) improve(h uint64, st []uint16, cost float64) bool {
+	if 2*(t.n+1) > len(t.hashes) {
+		if t.n >= wideMemoMax {
+			return t.lookup(h, st, cost, false)
+		}
+		t.grow()
+	}
+	return t.lookup(h, st, cost, true)
+}
+
+func (t *wideMemo) lookup(h uint64, st []uint16, cost float64, insert bool) bool {
+	mask := uint64(len(t.hashes) - 1)
+	i := (h * 0x9E3779B97F4A7C15) >> 20 & mask
+	for {
+		switch {
+		case t.gens[i] != t.gen:
+			if insert {
+				t.hashes[i], t.vals[i], t.gens[i] = h, cost, t.gen
+				copy(t.states[int(i)*t.stride:], st)
+				t.n++
+			}
+			return true
+		case t.hashes[i] == h && slices.Equal(t.states[int(i)*t.stride:int(i+1)*t.stride], st):
+			if t.vals[i] <= cost {
+				return false
+			}
+			t.vals[i] = cost
+			return true
+		}
+		i = (i + 1) & mask
+	}
+}
+
+func (t *wideMemo) grow() {
+	hashes, states, vals, gens, gen := t.hashes, t.states, t.vals, t.gens, t.gen
+	t.alloc(2 * len(hashes))
+	for i := range hashes {
+		if gens[i] == gen {
+			t.lookup(hashes[i], states[i*t.stride:(i+1)*t.stride], vals[i], true)
 		}
 	}
 }

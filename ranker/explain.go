@@ -145,7 +145,7 @@ func explainCandidate(sc *scorer, j *job, sp *predict.Spectrum, smi string) Cand
 			load += h
 			t := sc.pairTerms(pe, p)
 			w := sc.weight(float64(h), p.h)
-			as.Terms.Shift += w * t.shift
+			as.Terms.Shift += w*t.shift + missWeight(w)*t.miss
 			as.Terms.Multiplicity += w * t.mult
 			as.Terms.J += w * sc.m.JWeight * t.j
 			as.PredictedShift += float64(h) * e.Shift

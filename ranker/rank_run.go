@@ -286,7 +286,8 @@ type worker struct {
 	top      *topK[*molecule.Graph]
 	ls       logSum
 	failed   int64
-	unproven int64 // assignments whose search hit the node cap
+	unproven int64   // assignments whose search hit the node cap
+	maxGap   float64 // nats: the largest cost − lower bound among them
 	lastErr  error
 	above    int64 // probe counts
 	ties     int64
@@ -442,6 +443,7 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 		s, a := wk.sc.score(wk.envs, j.obs)
 		if !a.proven {
 			wk.unproven++
+			wk.maxGap = max(wk.maxGap, a.cost-a.bound)
 		}
 		if len(j.cobs) > 0 {
 			csp, err := pred.Carbon(g)
@@ -454,6 +456,7 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 			cs, ca := wk.sc.c.score(wk.sigs, j.cobs)
 			if !ca.proven {
 				wk.unproven++
+				wk.maxGap = max(wk.maxGap, ca.cost-ca.bound)
 			}
 			s += r.model.Carbon.Weight * cs
 		}
@@ -699,12 +702,14 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 	}
 	res.PredictFailures = failed
 	var unproven int64
+	gap := 0.0
 	for w := range workers {
 		unproven += workers[w].unproven
+		gap = max(gap, workers[w].maxGap)
 	}
 	res.UnprovenAssignments = unproven
 	if unproven > 0 {
-		res.Warnings = append(res.Warnings, fmt.Sprintf("for %d candidates the assignment search hit its node limit: their scores are those of the best assignment found, which may not be optimal (it can only rank them lower than they deserve)", unproven))
+		res.Warnings = append(res.Warnings, fmt.Sprintf("for %d candidates the assignment search hit its node limit: their scores are those of the best assignment found, which may not be optimal, by at most %.1f nats (it can only rank them lower than they deserve)", unproven, gap))
 	}
 	if failed > 0 {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("%d isomers could not be predicted and were not scored (last error: %v)", failed, lastErr))

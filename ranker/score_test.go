@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
 
 	"shiftrank/spectrum"
 )
@@ -233,4 +234,43 @@ func TestMultiplicityOptionalCouplings(t *testing.T) {
 	// The N–H itself reported as a triplet next to a CH2.
 	p, why := multiplicityJudge(pat("br t"), pat("br s"), true, 2, 0)
 	assert.Greater(t, p, pExchOther, why)
+}
+
+// TestSharedMissIsNotDiscounted: a peak reported over a range bounds the
+// shift of every hydrogen in it. Two 1 H environments share coumarin's
+// "7.55–7.46 (m, 2H)" (testdata/realsize.json names the source): one
+// predicted inside the range, one 3 ppm away. The far one must cost
+// clearly more than the ~7 nats the per-peak weight of ½ used to leave
+// (the cost of a resolved 1 H peak missed by as much), while a miss within
+// SharedMiss σ keeps its discount (errors that move both together).
+func TestSharedMissIsNotDiscounted(t *testing.T) {
+	peak := obsPeak{shift: 7.505, lo: 7.46, hi: 7.55, mult: pat("m"), h: 2}
+	env := func(shift float64) predEnv {
+		return predEnv{h: 1, shift: shift, lo: shift, hi: shift, sigma: 0.15, mult: pat("dd")}
+	}
+	sc := newScorer(DefaultModel())
+	plain := DefaultModel()
+	plain.SharedMiss = math.Inf(1)
+	old := newScorer(plain)
+	w := sc.weight(1, peak.h)
+	require.InDelta(t, 0.5, w, 1e-12)
+
+	far := env(4.50)
+	cost := sc.pairCost(sc.pairTerms(&far, &peak), w)
+	oldCost := old.pairCost(old.pairTerms(&far, &peak), w)
+	assert.InDelta(t, 7.3, oldCost, 0.5, "the plain weighting: about 7 nats for a 3 ppm miss")
+	assert.Greater(t, cost, 11.0, "a 3 ppm miss outside a reported range")
+	// It costs what it would on a resolved 1 H peak of its own, up to the
+	// discounted part within SharedMiss σ.
+	alone := obsPeak{shift: 7.505, lo: 7.46, hi: 7.55, mult: pat("m"), h: 1}
+	full := sc.pairCost(sc.pairTerms(&far, &alone), 1)
+	assert.Less(t, cost, full, "still less than a peak of its own")
+	assert.Greater(t, cost, full-3, "but not by more than the discounted part")
+
+	near := env(7.75) // 0.2 ppm beyond the range: 1.3 σ
+	assert.InDelta(t, old.pairCost(old.pairTerms(&near, &peak), w), sc.pairCost(sc.pairTerms(&near, &peak), w), 1e-12,
+		"a miss within SharedMiss σ keeps the per-peak discount")
+	inside := env(7.50)
+	assert.InDelta(t, old.pairCost(old.pairTerms(&inside, &peak), w), sc.pairCost(sc.pairTerms(&inside, &peak), w), 1e-12,
+		"inside the range: nothing beyond the prediction's own σ")
 }
