@@ -258,6 +258,9 @@ func (a *analysis) run(maxR int) []Reading {
 		a.notes = append(a.notes, "no reading of the hydrogen groups fits the formula: the search is not constrained")
 		return nil
 	}
+	if d, ok := a.envelope(decs[0].logp, missing); ok {
+		decs = append(decs, d)
+	}
 	var rs []Reading
 	for gi, d := range decs {
 		for _, v := range a.chargeVariants(d.parts) {
@@ -273,6 +276,9 @@ func (a *analysis) run(maxR int) []Reading {
 				name := a.describe(d.parts, v, relaxed)
 				if d.fallback && !relaxed {
 					name = strings.TrimSuffix(name, " (strict)") + " (strict, some peaks read without their fragment)"
+				}
+				if d.envelope && !relaxed {
+					name = strings.TrimSuffix(name, " (strict)") + " (strict, aliphatic multiplets read together)"
 				}
 				rs = append(rs, Reading{Name: name, Weight: w, Relaxed: relaxed, Fallback: d.fallback && !relaxed, Constraints: ids, Spec: *spec, Groups: gi})
 			}
@@ -302,6 +308,65 @@ func (a *analysis) run(maxR int) []Reading {
 		rs[i].Weight /= z
 	}
 	return rs
+}
+
+// envelope returns, for a spectrum with an aliphatic envelope (three or
+// more unresolved multiplets of sp3 C–H up to envelopeMax ppm), a reading
+// with the envelope's hydrogens read together: in rings the two hydrogens
+// of a CH2 often fall in different multiplets (cyclohexanol's equatorial H
+// near 1.9 and 1.7, its axial H in one 5H multiplet at 1.1–1.35; common
+// practice), so the multiplets' integrals say how many hydrogens the
+// envelope holds, not how they divide into CH3, CH2 and CH. The envelope's
+// hydrogens become CH2, CH and CH3 groups in the likeliest proportions,
+// each within the envelope's shift range, with no coupling bounds; the
+// other peaks are read as usual. Its prior is envelopePrior times best's
+// (the log prior of the best reading).
+func (a *analysis) envelope(best float64, missing int) (decomposition, bool) {
+	used := make([]bool, len(a.peaks))
+	var env []int
+	total := 0
+	for i, p := range a.peaks {
+		pat := p.Pattern
+		if a.region(i) != kSP3 || p.Hi > envelopeMax || pat.Broad || pat.singlet() || pat.Kind != Multiplet && !pat.Apparent {
+			continue
+		}
+		used[i] = true
+		env = append(env, i)
+		total += a.n[i]
+	}
+	if len(env) < 3 {
+		return decomposition{}, false
+	}
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, i := range env {
+		lo = math.Min(lo, a.peaks[i].Lo)
+		hi = math.Max(hi, a.peaks[i].Hi)
+	}
+	id := fmt.Sprintf("peaks-%s-envelope", joinNums(a, env))
+	if !a.constraint(id, "aliphatic envelope", fmt.Sprintf("peaks %s (δ %s, %d H) are unresolved multiplets of sp3 C–H: read together as %d hydrogens on CH2, CH and CH3 groups in that range, since the two H of a ring CH2 often fall in different multiplets",
+		strings.ReplaceAll(joinNums(a, env), "-", ", "), rangeText(lo, hi), total, total), env, 0.9) {
+		return decomposition{}, false
+	}
+	u := unit{peaks: env}
+	for _, c := range compositions(total, kSP3, true) {
+		var parts []part
+		for _, g := range c.groups {
+			parts = append(parts, part{el: molecule.C, h: g[0], count: g[1], kind: kSP3, peaks: env, lo: lo, hi: hi, pair: -1, shiftID: id})
+		}
+		u.opts = append(u.opts, option{parts: parts, logp: c.logp, label: "envelope " + c.label})
+	}
+	units := append(a.unitsFrom(used), u)
+	if missing > 0 {
+		units = append(units, a.missingUnit(missing))
+	}
+	ds := a.decompositions(units, 1)
+	if len(ds) == 0 {
+		return decomposition{}, false
+	}
+	d := ds[0]
+	d.logp = best + math.Log(envelopePrior)
+	d.envelope = true
+	return d, true
 }
 
 // hList lists the peaks' whole hydrogen counts.
@@ -349,7 +414,11 @@ func (a *analysis) region(i int) partKind {
 // benzene rings, =CH2 and geminal CH2 pairs, a pool of loose 1H
 // multiplets), then one unit per remaining peak.
 func (a *analysis) units() []unit {
-	used := make([]bool, len(a.peaks))
+	return a.unitsFrom(make([]bool, len(a.peaks)))
+}
+
+// unitsFrom is units for the peaks not yet used.
+func (a *analysis) unitsFrom(used []bool) []unit {
 	var us []unit
 	us = append(us, a.vinylUnits(used)...)
 	us = append(us, a.alkenePairUnits(used)...)
@@ -394,8 +463,13 @@ func (a *analysis) withCoupling(pt part, i int) part {
 		if pt.count >= 2 {
 			// Equivalent groups of one signal may be bonded to each other
 			// without splitting it (X–CH2–CH2–X of a succinate, the
-			// CH=CH of a maleate; common practice).
+			// CH=CH of a maleate; common practice): one such neighbour,
+			// or two when three or more equivalent groups can form a
+			// chain or ring (the CH2 of cyclohexane, the CH of benzene).
 			max = pt.h
+			if pt.count >= 3 {
+				max = 2 * pt.h
+			}
 			reason = fmt.Sprintf("peak %d (δ %.2f) is a singlet of %d equivalent groups: no hydrogen on the neighbouring carbons except on an equivalent group of the same signal (n+1 rule; equivalent hydrogens do not split each other)", num, a.peaks[i].Shift, pt.count)
 		}
 		if a.constraint(id, "coupling partners", reason, []int{i}, conf) {
@@ -839,6 +913,8 @@ type decomposition struct {
 	logp  float64
 	// fallback: some unit was read without the fragment it offers
 	fallback bool
+	// envelope: the aliphatic multiplets are read together (see envelope)
+	envelope bool
 }
 
 // decompositions returns up to max feasible combinations of the units'

@@ -29,6 +29,10 @@ const (
 	alkyneMin, alkyneMax = 1.7, 3.3
 	// Terminal =CH2 of alkenes: 4.5–6.5 (acrylates up to 6.4).
 	methyleneMin, methyleneMax = 4.5, 6.5
+	// The =CH2 of a vinyl group on O or N comes down to 3.9–4.6 (ethyl
+	// vinyl ether 4.17/3.97, vinyl acetate 4.88/4.57); a vinyl group,
+	// read from its three couplings, may have its =CH2 from vinylCH2Min.
+	vinylCH2Min = 3.8
 	// tert-Butyl, gem-dimethyl and isopropyl methyls on sp3 carbon:
 	// 0.8–1.6 ppm.
 	alkylMethylMax = 1.6
@@ -180,6 +184,16 @@ const naphthylMin = 6.9
 // four aromatic H inside it, with no other pattern read, are read as a
 // disubstituted benzene ring.
 const benzeneMin, benzeneMax = 6.4, 8.4
+
+// envelopeMax, ppm: unresolved multiplets up to here are the alkyl
+// "envelope" of ring and chain CH2/CH (1.0–2.5 ppm; CH next to O, N or a
+// carbonyl above keep their own signals); envelopePrior is the prior of
+// the reading that takes them together against the best reading that
+// reads them one by one.
+const (
+	envelopeMax   = 2.5
+	envelopePrior = 0.3
+)
 
 // methylMaxSpread, ppm: a peak reported as a range wider than this is
 // read as a methyl only with a low prior. A CH3 gives one signal whose
