@@ -14,14 +14,14 @@ import (
 	"shiftrank/molecule"
 )
 
-// TestReadingsHoldTheTruth reads the published spectra of the real-size
-// reference sets (testdata/realsize.json and realsize_holdout.json, each
-// entry with its source) and checks that the true structure fits one of
+// TestReadingsHoldTheTruth reads the published spectra of the reference
+// sets (testdata/realsize.json, realsize_holdout.json, accuracy.json and
+// validation.json, each entry with its source) and checks that the true structure fits one of
 // the readings the constraint inference makes: a reading that excludes the
 // truth can never rank it. It logs how often the truth fits the first
 // (most plausible) reading.
 func TestReadingsHoldTheTruth(t *testing.T) {
-	for _, file := range []string{"../testdata/realsize.json", "../testdata/realsize_holdout.json"} {
+	for _, file := range []string{"../testdata/realsize.json", "../testdata/realsize_holdout.json", "../testdata/accuracy.json", "../testdata/validation.json"} {
 		t.Run(file, func(t *testing.T) {
 			b, err := os.ReadFile(file)
 			require.NoError(t, err)
