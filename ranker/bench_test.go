@@ -11,14 +11,20 @@ import (
 )
 
 // Accuracy targets of the product (issue: top-1 ≥ 85 %, top-3 ≥ 95 %).
-// minTop1 and minTop3 are what the current likelihood reaches on
-// testdata/accuracy.json; the test keeps it from regressing.
+// minTop1 and minTop3 are what the current ranking reaches on
+// testdata/accuracy.json less one compound; the test keeps it from
+// regressing (a floor at the targets let four compounds slip outside the
+// constrained search unnoticed: 97 % passed a test that 100 % had set).
 const (
 	targetTop1 = 0.85
 	targetTop3 = 0.95
-	minTop1    = 0.85
-	minTop3    = 0.95
+	minTop1    = 0.99
+	minTop3    = 0.99
 )
+
+// minValidationTop1 is the validation set's top-1 (100 %, 28 compounds)
+// less one compound.
+const minValidationTop1 = 0.96
 
 // TestAccuracy ranks every compound of the reference set (published CDCl3
 // spectra; sources in the file) and checks how often the true structure
@@ -166,7 +172,7 @@ func BenchmarkRank(b *testing.B) {
 // not asserted.
 func TestValidationAccuracy(t *testing.T) {
 	rep := benchReferenceFile(t, "validation.json", 20)
-	if rep.Top1 < targetTop1 {
-		t.Errorf("validation top-1 %.1f %% below the %.0f %% target", 100*rep.Top1, 100*targetTop1)
+	if rep.Top1 < minValidationTop1 {
+		t.Errorf("validation top-1 %.1f %% below %.1f %% (target %.0f %%)", 100*rep.Top1, 100*minValidationTop1, 100*targetTop1)
 	}
 }
