@@ -590,14 +590,24 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 		}
 		totalEstimate.Store(search.EstimatedStructures)
 		// Pass 1: every strict reading gets an equal share of half the
-		// budget, so that small readings are searched completely whatever
-		// the large ones need. Pass 2: the readings cut short start over,
-		// most plausible first, each with half of what is left (the last
-		// with all of it).
+		// budget (or what its estimate says it needs), so that small
+		// readings are searched completely whatever the large ones need.
+		// Pass 2: the readings cut short start over, most plausible first,
+		// each with half of what is left (the last with all of it).
 		if len(strict) > 0 {
 			first := max(nodesLeft/int64(2*len(strict)), 1)
 			for _, k := range strict {
-				run(k, min(first, nodesLeft))
+				// A reading whose estimate says it needs more than the
+				// equal share gets twice its estimated nodes at once (up
+				// to half of what is left), so that it is not cut short
+				// and searched again from the start in pass 2.
+				cap := first
+				if e := reps[k].Estimate; e != nil {
+					if want := int64(2*e.Nodes) + 1000; want > cap && want <= nodesLeft/2 {
+						cap = want
+					}
+				}
+				run(k, min(cap, nodesLeft))
 			}
 			var cut []int
 			for _, k := range strict {
