@@ -377,31 +377,7 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 	var wg sync.WaitGroup
 	stopProgress := make(chan struct{})
 	var totalEstimate atomic.Int64
-	// The count stops when the ranking's own generation ends, so a quick
-	// ranking never waits for it.
-	cctx, ccancel := context.WithTimeout(gctx, estimateBudget)
-	defer ccancel()
 	if progress != nil {
-		if !constrained {
-			// The isomer count runs far faster than scoring, so a short
-			// count on one core gives the progress reports their total:
-			// exact when it finishes, else extrapolated from the share of
-			// the search space it covered.
-			wg.Add(1)
-			go func() {
-				defer wg.Done()
-				st, err := isomers.Count(cctx, j.formula, isomers.Options{Filter: j.filter, Workers: 1, ChargeSeparated: !j.req.Neutral})
-				if err != nil && cctx.Err() == nil {
-					return
-				}
-				switch {
-				case st.Complete:
-					totalEstimate.Store(st.Emitted)
-				case st.Fraction > 0:
-					totalEstimate.Store(extrapolate(st.Emitted, st.Fraction))
-				}
-			}()
-		}
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
@@ -488,9 +464,27 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 	candLeft := j.maxCand
 	nodesLeft := j.maxNodes
 	stopReason := ""
+	// firstReport gives progress its total before the search starts: the
+	// size estimated from random probes of the search tree (see
+	// isomers.Estimate), the same on any machine.
+	firstReport := func() {
+		if progress != nil {
+			p := Progress{TotalEstimate: totalEstimate.Load()}
+			if constrained {
+				p.ReadingsTotal = int(readingsTotal.Load())
+			}
+			progress(p)
+		}
+	}
 	if !constrained {
 		search.Scope = ScopeAll
 		opts := base
+		if est, err := isomers.Estimate(gctx, j.formula, opts, readingEstimateProbes, 1); err == nil {
+			search.EstimatedStructures = int64(math.Round(est.Structures))
+			search.EstimatedNodes = int64(math.Round(est.Nodes))
+			totalEstimate.Store(search.EstimatedStructures)
+		}
+		firstReport()
 		opts.Limit, opts.NodeLimit = candLeft, nodesLeft
 		stats, gerr = isomers.GenerateConcurrent(gctx, j.formula, opts, yield)
 		search.Nodes = stats.Nodes
@@ -589,6 +583,7 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 			}
 		}
 		totalEstimate.Store(search.EstimatedStructures)
+		firstReport()
 		// Pass 1: every strict reading gets an equal share of half the
 		// budget (or what its estimate says it needs), so that small
 		// readings are searched completely whatever the large ones need.
@@ -664,7 +659,6 @@ func (r *Ranker) run(ctx context.Context, j *job, progress func(Progress), pr *p
 			stopReason = fmt.Sprintf("the work budget of %d search nodes", j.maxNodes)
 		}
 	}
-	ccancel()
 	close(stopProgress)
 	wg.Wait()
 	// A cancelled ranking still hands back what it found so far, with
@@ -773,10 +767,6 @@ func extrapolate(n int64, fraction float64) int64 {
 	}
 	return max(n, int64(math.Round(float64(n)/fraction)))
 }
-
-// estimateBudget bounds the isomer count that gives progress reports their
-// estimated total.
-const estimateBudget = 2 * time.Second
 
 func orDefault(s, d string) string {
 	if s == "" {

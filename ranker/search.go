@@ -53,11 +53,10 @@ type SearchReport struct {
 	// Nodes is the generator work spent, NodeBudget the budget.
 	Nodes      int64 `json:"nodes"`
 	NodeBudget int64 `json:"node_budget"`
-	// EstimatedStructures and EstimatedNodes are the size of the strict
-	// readings' searches estimated before the run (the sum of their
-	// ReadingReport.Estimate; 0 for a search over all isomers, whose
-	// total is Result.IsomersTotal). An estimate, not a count: see
-	// isomers.SizeEstimate.
+	// EstimatedStructures and EstimatedNodes are the size of the search
+	// estimated before the run: of the strict readings' searches (the sum
+	// of their ReadingReport.Estimate), or of the search over all isomers.
+	// An estimate, not a count: see isomers.SizeEstimate.
 	EstimatedStructures int64 `json:"estimated_structures,omitempty"`
 	EstimatedNodes      int64 `json:"estimated_nodes,omitempty"`
 	// Constraints are every constraint read from the spectrum (also the

@@ -398,22 +398,26 @@ func writeSearch(w io.Writer, s *ranker.SearchReport) {
 			}
 		}
 	}
-	if len(s.Readings) > 0 {
-		if s.EstimatedNodes > 0 {
-			fit := "within the node budget of " + approx(float64(s.NodeBudget))
-			if s.EstimatedNodes > s.NodeBudget {
-				fit = "more than the node budget of " + approx(float64(s.NodeBudget)) + ": expect a stop"
-			}
-			structures := "about " + approx(float64(s.EstimatedStructures)) + " structures"
-			if s.EstimatedStructures == 0 {
-				structures = "too rare for the probes to count"
-			}
-			text := fmt.Sprintf("estimated before the run (Knuth's method, rough): about %s search nodes in the strict readings, %s; structures: %s",
-				approx(float64(s.EstimatedNodes)), fit, structures)
-			for _, l := range wrapText(text, lineWidth, "", "    ") {
-				fmt.Fprintln(w, l)
-			}
+	if s.EstimatedNodes > 0 {
+		fit := "within the node budget of " + approx(float64(s.NodeBudget))
+		if s.EstimatedNodes > s.NodeBudget {
+			fit = "more than the node budget of " + approx(float64(s.NodeBudget)) + ": expect a stop"
 		}
+		structures := "about " + approx(float64(s.EstimatedStructures))
+		if s.EstimatedStructures == 0 {
+			structures = "too rare for the probes to count"
+		}
+		where := "in the strict readings"
+		if s.Scope == ranker.ScopeAll {
+			where = "over all isomers"
+		}
+		text := fmt.Sprintf("estimated before the run (Knuth's method, rough): about %s search nodes %s, %s; structures: %s",
+			approx(float64(s.EstimatedNodes)), where, fit, structures)
+		for _, l := range wrapText(text, lineWidth, "", "    ") {
+			fmt.Fprintln(w, l)
+		}
+	}
+	if len(s.Readings) > 0 {
 		fmt.Fprintln(w, "readings searched, most plausible first (structures found; estimated structures/nodes):")
 		for i, r := range s.Readings {
 			est := "–"
