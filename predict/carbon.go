@@ -344,9 +344,9 @@ func (cx *cctx) markAlkeneSides(groups []hgroup) [][2]int8 {
 				a, b = b, a
 			}
 			if cx.alkCis == nil {
-				cx.alkCis = make(map[int]int)
+				cx.alkCis = make(map[[2]int]int)
 			}
-			cx.alkCis[a], cx.alkCis[b] = pos[0], pos[1]
+			cx.alkCis[[2]int{a, p}], cx.alkCis[[2]int{b, p}] = pos[0], pos[1]
 			m.bfs(a, -1, -1, p, -1, false)
 			da := append([]int16(nil), m.dist...)
 			m.bfs(b, -1, -1, p, -1, false)

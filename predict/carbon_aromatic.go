@@ -431,9 +431,22 @@ func (cx *cctx) alkylOnRing(x, v int) ([4]float64, string) {
 // bonds away like meta.
 func (cx *cctx) fiveRingInc(c, x, d int, ring []int, inc [4]float64, name string) (float64, string) {
 	g := cx.g
+	// The ring's heteroatom: O before S before any other, whatever the
+	// order of the ring atoms.
 	het := molecule.C
+	rank := func(e molecule.Element) int {
+		switch e {
+		case molecule.C:
+			return 0
+		case molecule.O:
+			return 3
+		case molecule.S:
+			return 2
+		}
+		return 1
+	}
 	for _, a := range ring {
-		if e := g.Atoms[a].Element; e != molecule.C && (het == molecule.C || e == molecule.O || e == molecule.S) {
+		if e := g.Atoms[a].Element; rank(e) > rank(het) {
 			het = e
 		}
 	}
@@ -463,7 +476,19 @@ func (cx *cctx) fiveRingInc(c, x, d int, ring []int, inc [4]float64, name string
 		}
 		return inc[0] * f[0], name
 	case 1:
-		if b := g.BondBetween(c, x); b >= 0 && g.Bonds[b].Order == molecule.Double {
+		// Which ring bonds are formal C=C follows from the ring's one
+		// two-electron heteroatom (pyrrole-type N, furan O, thiophene S:
+		// the two bonds one step away from it), not from the Kekulé form
+		// the input happens to be written in. A ring without such an atom
+		// (the five-membered ring of azulene) takes the mean.
+		dn := cx.donorAtom(ring)
+		switch {
+		case dn < 0:
+			if cx.explain {
+				name += " (five-membered ring without a heteroatom: mean of ortho and para)"
+			}
+			return (inc[1] + pick(inc[3], f[2], f[3])) / 2, name
+		case adjacent(g, c, dn) != adjacent(g, x, dn):
 			if cx.explain {
 				name += " (across C=C, as para)"
 			}
@@ -482,3 +507,26 @@ func (cx *cctx) fiveRingInc(c, x, d int, ring []int, inc [4]float64, name string
 	}
 	return inc[2], name
 }
+
+// donorAtom returns the atom of the five-membered aromatic ring that gives
+// the ring two π electrons: its one non-carbon atom without a double bond
+// (the N of pyrrole, the O of furan, the S of thiophene), or -1 if there
+// is none or more than one. The result does not depend on the Kekulé
+// form: such an atom has no double bond in any of them.
+func (cx *cctx) donorAtom(ring []int) int {
+	g := cx.g
+	dn := -1
+	for _, a := range ring {
+		if g.Atoms[a].Element == molecule.C || cx.m.multi[a] > 0 {
+			continue
+		}
+		if dn >= 0 {
+			return -1
+		}
+		dn = a
+	}
+	return dn
+}
+
+// adjacent reports whether atoms a and b are bonded.
+func adjacent(g *molecule.Graph, a, b int) bool { return g.BondBetween(a, b) >= 0 }

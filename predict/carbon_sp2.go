@@ -444,6 +444,21 @@ func famAlphaX(s xsub) float64 {
 	return -1.0
 }
 
+// conjRank orders the substituents x of a carbonyl carbon c for
+// acylSubstituent: aryl and heteroaryl 0, C=C and C=N 1, others 2.
+func (cx *cctx) conjRank(c, x int) int {
+	if cx.skel[x] {
+		return 2
+	}
+	switch cx.xclass(c, x) {
+	case xAryl, xHetAryl:
+		return 0
+	case xVinyl, xImineC:
+		return 1
+	}
+	return 2
+}
+
 // acylSubstituent adds the effect of substituent x (neighbour of the
 // carbonyl or nitrile carbon c) for family f.
 func (cx *cctx) acylSubstituent(c, x int, f acylFamily, nConj *int, r *cres) {
@@ -702,6 +717,13 @@ func (cx *cctx) carbonyl(c int, r *cres) {
 			ac.add("five-membered ring", 2.5)
 		}
 		return
+	}
+	// The first conjugated group takes its full effect and the second an
+	// attenuated one; an aryl goes first (chalcone C=O 190.5, phenyl vinyl
+	// ketone 191; Pretsch, from memory: the aryl-first sum is the closer),
+	// so the order of the atoms in the input does not matter.
+	if len(car) == 2 && cx.conjRank(c, car[1]) < cx.conjRank(c, car[0]) {
+		car[0], car[1] = car[1], car[0]
 	}
 	nConj := 0
 	for _, x := range car {
