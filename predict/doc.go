@@ -115,7 +115,7 @@
 // tuned against) about 1.0 ppm; TestCarbonValidation and
 // TestCarbonHoldout print the table per class. Diastereotopic carbons
 // (the methyls of an isopropyl group next to a stereocentre) are kept as
-// one signal with a Reason saying they may split. Groups outside the tables (peroxides, N–O, phosphorus, boron,
+// one signal flagged Diastereotopic, with a Reason saying they may split. Groups outside the tables (peroxides, N–O, phosphorus, boron,
 // charged atoms, strained and bridged rings) get an estimate with a wide
 // sigma, a Reason and a Note.
 //
