@@ -2,6 +2,7 @@ package predict
 
 import (
 	"math"
+	"strconv"
 	"sync"
 
 	"shiftrank/molecule"
@@ -293,6 +294,21 @@ func (cx *cctx) aromatic(c int, r *cres) {
 					name = ""
 				}
 				val := inc[d]
+				if d == 1 && size == 6 {
+					// Ortho effects follow the π bond order of the bond
+					// between (benzene 1/2): across naphthalene's C1–C2
+					// (2/3) they are larger, across C2–C3 (1/3) smaller
+					// (2-methoxynaphthalene C1 105.8, C3 118.7;
+					// 2-fluoronaphthalene C1 110.9, C3 116.3; Hansen,
+					// Org. Magn. Reson. 1979, correlation of naphthalene
+					// substituent effects with bond orders; from memory).
+					if o := cx.paulingOrder(g.BondBetween(c, x)); !math.IsNaN(o) && o != 0.5 {
+						val *= 2 * o
+						if cx.explain {
+							name += " (scaled by the bond order " + ftoa2(o) + ")"
+						}
+					}
+				}
 				if size == 5 {
 					val, name = cx.fiveRingInc(c, x, d, ring, inc, name)
 					r.sigma += 2.0
@@ -530,3 +546,128 @@ func (cx *cctx) donorAtom(ring []int) int {
 
 // adjacent reports whether atoms a and b are bonded.
 func adjacent(g *molecule.Graph, a, b int) bool { return g.BondBetween(a, b) >= 0 }
+
+// paulingLimit bounds the Kekulé structures counted for one aromatic
+// system (pyrene has 6, coronene 20); larger systems get no bond orders.
+const paulingLimit = 4096
+
+// paulingOrder returns the Pauling bond order of bond b (the fraction of
+// the Kekulé structures in which it is double) if b lies in a polycyclic
+// aromatic system whose atoms all take a double bond inside it and all
+// lie in six-membered rings (naphthalene, quinoline, phenanthrene), else
+// NaN. It does not depend on the Kekulé form of the input.
+func (cx *cctx) paulingOrder(b int) float64 {
+	if b < 0 || cx.aromBond == nil || !cx.aromBond[b] {
+		return math.NaN()
+	}
+	if cx.pauling == nil {
+		cx.computePauling()
+	}
+	return cx.pauling[b]
+}
+
+// computePauling fills cx.pauling, one aromatic system at a time.
+func (cx *cctx) computePauling() {
+	g := cx.g
+	n := len(g.Atoms)
+	cx.pauling = make([]float64, len(g.Bonds))
+	for i := range cx.pauling {
+		cx.pauling[i] = math.NaN()
+	}
+	comp := make([]int, n)
+	for i := range comp {
+		comp[i] = -1
+	}
+	for s := range g.Atoms {
+		if comp[s] >= 0 || !cx.m.arom[s] {
+			continue
+		}
+		// The atoms of s's aromatic system, joined by aromatic bonds.
+		atoms := []int{s}
+		comp[s] = s
+		for k := 0; k < len(atoms); k++ {
+			for _, nb := range g.Neighbors(atoms[k]) {
+				if cx.aromBond[nb.Bond] && comp[nb.Atom] < 0 {
+					comp[nb.Atom] = s
+					atoms = append(atoms, nb.Atom)
+				}
+			}
+		}
+		cx.systemPauling(atoms, comp, s)
+	}
+}
+
+// systemPauling counts the Kekulé structures (perfect matchings over the
+// aromatic bonds) of the system whose atoms carry comp == id and sets the
+// bond orders, if the system qualifies (see paulingOrder).
+func (cx *cctx) systemPauling(atoms, comp []int, id int) {
+	g := cx.g
+	m := cx.m
+	nb, na := 0, len(atoms)
+	for bi, b := range g.Bonds {
+		if cx.aromBond[bi] && comp[b.A] == id {
+			nb++
+		}
+	}
+	if nb-na+1 < 2 || na%2 != 0 || na > 40 {
+		return // one ring (order 1/2 throughout), or odd, or too large
+	}
+	for _, a := range atoms {
+		dbl := 0
+		for _, e := range g.Neighbors(a) {
+			if e.Order == molecule.Double && cx.aromBond[e.Bond] {
+				dbl++
+			}
+		}
+		if dbl != 1 || len(m.aromRing(a)) != 6 {
+			return // a donor atom or an exocyclic double bond, or a five-membered ring
+		}
+	}
+	mate := make([]int, len(g.Atoms))
+	for i := range mate {
+		mate[i] = -1
+	}
+	count := make([]int, len(g.Bonds))
+	total := 0
+	var rec func() bool
+	rec = func() bool {
+		first := -1
+		for _, a := range atoms {
+			if mate[a] < 0 {
+				first = a
+				break
+			}
+		}
+		if first < 0 {
+			total++
+			for _, a := range atoms {
+				if a < mate[a] {
+					count[g.BondBetween(a, mate[a])]++
+				}
+			}
+			return total < paulingLimit
+		}
+		for _, e := range g.Neighbors(first) {
+			if !cx.aromBond[e.Bond] || mate[e.Atom] >= 0 {
+				continue
+			}
+			mate[first], mate[e.Atom] = e.Atom, first
+			ok := rec()
+			mate[first], mate[e.Atom] = -1, -1
+			if !ok {
+				return false
+			}
+		}
+		return true
+	}
+	if !rec() || total == 0 {
+		return
+	}
+	for bi, b := range g.Bonds {
+		if cx.aromBond[bi] && comp[b.A] == id {
+			cx.pauling[bi] = float64(count[bi]) / float64(total)
+		}
+	}
+}
+
+func ftoa2(v float64) string { return strconv.FormatFloat(v, 'f', 2, 64) }

@@ -100,6 +100,10 @@ type cctx struct {
 	// can sit on two such alkenes), to the position on the other carbon it
 	// is cis to (-1 for H); see markAlkeneSides.
 	alkCis map[[2]int]int
+	// pauling holds the Pauling bond order of each aromatic bond of a
+	// polycyclic six-membered aromatic system (NaN elsewhere), computed
+	// on first use (paulingOrder).
+	pauling []float64
 }
 
 func newCarbonCtx(m *mol, explain bool) *cctx {

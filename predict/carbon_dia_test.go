@@ -48,3 +48,40 @@ func TestCarbonDiastereotopic(t *testing.T) {
 		})
 	}
 }
+
+// TestCarbonNaphthaleneOrtho: a substituent's ortho effect on a
+// naphthalene follows the bond order of the bond between (Pauling bond
+// orders from the Kekulé structures): large across C1–C2, small across
+// C2–C3 and C1–C8a. Published CDCl3 shifts, from memory (Pretsch;
+// Kalinowski, Berger, Braun, 13C NMR Spectroscopy).
+func TestCarbonNaphthaleneOrtho(t *testing.T) {
+	tests := []struct {
+		name   string
+		smiles string
+		atom   int
+		want   float64
+	}{
+		{"2-methoxynaphthalene C1", "COc1ccc2ccccc2c1", 11, 105.8},
+		{"2-methoxynaphthalene C3", "COc1ccc2ccccc2c1", 3, 118.7},
+		{"2-naphthol C1", "Oc1ccc2ccccc2c1", 10, 109.6},
+		{"2-naphthol C3", "Oc1ccc2ccccc2c1", 2, 117.7},
+		{"1-methoxynaphthalene C2", "COc1cccc2ccccc12", 3, 103.8},
+		{"1-methoxynaphthalene C8a", "COc1cccc2ccccc12", 11, 125.2},
+	}
+	p := New(Options{})
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			sp, err := p.Carbon(molecule.MustParseSMILES(tc.smiles))
+			require.NoError(t, err)
+			for _, s := range sp.Signals {
+				for _, a := range s.Atoms {
+					if a == tc.atom {
+						assert.InDelta(t, tc.want, s.Shift, 3.0, "Carbon(%s) atom %d = %.1f, want %.1f ± 3 (source: see the test comment)", tc.smiles, tc.atom, s.Shift, tc.want)
+						return
+					}
+				}
+			}
+			t.Fatalf("Carbon(%s): atom %d not found", tc.smiles, tc.atom)
+		})
+	}
+}
