@@ -245,6 +245,9 @@ func (cx *cctx) aromatic(c int, r *cres) {
 			alphaN = true
 		}
 	}
+	if size == 6 {
+		cx.chelateRing(c, ring, r)
+	}
 	pos := [4]string{"ipso: ", "ortho: ", "meta: ", "para: "}
 	// A carbon shared by two aromatic rings of the same size (the ring
 	// fusion carbons of naphthalene) takes the substituent increments of
@@ -671,3 +674,64 @@ func (cx *cctx) systemPauling(atoms, comp []int, id int) {
 }
 
 func ftoa2(v float64) string { return strconv.FormatFloat(v, 'f', 2, 64) }
+
+// chelatingOH returns the OH oxygen on a ring neighbour of aromatic carbon
+// x when x carries a C=O group (aldehyde, ketone, acid, ester, amide) and
+// the two form the six-membered intramolecular hydrogen bond of a
+// salicyl compound, else -1.
+func (cx *cctx) chelatingOH(x int) int {
+	g := cx.g
+	m := cx.m
+	if !m.arom[x] || g.Atoms[x].Element != molecule.C {
+		return -1
+	}
+	acyl := false
+	for _, nb := range g.Neighbors(x) {
+		if y := nb.Atom; !cx.aromBond[nb.Bond] && g.Atoms[y].Element == molecule.C && m.carbonylOf(y) >= 0 {
+			acyl = true
+		}
+	}
+	if !acyl {
+		return -1
+	}
+	for _, nb := range g.Neighbors(x) {
+		if !cx.aromBond[nb.Bond] {
+			continue
+		}
+		for _, n2 := range g.Neighbors(nb.Atom) {
+			o := n2.Atom
+			if g.Atoms[o].Element == molecule.O && g.Atoms[o].HCount == 1 && g.Atoms[o].Charge == 0 && g.Degree(o) == 1 {
+				return o
+			}
+		}
+	}
+	return -1
+}
+
+// chelateRing adds the corrections for a chelated salicyl unit on the
+// six-membered aromatic ring of c beyond the additive increments: the
+// C–OH carbon +5.5, the carbon carrying the C=O −4.0, the CH ortho to the
+// OH on the other side +2.0 (salicylaldehyde 161.6, 120.6, 117.6;
+// 2'-hydroxyacetophenone 162.4, 119.7, 118.4; methyl salicylate 161.6,
+// 112.4, 117.6; Pretsch, from memory).
+func (cx *cctx) chelateRing(c int, ring []int, r *cres) {
+	g := cx.g
+	for _, x1 := range ring {
+		o := cx.chelatingOH(x1)
+		if o < 0 {
+			continue
+		}
+		x2 := g.Neighbors(o)[0].Atom
+		if !inRing(ring, x2) {
+			continue
+		}
+		switch {
+		case c == x2:
+			r.ac.add("chelated salicyl unit: C–OH", 5.5)
+		case c == x1:
+			r.ac.add("chelated salicyl unit: C–C=O", -4.0)
+		case adjacent(g, c, x2) && inRing(ring, c):
+			r.ac.add("chelated salicyl unit: CH ortho to OH", 2.0)
+		}
+	}
+}

@@ -729,6 +729,19 @@ func (cx *cctx) carbonyl(c int, r *cres) {
 	for _, x := range car {
 		cx.acylSubstituent(c, x, fam, &nConj, r)
 	}
+	for _, x := range car {
+		if cx.chelatingOH(x) >= 0 {
+			// An OH ortho on the aryl ring binds to the C=O oxygen
+			// (intramolecular hydrogen bond): salicylaldehyde 196.5 vs
+			// benzaldehyde 192.3, 2'-hydroxyacetophenone 204.5 vs
+			// acetophenone 198.1, methyl salicylate 170.6 vs methyl
+			// benzoate 167.0 (Pretsch, from memory).
+			v := [famOther + 1]float64{famKetone: 6.0, famAldehyde: 4.0, famEster: 3.5, famAcid: 3.5, famAmide: 3.5}[fam]
+			if v != 0 {
+				ac.add("hydrogen bond to an ortho OH (chelate)", v)
+			}
+		}
+	}
 	if size := cx.carbonylRing(c); size > 0 {
 		if v := famRing(fam, size); v != 0 {
 			ac.addCat(v, "ring (", itoa(size), "-membered)")
