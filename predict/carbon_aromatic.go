@@ -312,6 +312,21 @@ func (cx *cctx) aromatic(c int, r *cres) {
 						}
 					}
 				}
+				if d == 1 && size == 6 && s == xOR {
+					// An alkoxy group next to one ortho substituent lies in
+					// the ring plane with its alkyl turned away from it,
+					// towards the ortho CH: the CH is shielded more than
+					// the mean ortho increment says, the substituted carbon
+					// less (2-methylanisole C6 109.9, guaiacol C3 110.8 and
+					// C1 145.7, veratrole C3 111.5 and C1 149.1; Pretsch,
+					// from memory).
+					if t := cx.alkoxyTilt(x, c, ring); t != 0 {
+						val += 4.0 * t
+						if cx.explain {
+							name += " (alkyl turned away from the ortho substituent)"
+						}
+					}
+				}
 				if size == 5 {
 					val, name = cx.fiveRingInc(c, x, d, ring, inc, name)
 					r.sigma += 2.0
@@ -734,4 +749,43 @@ func (cx *cctx) chelateRing(c int, ring []int, r *cres) {
 			r.ac.add("chelated salicyl unit: CH ortho to OH", 2.0)
 		}
 	}
+}
+
+// alkoxyTilt tells where the alkyl of an alkoxy group on ring atom x
+// points, for c, an ortho ring neighbour of x: +1 when c carries a
+// substituent and the other ortho atom is a CH (the alkyl points away
+// from c), −1 when c is that CH, 0 otherwise (no or two ortho
+// substituents, a fused ring or a ring heteroatom next to x).
+func (cx *cctx) alkoxyTilt(x, c int, ring []int) float64 {
+	g := cx.g
+	other := -1
+	for _, nb := range g.Neighbors(x) {
+		if y := nb.Atom; y != c && inRing(ring, y) {
+			other = y
+		}
+	}
+	if other < 0 {
+		return 0
+	}
+	kind := func(y int) int { // 0: CH, 1: substituted C, -1: other
+		if g.Atoms[y].Element != molecule.C {
+			return -1
+		}
+		if g.Atoms[y].HCount == 1 {
+			return 0
+		}
+		for _, nb := range g.Neighbors(y) {
+			if cx.aromBond[nb.Bond] && !inRing(ring, nb.Atom) {
+				return -1 // a fused ring
+			}
+		}
+		return 1
+	}
+	switch kc, ko := kind(c), kind(other); {
+	case kc == 1 && ko == 0:
+		return 1
+	case kc == 0 && ko == 1:
+		return -1
+	}
+	return 0
 }
