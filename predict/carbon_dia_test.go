@@ -67,6 +67,9 @@ func TestCarbonNaphthaleneOrtho(t *testing.T) {
 		{"2-naphthol C3", "Oc1ccc2ccccc2c1", 2, 117.7},
 		{"1-methoxynaphthalene C2", "COc1cccc2ccccc12", 3, 103.8},
 		{"1-methoxynaphthalene C8a", "COc1cccc2ccccc12", 11, 125.2},
+		{"1-methoxynaphthalene C4", "COc1cccc2ccccc12", 5, 120.2},
+		{"2-methoxynaphthalene C4a", "COc1ccc2ccccc2c1", 5, 129.0},
+		{"2-naphthol C4a", "Oc1ccc2ccccc2c1", 4, 128.9},
 	}
 	p := New(Options{})
 	for _, tc := range tests {
