@@ -235,21 +235,12 @@ func (p *Predictor) carbonSpectrum(cx *cctx) *CarbonSpectrum {
 		if r.sigma <= 0 {
 			r.sigma = 2
 		}
-		switch {
-		case cx.polycyclic(gr.atom):
+		if cx.polycyclic(gr.atom) {
 			// Bridged and fused saturated ring systems (camphor, decalins)
 			// are outside what additive increments describe well.
 			r.sigma += 2.5
 			if cx.explain {
 				r.reasons = append(r.reasons, "in a fused or bridged non-aromatic ring system: wider uncertainty")
-			}
-		case cx.onPolycyclic(gr.atom):
-			// So are the groups on them: the methyls of camphor 9.3,
-			// 19.2 and 19.8, of α-pinene 20.8 and 26.4 (Pretsch, from
-			// memory), where open-chain increments give 16–24.
-			r.sigma += 1.5
-			if cx.explain {
-				r.reasons = append(r.reasons, "on a fused or bridged non-aromatic ring system: wider uncertainty")
 			}
 		}
 		if g.Atoms[gr.atom].Charge != 0 {
@@ -406,20 +397,6 @@ func (cx *cctx) polycyclic(c int) bool {
 		}
 	}
 	return bonds-atoms+1 > 1
-}
-
-// onPolycyclic reports whether carbon c, outside any ring, is bonded to
-// an atom of a polycyclic non-aromatic ring system (see polycyclic).
-func (cx *cctx) onPolycyclic(c int) bool {
-	if cx.m.rsys[c] >= 0 {
-		return false
-	}
-	for _, nb := range cx.g.Neighbors(c) {
-		if cx.polycyclic(nb.Atom) {
-			return true
-		}
-	}
-	return false
 }
 
 // addCat adds an increment whose name is the concatenation of parts,
