@@ -247,6 +247,7 @@ func (cx *cctx) aromatic(c int, r *cres) {
 	}
 	if size == 6 {
 		cx.chelateRing(c, ring, r)
+		cx.periEffect(c, ring, r)
 	}
 	pos := [4]string{"ipso: ", "ortho: ", "meta: ", "para: "}
 	// A carbon shared by two aromatic rings of the same size (the ring
@@ -812,4 +813,46 @@ func (cx *cctx) fusedSystem(c int) bool {
 		}
 	}
 	return false
+}
+
+// periEffect adds the steric shielding of a substituent in the peri
+// position (C8 of a 1-substituted naphthalene, across the ring fusion
+// from c): 1-methoxynaphthalene C8 122.0, 1-methylnaphthalene C8 124.2,
+// 1-chloronaphthalene C8 124.3 against naphthalene C1 128.0 (−4 to −6;
+// Pretsch, Kalinowski, from memory). Only in fused six-membered systems
+// (see paulingOrder).
+func (cx *cctx) periEffect(c int, ring []int, r *cres) {
+	g := cx.g
+	if g.Atoms[c].Element != molecule.C || !cx.fusedSystem(c) {
+		return
+	}
+	nArom := func(a int) int {
+		k := 0
+		for _, nb := range g.Neighbors(a) {
+			if cx.aromBond[nb.Bond] {
+				k++
+			}
+		}
+		return k
+	}
+	if nArom(c) != 2 {
+		return // a fusion carbon
+	}
+	for _, nf := range g.Neighbors(c) {
+		f := nf.Atom
+		if !cx.aromBond[nf.Bond] || nArom(f) != 3 {
+			continue
+		}
+		for _, nx := range g.Neighbors(f) {
+			x := nx.Atom
+			if x == c || !cx.aromBond[nx.Bond] || inRing(ring, x) || nArom(x) != 2 || g.Atoms[x].Element != molecule.C {
+				continue
+			}
+			for _, ns := range g.Neighbors(x) {
+				if !cx.aromBond[ns.Bond] {
+					r.ac.add("peri substituent (steric)", -4.0)
+				}
+			}
+		}
+	}
 }

@@ -68,6 +68,8 @@ func TestCarbonNaphthaleneOrtho(t *testing.T) {
 		{"1-methoxynaphthalene C2", "COc1cccc2ccccc12", 3, 103.8},
 		{"1-methoxynaphthalene C8a", "COc1cccc2ccccc12", 11, 125.2},
 		{"1-methoxynaphthalene C4", "COc1cccc2ccccc12", 5, 120.2},
+		{"1-methoxynaphthalene C8 (peri)", "COc1cccc2ccccc12", 10, 122.0},
+		{"1-methylnaphthalene C8 (peri)", "Cc1cccc2ccccc12", 9, 124.2},
 		{"2-methoxynaphthalene C4a", "COc1ccc2ccccc2c1", 5, 129.0},
 		{"2-naphthol C4a", "Oc1ccc2ccccc2c1", 4, 128.9},
 	}

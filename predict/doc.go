@@ -95,7 +95,8 @@
 //     the groups on the benzylic carbon; on fused six-membered systems
 //     (naphthalene, quinoline) the ortho increments scale with the
 //     Pauling bond order of the bond between and the para increments
-//     take 0.65; corrections for chelated salicyl units and for an
+//     take 0.65, and a peri group shields C8 by 4 ppm; corrections for
+//     chelated salicyl units and for an
 //     alkoxy group turned away from one ortho substituent;
 //   - heteroaromatic carbons: the parent ring system (pyridine, pyrrole,
 //     furan, thiophene, azoles, indole, quinoline, ... and N-oxides) is
