@@ -120,6 +120,15 @@ type CarbonSignal struct {
 	// Sigma is the uncertainty of Shift in ppm (one standard deviation):
 	// about 1–2 ppm inside the increment tables, 3–10 ppm for estimates.
 	Sigma float64
+	// Diastereotopic is set for a pair of carbons (or pairs) equivalent in
+	// the constitution but not in space: two equal groups on one sp3
+	// carbon whose two other positions differ, in a molecule with a
+	// stereocentre (the methyls of an isopropyl group next to one:
+	// menthol 21.0 and 16.1 ppm; Pretsch, from memory), or two methyls on
+	// the carbon of a C=N whose N carries a group (acetone oxime 21.8 and
+	// 15.4 ppm; from memory). Shift is their mean; a spectrum may show
+	// one line of two carbons or two lines.
+	Diastereotopic bool
 	// Breakdown is the shift's derivation: the base value and every named
 	// increment, summing to Shift (Options.Explain only).
 	Breakdown []Term
@@ -279,8 +288,11 @@ func (p *Predictor) carbonSpectrum(cx *cctx) *CarbonSpectrum {
 		if cx.explain && len(s.Atoms) > 1 {
 			s.Reasons = append(s.Reasons, "equivalent by symmetry: atoms "+intList(s.Atoms))
 		}
-		if cx.explain && len(s.Atoms) == 2 && m.stereo && sharedNeighbour(g, s.Atoms[0], s.Atoms[1]) {
-			s.Reasons = append(s.Reasons, "diastereotopic (a stereocentre in the molecule): the two carbons may give two close lines")
+		if why := diastereotopicCarbons(m, s.Atoms); why != "" {
+			s.Diastereotopic = true
+			if cx.explain {
+				s.Reasons = append(s.Reasons, "two equal groups on one atom that are not equivalent in space ("+why+"): one line of two carbons or two lines")
+			}
 		}
 		if cx.explain && keys[e].cis != keys[e].trans {
 			s.Reasons = append(s.Reasons, "the two equal groups on one alkene carbon are cis and trans to different groups on the other: separate lines")
@@ -344,9 +356,9 @@ func (cx *cctx) markAlkeneSides(groups []hgroup) [][2]int8 {
 				a, b = b, a
 			}
 			if cx.alkCis == nil {
-				cx.alkCis = make(map[int]int)
+				cx.alkCis = make(map[[2]int]int)
 			}
-			cx.alkCis[a], cx.alkCis[b] = pos[0], pos[1]
+			cx.alkCis[[2]int{a, p}], cx.alkCis[[2]int{b, p}] = pos[0], pos[1]
 			m.bfs(a, -1, -1, p, -1, false)
 			da := append([]int16(nil), m.dist...)
 			m.bfs(b, -1, -1, p, -1, false)
@@ -396,13 +408,32 @@ func (a *acc) addCat(v float64, parts ...string) {
 	}
 }
 
-// sharedNeighbour reports whether atoms a and b are bonded to one common
-// atom (the two methyls of an isopropyl group).
-func sharedNeighbour(g *molecule.Graph, a, b int) bool {
+// diastereotopicCarbons reports why the two carbons of a signal, bonded
+// to one atom x, are not equivalent in space, or "" when they are or the
+// signal is not such a pair: the two methyls cases of geminalGroupsDiffer
+// (the 1H side's rule), and any two equal groups on an sp3 carbon x whose
+// two other positions differ, in a molecule with a stereocentre (the ring
+// CH2 carbons C2 and C6 of a cyclohexyl group on a stereocentre).
+func diastereotopicCarbons(m *mol, atoms []int) string {
+	if len(atoms) != 2 {
+		return ""
+	}
+	if why := m.geminalGroupsDiffer(atoms); why != "" {
+		return why
+	}
+	g := m.g
+	a, b := atoms[0], atoms[1]
+	if !m.stereo || m.arom[a] {
+		return ""
+	}
 	for _, nb := range g.Neighbors(a) {
-		if g.BondBetween(nb.Atom, b) >= 0 {
-			return true
+		x := nb.Atom
+		if g.BondBetween(x, b) < 0 || g.Atoms[x].Element != molecule.C || m.multi[x] != 0 || m.arom[x] {
+			continue
+		}
+		if pos, n := m.otherPositions(x, a, b); n == 2 && pos[0] != pos[1] {
+			return "diastereotopic: a stereocentre in the molecule"
 		}
 	}
-	return false
+	return ""
 }

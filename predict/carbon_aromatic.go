@@ -2,6 +2,7 @@ package predict
 
 import (
 	"math"
+	"strconv"
 	"sync"
 
 	"shiftrank/molecule"
@@ -244,6 +245,10 @@ func (cx *cctx) aromatic(c int, r *cres) {
 			alphaN = true
 		}
 	}
+	if size == 6 {
+		cx.chelateRing(c, ring, r)
+		cx.periEffect(c, ring, r)
+	}
 	pos := [4]string{"ipso: ", "ortho: ", "meta: ", "para: "}
 	// A carbon shared by two aromatic rings of the same size (the ring
 	// fusion carbons of naphthalene) takes the substituent increments of
@@ -293,6 +298,48 @@ func (cx *cctx) aromatic(c int, r *cres) {
 					name = ""
 				}
 				val := inc[d]
+				if d == 1 && size == 6 {
+					// Ortho effects follow the π bond order of the bond
+					// between (benzene 1/2): across naphthalene's C1–C2
+					// (2/3) they are larger, across C2–C3 (1/3) smaller
+					// (2-methoxynaphthalene C1 105.8, C3 118.7;
+					// 2-fluoronaphthalene C1 110.9, C3 116.3; Hansen,
+					// Org. Magn. Reson. 1979, correlation of naphthalene
+					// substituent effects with bond orders; from memory).
+					if o := cx.paulingOrder(g.BondBetween(c, x)); !math.IsNaN(o) && o != 0.5 {
+						val *= 2 * o
+						if cx.explain {
+							name += " (scaled by the bond order " + ftoa2(o) + ")"
+						}
+					}
+				}
+				if d == 3 && size == 6 && cx.fusedSystem(c) {
+					// A fused ring takes part of the charge a substituent
+					// moves to its para position: 1-methoxynaphthalene C4
+					// 120.2, 1-naphthol C4 120.8, 2-methoxynaphthalene
+					// C4a 129.0, 2-naphthol C4a 128.9 (0.6–0.75 of the
+					// benzene para increment; Pretsch, Kalinowski, from
+					// memory).
+					val *= 0.65
+					if cx.explain {
+						name += " (×0.65 in a fused ring system)"
+					}
+				}
+				if d == 1 && size == 6 && s == xOR {
+					// An alkoxy group next to one ortho substituent lies in
+					// the ring plane with its alkyl turned away from it,
+					// towards the ortho CH: the CH is shielded more than
+					// the mean ortho increment says, the substituted carbon
+					// less (2-methylanisole C6 109.9, guaiacol C3 110.8 and
+					// C1 145.7, veratrole C3 111.5 and C1 149.1; Pretsch,
+					// from memory).
+					if t := cx.alkoxyTilt(x, c, ring); t != 0 {
+						val += 4.0 * t
+						if cx.explain {
+							name += " (alkyl turned away from the ortho substituent)"
+						}
+					}
+				}
 				if size == 5 {
 					val, name = cx.fiveRingInc(c, x, d, ring, inc, name)
 					r.sigma += 2.0
@@ -431,9 +478,22 @@ func (cx *cctx) alkylOnRing(x, v int) ([4]float64, string) {
 // bonds away like meta.
 func (cx *cctx) fiveRingInc(c, x, d int, ring []int, inc [4]float64, name string) (float64, string) {
 	g := cx.g
+	// The ring's heteroatom: O before S before any other, whatever the
+	// order of the ring atoms.
 	het := molecule.C
+	rank := func(e molecule.Element) int {
+		switch e {
+		case molecule.C:
+			return 0
+		case molecule.O:
+			return 3
+		case molecule.S:
+			return 2
+		}
+		return 1
+	}
 	for _, a := range ring {
-		if e := g.Atoms[a].Element; e != molecule.C && (het == molecule.C || e == molecule.O || e == molecule.S) {
+		if e := g.Atoms[a].Element; rank(e) > rank(het) {
 			het = e
 		}
 	}
@@ -463,7 +523,19 @@ func (cx *cctx) fiveRingInc(c, x, d int, ring []int, inc [4]float64, name string
 		}
 		return inc[0] * f[0], name
 	case 1:
-		if b := g.BondBetween(c, x); b >= 0 && g.Bonds[b].Order == molecule.Double {
+		// Which ring bonds are formal C=C follows from the ring's one
+		// two-electron heteroatom (pyrrole-type N, furan O, thiophene S:
+		// the two bonds one step away from it), not from the Kekulé form
+		// the input happens to be written in. A ring without such an atom
+		// (the five-membered ring of azulene) takes the mean.
+		dn := cx.donorAtom(ring)
+		switch {
+		case dn < 0:
+			if cx.explain {
+				name += " (five-membered ring without a heteroatom: mean of ortho and para)"
+			}
+			return (inc[1] + pick(inc[3], f[2], f[3])) / 2, name
+		case adjacent(g, c, dn) != adjacent(g, x, dn):
 			if cx.explain {
 				name += " (across C=C, as para)"
 			}
@@ -481,4 +553,306 @@ func (cx *cctx) fiveRingInc(c, x, d int, ring []int, inc [4]float64, name string
 		}
 	}
 	return inc[2], name
+}
+
+// donorAtom returns the atom of the five-membered aromatic ring that gives
+// the ring two π electrons: its one non-carbon atom without a double bond
+// (the N of pyrrole, the O of furan, the S of thiophene), or -1 if there
+// is none or more than one. The result does not depend on the Kekulé
+// form: such an atom has no double bond in any of them.
+func (cx *cctx) donorAtom(ring []int) int {
+	g := cx.g
+	dn := -1
+	for _, a := range ring {
+		if g.Atoms[a].Element == molecule.C || cx.m.multi[a] > 0 {
+			continue
+		}
+		if dn >= 0 {
+			return -1
+		}
+		dn = a
+	}
+	return dn
+}
+
+// adjacent reports whether atoms a and b are bonded.
+func adjacent(g *molecule.Graph, a, b int) bool { return g.BondBetween(a, b) >= 0 }
+
+// paulingLimit bounds the Kekulé structures counted for one aromatic
+// system (pyrene has 6, coronene 20); larger systems get no bond orders.
+const paulingLimit = 4096
+
+// paulingOrder returns the Pauling bond order of bond b (the fraction of
+// the Kekulé structures in which it is double) if b lies in a polycyclic
+// aromatic system whose atoms all take a double bond inside it and all
+// lie in six-membered rings (naphthalene, quinoline, phenanthrene), else
+// NaN. It does not depend on the Kekulé form of the input.
+func (cx *cctx) paulingOrder(b int) float64 {
+	if b < 0 || cx.aromBond == nil || !cx.aromBond[b] {
+		return math.NaN()
+	}
+	if cx.pauling == nil {
+		cx.computePauling()
+	}
+	return cx.pauling[b]
+}
+
+// computePauling fills cx.pauling, one aromatic system at a time.
+func (cx *cctx) computePauling() {
+	g := cx.g
+	n := len(g.Atoms)
+	cx.pauling = make([]float64, len(g.Bonds))
+	for i := range cx.pauling {
+		cx.pauling[i] = math.NaN()
+	}
+	comp := make([]int, n)
+	for i := range comp {
+		comp[i] = -1
+	}
+	for s := range g.Atoms {
+		if comp[s] >= 0 || !cx.m.arom[s] {
+			continue
+		}
+		// The atoms of s's aromatic system, joined by aromatic bonds.
+		atoms := []int{s}
+		comp[s] = s
+		for k := 0; k < len(atoms); k++ {
+			for _, nb := range g.Neighbors(atoms[k]) {
+				if cx.aromBond[nb.Bond] && comp[nb.Atom] < 0 {
+					comp[nb.Atom] = s
+					atoms = append(atoms, nb.Atom)
+				}
+			}
+		}
+		cx.systemPauling(atoms, comp, s)
+	}
+}
+
+// systemPauling counts the Kekulé structures (perfect matchings over the
+// aromatic bonds) of the system whose atoms carry comp == id and sets the
+// bond orders, if the system qualifies (see paulingOrder).
+func (cx *cctx) systemPauling(atoms, comp []int, id int) {
+	g := cx.g
+	m := cx.m
+	nb, na := 0, len(atoms)
+	for bi, b := range g.Bonds {
+		if cx.aromBond[bi] && comp[b.A] == id {
+			nb++
+		}
+	}
+	if nb-na+1 < 2 || na%2 != 0 || na > 40 {
+		return // one ring (order 1/2 throughout), or odd, or too large
+	}
+	for _, a := range atoms {
+		dbl := 0
+		for _, e := range g.Neighbors(a) {
+			if e.Order == molecule.Double && cx.aromBond[e.Bond] {
+				dbl++
+			}
+		}
+		if dbl != 1 || len(m.aromRing(a)) != 6 {
+			return // a donor atom or an exocyclic double bond, or a five-membered ring
+		}
+	}
+	mate := make([]int, len(g.Atoms))
+	for i := range mate {
+		mate[i] = -1
+	}
+	count := make([]int, len(g.Bonds))
+	total := 0
+	var rec func() bool
+	rec = func() bool {
+		first := -1
+		for _, a := range atoms {
+			if mate[a] < 0 {
+				first = a
+				break
+			}
+		}
+		if first < 0 {
+			total++
+			for _, a := range atoms {
+				if a < mate[a] {
+					count[g.BondBetween(a, mate[a])]++
+				}
+			}
+			return total < paulingLimit
+		}
+		for _, e := range g.Neighbors(first) {
+			if !cx.aromBond[e.Bond] || mate[e.Atom] >= 0 {
+				continue
+			}
+			mate[first], mate[e.Atom] = e.Atom, first
+			ok := rec()
+			mate[first], mate[e.Atom] = -1, -1
+			if !ok {
+				return false
+			}
+		}
+		return true
+	}
+	if !rec() || total == 0 {
+		return
+	}
+	for bi, b := range g.Bonds {
+		if cx.aromBond[bi] && comp[b.A] == id {
+			cx.pauling[bi] = float64(count[bi]) / float64(total)
+		}
+	}
+}
+
+func ftoa2(v float64) string { return strconv.FormatFloat(v, 'f', 2, 64) }
+
+// chelatingOH returns the OH oxygen on a ring neighbour of aromatic carbon
+// x when x carries a C=O group (aldehyde, ketone, acid, ester, amide) and
+// the two form the six-membered intramolecular hydrogen bond of a
+// salicyl compound, else -1.
+func (cx *cctx) chelatingOH(x int) int {
+	g := cx.g
+	m := cx.m
+	if !m.arom[x] || g.Atoms[x].Element != molecule.C {
+		return -1
+	}
+	acyl := false
+	for _, nb := range g.Neighbors(x) {
+		if y := nb.Atom; !cx.aromBond[nb.Bond] && g.Atoms[y].Element == molecule.C && m.carbonylOf(y) >= 0 {
+			acyl = true
+		}
+	}
+	if !acyl {
+		return -1
+	}
+	for _, nb := range g.Neighbors(x) {
+		if !cx.aromBond[nb.Bond] {
+			continue
+		}
+		for _, n2 := range g.Neighbors(nb.Atom) {
+			o := n2.Atom
+			if g.Atoms[o].Element == molecule.O && g.Atoms[o].HCount == 1 && g.Atoms[o].Charge == 0 && g.Degree(o) == 1 {
+				return o
+			}
+		}
+	}
+	return -1
+}
+
+// chelateRing adds the corrections for a chelated salicyl unit on the
+// six-membered aromatic ring of c beyond the additive increments: the
+// C–OH carbon +5.5, the carbon carrying the C=O −4.0, the CH ortho to the
+// OH on the other side +2.0 (salicylaldehyde 161.6, 120.6, 117.6;
+// 2'-hydroxyacetophenone 162.4, 119.7, 118.4; methyl salicylate 161.6,
+// 112.4, 117.6; Pretsch, from memory).
+func (cx *cctx) chelateRing(c int, ring []int, r *cres) {
+	g := cx.g
+	for _, x1 := range ring {
+		o := cx.chelatingOH(x1)
+		if o < 0 {
+			continue
+		}
+		x2 := g.Neighbors(o)[0].Atom
+		if !inRing(ring, x2) {
+			continue
+		}
+		switch {
+		case c == x2:
+			r.ac.add("chelated salicyl unit: C–OH", 5.5)
+		case c == x1:
+			r.ac.add("chelated salicyl unit: C–C=O", -4.0)
+		case adjacent(g, c, x2) && inRing(ring, c):
+			r.ac.add("chelated salicyl unit: CH ortho to OH", 2.0)
+		}
+	}
+}
+
+// alkoxyTilt tells where the alkyl of an alkoxy group on ring atom x
+// points, for c, an ortho ring neighbour of x: +1 when c carries a
+// substituent and the other ortho atom is a CH (the alkyl points away
+// from c), −1 when c is that CH, 0 otherwise (no or two ortho
+// substituents, a fused ring or a ring heteroatom next to x).
+func (cx *cctx) alkoxyTilt(x, c int, ring []int) float64 {
+	g := cx.g
+	other := -1
+	for _, nb := range g.Neighbors(x) {
+		if y := nb.Atom; y != c && inRing(ring, y) {
+			other = y
+		}
+	}
+	if other < 0 {
+		return 0
+	}
+	kind := func(y int) int { // 0: CH, 1: substituted C, -1: other
+		if g.Atoms[y].Element != molecule.C {
+			return -1
+		}
+		if g.Atoms[y].HCount == 1 {
+			return 0
+		}
+		for _, nb := range g.Neighbors(y) {
+			if cx.aromBond[nb.Bond] && !inRing(ring, nb.Atom) {
+				return -1 // a fused ring
+			}
+		}
+		return 1
+	}
+	switch kc, ko := kind(c), kind(other); {
+	case kc == 1 && ko == 0:
+		return 1
+	case kc == 0 && ko == 1:
+		return -1
+	}
+	return 0
+}
+
+// fusedSystem reports whether aromatic carbon c lies in a polycyclic
+// six-membered aromatic system that has Pauling bond orders (see
+// paulingOrder).
+func (cx *cctx) fusedSystem(c int) bool {
+	for _, nb := range cx.g.Neighbors(c) {
+		if cx.aromBond != nil && cx.aromBond[nb.Bond] {
+			return !math.IsNaN(cx.paulingOrder(nb.Bond))
+		}
+	}
+	return false
+}
+
+// periEffect adds the steric shielding of a substituent in the peri
+// position (C8 of a 1-substituted naphthalene, across the ring fusion
+// from c): 1-methoxynaphthalene C8 122.0, 1-methylnaphthalene C8 124.2,
+// 1-chloronaphthalene C8 124.3 against naphthalene C1 128.0 (−4 to −6;
+// Pretsch, Kalinowski, from memory). Only in fused six-membered systems
+// (see paulingOrder).
+func (cx *cctx) periEffect(c int, ring []int, r *cres) {
+	g := cx.g
+	if g.Atoms[c].Element != molecule.C || !cx.fusedSystem(c) {
+		return
+	}
+	nArom := func(a int) int {
+		k := 0
+		for _, nb := range g.Neighbors(a) {
+			if cx.aromBond[nb.Bond] {
+				k++
+			}
+		}
+		return k
+	}
+	if nArom(c) != 2 {
+		return // a fusion carbon
+	}
+	for _, nf := range g.Neighbors(c) {
+		f := nf.Atom
+		if !cx.aromBond[nf.Bond] || nArom(f) != 3 {
+			continue
+		}
+		for _, nx := range g.Neighbors(f) {
+			x := nx.Atom
+			if x == c || !cx.aromBond[nx.Bond] || inRing(ring, x) || nArom(x) != 2 || g.Atoms[x].Element != molecule.C {
+				continue
+			}
+			for _, ns := range g.Neighbors(x) {
+				if !cx.aromBond[ns.Bond] {
+					r.ac.add("peri substituent (steric)", -4.0)
+				}
+			}
+		}
+	}
 }

@@ -95,10 +95,15 @@ type cctx struct {
 	queue    []int
 	dist2    []int16 // second BFS scratch (scratch())
 	q2       []int
-	// alkCis maps each of two equivalent groups on an alkene carbon to
-	// the position on the other carbon it is cis to (-1 for H); see
-	// markAlkeneSides.
-	alkCis map[int]int
+	// alkCis maps each of two equivalent groups on an alkene carbon,
+	// keyed with that alkene carbon ({group, alkene carbon}: a ring CH2
+	// can sit on two such alkenes), to the position on the other carbon it
+	// is cis to (-1 for H); see markAlkeneSides.
+	alkCis map[[2]int]int
+	// pauling holds the Pauling bond order of each aromatic bond of a
+	// polycyclic six-membered aromatic system (NaN elsewhere), computed
+	// on first use (paulingOrder).
+	pauling []float64
 }
 
 func newCarbonCtx(m *mol, explain bool) *cctx {

@@ -444,6 +444,21 @@ func famAlphaX(s xsub) float64 {
 	return -1.0
 }
 
+// conjRank orders the substituents x of a carbonyl carbon c for
+// acylSubstituent: aryl and heteroaryl 0, C=C and C=N 1, others 2.
+func (cx *cctx) conjRank(c, x int) int {
+	if cx.skel[x] {
+		return 2
+	}
+	switch cx.xclass(c, x) {
+	case xAryl, xHetAryl:
+		return 0
+	case xVinyl, xImineC:
+		return 1
+	}
+	return 2
+}
+
 // acylSubstituent adds the effect of substituent x (neighbour of the
 // carbonyl or nitrile carbon c) for family f.
 func (cx *cctx) acylSubstituent(c, x int, f acylFamily, nConj *int, r *cres) {
@@ -703,9 +718,29 @@ func (cx *cctx) carbonyl(c int, r *cres) {
 		}
 		return
 	}
+	// The first conjugated group takes its full effect and the second an
+	// attenuated one; an aryl goes first (chalcone C=O 190.5, phenyl vinyl
+	// ketone 191; Pretsch, from memory: the aryl-first sum is the closer),
+	// so the order of the atoms in the input does not matter.
+	if len(car) == 2 && cx.conjRank(c, car[1]) < cx.conjRank(c, car[0]) {
+		car[0], car[1] = car[1], car[0]
+	}
 	nConj := 0
 	for _, x := range car {
 		cx.acylSubstituent(c, x, fam, &nConj, r)
+	}
+	for _, x := range car {
+		if cx.chelatingOH(x) >= 0 {
+			// An OH ortho on the aryl ring binds to the C=O oxygen
+			// (intramolecular hydrogen bond): salicylaldehyde 196.5 vs
+			// benzaldehyde 192.3, 2'-hydroxyacetophenone 204.5 vs
+			// acetophenone 198.1, methyl salicylate 170.6 vs methyl
+			// benzoate 167.0 (Pretsch, from memory).
+			v := [famOther + 1]float64{famKetone: 6.0, famAldehyde: 4.0, famEster: 3.5, famAcid: 3.5, famAmide: 3.5}[fam]
+			if v != 0 {
+				ac.add("hydrogen bond to an ortho OH (chelate)", v)
+			}
+		}
 	}
 	if size := cx.carbonylRing(c); size > 0 {
 		if v := famRing(fam, size); v != 0 {

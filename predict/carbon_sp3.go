@@ -596,7 +596,7 @@ func (cx *cctx) allylic(c, y, b int, r *cres) {
 		if nb.Atom == y {
 			continue
 		}
-		cisTo, fixed := cx.alkCis[c]
+		cisTo, fixed := cx.alkCis[[2]int{c, y}]
 		switch {
 		case !ringDbl && fixed && cisTo == nb.Atom:
 			r.ac.add("allylic: cis group on the other alkene carbon", -7.0)

@@ -92,7 +92,12 @@
 //     anti (equatorial) γ relations in rings and allylic cis/trans groups;
 //   - benzene carbons: 128.5 plus ipso/ortho/meta/para increments (Ewing,
 //     Org. Magn. Reson. 1979, 12, 499; Pretsch), alkyl groups built from
-//     the groups on the benzylic carbon;
+//     the groups on the benzylic carbon; on fused six-membered systems
+//     (naphthalene, quinoline) the ortho increments scale with the
+//     Pauling bond order of the bond between and the para increments
+//     take 0.65, and a peri group shields C8 by 4 ppm; corrections for
+//     chelated salicyl units and for an
+//     alkoxy group turned away from one ortho substituent;
 //   - heteroaromatic carbons: the parent ring system (pyridine, pyrrole,
 //     furan, thiophene, azoles, indole, quinoline, ... and N-oxides) is
 //     found by stripping the substituents and looking up its canonical
@@ -115,9 +120,11 @@
 // tuned against) about 1.0 ppm; TestCarbonValidation and
 // TestCarbonHoldout print the table per class. Diastereotopic carbons
 // (the methyls of an isopropyl group next to a stereocentre) are kept as
-// one signal with a Reason saying they may split. Groups outside the tables (peroxides, N–O, phosphorus, boron,
-// charged atoms, strained and bridged rings) get an estimate with a wide
-// sigma, a Reason and a Note.
+// one signal flagged Diastereotopic, with a Reason saying they may split.
+// Groups outside the tables (peroxides, N–O, phosphorus, boron, charged
+// atoms, strained and bridged rings) get an estimate with a wide sigma, a
+// Reason and a Note. The prediction does not depend on the atom order or
+// the Kekulé form of the input (TestCarbonAtomOrderIsomers).
 //
 // # Simulation
 //

@@ -133,10 +133,20 @@ func explainCarbon(c *Candidate, sc *scorer, j *job, csp *predict.CarbonSpectrum
 	c.UnexplainedCarbonPeaks = []UnexplainedCarbonPeak{}
 	c.UnobservedCarbons = []UnobservedCarbon{}
 
-	onPeak := make([][]int, len(j.cobs))
+	// A split diastereotopic pair puts one line on each of two peaks.
+	type part struct {
+		sig  int
+		half bool
+	}
+	onPeak := make([][]part, len(j.cobs))
 	for i := range sigs {
-		if a.first[i] >= 0 {
-			onPeak[a.first[i]] = append(onPeak[a.first[i]], i)
+		switch {
+		case a.first[i] >= 0 && a.second[i] >= 0:
+			onPeak[a.first[i]] = append(onPeak[a.first[i]], part{i, true})
+			onPeak[a.second[i]] = append(onPeak[a.second[i]], part{i, true})
+			continue
+		case a.first[i] >= 0:
+			onPeak[a.first[i]] = append(onPeak[a.first[i]], part{i, false})
 			continue
 		}
 		s := &csp.Signals[i]
@@ -167,15 +177,30 @@ func explainCarbon(c *Candidate, sc *scorer, j *job, csp *predict.CarbonSpectrum
 			as.ObservedRange = []float64{op.ShiftHi, op.ShiftLo}
 		}
 		var classes, reasons []string
-		for _, i := range parts {
+		for _, pt := range parts {
+			i := pt.sig
 			s := &csp.Signals[i]
 			pc := &sigs[i]
-			as.Terms.Shift += w * cs.shiftLogP(pc, p)
+			n, atoms := pc.n, s.Atoms
+			if pt.half {
+				// One line of the pair; which carbon is which is not
+				// predicted, so the line is given the first half.
+				n /= 2
+				atoms = s.Atoms[:n]
+				if k == a.second[i] {
+					atoms = s.Atoms[n:]
+				}
+				// The mixture weight of the two-line reading, half on
+				// each line, joins the shift term.
+				as.Terms.Shift += w * (cs.halfShiftLogP(pc, p) + cs.twoLinesLogP()/2)
+			} else {
+				as.Terms.Shift += w * (cs.shiftLogP(pc, p) + cs.oneLineLogP(pc))
+			}
 			as.Terms.DEPT += w * cs.deptLogP(pc, p)
-			as.PredictedShift += float64(pc.n) * s.Shift
-			as.Carbons += pc.n
+			as.PredictedShift += float64(n) * s.Shift
+			as.Carbons += n
 			as.Signals = append(as.Signals, s.ID)
-			as.Atoms = append(as.Atoms, s.Atoms...)
+			as.Atoms = append(as.Atoms, atoms...)
 			classes = append(classes, s.Class.String())
 			for _, b := range s.Breakdown {
 				t := b.Term
@@ -184,9 +209,16 @@ func explainCarbon(c *Candidate, sc *scorer, j *job, csp *predict.CarbonSpectrum
 				}
 				as.Breakdown = append(as.Breakdown, ShiftTerm{Term: t, PPM: b.PPM})
 			}
-			reasons = append(reasons, carbonReason(cs, s, pc, p, len(parts) > 1))
+			reason := carbonReason(cs, s, pc, p, len(parts) > 1)
+			switch {
+			case pt.half:
+				reason += "; diastereotopic pair seen as two lines: one carbon on this line"
+			case pc.dia:
+				reason += "; diastereotopic pair seen as one line"
+			}
+			reasons = append(reasons, reason)
 			as.Details = append(as.Details, CarbonSignalDetail{
-				Signal: s.ID, Atoms: s.Atoms, Class: s.Class.String(), Kind: s.Kind,
+				Signal: s.ID, Atoms: atoms, Class: s.Class.String(), Kind: s.Kind,
 				PredictedShift: s.Shift, Sigma: s.Sigma, Residual: round(pc.residual(p), 3),
 				Breakdown: nonNilTerms(s.Breakdown), Reasons: s.Reasons,
 			})

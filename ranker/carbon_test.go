@@ -269,3 +269,70 @@ func TestRankCarbonTemperature(t *testing.T) {
 	got, gap = ratio(res)
 	assert.InDelta(t, gap/DefaultCarbonModel().Temperature, got, 1e-6, "1H + 13C: log p1/p2 = gap / CarbonModel.Temperature")
 }
+
+// TestCarbonScoreDiastereotopicPair: a diastereotopic pair of carbons may
+// take one line of two carbons or two lines, each reading weighted by its
+// probability (CarbonModel.DiastereotopicSplit) so neither is free. The
+// isopropyl methyls of valine: 19.0 and 17.8 ppm (Pretsch, from memory).
+func TestCarbonScoreDiastereotopicPair(t *testing.T) {
+	m := DefaultCarbonModel()
+	sc := newCarbonScorer(m)
+	dia := []predCarbon{{n: 2, class: predict.CH3, shift: 18.4, sigma: 1.5, dia: true}}
+	plain := []predCarbon{{n: 2, class: predict.CH3, shift: 18.4, sigma: 1.5}}
+	lines := []obsCarbon{{shift: 19.0, lo: 19.0, hi: 19.0}, {shift: 17.8, lo: 17.8, hi: 17.8}}
+	one := []obsCarbon{{shift: 18.4, lo: 18.4, hi: 18.4, count: 2}}
+
+	s, a := sc.score(dia, lines)
+	require.True(t, a.proven)
+	assert.ElementsMatch(t, []int{0, 1}, []int{a.first[0], a.second[0]}, "the pair takes both lines")
+	want := math.Log(m.DiastereotopicSplit) + sc.halfShiftLogP(&dia[0], &lines[0]) + sc.halfShiftLogP(&dia[0], &lines[1])
+	assert.InDelta(t, want, s, 1e-9, "two lines: log q + one shift term per line")
+	sPlain, _ := sc.score(plain, lines)
+	assert.Greater(t, s, sPlain, "a pair flagged diastereotopic explains two lines better than an equivalent pair")
+
+	s1, a1 := sc.score(dia, one)
+	assert.Equal(t, -1, a1.second[0], "one line of two carbons: not split")
+	s1Plain, _ := sc.score(plain, one)
+	assert.InDelta(t, math.Log1p(-m.DiastereotopicSplit), s1-s1Plain, 1e-9, "one line costs log(1 − q) against an equivalent pair")
+
+	// Two lines too far apart for a pair are not taken as one.
+	far := []obsCarbon{{shift: 28.0, lo: 28.0, hi: 28.0}, {shift: 17.8, lo: 17.8, hi: 17.8}}
+	_, af := sc.score(dia, far)
+	assert.Equal(t, -1, af.second[0], "lines %.1f ppm apart exceed DiastereotopicGap", far[0].shift-far[1].shift)
+}
+
+// TestCarbonExplanationSumsDiastereotopic: the explanation of a split
+// pair (valine, each methyl on its own line) adds up to CarbonScore and
+// puts one carbon on each line. Valine in D2O: 174.9, 61.1, 29.9, 18.9,
+// 17.6 (SDBS-type reference values, from memory; the 1H list is that of
+// the same compound, from memory).
+func TestCarbonExplanationSumsDiastereotopic(t *testing.T) {
+	const h1 = "1H NMR (400 MHz, D2O) δ 3.60 (d, J = 4.4 Hz, 1H), 2.27 (m, 1H), 1.04 (d, J = 7.0 Hz, 3H), 0.98 (d, J = 7.0 Hz, 3H)"
+	c13, err := spectrum.ReadList([]byte("13C NMR (101 MHz, D2O) δ 174.9, 61.1, 29.9, 18.9, 17.6"), spectrum.C13)
+	require.NoError(t, err)
+	r := New(Options{Workers: 1})
+	j, err := r.prepare(Request{Formula: "C5H11NO2", Peaks: mustPeaks(t, h1), Carbon: c13})
+	require.NoError(t, err)
+	const smi = "CC(C)C(N)C(=O)O"
+	c, err := r.explainOne(j, molecule.MustParseSMILES(smi), smi)
+	require.NoError(t, err)
+	sum := 0.0
+	split := 0
+	for _, a := range c.CarbonAssignments {
+		sum += a.ScoreShare
+		assert.InDelta(t, a.ScoreShare, a.Terms.Shift+a.Terms.DEPT+a.Terms.Count+a.Terms.Overlap, 1e-9)
+		if strings.Contains(a.Reason, "two lines") {
+			split++
+			assert.Equal(t, 1, a.Carbons, "one methyl on each line: %+v", a)
+		}
+	}
+	for _, u := range c.UnexplainedCarbonPeaks {
+		sum += u.ScoreShare
+	}
+	for _, u := range c.UnobservedCarbons {
+		sum += u.ScoreShare
+	}
+	assert.InDelta(t, c.CarbonScore, sum, 1e-9, "13C shares")
+	assert.Equal(t, 2, split, "the methyl pair on two lines")
+	assert.Empty(t, c.UnexplainedCarbonPeaks)
+}
