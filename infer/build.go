@@ -52,6 +52,30 @@ func (a *analysis) chargeVariants(parts []part) []variant {
 	return out
 }
 
+// templateAtoms returns the hydrogen-free atoms pt's template adds to the
+// part's own atoms — carbons and ring nitrogens — and how many of them are
+// sp2.
+func (pt part) templateAtoms() (c, n, sp2 int) {
+	switch pt.tmpl {
+	case tPhenyl:
+		return 1, 0, 1
+	case tPara, tOrtho:
+		r := 2 * (pt.count / 4) // two substituted C per ring
+		return r, 0, r
+	case tPyridyl:
+		return 1, 1, 2
+	case tNaphthyl:
+		return 3, 0, 3
+	case tDisub:
+		return 2, 0, 2
+	case tGem:
+		return 1, 0, 0
+	case tTBu:
+		return pt.count / 3, 0, 0
+	}
+	return 0, 0, 0
+}
+
 // leftover counts the heavy atoms the parts (and their templates) do not
 // use: the atoms without hydrogens.
 func (a *analysis) leftover(parts []part) [molecule.NumElements]int {
@@ -61,23 +85,9 @@ func (a *analysis) leftover(parts []part) [molecule.NumElements]int {
 	}
 	for _, pt := range parts {
 		left[pt.el] -= pt.count
-		switch pt.tmpl {
-		case tPhenyl:
-			left[molecule.C]--
-		case tPara, tOrtho:
-			left[molecule.C] -= 2 * (pt.count / 4)
-		case tPyridyl:
-			left[molecule.C]--
-			left[molecule.N]--
-		case tNaphthyl:
-			left[molecule.C] -= 3
-		case tGem:
-			left[molecule.C]--
-		case tDisub:
-			left[molecule.C] -= 2
-		case tTBu:
-			left[molecule.C] -= pt.count / 3
-		}
+		c, n, _ := pt.templateAtoms()
+		left[molecule.C] -= c
+		left[molecule.N] -= n
 	}
 	return left
 }
@@ -306,23 +316,9 @@ func (a *analysis) build(parts []part, v variant, relaxed bool) (*isomers.Spec, 
 			if used {
 				continue
 			}
-			switch pt.tmpl {
-			case tPhenyl:
-				left[molecule.C]++
-			case tPara, tOrtho:
-				left[molecule.C] += 2 * (pt.count / 4)
-			case tPyridyl:
-				left[molecule.C]++
-				left[molecule.N]++
-			case tNaphthyl:
-				left[molecule.C] += 3
-			case tGem:
-				left[molecule.C]++
-			case tDisub:
-				left[molecule.C] += 2
-			case tTBu:
-				left[molecule.C] += pt.count / 3
-			}
+			c, n, _ := pt.templateAtoms()
+			left[molecule.C] += c
+			left[molecule.N] += n
 		}
 	}
 	// charge-separated groups

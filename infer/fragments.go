@@ -269,6 +269,7 @@ func (a *analysis) ringUnits(used []bool) []unit {
 		return []unit{u}
 	}
 	nums := joinNums(a, ar)
+	ringN := a.nextToRingN(ar) // a C–H next to a ring N, or −1
 	switch {
 	case total == 5 && a.f.Count(molecule.C) >= 6:
 		return ring(1, tPhenyl, "monosubstituted-benzene",
@@ -285,8 +286,8 @@ func (a *analysis) ringUnits(used []bool) []unit {
 	case total == 7 && a.f.Count(molecule.C) >= 10 && a.f.DBE() >= 7 && lo >= naphthylMin:
 		return ring(1, tNaphthyl, "monosubstituted-naphthalene",
 			fmt.Sprintf("7 aromatic hydrogens (peaks %s, δ %s) with a DBE of %d: a monosubstituted naphthalene-type bicyclic ring system C10H7–", nums, rangeText(lo, hi), a.f.DBE()), 0.6)
-	case total == 4 && a.f.Count(molecule.C) >= 5 && a.f.Count(molecule.N) >= 1 && a.nextToRingN(ar) >= 0:
-		i := a.nextToRingN(ar)
+	case total == 4 && a.f.Count(molecule.C) >= 5 && a.f.Count(molecule.N) >= 1 && ringN >= 0:
+		i := ringN
 		return ring(1, tPyridyl, "monosubstituted-pyridine",
 			fmt.Sprintf("4 aromatic hydrogens (peaks %s, δ %s), one far downfield with the small ortho coupling of a C–H next to a ring N (peak %d, δ %.2f): a monosubstituted pyridine ring C5H4N– (2-, 3- or 4-pyridyl)", nums, rangeText(lo, hi), a.peaks[i].Number, a.peaks[i].Shift), 0.75)
 	case (total == 4 || total == 8) && a.f.Count(molecule.C) >= 6*(total/4) && a.orthoPattern(ar, total/4):

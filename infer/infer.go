@@ -1007,30 +1007,10 @@ func (a *analysis) feasible(parts []part) bool {
 	sp2 := 0
 	for _, pt := range parts {
 		use[pt.el] += pt.count
-		switch pt.tmpl {
-		case tPhenyl:
-			use[molecule.C]++
-			sp2++
-		case tPara, tOrtho:
-			use[molecule.C] += 2
-			sp2 += 2
-		case tPyridyl:
-			use[molecule.C]++
-			use[molecule.N]++
-			sp2 += 2
-		case tNaphthyl:
-			use[molecule.C] += 3
-			sp2 += 3
-		case tGem:
-			use[molecule.C]++
-		case tDisub:
-			use[molecule.C] += 2
-			sp2 += 2
-		case tTBu:
-			if pt.h == 3 {
-				use[molecule.C] += pt.count / 3
-			}
-		}
+		c, n, s2 := pt.templateAtoms()
+		use[molecule.C] += c
+		use[molecule.N] += n
+		sp2 += s2
 		switch pt.kind {
 		case kSP2, kFormyl:
 			sp2 += pt.count
