@@ -74,13 +74,9 @@ func Estimate(ctx context.Context, f molecule.Formula, opts Options, probes int,
 	exact := true
 	var nodes int64
 	for i := range r.tasks {
-		t := &r.tasks[i]
-		ws.s.stopped = false
-		ws.s.nodes = 0
-		ws.s.reset(t.assign, t.root, t.path)
-		ws.s.expand(t.weight)
-		nodes += int64(ws.s.nodes)
-		if ws.s.truncated || ws.s.stopped || nodes > exactWalk {
+		ws.runTask(&r.tasks[i])
+		nodes = ws.nodes + int64(ws.s.nodes)
+		if ws.truncated > 0 || ws.s.stopped || nodes > exactWalk {
 			exact = false
 			break
 		}

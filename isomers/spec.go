@@ -736,14 +736,13 @@ func (s *searcher) slotsOK() bool {
 			if s.p.colours[m.col[x]].group != gi {
 				continue
 			}
-			if k := s.slotHint[x]; k >= 0 && int(s.slotHintGroup[x]) == gi && int(k) < ns && s.slotFill[k] < g.slotCount[k] &&
-				s.ruleOKWith(x, g.slots[k]) && s.futureOKWith(x, g.slots[k]) {
+			if k := s.slotHint[x]; k >= 0 && int(s.slotHintGroup[x]) == gi && int(k) < ns && s.slotFill[k] < g.slotCount[k] && s.slotFits(x, g.slots[k]) {
 				s.slotFill[k]++
 				continue
 			}
 			found := false
 			for k := 0; k < ns; k++ {
-				if s.slotFill[k] < g.slotCount[k] && s.ruleOKWith(x, g.slots[k]) && s.futureOKWith(x, g.slots[k]) {
+				if s.slotFill[k] < g.slotCount[k] && s.slotFits(x, g.slots[k]) {
 					s.slotFill[k]++
 					s.slotHint[x], s.slotHintGroup[x] = int16(k), int16(gi)
 					found = true
@@ -756,6 +755,12 @@ func (s *searcher) slotsOK() bool {
 		}
 	}
 	return true
+}
+
+// slotFits reports whether atom x satisfies, and can still satisfy, slot
+// rule r.
+func (s *searcher) slotFits(x int, r *crule) bool {
+	return s.ruleOKWith(x, r) && s.futureOKWith(x, r)
 }
 
 // slotsMatch is slotsOK by a maximum bipartite matching of every slotted
@@ -783,7 +788,7 @@ func (s *searcher) slotsMatch() bool {
 		for ai, x := range atoms {
 			for k := 0; k < ns; k++ {
 				r := g.slots[k]
-				s.slotOK[ai*ns+k] = s.ruleOKWith(x, r) && s.futureOKWith(x, r)
+				s.slotOK[ai*ns+k] = s.slotFits(x, r)
 			}
 		}
 		for k := 0; k < ns; k++ {
