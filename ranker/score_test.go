@@ -43,6 +43,12 @@ func TestMultiplicityTable(t *testing.T) {
 		{"dt seen as m beats s seen as d", [2]string{"m", "dt"}, [2]string{"d", "s"}},
 		{"exact sept beats sept seen as sext", [2]string{"sept", "sept"}, [2]string{"sext", "sept"}},
 		{"singlet seen as s beats singlet seen as m", [2]string{"s", "s"}, [2]string{"m", "s"}},
+		// Rotamer- or exchange-broadened multiplets are reported "br s"
+		// (the N–CH2 of tertiary amides; common practice): compatible,
+		// but less likely than a predicted singlet reported broad, and
+		// more likely than a sharp singlet for a predicted quartet.
+		{"singlet seen as br s beats q seen as br s", [2]string{"br s", "s"}, [2]string{"br s", "q"}},
+		{"q seen as br s beats q seen as s", [2]string{"br s", "q"}, [2]string{"s", "q"}},
 	}
 	for _, tc := range tests {
 		b, w := p(tc.better[0], tc.better[1]), p(tc.worse[0], tc.worse[1])
